@@ -1,0 +1,58 @@
+// Root-as-source layout: Nuxt 4 would switch to app/ as soon as that folder exists.
+export default defineNuxtConfig({
+  compatibilityDate: '2026-11-01',
+  srcDir: '.',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@vueuse/nuxt', 'nuxt-auth-utils'],
+  css: ['~/assets/css/main.css'],
+  // main.css holds the @tailwind layers; without this the module injects a second copy.
+  tailwindcss: { cssPath: '~/assets/css/main.css' },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Halocline',
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'Halogenation practicals: schedule, GC results, class selectivity, stockroom.' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+    },
+  },
+  runtimeConfig: {
+    databaseUrl: 'postgres://halocline@127.0.0.1:54329/halocline',
+    smtp: {
+      host: '127.0.0.1',
+      port: 2525,
+      secure: false,
+      ignoreTls: true,
+      user: '',
+      pass: '',
+      from: 'Halocline <no-reply@halocline.local>',
+    },
+    mail: { retryLimit: 8, retryDelaySeconds: 30, pollSeconds: 2 },
+    // Only when a trusted proxy sets X-Forwarded-For; otherwise a client could pick its own address.
+    trustProxy: false,
+    demoMailDir: '',
+    session: {
+      // __Host- pins the cookie to this exact origin over HTTPS (browsers also accept it on
+      // loopback); the dev server keeps a plain name.
+      name: process.env.NODE_ENV === 'production' ? '__Host-halocline' : 'halocline-session',
+      sessionHeader: false,
+      maxAge: 60 * 60 * 12,
+      cookie: { sameSite: 'lax', secure: true, httpOnly: true },
+    },
+    public: {
+      demo: false,
+      appUrl: 'http://127.0.0.1:3000',
+    },
+  },
+  typescript: { strict: true },
+  hooks: {
+    // Our handler runs first (turns "database unreachable" into 503), then Nuxt's own renders it.
+    'nitro:config'(config) {
+      const nuxtHandler = config.errorHandler
+      config.errorHandler = ['~~/server/error-handler', ...(Array.isArray(nuxtHandler) ? nuxtHandler : nuxtHandler ? [nuxtHandler] : [])]
+    },
+  },
+})

@@ -1,0 +1,44 @@
+import { spawn } from 'node:child_process'
+import { existsSync, readFileSync, rmSync } from 'node:fs'
+import { join } from 'node:path'
+import { isPortOpen, waitFor } from './ports.mjs'
+import { fail } from './steps.mjs'
+
+export async function startSmtpFake({ root, port, dir, pidFile, stdio = 'ignore' }) {
+  if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set HALOCLINE_SMTP_PORT to a free port, or stop what uses it')
+  const child = spawn(process.execPath, [join(root, 'scripts', 'smtp-fake.mjs'), '--port', String(port), '--dir', dir, ...(pidFile ? ['--pid-file', pidFile] : [])], {
+    cwd: root, stdio, detached: false,
+  })
+  if (!(await waitFor(() => isPortOpen(port), { timeoutMs: 10_000 }))) {
+    child.kill()
+    fail(`the SMTP fake did not start on port ${port}`, 'run node scripts/smtp-fake.mjs by hand to see why')
+  }
+  return child
+}
+
+export function killPidFile(pidFile, signal = 'SIGTERM') {
+  if (!existsSync(pidFile)) return false
+  const pid = Number(readFileSync(pidFile, 'utf8'))
+  rmSync(pidFile, { force: true })
+  try {
+    process.kill(pid, signal)
+    return true
+  } catch {
+    return false
+  }
+}
+
+/** Starts the built server and waits until it answers HTTP (health may still say 503). */
+export async function startServer({ root, port, env, stdio = ['ignore', 'pipe', 'inherit'] }) {
+  if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set PORT to a free port, or stop what uses it')
+  const child = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], {
+    cwd: root,
+    stdio,
+    env: { ...process.env, ...env, PORT: String(port), NITRO_PORT: String(port), HOST: '127.0.0.1', NITRO_HOST: '127.0.0.1', NODE_ENV: 'production' },
+  })
+  let exited = false
+  child.once('exit', () => { exited = true })
+  const up = await waitFor(async () => exited || (await isPortOpen(port)), { timeoutMs: 30_000 })
+  if (!up || exited) fail('the Halocline server did not start', 'run node .output/server/index.mjs by hand to see its error')
+  return child
+}

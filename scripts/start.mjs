@@ -1,0 +1,126 @@
+#!/usr/bin/env node
+// npm start: everything Halocline needs, on 127.0.0.1, from a fresh checkout. Each step prints
+// one line; a failing step says what to do. Ctrl-C stops what this script started.
+import { mkdirSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { step } from './lib/steps.mjs'
+import { checkNodeVersion, ensurePostgres } from './lib/system.mjs'
+import { ensureNodeModules } from './lib/deps.mjs'
+import { ensureEnvFile } from './lib/env.mjs'
+import { clusterPaths, databaseUrl, ensureDatabase, initCluster, startCluster, stopCluster } from './lib/postgres.mjs'
+import { ensureBuild } from './lib/build.mjs'
+import { startServer, startSmtpFake } from './lib/processes.mjs'
+
+const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
+const dataDir = join(root, '.data')
+const pgPort = Number(process.env.HALOCLINE_PG_PORT ?? 54329)
+const smtpPort = Number(process.env.HALOCLINE_SMTP_PORT ?? 2525)
+const port = Number(process.env.PORT ?? 3000)
+const appUrl = `http://127.0.0.1:${port}`
+
+const started = { cluster: null, smtp: null, server: null }
+const serverLog = []
+
+async function shutdown(code = 0) {
+  started.server?.kill('SIGTERM')
+  started.smtp?.kill('SIGTERM')
+  if (started.cluster) {
+    try { stopCluster(started.cluster) } catch { /* already down */ }
+  }
+  process.exit(code)
+}
+process.on('SIGINT', () => { console.log('\nStopping…'); shutdown(0) })
+process.on('SIGTERM', () => shutdown(0))
+
+async function main() {
+  console.log('Halocline: preparing everything on 127.0.0.1\n')
+  await step('Checking Node.js', checkNodeVersion)
+  await step('Checking PostgreSQL server binaries', ensurePostgres)
+  await step('Checking npm packages', () => ensureNodeModules(root))
+  mkdirSync(dataDir, { recursive: true })
+  const { values: secrets } = await step('Checking secrets in .env', () => {
+    const env = ensureEnvFile(join(root, '.env'))
+    return { note: env.created ? 'written' : 'present', values: env.values }
+  })
+
+  let url = process.env.NUXT_DATABASE_URL ?? secrets.NUXT_DATABASE_URL
+  if (url) {
+    console.log('▸ Using the database in NUXT_DATABASE_URL (no local PostgreSQL started)')
+  } else {
+    const paths = clusterPaths(dataDir)
+    const password = secrets.HALOCLINE_PG_PASSWORD
+    await step('Creating the PostgreSQL cluster in .data/postgres', () => (initCluster(paths, password) ? 'created' : 'exists'))
+    await step(`Starting PostgreSQL on 127.0.0.1:${pgPort}`, () => {
+      const didStart = startCluster(paths, pgPort)
+      if (didStart) started.cluster = paths
+      return didStart ? 'started' : 'already running'
+    })
+    await step('Creating the database', async () => ((await ensureDatabase({ password, port: pgPort, database: 'halocline' })) ? 'created' : 'exists'))
+    url = databaseUrl({ password, port: pgPort, database: 'halocline' })
+  }
+
+  // The database tasks are TypeScript shared with the server; tsx runs them in this process.
+  const { register } = await import('tsx/esm/api')
+  register()
+  const tasks = await import('../server/database/tasks.ts')
+  await step('Applying migrations', async () => `${(await tasks.migrate(url)).applied.length} applied`)
+  await step('Loading the demo scenario', async () => ((await tasks.seedDemoIfEmpty(url)) ? 'seeded' : 'database has data; left as is'))
+
+  const mailDir = join(dataDir, 'mail')
+  await step(`Starting the local SMTP fake on 127.0.0.1:${smtpPort}`, async () => {
+    started.smtp = await startSmtpFake({ root, port: smtpPort, dir: mailDir })
+    return 'saving to .data/mail'
+  })
+  await step('Building the app', () => ensureBuild(root))
+  await step(`Serving on ${appUrl}`, async () => {
+    started.server = await startServer({
+      root,
+      port,
+      env: {
+        NUXT_DATABASE_URL: url,
+        NUXT_SESSION_PASSWORD: secrets.NUXT_SESSION_PASSWORD,
+        NUXT_SMTP_HOST: '127.0.0.1',
+        NUXT_SMTP_PORT: String(smtpPort),
+        NUXT_DEMO_MAIL_DIR: mailDir,
+        NUXT_PUBLIC_DEMO: 'true',
+        NUXT_PUBLIC_APP_URL: appUrl,
+        ...pickNuxtOverrides(secrets),
+      },
+    })
+    // The server's own log starts after our progress lines, not in the middle of one.
+    started.server.stdout?.on('data', (chunk) => serverLog.push(chunk))
+    started.server.once('exit', (code) => {
+      console.error(`The server stopped (exit code ${code}).`)
+      shutdown(code ?? 1)
+    })
+    return 'up'
+  })
+
+  console.log(`
+Halocline is running at ${appUrl}
+
+Demo accounts (password: halocline-demo)
+  instructor@larkspur.example    instructor
+  ta1@larkspur.example           teaching assistant (Mon, Wed sections)
+  ta2@larkspur.example           teaching assistant (Tue, Thu sections)
+  coordinator@larkspur.example   lab coordinator (stockroom)
+  student01@larkspur.example     student (… through student64@)
+
+E-mail goes to the local SMTP fake; read it at ${appUrl}/mailbox or in .data/mail/.
+Press Ctrl-C to stop.
+`)
+  for (const chunk of serverLog.splice(0)) process.stdout.write(chunk)
+  started.server.stdout?.removeAllListeners('data')
+  started.server.stdout?.pipe(process.stdout)
+}
+
+// Anything the operator put in .env as NUXT_* (SMTP provider, proxy trust) wins over defaults.
+function pickNuxtOverrides(values) {
+  return Object.fromEntries(Object.entries(values).filter(([key]) => key.startsWith('NUXT_') && key !== 'NUXT_SESSION_PASSWORD'))
+}
+
+main().catch((error) => {
+  if (!error.reported) console.error(error)
+  shutdown(1)
+})

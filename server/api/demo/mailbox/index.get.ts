@@ -1,0 +1,4 @@
+export default defineEventHandler(async (event) => {
+  requireRole(event, 'instructor', 'coordinator')
+  return listMailbox(requireDemoMailbox())
+})

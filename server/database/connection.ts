@@ -1,0 +1,37 @@
+import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely'
+import pg from 'pg'
+import type { Database } from './schema'
+
+// bigint ids and counts: parse as numbers; our tables never approach 2^53 rows.
+pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number.parseInt(v, 10))
+pg.types.setTypeParser(pg.types.builtins.NUMERIC, (v) => Number.parseFloat(v))
+// Keep DATE columns as 'YYYY-MM-DD' text: a JS Date would shift them by the server's time zone.
+pg.types.setTypeParser(pg.types.builtins.DATE, (v) => v)
+
+export interface ConnectionOptions {
+  max?: number
+  applicationName?: string
+  onError?: (error: Error) => void
+}
+
+export function createPool(connectionString: string, options: ConnectionOptions = {}): pg.Pool {
+  const pool = new pg.Pool({
+    connectionString,
+    max: options.max ?? 10,
+    // Fail fast when PostgreSQL is down: requests answer 503 instead of hanging.
+    connectionTimeoutMillis: 3000,
+    idleTimeoutMillis: 30_000,
+    application_name: options.applicationName ?? 'halocline',
+  })
+  // Without a listener, an idle client's error (server restart) would crash the process.
+  pool.on('error', (error) => options.onError?.(error))
+  return pool
+}
+
+export function createDatabase(connectionString: string, options: ConnectionOptions = {}): Kysely<Database> {
+  const pool = createPool(connectionString, options)
+  return new Kysely<Database>({
+    dialect: new PostgresDialect({ pool }),
+    plugins: [new CamelCasePlugin({ maintainNestedObjectKeys: true })],
+  })
+}

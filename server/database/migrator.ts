@@ -1,0 +1,22 @@
+import { type Kysely, Migrator } from 'kysely'
+import { migrations } from './migrations'
+
+export interface MigrationReport {
+  applied: string[]
+}
+
+/** Applies every pending migration; safe to call from several processes at once (Kysely takes a lock). */
+export async function migrateToLatest(db: Kysely<any>): Promise<MigrationReport> {
+  // Migrations are written in snake_case: run them without the camel-case plugin.
+  const migrator = new Migrator({
+    db: db.withoutPlugins(),
+    provider: { getMigrations: async () => migrations },
+  })
+  const { error, results } = await migrator.migrateToLatest()
+  if (error) {
+    const failed = results?.find((r) => r.status === 'Error')
+    const where = failed ? ` (${failed.migrationName})` : ''
+    throw new Error(`Migration failed${where}: ${error instanceof Error ? error.message : String(error)}`)
+  }
+  return { applied: (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName) }
+}

@@ -1,0 +1,24 @@
+// Errors that mean "PostgreSQL is not reachable right now" rather than "this query is wrong".
+const UNAVAILABLE_CODES = new Set([
+  'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'ENOTFOUND', 'EHOSTUNREACH',
+  '57P01', // admin_shutdown
+  '57P02', // crash_shutdown
+  '57P03', // cannot_connect_now (starting up)
+  '08000', '08001', '08003', '08004', '08006',
+])
+const UNAVAILABLE_MESSAGES = [
+  'Connection terminated',
+  'connection timeout',
+  'Client has encountered a connection error',
+  'terminating connection',
+]
+
+export function isDatabaseUnavailable(error: unknown, depth = 0): boolean {
+  if (!error || typeof error !== 'object' || depth > 5) return false
+  const e = error as { code?: unknown, message?: unknown, cause?: unknown, errors?: unknown }
+  if (typeof e.code === 'string' && UNAVAILABLE_CODES.has(e.code)) return true
+  if (typeof e.message === 'string' && UNAVAILABLE_MESSAGES.some((m) => (e.message as string).includes(m))) return true
+  // Node reports a refused dual-stack connect as an AggregateError.
+  if (Array.isArray(e.errors) && e.errors.some((inner) => isDatabaseUnavailable(inner, depth + 1))) return true
+  return isDatabaseUnavailable(e.cause, depth + 1)
+}

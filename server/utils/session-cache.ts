@@ -1,0 +1,58 @@
+import { createHash } from 'node:crypto'
+
+// Unsealing nuxt-auth-utils' cookie costs far more than the route behind it, and every
+// request needs the account's session version too. Both are cached briefly per process.
+const SESSION_TTL_MS = 60_000
+const ACCOUNT_TTL_MS = 3_000
+const MAX_ENTRIES = 10_000
+
+export interface CachedSession {
+  id: string
+  createdAt: number
+  data: Record<string, unknown>
+}
+
+export interface AccountState {
+  sessionVersion: number
+  disabled: boolean
+}
+
+const sessions = new Map<string, { value: CachedSession, expires: number }>()
+const accounts = new Map<number, { value: AccountState, expires: number }>()
+
+function boundedSet<K, V>(map: Map<K, V>, key: K, value: V) {
+  // Maps iterate in insertion order, so the first key is the oldest.
+  if (map.size >= MAX_ENTRIES) map.delete(map.keys().next().value as K)
+  map.set(key, value)
+}
+
+export function cookieKey(sealed: string): string {
+  return createHash('sha256').update(sealed).digest('base64url')
+}
+
+export function getCachedSession(key: string): CachedSession | undefined {
+  const hit = sessions.get(key)
+  if (!hit || hit.expires < Date.now()) return undefined
+  return structuredClone(hit.value)
+}
+
+export function cacheSession(key: string, value: CachedSession) {
+  boundedSet(sessions, key, { value: structuredClone(value), expires: Date.now() + SESSION_TTL_MS })
+}
+
+export function forgetSession(key: string) {
+  sessions.delete(key)
+}
+
+export async function getAccountState(userId: number, load: () => Promise<AccountState | undefined>) {
+  const hit = accounts.get(userId)
+  if (hit && hit.expires >= Date.now()) return hit.value
+  const value = await load()
+  if (value) boundedSet(accounts, userId, { value, expires: Date.now() + ACCOUNT_TTL_MS })
+  return value
+}
+
+/** Call after bumping a session version or disabling an account, so this process sees it at once. */
+export function forgetAccount(userId: number) {
+  accounts.delete(userId)
+}

@@ -1,0 +1,41 @@
+import { z } from 'zod'
+
+export const ROLES = ['instructor', 'ta', 'coordinator', 'student'] as const
+export type Role = (typeof ROLES)[number]
+
+export const ROLE_LABELS: Record<Role, string> = {
+  instructor: 'Instructor',
+  ta: 'Teaching assistant',
+  coordinator: 'Lab coordinator',
+  student: 'Student',
+}
+
+export const loginInputSchema = z.object({
+  email: z.string().trim().toLowerCase().email('Enter an e-mail address').max(254),
+  password: z.string().min(1, 'Enter your password').max(1024),
+})
+export type LoginInput = z.infer<typeof loginInputSchema>
+
+export const PASSWORD_MIN_LENGTH = 12
+
+export const newPasswordSchema = z
+  .string()
+  .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters`)
+  .max(1024, 'Use at most 1024 characters')
+
+export const passwordChangeSchema = z.object({
+  currentPassword: z.string().min(1, 'Enter your current password').max(1024),
+  newPassword: newPasswordSchema,
+})
+export type PasswordChange = z.infer<typeof passwordChangeSchema>
+
+/** What the browser may know about the signed-in person. */
+export interface SessionUser {
+  id: number
+  name: string
+  role: Role
+}
+
+export interface PublicUser extends SessionUser {
+  email: string
+}

@@ -1,0 +1,37 @@
+export type MailStatus = 'queued' | 'sending' | 'sent' | 'retrying' | 'failed'
+
+export const MAIL_STATUS_LABELS: Record<MailStatus, string> = {
+  queued: 'Waiting to send',
+  sending: 'Sending',
+  sent: 'Delivered to mail server',
+  retrying: 'Will retry',
+  failed: 'Gave up',
+}
+
+export interface OutboxMessage {
+  id: number
+  kind: string
+  to: string[]
+  subject: string
+  status: MailStatus
+  attempts: number
+  lastError: string | null
+  scheduledAt: string | null
+  sentAt: string | null
+  createdAt: string
+}
+
+export interface MailboxEntry {
+  file: string
+  subject: string
+  from: string
+  to: string
+  date: string | null
+  attachments: number
+}
+
+export interface MailboxMessage extends MailboxEntry {
+  text: string
+  html: string | null
+  attachmentNames: string[]
+}

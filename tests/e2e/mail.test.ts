@@ -1,0 +1,72 @@
+import { afterAll, describe, expect, it } from 'vitest'
+import { DEMO, signedIn } from '../support/http'
+import { closeTestDb, createUser, testDb } from '../support/db'
+import { eventually, mailTo, startSmtp, stopSmtp } from '../support/services'
+
+afterAll(closeTestDb)
+
+describe('e-mail through the queue to the SMTP fake', () => {
+  it('a queued message arrives once, and the same idempotency key queues nothing new', async () => {
+    const user = await createUser('coordinator')
+    const client = await signedIn(user.email, user.password)
+    const first = await client.post('/api/outbox/test', undefined, { headers: { 'idempotency-key': 'mail-once' } })
+    expect(first.status).toBe(202)
+    const again = await client.post('/api/outbox/test', undefined, { headers: { 'idempotency-key': 'mail-once' } })
+    expect(again.body).toEqual({ id: first.body.id, created: false })
+
+    const [message] = await eventually(async () => {
+      const received = await mailTo(user.email)
+      return received.length > 0 && received
+    })
+    expect(message!.subject).toBe('Halocline test message')
+    expect(message!.text).toContain('e-mail delivery works')
+    expect(message!.html).toContain('<p>')
+    // Give a duplicate every chance to show up before counting.
+    await new Promise((r) => setTimeout(r, 1500))
+    expect(await mailTo(user.email)).toHaveLength(1)
+
+    const outbox = await client.get('/api/outbox')
+    expect(outbox.body[0]).toMatchObject({ id: first.body.id, status: 'sent', attempts: 1 })
+  })
+
+  it('with the SMTP fake down, the job retries and the message arrives once after it is back', async () => {
+    const user = await createUser('instructor')
+    const client = await signedIn(user.email, user.password)
+    stopSmtp()
+    let id: number
+    try {
+      const queued = await client.post('/api/outbox/test')
+      expect(queued.status).toBe(202)
+      id = queued.body.id
+      await eventually(async () => {
+        const row = await testDb().selectFrom('mailMessages').select(['status', 'attempts', 'lastError']).where('id', '=', id).executeTakeFirst()
+        return row && row.status === 'retrying' && row.attempts >= 1 && row.lastError
+      })
+    } finally {
+      await startSmtp()
+    }
+    const received = await eventually(async () => {
+      const mail = await mailTo(user.email)
+      return mail.length > 0 && mail
+    }, 30_000)
+    expect(received).toHaveLength(1)
+    await new Promise((r) => setTimeout(r, 2000))
+    expect(await mailTo(user.email)).toHaveLength(1)
+    const row = await testDb().selectFrom('mailMessages').select(['status', 'attempts']).where('id', '=', id!).executeTakeFirstOrThrow()
+    expect(row.status).toBe('sent')
+    expect(row.attempts).toBeGreaterThan(1)
+  })
+
+  it('the demo mailbox lists what the fake received, for staff only', async () => {
+    const instructor = await signedIn(DEMO.instructor)
+    const list = await instructor.get('/api/demo/mailbox')
+    expect(list.status).toBe(200)
+    expect(list.body.length).toBeGreaterThan(0)
+    const one = await instructor.get(`/api/demo/mailbox/${list.body[0].file}`)
+    expect(one.status).toBe(200)
+    expect(one.body.text.length).toBeGreaterThan(0)
+    expect((await instructor.get('/api/demo/mailbox/..%2F..%2Fetc%2Fpasswd')).status).toBeGreaterThanOrEqual(400)
+    const student = await signedIn(DEMO.student(3))
+    expect((await student.get('/api/demo/mailbox')).status).toBe(403)
+  })
+})

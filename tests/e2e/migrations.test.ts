@@ -1,0 +1,49 @@
+import { afterAll, describe, expect, it } from 'vitest'
+import { inject } from 'vitest'
+import { sql } from 'kysely'
+import { createDatabase } from '../../server/database/connection'
+import { migrateToLatest } from '../../server/database/migrator'
+import { migrations } from '../../server/database/migrations'
+import { testDb, closeTestDb } from '../support/db'
+
+afterAll(closeTestDb)
+
+async function schemaSnapshot(url: string) {
+  const db = createDatabase(url, { max: 1 })
+  try {
+    const { rows } = await sql<{ t: string, c: string, d: string, n: string }>`
+      select table_name as t, column_name as c, data_type as d, is_nullable as n
+      from information_schema.columns where table_schema = 'public' order by 1, 2`.execute(db)
+    return rows
+  } finally {
+    await db.destroy()
+  }
+}
+
+describe('migrations', () => {
+  it('run on an empty database, and running them again changes nothing', async () => {
+    const name = `migrate_check_${process.pid}`
+    await sql.raw(`drop database if exists ${name}`).execute(testDb())
+    await sql.raw(`create database ${name}`).execute(testDb())
+    const url = inject('databaseUrl').replace(/\/[^/]+$/, `/${name}`)
+    const db = createDatabase(url, { max: 1 })
+    try {
+      const first = await migrateToLatest(db)
+      expect(first.applied).toEqual(Object.keys(migrations))
+      const snapshot = await schemaSnapshot(url)
+      expect(snapshot.some((r) => r.t === 'users' && r.c === 'session_version')).toBe(true)
+      const second = await migrateToLatest(db)
+      expect(second.applied).toEqual([])
+      expect(await schemaSnapshot(url)).toEqual(snapshot)
+    } finally {
+      await db.destroy()
+      await sql.raw(`drop database if exists ${name}`).execute(testDb())
+    }
+  })
+
+  it('are registered in name order, named by date', () => {
+    const names = Object.keys(migrations)
+    expect([...names].sort()).toEqual(names)
+    for (const name of names) expect(name).toMatch(/^\d{4}_\d{2}_\d{2}_\d{4}_[a-z0-9_]+$/)
+  })
+})

@@ -1,0 +1,75 @@
+import { mkdirSync, readFileSync } from 'node:fs'
+import { createRequire } from 'node:module'
+import { join } from 'node:path'
+import { inject } from 'vitest'
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core'
+
+const require = createRequire(import.meta.url)
+const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8')
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: ['--disable-gpu', '--disable-quic'],
+  })
+}
+
+export interface Tab {
+  context: BrowserContext
+  page: Page
+  /** Console errors and CSP refusals seen so far: a page that logs them is broken. */
+  problems: string[]
+}
+
+export async function openTab(browser: Browser, viewport = { width: 1280, height: 860 }): Promise<Tab> {
+  const context = await browser.newContext({ viewport, baseURL: inject('baseUrl'), reducedMotion: 'reduce' })
+  const page = await context.newPage()
+  const problems: string[] = []
+  page.on('console', (message) => {
+    if (message.type() === 'error') problems.push(message.text())
+  })
+  page.on('pageerror', (error) => problems.push(error.message))
+  return { context, page, problems }
+}
+
+export interface AxeViolation {
+  id: string
+  impact: string | null
+  help: string
+  nodes: Array<{ target: string[] }>
+}
+
+/**
+ * axe-core's own file, evaluated through the DevTools protocol (page CSP does not apply to it,
+ * and nothing is fetched). Returns serious and critical violations only.
+ */
+export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
+  await page.evaluate(`${axeSource}\n;0`)
+  const result = await page.evaluate(async () => {
+    const axe = (window as any).axe
+    const { violations } = await axe.run(document, { resultTypes: ['violations'] })
+    return violations.map((v: any) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n: any) => ({ target: n.target })) }))
+  })
+  return (result as AxeViolation[]).filter((v) => v.impact === 'serious' || v.impact === 'critical')
+}
+
+export function describeViolations(violations: AxeViolation[]) {
+  return violations.map((v) => `${v.impact} ${v.id}: ${v.help} at ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`).join('\n')
+}
+
+export async function screenshot(page: Page, name: string) {
+  const dir = join(inject('root'), 'test-results', 'screenshots')
+  mkdirSync(dir, { recursive: true })
+  const path = join(dir, `${name}.png`)
+  await page.screenshot({ path, fullPage: true })
+  return path
+}
+
+export async function signInThroughPage(page: Page, email: string, password = 'halocline-demo') {
+  // Already sent to /login (with ?next=…)? Keep that URL.
+  if (!page.url().includes('/login')) await page.goto('/login')
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel(/^Password/).fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await page.waitForURL((url) => !url.pathname.startsWith('/login'))
+}
