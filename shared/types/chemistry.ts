@@ -1,0 +1,68 @@
+import { z } from 'zod'
+
+export const SMILES_MAX_LENGTH = 400
+
+const smiles = z.string().trim().min(1, 'Enter a SMILES string').max(SMILES_MAX_LENGTH, `Use at most ${SMILES_MAX_LENGTH} characters`)
+const positive = z.number().finite().min(0, 'Must be zero or more')
+
+export const reactivitySchema = z.object({
+  primary: positive,
+  secondary: positive,
+  tertiary: positive,
+})
+
+export const analyzeInputSchema = z.object({
+  smiles,
+  halogen: z.enum(['Cl', 'Br']).default('Cl'),
+  temperatureC: z.number().finite().min(-100).max(400).optional(),
+  reactivity: reactivitySchema.optional(),
+  /** The temperature custom reactivities were measured at (default 25 °C). */
+  referenceTemperatureC: z.number().finite().min(-100).max(400).optional(),
+  /** Also draw each product (for the explorer's table). */
+  productDepictions: z.boolean().default(false),
+})
+export type AnalyzeInput = z.input<typeof analyzeInputSchema>
+
+export const reactivityInputSchema = z.object({
+  smiles,
+  observed: z.array(z.object({ smiles, percent: z.number().finite().min(0, 'Must be zero or more').max(100_000) })).min(1, 'Enter at least one observed product').max(60),
+  reference: smiles.optional(),
+  /** Which halogenation; read from the observed products when absent. */
+  halogen: z.enum(['Cl', 'Br']).optional(),
+})
+export type ReactivityInput = z.input<typeof reactivityInputSchema>
+
+export type CarbonClassName = 'primary' | 'secondary' | 'tertiary'
+
+export interface AnalyzedProduct {
+  /** The letter that marks this position in the depiction. */
+  label: string
+  smiles: string
+  hydrogens: number
+  carbonClass: CarbonClassName
+  atoms: number[]
+  predictedPercent: number
+  /** Equal reactivity per H: n_p / Σn. */
+  statisticalPercent: number
+  depictionSvg?: string
+}
+
+export interface AnalyzeResponse {
+  canonicalSmiles: string
+  formula: string
+  molarMass: number
+  halogen: 'Cl' | 'Br'
+  reactivity: { primary: number, secondary: number, tertiary: number }
+  temperatureC: number
+  reactivitySource: string
+  products: AnalyzedProduct[]
+  depictionSvg: string
+}
+
+export interface ReactivityResponse {
+  products: Array<{ smiles: string, hydrogens: number, carbonClass: CarbonClassName, percent: number, relativeReactivity: number | null }>
+  factors: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
+  factorNotes: { secondaryToPrimary: string | null, tertiaryToPrimary: string | null }
+  reference: string
+  warnings: string[]
+}

@@ -1,0 +1,256 @@
+// GC results to mole fractions: peak tables and raw traces in, products' mole % and flags out.
+// Method: PRODUCT.md, "GC peak tables → mole fractions". Pure: no I/O, no clock.
+import type { Peak, RowError } from './lib/peak-table'
+
+export { parsePeakTable, MAX_PEAK_ROWS, MAX_TABLE_BYTES, SECONDS_THRESHOLD } from './lib/peak-table'
+export type { Peak, RowError, ParseErrorCode, ParsedPeakTable, PeakTableOptions, TableMeta } from './lib/peak-table'
+export { parseTrace, sniffUpload, MIN_TRACE_POINTS, MAX_TRACE_POINTS } from './lib/trace-table'
+export type { ParsedTrace, TraceOptions, UploadSniff } from './lib/trace-table'
+export { detectPeaks, TraceError } from './lib/peak-detection'
+export type { DetectedPeak, DetectPeaksOptions, DetectPeaksResult, Trace } from './lib/peak-detection'
+
+export interface ProductWindow {
+  productSmiles: string
+  rtMin: number
+  rtMax: number
+  /** Relative response factor; corrected area = area / responseFactor. Default 1. */
+  responseFactor?: number
+}
+
+export interface ReferenceWindow {
+  rtMin: number
+  rtMax: number
+  responseFactor?: number
+}
+
+export interface AssignOptions {
+  solvent?: ReferenceWindow
+  startingMaterial?: ReferenceWindow
+  /** Unassigned area (percent of all non-solvent area) above which a flag is raised. */
+  unassignedThresholdPercent?: number
+  /** Share of a window's width at each edge where a peak counts as drifting. */
+  edgeFraction?: number
+  /** Allowed deviation of the area % column's sum from 100. */
+  areaPercentTolerance?: number
+}
+
+export type FlagCode =
+  | 'missing-product' | 'split-peak' | 'unassigned-area' | 'area-percent-sum' | 'retention-drift'
+  | 'negative-value' | 'non-numeric' | 'no-product-peaks' | 'missing-solvent' | 'missing-starting-material'
+  | 'overlapping-windows' | 'overlap' | 'parse-error'
+
+export interface Flag {
+  code: FlagCode
+  message: string
+  severity: 'error' | 'warning' | 'info'
+  productSmiles?: string
+  retentionTimes?: number[]
+}
+
+export interface AssignedProduct {
+  smiles: string
+  /** Mole percent over product peaks; null when no product area was found at all. */
+  percent: number | null
+  area: number
+  correctedArea: number
+  responseFactor: number
+  /** Retention time of the largest peak in the window, null when the window is empty. */
+  retentionTime: number | null
+  peaks: Peak[]
+}
+
+export interface ReferencePeakGroup {
+  area: number
+  correctedArea: number | null
+  peaks: Peak[]
+}
+
+export interface AssignmentResult {
+  molePercents: { smiles: string, percent: number | null }[]
+  products: AssignedProduct[]
+  solvent: ReferencePeakGroup | null
+  startingMaterial: ReferencePeakGroup | null
+  unassigned: (Peak & { percentOfTotal: number })[]
+  /** Percent of all non-solvent area that fell in no window. */
+  unassignedPercent: number
+  /** Percent of starting material converted to monohalides, when it has a window and response factor. */
+  conversion: number | null
+  flags: Flag[]
+}
+
+/** Window definitions that cannot be used (a configuration mistake, not a student's). */
+export class WindowError extends Error {
+  constructor(message: string) {
+    super(message)
+    this.name = 'WindowError'
+  }
+}
+
+const fmt = (t: number) => t.toFixed(2)
+
+function checkWindow(w: ReferenceWindow, what: string): void {
+  if (!Number.isFinite(w?.rtMin) || !Number.isFinite(w?.rtMax) || w.rtMin < 0 || w.rtMin >= w.rtMax) {
+    throw new WindowError(`The retention-time window for ${what} must have 0 ≤ start < end (minutes).`)
+  }
+  if (w.responseFactor !== undefined && (!Number.isFinite(w.responseFactor) || w.responseFactor <= 0)) {
+    throw new WindowError(`The response factor for ${what} must be a positive number.`)
+  }
+}
+
+interface Slot { key: string, name: string, window: ReferenceWindow, peaks: Peak[] }
+
+function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: boolean } {
+  const inside = slots.filter(s => rt >= s.window.rtMin && rt <= s.window.rtMax)
+  if (inside.length === 0) return { slot: null, ambiguous: false }
+  const centre = (s: Slot) => Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
+  return { slot: inside.sort((a, b) => centre(a) - centre(b))[0]!, ambiguous: inside.length > 1 }
+}
+
+function driftFlags(slots: Slot[], unassigned: Peak[], edge: number): Flag[] {
+  const flags: Flag[] = []
+  for (const s of slots) {
+    const margin = edge * (s.window.rtMax - s.window.rtMin)
+    for (const p of s.peaks) {
+      if (p.retentionTime - s.window.rtMin < margin || s.window.rtMax - p.retentionTime < margin) {
+        flags.push({ code: 'retention-drift', severity: 'info', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min sits at the edge of the window for ${s.name} (${fmt(s.window.rtMin)}–${fmt(s.window.rtMax)} min); retention times may have drifted, so compare with the standard run.` })
+      }
+    }
+    for (const p of unassigned) {
+      if (p.retentionTime >= s.window.rtMin - margin && p.retentionTime <= s.window.rtMax + margin) {
+        flags.push({ code: 'retention-drift', severity: 'warning', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min lies just outside the window for ${s.name} (${fmt(s.window.rtMin)}–${fmt(s.window.rtMax)} min) and was not counted; if it is that compound, the retention times have drifted: ask your TA to check the windows.` })
+      }
+    }
+  }
+  return flags
+}
+
+function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
+  return peaks.filter((p, i) => {
+    const where = p.row ? `row ${p.row}` : `peak ${i + 1}`
+    if (!Number.isFinite(p?.retentionTime) || !Number.isFinite(p?.area)) {
+      flags.push({ code: 'non-numeric', severity: 'error', message: `The retention time or area of ${where} is not a number; that peak was left out.` })
+      return false
+    }
+    if (p.area < 0 || p.retentionTime < 0) {
+      flags.push({ code: 'negative-value', severity: 'error', retentionTimes: [p.retentionTime], message: `The ${p.area < 0 ? 'area' : 'retention time'} of ${where} is negative; re-integrate that peak. It was left out.` })
+      return false
+    }
+    return true
+  })
+}
+
+const sumArea = (peaks: Peak[]) => peaks.reduce((s, p) => s + p.area, 0)
+
+/**
+ * Assigns peaks to products by retention-time window, divides by response factors and
+ * normalises over product peaks only. Solvent, starting material and unassigned peaks are
+ * reported but never enter the mole %.
+ */
+export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: AssignOptions = {}): AssignmentResult {
+  validateWindows(windows, options)
+  const flags: Flag[] = []
+  const usable = validPeaks(Array.isArray(peaks) ? peaks : [], flags)
+  const { slots, unassigned } = distribute(usable, windows, options, flags)
+  const products = productResults(slots.slice(0, windows.length), windows, flags)
+  const productTotal = products.reduce((s, p) => s + p.correctedArea, 0)
+  const group = (key: string, rf: number | undefined): ReferencePeakGroup | null => {
+    const slot = slots.find(x => x.key === key)
+    return slot ? { area: sumArea(slot.peaks), correctedArea: rf ? sumArea(slot.peaks) / rf : null, peaks: slot.peaks } : null
+  }
+  const solvent = group('solvent', options.solvent?.responseFactor)
+  const startingMaterial = group('sm', options.startingMaterial?.responseFactor)
+  if (solvent && solvent.peaks.length === 0) flags.push({ code: 'missing-solvent', severity: 'info', message: `No solvent peak was found (${fmt(options.solvent!.rtMin)}–${fmt(options.solvent!.rtMax)} min); if solvent was injected, make sure its peak has not been counted as a product.` })
+  if (startingMaterial && startingMaterial.peaks.length === 0) flags.push({ code: 'missing-starting-material', severity: 'info', message: 'No starting-material peak was found, so the conversion cannot be given.' })
+  // The solvent dwarfs everything else, so unassigned area is judged against the rest.
+  const nonSolvent = sumArea(usable) - (solvent?.area ?? 0)
+  const unassignedPercent = nonSolvent > 0 ? (sumArea(unassigned) / nonSolvent) * 100 : 0
+  const threshold = options.unassignedThresholdPercent ?? 5
+  if (unassignedPercent > threshold) {
+    flags.push({ code: 'unassigned-area', severity: 'warning', retentionTimes: unassigned.map(p => p.retentionTime), message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); look for dichlorination products, impurities or drifted peaks.` })
+  }
+  flags.push(...areaPercentFlags(usable, options.areaPercentTolerance ?? 0.5))
+  flags.push(...driftFlags(slots, unassigned, options.edgeFraction ?? 0.1))
+  // Mole-based: each monohalide came from one substrate molecule.
+  const smCorrected = startingMaterial?.peaks.length ? startingMaterial.correctedArea : null
+  const conversion = smCorrected !== null && productTotal > 0 ? (productTotal / (productTotal + smCorrected)) * 100 : null
+  return {
+    molePercents: products.map(p => ({ smiles: p.smiles, percent: p.percent })),
+    products,
+    solvent,
+    startingMaterial,
+    unassigned: unassigned.map(p => ({ ...p, percentOfTotal: nonSolvent > 0 ? (p.area / nonSolvent) * 100 : 0 })),
+    unassignedPercent,
+    conversion,
+    flags,
+  }
+}
+
+function validateWindows(windows: ProductWindow[], options: AssignOptions): void {
+  if (!Array.isArray(windows) || windows.length === 0) throw new WindowError('At least one product window is needed.')
+  const seen = new Set<string>()
+  for (const w of windows) {
+    checkWindow(w, w?.productSmiles ?? 'a product')
+    if (seen.has(w.productSmiles)) throw new WindowError(`${w.productSmiles} has more than one window.`)
+    seen.add(w.productSmiles)
+  }
+  if (options.solvent) checkWindow(options.solvent, 'the solvent')
+  if (options.startingMaterial) checkWindow(options.startingMaterial, 'the starting material')
+}
+
+function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOptions, flags: Flag[]) {
+  const slots: Slot[] = windows.map(w => ({ key: `p:${w.productSmiles}`, name: w.productSmiles, window: w, peaks: [] }))
+  if (options.solvent) slots.push({ key: 'solvent', name: 'the solvent', window: options.solvent, peaks: [] })
+  if (options.startingMaterial) slots.push({ key: 'sm', name: 'the starting material', window: options.startingMaterial, peaks: [] })
+  const unassigned: Peak[] = []
+  for (const p of peaks) {
+    const { slot, ambiguous } = pickSlot(p.retentionTime, slots)
+    if (ambiguous) flags.push({ code: 'overlapping-windows', severity: 'info', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min falls in more than one window; it was given to the window whose centre is closest.` })
+    if (slot) slot.peaks.push(p)
+    else unassigned.push(p)
+  }
+  return { slots, unassigned }
+}
+
+function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]): AssignedProduct[] {
+  const products: AssignedProduct[] = slots.map((s, i) => {
+    const rf = windows[i]!.responseFactor ?? 1
+    const area = sumArea(s.peaks)
+    const largest = [...s.peaks].sort((a, b) => b.area - a.area)[0]
+    return { smiles: windows[i]!.productSmiles, percent: null, area, correctedArea: area / rf, responseFactor: rf, retentionTime: largest?.retentionTime ?? null, peaks: s.peaks }
+  })
+  const total = products.reduce((s, p) => s + p.correctedArea, 0)
+  for (const p of products) p.percent = total > 0 ? (p.correctedArea / total) * 100 : null
+  slots.forEach((s, i) => {
+    const w = windows[i]!
+    const range = `${fmt(w.rtMin)}–${fmt(w.rtMax)} min`
+    if (s.peaks.length === 0) {
+      flags.push({ code: 'missing-product', severity: 'warning', productSmiles: w.productSmiles, message: `No peak was found for ${w.productSmiles} (${range}); it was counted as 0 %. If the product formed, check the integration or whether its peak has moved.` })
+    } else if (s.peaks.length > 1) {
+      flags.push({ code: 'split-peak', severity: 'warning', productSmiles: w.productSmiles, retentionTimes: s.peaks.map(p => p.retentionTime), message: `${s.peaks.length} peaks fall in the window for ${w.productSmiles} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.` })
+    }
+  })
+  if (total <= 0) flags.push({ code: 'no-product-peaks', severity: 'error', message: 'No product peak has any area, so no mole percentages can be given; check that the right file and windows were used.' })
+  return products
+}
+
+function areaPercentFlags(peaks: Peak[], tolerance: number): Flag[] {
+  const withPct = peaks.filter(p => typeof p.areaPercent === 'number' && Number.isFinite(p.areaPercent))
+  if (withPct.length === 0) return []
+  const sum = withPct.reduce((s, p) => s + p.areaPercent!, 0)
+  if (Math.abs(sum - 100) <= tolerance && withPct.length === peaks.length) return []
+  const missing = peaks.length - withPct.length
+  return [{
+    code: 'area-percent-sum',
+    severity: 'warning',
+    message: `The area % column adds up to ${sum.toFixed(2)} %, not 100 %${missing ? ` (${missing} peaks have no area %)` : ''}; rows may be missing from the exported table.`,
+  }]
+}
+
+/** Parser row errors as result flags, so a refused table and a flagged one read alike. */
+export function flagsFromParseErrors(errors: RowError[]): Flag[] {
+  return errors.map(e => ({
+    code: e.code === 'negative-value' || e.code === 'non-numeric' ? e.code : 'parse-error',
+    severity: 'error' as const,
+    message: e.message,
+  }))
+}

@@ -1,0 +1,147 @@
+// Raw detector traces (time, signal) as text, and telling a trace from a peak table.
+import { type RowError, type TableMeta, type PeakTableOptions, chooseTimeUnit, findHeader, toMinutes } from './peak-table'
+import {
+  type Delimiter, type TimeUnit,
+  SEPARATOR_LINE, classifyHeader, decimalCommaEvidence, looksNumeric, mergeHeaderTokens, parseNumber,
+  splitCells, splitLines, timeUnitOf, utf8Length,
+} from './table-text'
+
+export interface TraceOptions {
+  timeUnit?: PeakTableOptions['timeUnit']
+  expectedMaxMinutes?: number
+  maxPoints?: number
+  maxBytes?: number
+}
+
+export interface ParsedTrace {
+  /** Minutes, strictly increasing. */
+  time: number[]
+  signal: number[]
+  warnings: string[]
+  errors: RowError[]
+  meta: (Omit<TableMeta, 'headerRow' | 'columns'> & { headerRow: number | null, firstDataRow: number }) | null
+}
+
+export const MAX_TRACE_POINTS = 1_000_000
+export const MAX_TRACE_BYTES = 50_000_000
+/** Fewer rows than this is a table, not a detector trace (common practice: traces hold thousands). */
+export const MIN_TRACE_POINTS = 200
+const MAX_ERRORS = 100
+
+function numericCells(line: string, d: Delimiter): number {
+  const cells = splitCells(line, d)
+  if (cells.length < 2) return 0
+  return cells.every(c => c.text === '' || looksNumeric(c.text)) ? cells.filter(c => c.text !== '').length : 0
+}
+
+/** First line from which three consecutive non-blank lines share a delimiter with ≥ 2 numbers each. */
+function findDataStart(lines: string[]): { index: number, delimiter: Delimiter } | null {
+  for (let i = 0; i < Math.min(lines.length, 500); i++) {
+    if (lines[i]!.trim() === '') continue
+    for (const d of ['\t', ';', ',', 'whitespace'] as const) {
+      const count = numericCells(lines[i]!, d)
+      if (count < 2) continue
+      let ok = 0
+      for (let j = i + 1; j < lines.length && ok < 2; j++) {
+        if (lines[j]!.trim() === '') continue
+        if (numericCells(lines[j]!, d) !== count) break
+        ok++
+      }
+      if (ok >= Math.min(2, lines.slice(i + 1).filter(l => l.trim() !== '').length)) return { index: i, delimiter: d }
+    }
+  }
+  return null
+}
+
+function headerAbove(lines: string[], start: number, delimiter: Delimiter) {
+  for (let i = start - 1; i >= 0; i--) {
+    const line = lines[i]!
+    if (line.trim() === '' || SEPARATOR_LINE.test(line)) continue
+    const cells = delimiter === 'whitespace' ? mergeHeaderTokens(splitCells(line, delimiter)) : splitCells(line, delimiter)
+    if (cells.length < 2 || cells.some(c => looksNumeric(c.text))) return null
+    return { row: i + 1, names: cells.map(c => classifyHeader(c.text)) }
+  }
+  return null
+}
+
+/** Reads a two-column (or wider) time/signal trace; tolerates preambles, BOM, decimal commas and footers. */
+export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrace {
+  const warnings: string[] = []
+  const refuse = (row: number, code: RowError['code'], message: string): ParsedTrace => ({ time: [], signal: [], warnings, errors: [{ row, code, message }], meta: null })
+  const maxBytes = options.maxBytes ?? MAX_TRACE_BYTES
+  if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
+  if (text.length > maxBytes || utf8Length(text) > maxBytes) return refuse(0, 'too-large', `The trace file is larger than ${Math.round(maxBytes / 1e6)} MB.`)
+  const lines = splitLines(text)
+  const start = findDataStart(lines)
+  if (!start) return refuse(0, 'no-header', 'No rows with a time and a signal value were found.')
+  const header = headerAbove(lines, start.index, start.delimiter)
+  const timeIdx = Math.max(0, header?.names.findIndex(n => n.kind === 'rt') ?? 0)
+  const signalByName = header?.names.findIndex((n, i) => i !== timeIdx && (n.kind === 'signal' || n.kind === 'height')) ?? -1
+  const signalIdx = signalByName >= 0 ? signalByName : timeIdx === 0 ? 1 : 0
+  const sampleCells: string[] = []
+  for (let i = start.index; i < lines.length && sampleCells.length < 400; i++) {
+    for (const c of splitCells(lines[i]!, start.delimiter)) sampleCells.push(c.text)
+  }
+  const decimalComma = decimalCommaEvidence(sampleCells)
+  const maxPoints = options.maxPoints ?? MAX_TRACE_POINTS
+  const time: number[] = []
+  const signal: number[] = []
+  const errors: RowError[] = []
+  for (let i = start.index; i < lines.length && errors.length < MAX_ERRORS; i++) {
+    const line = lines[i]!
+    if (line.trim() === '') continue
+    const cells = splitCells(line, start.delimiter)
+    const filled = cells.filter(c => c.text !== '')
+    if (filled.length === 1 && !looksNumeric(filled[0]!.text)) {
+      warnings.push(`Row ${i + 1} is not part of the trace and was skipped.`)
+      continue
+    }
+    const t = parseNumber(cells[timeIdx]?.text ?? '', decimalComma)
+    const y = parseNumber(cells[signalIdx]?.text ?? '', decimalComma)
+    if (t === null || y === null || Number.isNaN(t) || Number.isNaN(y)) {
+      errors.push({ row: i + 1, code: 'non-numeric', message: `Row ${i + 1}: the time and signal must both be numbers.` })
+      continue
+    }
+    if (time.length > 0 && !(t > time[time.length - 1]!)) {
+      errors.push({ row: i + 1, code: 'non-monotonic-time', message: `Row ${i + 1}: the time ${cells[timeIdx]!.text} does not increase from the row before.` })
+      continue
+    }
+    if (time.length >= maxPoints) return refuse(i + 1, 'too-many-rows', `The trace has more than ${maxPoints} points.`)
+    time.push(t)
+    signal.push(y)
+  }
+  if (errors.length) return { time: [], signal: [], warnings, errors, meta: null }
+  if (time.length < 10) return refuse(start.index + 1, 'too-few-points', 'A trace needs at least 10 points.')
+  const declared: TimeUnit | null = header ? timeUnitOf(header.names[timeIdx]?.unit ?? null) : null
+  const { unit, source } = chooseTimeUnit([time[time.length - 1]!], declared, options.timeUnit, options.expectedMaxMinutes, warnings)
+  const factor = toMinutes(unit)
+  if (factor !== 1) for (let i = 0; i < time.length; i++) time[i]! *= factor
+  return {
+    time, signal, warnings, errors: [],
+    meta: { delimiter: start.delimiter, decimalComma, headerRow: header?.row ?? null, firstDataRow: start.index + 1, timeUnit: unit, timeUnitSource: source },
+  }
+}
+
+export interface UploadSniff {
+  kind: 'peak-table' | 'trace' | 'unknown'
+  reason: string
+}
+
+/** Says whether a text upload is a peak table or a raw trace (many rows, increasing time, no area column). */
+export function sniffUpload(text: string): UploadSniff {
+  if (typeof text !== 'string' || text.trim() === '') return { kind: 'unknown', reason: 'The file is empty.' }
+  const lines = splitLines(text)
+  const header = findHeader(lines)
+  if (header?.kinds.has('rt') && header.kinds.has('area')) return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
+  const start = findDataStart(lines)
+  if (start) {
+    const probe = lines.slice(0, Math.min(lines.length, start.index + 2000)).join('\n')
+    const trace = parseTrace(probe, { maxBytes: Number.POSITIVE_INFINITY })
+    const rows = lines.length - start.index
+    if (trace.errors.length === 0 && rows >= MIN_TRACE_POINTS) {
+      return { kind: 'trace', reason: `About ${rows} rows of time and signal with increasing time and no area column.` }
+    }
+  }
+  if (header) return { kind: 'peak-table', reason: `Row ${header.row} looks like a peak-table header.` }
+  return { kind: 'unknown', reason: 'Neither a peak-table header nor a time/signal trace was recognised.' }
+}

@@ -1,0 +1,48 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { describeViolations, launchBrowser, openTab, screenshot, seriousViolations, signInThroughPage } from '../support/browser'
+import { DEMO } from '../support/http'
+
+let browser: Browser
+beforeAll(async () => { browser = await launchBrowser() })
+afterAll(async () => { await browser?.close() })
+
+describe('substrate explorer in Chromium', () => {
+  it('shows products, predictions and reactivities from observed percentages', async () => {
+    const tab = await openTab(browser, { width: 1280, height: 900 })
+    await signInThroughPage(tab.page, DEMO.student(8))
+    await tab.page.goto('/explorer')
+    await tab.page.getByLabel(/^SMILES/).fill('CCC')
+    await tab.page.getByRole('button', { name: 'Analyse' }).click()
+    await tab.page.getByLabel('Observed mol % for position b').waitFor()
+    await tab.page.getByLabel('Observed mol % for position a').fill('45')
+    await tab.page.getByLabel('Observed mol % for position b').fill('55')
+    await tab.page.getByRole('button', { name: 'Compute reactivities' }).click()
+    // Propane at 45 : 55 → 3.67 (widely reported textbook figure; see tests/e2e/chemistry.test.ts).
+    await tab.page.getByText('3.67').first().waitFor()
+    await tab.page.locator('canvas').first().waitFor()
+    const violations = await seriousViolations(tab.page)
+    expect(violations, describeViolations(violations)).toEqual([])
+    await screenshot(tab.page, 'explorer-propane')
+    expect(tab.problems).toEqual([])
+
+    await tab.page.getByLabel(/^SMILES/).fill('CC(C)C(C)C')
+    await tab.page.getByRole('button', { name: 'Analyse' }).click()
+    await tab.page.getByText('C6H14', { exact: true }).waitFor()
+    // 2,3-dimethylbutane: 12 primary H and 2 tertiary H, two products.
+    expect(await tab.page.getByLabel(/Observed mol % for position/).count()).toBe(2)
+    await screenshot(tab.page, 'explorer-dimethylbutane')
+    await tab.context.close()
+  })
+
+  it('shows a bad SMILES beside the field', async () => {
+    const tab = await openTab(browser)
+    await signInThroughPage(tab.page, DEMO.ta1)
+    await tab.page.goto('/explorer')
+    await tab.page.getByLabel(/^SMILES/).fill('CCN')
+    await tab.page.getByRole('button', { name: 'Analyse' }).click()
+    const field = tab.page.getByLabel(/^SMILES/)
+    await expect.poll(async () => field.getAttribute('aria-invalid')).toBe('true')
+    await tab.context.close()
+  })
+})

@@ -1,0 +1,22 @@
+import { BarElement, CategoryScale, Chart, Legend, LinearScale, LineElement, PointElement, ScatterController, Tooltip, Filler } from 'chart.js'
+
+let registered = false
+
+/** Registers only the Chart.js parts the app draws, once; animation stays off (print, screenshots). */
+export function useCharts() {
+  if (!registered) {
+    Chart.register(BarElement, CategoryScale, LinearScale, LineElement, PointElement, ScatterController, Tooltip, Legend, Filler)
+    Chart.defaults.animation = false
+    Chart.defaults.font.family = '"IBM Plex Sans", system-ui, sans-serif'
+    Chart.defaults.color = '#2B4560'
+    registered = true
+  }
+}
+
+/** One colour per series, distinct in greyscale too (light, mid, dark). */
+export const SERIES_COLOURS = {
+  statistical: '#BCCDDC',
+  predicted: '#147268',
+  observed: '#0B1A2B',
+  accent: '#BCD22F',
+} as const
