@@ -1,7 +1,13 @@
+// Several builds can live side by side (parallel work, benchmarks): HALOCLINE_BUILD_TAG=x
+// builds into .nuxt-x and .output-x instead of .nuxt and .output.
+const tag = process.env.HALOCLINE_BUILD_TAG?.replace(/[^\w-]/g, '')
+
 // Root-as-source layout: Nuxt 4 would switch to app/ as soon as that folder exists.
 export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   srcDir: '.',
+  buildDir: tag ? `.nuxt-${tag}` : '.nuxt',
+  nitro: { output: { dir: tag ? `.output-${tag}` : '.output' } },
   devtools: { enabled: false },
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@vueuse/nuxt', 'nuxt-auth-utils'],

@@ -10,16 +10,18 @@ export interface NavItem {
 const overview: NavItem = { label: 'Overview', to: '/', icon: 'home' }
 const review: NavItem = { label: 'Review', to: '/review', icon: 'review' }
 const explorer: NavItem = { label: 'Substrate explorer', to: '/explorer', icon: 'molecule' }
+const library: NavItem = { label: 'Library', to: '/library', icon: 'molecule' }
 const outbox: NavItem = { label: 'Outbox', to: '/outbox', icon: 'mail' }
 const mailbox: NavItem = { label: 'Demo mailbox', to: '/mailbox', icon: 'mail' }
 
 const byRole: Record<Role, NavItem[]> = {
-  instructor: [overview, { label: 'Courses', to: '/courses', icon: 'list' }, review, explorer, outbox],
-  ta: [overview, { label: 'My sections', to: '/sections', icon: 'calendar' }, review, explorer],
+  instructor: [overview, { label: 'Courses', to: '/courses', icon: 'list' }, library, review, explorer, outbox],
+  ta: [overview, { label: 'My sections', to: '/sections', icon: 'calendar' }, review, library, explorer],
   coordinator: [
     overview,
     { label: 'Schedule', to: '/schedule', icon: 'calendar' },
     { label: 'Stockroom', to: '/stockroom', icon: 'box' },
+    library,
     outbox,
   ],
   student: [{ label: 'My lab', to: '/', icon: 'flask' }, explorer],

@@ -31,12 +31,16 @@ export function sourcesHash(root) {
   return hash.digest('hex')
 }
 
-const stampFile = (root) => join(root, '.output', '.halocline-sources')
+/** Where the build lives: .output, or .output-<tag> when HALOCLINE_BUILD_TAG is set (see nuxt.config.ts). */
+export function outputDir(root) {
+  const tag = process.env.HALOCLINE_BUILD_TAG?.replace(/[^\w-]/g, '')
+  return join(root, tag ? `.output-${tag}` : '.output')
+}
 
 export function ensureBuild(root, { force = false } = {}) {
   const hash = sourcesHash(root)
-  const stamp = stampFile(root)
-  const server = join(root, '.output', 'server', 'index.mjs')
+  const stamp = join(outputDir(root), '.halocline-sources')
+  const server = join(outputDir(root), 'server', 'index.mjs')
   if (!force && existsSync(server) && existsSync(stamp) && readFileSync(stamp, 'utf8') === hash) return 'up to date'
   const result = spawnSync(process.execPath, [join(root, 'node_modules', 'nuxt', 'bin', 'nuxt.mjs'), 'build'], {
     cwd: root,

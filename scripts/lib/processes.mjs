@@ -3,6 +3,7 @@ import { existsSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { isPortOpen, waitFor } from './ports.mjs'
 import { fail } from './steps.mjs'
+import { outputDir } from './build.mjs'
 
 export async function startSmtpFake({ root, port, dir, pidFile, stdio = 'ignore' }) {
   if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set HALOCLINE_SMTP_PORT to a free port, or stop what uses it')
@@ -31,7 +32,7 @@ export function killPidFile(pidFile, signal = 'SIGTERM') {
 /** Starts the built server and waits until it answers HTTP (health may still say 503). */
 export async function startServer({ root, port, env, stdio = ['ignore', 'pipe', 'inherit'] }) {
   if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set PORT to a free port, or stop what uses it')
-  const child = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], {
+  const child = spawn(process.execPath, [join(outputDir(root), 'server', 'index.mjs')], {
     cwd: root,
     stdio,
     env: { ...process.env, ...env, PORT: String(port), NITRO_PORT: String(port), HOST: '127.0.0.1', NITRO_HOST: '127.0.0.1', NODE_ENV: 'production' },

@@ -7,6 +7,9 @@ pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number.parseInt(v, 10))
 pg.types.setTypeParser(pg.types.builtins.NUMERIC, (v) => Number.parseFloat(v))
 // Keep DATE columns as 'YYYY-MM-DD' text: a JS Date would shift them by the server's time zone.
 pg.types.setTypeParser(pg.types.builtins.DATE, (v) => v)
+// date[] likewise: '{2026-11-19,2026-11-26}' → ['2026-11-19', '2026-11-26'] (dates hold no commas or quotes).
+const DATE_ARRAY_OID = 1182
+pg.types.setTypeParser(DATE_ARRAY_OID, (v) => (v === '{}' ? [] : v.slice(1, -1).split(',')))
 
 export interface ConnectionOptions {
   max?: number

@@ -3,6 +3,7 @@ import type { ColumnType, Generated, Insertable, Selectable, Updateable } from '
 // Timestamps come back from pg as Date and go in as Date or ISO text.
 type Timestamp = ColumnType<Date, Date | string, Date | string>
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>
+type UpdatedAt = ColumnType<Date, Date | string | undefined, Date | string>
 type Json<T = unknown> = ColumnType<T, string, string>
 
 export type Role = 'instructor' | 'ta' | 'coordinator' | 'student'
@@ -16,7 +17,7 @@ export interface UsersTable {
   sessionVersion: Generated<number>
   disabledAt: Timestamp | null
   createdAt: CreatedAt
-  updatedAt: Generated<Timestamp>
+  updatedAt: UpdatedAt
 }
 
 export interface LoginAttemptsTable {
@@ -64,8 +65,208 @@ export interface MailMessagesTable {
   createdBy: number | null
   scheduledAt: Timestamp | null
   sentAt: Timestamp | null
+  courseId: number | null
   createdAt: CreatedAt
-  updatedAt: Generated<Timestamp>
+  updatedAt: UpdatedAt
+}
+
+export type OutlierTest = 'grubbs' | 'dixon' | 'modified-z'
+export type ReleasePolicy = 'on-review' | 'after-due' | 'manual'
+
+export interface RubricCriterion {
+  key: string
+  label: string
+  maxPoints: number
+  /** 'accuracy' criteria get a suggested score from the tolerance against the literature value. */
+  kind: 'accuracy' | 'manual'
+}
+
+export interface CoursesTable {
+  id: Generated<number>
+  code: string
+  title: string
+  term: string
+  timezone: Generated<string>
+  outlierTest: Generated<OutlierTest>
+  outlierAlpha: Generated<number>
+  zscoreLimit: Generated<number>
+  accuracyTolerancePercent: Generated<number>
+  releasePolicy: Generated<ReleasePolicy>
+  rubric: ColumnType<RubricCriterion[], string | undefined, string>
+  createdBy: number | null
+  createdAt: CreatedAt
+  updatedAt: UpdatedAt
+}
+
+export interface CourseOwnersTable {
+  courseId: number
+  userId: number
+}
+
+/** DATE columns are kept as 'YYYY-MM-DD' text (see connection.ts); TIME as 'HH:MM:SS'. */
+export interface SectionsTable {
+  id: Generated<number>
+  courseId: number
+  code: string
+  weekday: number
+  startTime: string
+  endTime: string
+  room: string
+  hoodStations: number
+  studentsPerStation: Generated<number>
+  firstDate: string
+  lastDate: string
+  skippedDates: ColumnType<string[], string[] | undefined, string[]>
+  createdAt: CreatedAt
+  updatedAt: UpdatedAt
+}
+
+export interface SectionTasTable {
+  sectionId: number
+  userId: number
+}
+
+export type EnrollmentStatus = 'active' | 'withdrawn'
+
+export interface EnrollmentsTable {
+  id: Generated<number>
+  courseId: number
+  sectionId: number
+  userId: number
+  status: Generated<EnrollmentStatus>
+  station: number | null
+  seat: number | null
+  createdAt: CreatedAt
+  withdrawnAt: Timestamp | null
+}
+
+export interface InvitationsTable {
+  id: Generated<number>
+  userId: number
+  tokenHash: string
+  expiresAt: Timestamp
+  usedAt: Timestamp | null
+  createdBy: number | null
+  createdAt: CreatedAt
+}
+
+export interface FilesTable {
+  id: Generated<number>
+  sha256: string
+  byteSize: number
+  mediaType: string
+  originalName: string
+  content: Buffer
+  uploadedBy: number | null
+  createdAt: CreatedAt
+}
+
+export interface RosterImportsTable {
+  id: Generated<number>
+  courseId: number
+  fileId: number
+  mapping: Json<Record<string, string | null>>
+  summary: Json<Record<string, unknown>>
+  createdBy: number | null
+  createdAt: CreatedAt
+}
+
+export interface SubstratesTable {
+  id: Generated<number>
+  name: string
+  smiles: string
+  formula: string
+  molarMass: number
+  density: number | null
+  boilingPointC: number | null
+  notes: Generated<string>
+  source: Generated<string>
+  ownerId: number | null
+  createdAt: CreatedAt
+  updatedAt: UpdatedAt
+}
+
+export type WindowKind = 'product' | 'solvent' | 'starting-material'
+
+export interface SubstrateWindowsTable {
+  id: Generated<number>
+  substrateId: number
+  kind: WindowKind
+  productSmiles: string | null
+  label: string
+  rtMin: number
+  rtMax: number
+  responseFactor: Generated<number>
+}
+
+export interface StandardRunsTable {
+  id: Generated<number>
+  substrateId: number
+  fileId: number
+  peaks: Json
+  createdBy: number | null
+  createdAt: CreatedAt
+}
+
+export type MethodReagent = 'cl2-light' | 'so2cl2-azo' | 'br2-light' | 'nbs'
+
+export interface MethodsTable {
+  id: Generated<number>
+  name: string
+  reagent: MethodReagent
+  halogen: 'Cl' | 'Br'
+  temperatureC: number
+  rPrimary: number
+  rSecondary: number
+  rTertiary: number
+  source: string
+  notes: Generated<string>
+  ownerId: number | null
+  createdAt: CreatedAt
+  updatedAt: UpdatedAt
+}
+
+export interface PracticalsTable {
+  id: Generated<number>
+  courseId: number
+  title: string
+  substrateId: number
+  methodId: number
+  workUnit: Generated<'student' | 'pair'>
+  notes: Generated<string>
+  resultsReleasedAt: Timestamp | null
+  createdAt: CreatedAt
+  updatedAt: UpdatedAt
+}
+
+export type ItemRole = 'substrate' | 'halogenating-agent' | 'initiator' | 'solvent' | 'wash' | 'drying-agent' | 'other'
+export type ItemBasis = 'mmol' | 'equivalents' | 'mol-percent' | 'mL' | 'g'
+
+export interface PracticalItemsTable {
+  id: Generated<number>
+  practicalId: number
+  position: number
+  role: ItemRole
+  name: string
+  smiles: string | null
+  molarMass: number | null
+  density: number | null
+  basis: ItemBasis
+  amount: number
+}
+
+export interface PracticalSessionsTable {
+  id: Generated<number>
+  practicalId: number
+  sectionId: number
+  meetingDate: string
+  dueAt: Timestamp
+}
+
+export interface CalendarFeedsTable {
+  userId: number
+  token: string
+  createdAt: CreatedAt
 }
 
 export interface Database {
@@ -73,6 +274,22 @@ export interface Database {
   loginAttempts: LoginAttemptsTable
   auditLog: AuditLogTable
   mailMessages: MailMessagesTable
+  courses: CoursesTable
+  courseOwners: CourseOwnersTable
+  sections: SectionsTable
+  sectionTas: SectionTasTable
+  enrollments: EnrollmentsTable
+  invitations: InvitationsTable
+  files: FilesTable
+  rosterImports: RosterImportsTable
+  substrates: SubstratesTable
+  substrateWindows: SubstrateWindowsTable
+  standardRuns: StandardRunsTable
+  methods: MethodsTable
+  practicals: PracticalsTable
+  practicalItems: PracticalItemsTable
+  practicalSessions: PracticalSessionsTable
+  calendarFeeds: CalendarFeedsTable
 }
 
 export type User = Selectable<UsersTable>
@@ -80,3 +297,12 @@ export type NewUser = Insertable<UsersTable>
 export type UserUpdate = Updateable<UsersTable>
 export type MailMessage = Selectable<MailMessagesTable>
 export type NewMailMessage = Insertable<MailMessagesTable>
+export type Course = Selectable<CoursesTable>
+export type Section = Selectable<SectionsTable>
+export type Enrollment = Selectable<EnrollmentsTable>
+export type Substrate = Selectable<SubstratesTable>
+export type SubstrateWindow = Selectable<SubstrateWindowsTable>
+export type Method = Selectable<MethodsTable>
+export type Practical = Selectable<PracticalsTable>
+export type PracticalItem = Selectable<PracticalItemsTable>
+export type PracticalSession = Selectable<PracticalSessionsTable>

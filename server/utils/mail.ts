@@ -13,6 +13,8 @@ export interface OutgoingMail {
   html?: string
   attachments?: MailAttachment[]
   createdBy?: number | null
+  /** The course it concerns, so every owner of the course sees it in their outbox. */
+  courseId?: number | null
   sendAt?: Date
 }
 
@@ -54,6 +56,7 @@ export async function queueMail(db: Kysely<Database> | Transaction<Database>, ma
       htmlBody: mail.html ?? null,
       attachments: JSON.stringify(mail.attachments ?? []),
       createdBy: mail.createdBy ?? null,
+      courseId: mail.courseId ?? null,
       scheduledAt: mail.sendAt ?? null,
     })
     .onConflict((oc) => oc.column('dedupeKey').doNothing())

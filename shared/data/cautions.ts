@@ -69,13 +69,15 @@ export const CAUTIONS: Record<HazardKey, Caution> = {
 export const CAUTION_DEFERRAL =
   'These are reminders, not a procedure. Follow your institution\u2019s chemical hygiene plan, the supplier\u2019s safety data sheet, local codes and your safety staff.'
 
-/** The cautions that go with a method's reagents. */
+/** The cautions that go with a method's reagents (by data-file id or database reagent key). */
 export function cautionsForMethod(methodId: string): HazardKey[] {
   switch (methodId) {
     case 'cl2-light': return ['chlorine', 'light-source', 'halogenated-waste']
-    case 'so2cl2-aibn': return ['sulfuryl-chloride', 'azo-initiator', 'halogenated-waste']
+    case 'so2cl2-aibn':
+    case 'so2cl2-azo': return ['sulfuryl-chloride', 'azo-initiator', 'halogenated-waste']
     case 'br2-light': return ['bromine', 'light-source', 'halogenated-waste']
-    case 'nbs-aibn': return ['n-bromosuccinimide', 'azo-initiator', 'halogenated-waste']
+    case 'nbs-aibn':
+    case 'nbs': return ['n-bromosuccinimide', 'azo-initiator', 'halogenated-waste']
     default: return ['halogenated-waste']
   }
 }

@@ -16,6 +16,8 @@ export interface MethodReagent {
 
 export interface HalogenationMethod {
   id: string
+  /** The key a method row stores (methods.reagent): the reagent family, whatever the initiator. */
+  reagent: 'cl2-light' | 'so2cl2-azo' | 'br2-light' | 'nbs'
   name: string
   halogen: Halogen
   reagents: MethodReagent[]
@@ -33,6 +35,7 @@ const AIBN: MethodReagent = { name: 'azobisisobutyronitrile (AIBN)', smiles: 'CC
 export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
   {
     id: 'cl2-light',
+    reagent: 'cl2-light',
     name: 'Chlorine and light',
     halogen: 'Cl',
     reagents: [CHLORINE],
@@ -44,6 +47,7 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
   },
   {
     id: 'br2-light',
+    reagent: 'br2-light',
     name: 'Bromine and light',
     halogen: 'Br',
     reagents: [{ name: 'bromine', smiles: 'BrBr', role: 'halogenating agent', density: 3.10, densitySource: 'CRC Handbook, from memory' }],
@@ -55,6 +59,7 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
   },
   {
     id: 'so2cl2-aibn',
+    reagent: 'so2cl2-azo',
     name: 'Sulfuryl chloride with AIBN',
     halogen: 'Cl',
     reagents: [
@@ -70,6 +75,7 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
   },
   {
     id: 'nbs-aibn',
+    reagent: 'nbs',
     name: 'N-Bromosuccinimide with AIBN',
     halogen: 'Br',
     reagents: [
@@ -87,4 +93,9 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
 
 export function findMethod(id: string): HalogenationMethod | undefined {
   return HALOGENATION_METHODS.find(m => m.id === id)
+}
+
+/** The reference method of a database reagent key. */
+export function methodForReagent(reagent: string): HalogenationMethod | undefined {
+  return HALOGENATION_METHODS.find(m => m.reagent === reagent)
 }

@@ -11,7 +11,7 @@ export interface TeachingSubstrate {
 }
 
 const CRC = 'CRC Handbook of Chemistry and Physics, from memory'
-const CHECKED = 'CRC Handbook, from memory (as listed in PRODUCT.md)'
+const CHECKED = 'CRC Handbook of Chemistry and Physics, from memory'
 
 export const TEACHING_SUBSTRATES: readonly TeachingSubstrate[] = [
   { id: 'propane', name: 'propane', smiles: 'CCC', density: null, boilingPointC: -42.1, source: CRC },

@@ -8,9 +8,9 @@ beforeAll(async () => { browser = await launchBrowser() })
 afterAll(async () => { await browser?.close() })
 
 const NAV: Record<string, { email: string, links: string[] }> = {
-  instructor: { email: DEMO.instructor, links: ['Overview', 'Courses', 'Review', 'Substrate explorer', 'Outbox', 'Demo mailbox'] },
-  ta: { email: DEMO.ta1, links: ['Overview', 'My sections', 'Review', 'Substrate explorer'] },
-  coordinator: { email: DEMO.coordinator, links: ['Overview', 'Schedule', 'Stockroom', 'Outbox', 'Demo mailbox'] },
+  instructor: { email: DEMO.instructor, links: ['Overview', 'Courses', 'Library', 'Review', 'Substrate explorer', 'Outbox', 'Demo mailbox'] },
+  ta: { email: DEMO.ta1, links: ['Overview', 'My sections', 'Review', 'Library', 'Substrate explorer'] },
+  coordinator: { email: DEMO.coordinator, links: ['Overview', 'Schedule', 'Stockroom', 'Library', 'Outbox', 'Demo mailbox'] },
   student: { email: DEMO.student(5), links: ['My lab', 'Substrate explorer'] },
 }
 

@@ -6,16 +6,16 @@ const routes = (role: string, demo = false) => navigationFor(role, { demo }).map
 describe('navigationFor', () => {
   it('instructor', () => {
     expect(routes('instructor')).toEqual([
-      'Overview /', 'Courses /courses', 'Review /review', 'Substrate explorer /explorer', 'Outbox /outbox',
+      'Overview /', 'Courses /courses', 'Library /library', 'Review /review', 'Substrate explorer /explorer', 'Outbox /outbox',
     ])
   })
 
   it('ta', () => {
-    expect(routes('ta')).toEqual(['Overview /', 'My sections /sections', 'Review /review', 'Substrate explorer /explorer'])
+    expect(routes('ta')).toEqual(['Overview /', 'My sections /sections', 'Review /review', 'Library /library', 'Substrate explorer /explorer'])
   })
 
   it('coordinator', () => {
-    expect(routes('coordinator')).toEqual(['Overview /', 'Schedule /schedule', 'Stockroom /stockroom', 'Outbox /outbox'])
+    expect(routes('coordinator')).toEqual(['Overview /', 'Schedule /schedule', 'Stockroom /stockroom', 'Library /library', 'Outbox /outbox'])
   })
 
   it('student', () => {

@@ -12,7 +12,11 @@ export default defineEventHandler(async (event): Promise<OutboxMessage[]> => {
   let query = useDb()
     .selectFrom('mailMessages')
     .select(['id', 'kind', 'toAddresses', 'subject', 'status', 'attempts', 'lastError', 'scheduledAt', 'sentAt', 'createdAt'])
-    .where('createdBy', '=', me.id)
+    // Mine, and (for instructors) anything about a course I own, whoever queued it.
+    .where((eb) => eb.or([
+      eb('createdBy', '=', me.id),
+      eb('courseId', 'in', eb.selectFrom('courseOwners').select('courseId').where('userId', '=', me.id)),
+    ]))
     .orderBy('createdAt', 'desc')
     .limit(limit)
   if (status) query = query.where('status', '=', status)

@@ -1,7 +1,11 @@
 import type { Kysely } from 'kysely'
 import type { Database } from '../schema'
 import { hashUserPassword } from '../../utils/password'
+import type { SeedContext } from './context'
 import { DEMO_PASSWORD, seedPeople } from './people'
+import { seedLibrary } from './library'
+import { seedCourse } from './course'
+import { seedPracticals } from './practicals'
 
 export interface SeedOptions {
   /** The day the demo is seeded; every date in the scenario is set relative to it. */
@@ -9,12 +13,21 @@ export interface SeedOptions {
 }
 
 /**
- * The whole demo scenario, in one transaction. Demo accounts share one published password,
- * so they share one hash: 68 separate scrypt runs at OWASP cost would take half a minute.
+ * The whole demo scenario, in one transaction, each part in its own file. Demo accounts share
+ * one published password, so they share one hash: 68 scrypt runs at OWASP cost would take
+ * half a minute.
  */
 export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}) {
   const passwordHash = await hashUserPassword(DEMO_PASSWORD)
   await db.transaction().execute(async (trx) => {
-    await seedPeople(trx, passwordHash)
+    const ctx: SeedContext = {
+      db: trx,
+      today: (options.today ?? new Date()).toISOString().slice(0, 10),
+      users: await seedPeople(trx, passwordHash),
+      ids: { sections: new Map(), substrates: new Map(), methods: new Map(), practicals: new Map() },
+    }
+    await seedLibrary(ctx)
+    await seedCourse(ctx)
+    await seedPracticals(ctx)
   })
 }

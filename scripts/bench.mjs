@@ -1,0 +1,38 @@
+#!/usr/bin/env node
+// npm run bench: each case is measured against a baseline run side by side in the same
+// process and reported as a ratio, so numbers compare across machines. Results are printed
+// and written to test-results/bench.json. Nothing here is a test: no pass or fail.
+import { mkdirSync, writeFileSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { step } from './lib/steps.mjs'
+import { checkNodeVersion, ensurePostgres } from './lib/system.mjs'
+import { ensureNodeModules } from './lib/deps.mjs'
+
+const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
+
+async function main() {
+  await step('Checking Node.js', checkNodeVersion)
+  await step('Checking PostgreSQL server binaries', ensurePostgres)
+  await step('Checking npm packages', () => ensureNodeModules(root))
+  const { startWorld } = await import('./lib/world.mjs')
+  const world = await step('Starting a throwaway Halocline', async () => ({ note: 'up', ...(await startWorld(root, { name: 'bench' })) }))
+  const results = {}
+  try {
+    const { benchHttp } = await import('./bench/http.mjs')
+    results.http = await step('Request throughput against a bare node:http server', () => benchHttp(world).then((rows) => Object.assign(rows, { note: `${rows.length} cases` })))
+  } finally {
+    await world.stop()
+  }
+  for (const [name, rows] of Object.entries(results)) {
+    console.log(`\n${name}`)
+    console.table(rows.map((r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, typeof v === 'number' ? Number(v.toPrecision(4)) : v]))))
+  }
+  mkdirSync(join(root, 'test-results'), { recursive: true })
+  writeFileSync(join(root, 'test-results', 'bench.json'), JSON.stringify({ at: new Date().toISOString(), results }, null, 2))
+}
+
+main().catch((error) => {
+  if (!error.reported) console.error(error)
+  process.exit(1)
+})

@@ -1,0 +1,84 @@
+// A throwaway Halocline for benchmarks and tools: its own PostgreSQL cluster on a free port,
+// migrated and seeded, the SMTP fake and the built server. The tests' global set-up does the
+// same through vitest; this is the plain-Node version.
+import { mkdirSync, rmSync } from 'node:fs'
+import { join } from 'node:path'
+import { clusterPaths, databaseUrl, ensureDatabase, initCluster, startCluster, stopCluster } from './postgres.mjs'
+import { ensureBuild } from './build.mjs'
+import { freePort } from './ports.mjs'
+import { killPidFile, startServer, startSmtpFake } from './processes.mjs'
+import { randomSecret } from './env.mjs'
+
+/**
+ * Options: name (folder under .data), database, seed, serverEnv (extra NUXT_* for the server),
+ * stdio (the server's), tasks (server/database/tasks.ts when the caller has already loaded it). Returns the addresses of everything, and stop().
+ */
+export async function startWorld(root, { name = 'world', database = 'halocline', seed = true, serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], tasks = null } = {}) {
+  const runRoot = join(root, '.data', `${name}-${process.pid}`)
+  rmSync(runRoot, { recursive: true, force: true })
+  mkdirSync(runRoot, { recursive: true })
+  const undo = [() => rmSync(runRoot, { recursive: true, force: true })]
+  const stop = async () => {
+    for (const action of undo.reverse()) {
+      try { await action() } catch { /* keep going */ }
+    }
+  }
+  try {
+    const password = randomSecret(12)
+    const pgPort = await freePort()
+    const paths = clusterPaths(runRoot)
+    initCluster(paths, password)
+    startCluster(paths, pgPort)
+    undo.push(() => stopCluster(paths, 'immediate'))
+    await ensureDatabase({ password, port: pgPort, database })
+    const url = databaseUrl({ password, port: pgPort, database })
+    // The database tasks are TypeScript; under vitest they come in already compiled, else tsx runs them.
+    const db = tasks ?? await loadTasks()
+    await db.migrate(url)
+    if (seed) await db.seedDemoIfEmpty(url)
+
+    const smtpPort = await freePort()
+    const smtpPidFile = join(runRoot, 'smtp.pid')
+    const mailDir = join(runRoot, 'mail')
+    await startSmtpFake({ root, port: smtpPort, dir: mailDir, pidFile: smtpPidFile })
+    undo.push(() => killPidFile(smtpPidFile))
+
+    ensureBuild(root)
+    const port = await freePort()
+    const server = await startServer({
+      root, port, stdio,
+      env: {
+        NUXT_DATABASE_URL: url,
+        NUXT_SESSION_PASSWORD: randomSecret(32),
+        NUXT_SMTP_PORT: String(smtpPort),
+        NUXT_DEMO_MAIL_DIR: mailDir,
+        NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${port}`,
+        ...serverEnv,
+      },
+    })
+    undo.push(() => new Promise((resolve) => {
+      if (server.exitCode !== null) return resolve()
+      server.once('exit', resolve)
+      server.kill('SIGTERM')
+    }))
+    return { baseUrl: `http://127.0.0.1:${port}`, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop }
+  } catch (error) {
+    await stop()
+    throw error
+  }
+}
+
+async function loadTasks() {
+  const { register } = await import('tsx/esm/api')
+  register()
+  return import('../../server/database/tasks.ts')
+}
+
+/** Signs in and returns the Cookie header value. */
+export async function signIn(baseUrl, email, password = 'halocline-demo') {
+  const response = await fetch(`${baseUrl}/api/auth/login`, {
+    method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password }),
+  })
+  if (!response.ok) throw new Error(`sign-in failed for ${email}: ${response.status}`)
+  return response.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+}

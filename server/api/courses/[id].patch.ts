@@ -1,0 +1,20 @@
+import { z } from 'zod'
+import { courseInputSchema } from '#shared/types/course'
+
+const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
+
+export default defineEventHandler(async (event) => {
+  requireUser(event)
+  const { id } = readParamsAs(event, paramsSchema)
+  const { course } = await requireCourseAccess(event, id, 'manage')
+  const input = await readBodyAs(event, courseInputSchema)
+  await useDb().transaction().execute(async (trx) => {
+    await trx.updateTable('courses').set({ ...input, updatedAt: new Date() }).where('id', '=', id).execute()
+    await audit(trx, event, {
+      action: 'course.update', entity: 'course', entityId: id,
+      before: { code: course.code, title: course.title, term: course.term, timezone: course.timezone }, after: input,
+    })
+  })
+  setResponseStatus(event, 204)
+  return null
+})

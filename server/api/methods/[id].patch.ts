@@ -1,0 +1,18 @@
+import { halogenMismatch, libraryIdParamsSchema, methodPatchSchema, type MethodView } from '#shared/types/library'
+
+export default defineEventHandler(async (event): Promise<MethodView> => {
+  requireRole(event, 'instructor')
+  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { me, row: before } = await requireLibraryEntry(event, 'methods', id, 'edit')
+  const patch = await readBodyAs(event, methodPatchSchema)
+  const mismatch = halogenMismatch(patch.reagent ?? before.reagent, patch.halogen)
+  if (mismatch) invalid([{ field: 'halogen', message: mismatch }])
+  const row = await useDb().transaction().execute(async (trx) => {
+    const updated = await trx.updateTable('methods').set({ ...methodColumns(patch), updatedAt: new Date() })
+      .where('id', '=', id).returningAll().executeTakeFirstOrThrow()
+    await audit(trx, event, { action: 'method.update', entity: 'method', entityId: id, before, after: patch })
+    return updated
+  })
+  const usage = await libraryUsage('methods', [id])
+  return toMethodView(row, me, usage.get(id) ?? 0)
+})

@@ -1,0 +1,8 @@
+import { practicalParamsSchema, type ProcedureCardView } from '#shared/types/practical'
+
+// The printable procedure card: quantities per work unit, expected products, windows, cautions.
+export default defineEventHandler(async (event): Promise<ProcedureCardView> => {
+  requireUser(event)
+  const { id } = readParamsAs(event, practicalParamsSchema)
+  return procedureCard(await requirePracticalAccess(event, id))
+})

@@ -1,0 +1,12 @@
+import { itemsInputSchema, practicalParamsSchema, type QuantitiesView } from '#shared/types/practical'
+import { computeQuantities } from '#shared/utils/procedure'
+
+// The scale editor's live conversion, before anything is saved. It runs here rather than in the
+// page so the page does not load openchemlib (molar masses from SMILES).
+export default defineEventHandler(async (event): Promise<QuantitiesView> => {
+  requireUser(event)
+  const { id } = readParamsAs(event, practicalParamsSchema)
+  await requirePracticalAccess(event, id, 'manage')
+  const input = await readBodyAs(event, itemsInputSchema)
+  return asBadRequest(() => computeQuantities(checkedItems(input.items)))
+})

@@ -1,0 +1,12 @@
+import { z } from 'zod'
+import type { SectionView } from '#shared/types/section'
+
+const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
+
+export default defineEventHandler(async (event): Promise<SectionView & { course: { id: number, code: string, title: string, term: string, timezone: string }, role: string }> => {
+  requireUser(event)
+  const { id } = readParamsAs(event, paramsSchema)
+  const { course, role } = await requireSectionAccess(event, id, 'view')
+  const [view] = await sectionViews({ ids: [id] })
+  return { ...view!, course: { id: course.id, code: course.code, title: course.title, term: course.term, timezone: course.timezone }, role }
+})

@@ -1,0 +1,12 @@
+import { libraryIdParamsSchema } from '#shared/types/library'
+
+// Windows and standard-run rows go with the substrate; the uploaded files themselves are kept.
+export default defineEventHandler(async (event) => {
+  requireRole(event, 'instructor')
+  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { row } = await requireLibraryEntry(event, 'substrates', id, 'edit')
+  const windows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', id).execute()
+  await deleteLibraryEntry(event, 'substrates', id, { ...row, windows })
+  setResponseStatus(event, 204)
+  return null
+})

@@ -1,0 +1,25 @@
+import { libraryIdParamsSchema, type SubstrateDetail } from '#shared/types/library'
+
+// A shared (or co-owner's) entry becomes the caller's own, windows and standard runs included.
+export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
+  const me = requireRole(event, 'instructor')
+  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { row: original } = await requireLibraryEntry(event, 'substrates', id, 'read')
+  const row = await useDb().transaction().execute(async (trx) => {
+    const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = original
+    const copy = await trx.insertInto('substrates').values({ ...fields, name: copyName(original.name), ownerId: me.id })
+      .returningAll().executeTakeFirstOrThrow()
+    const windows = await trx.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'label', 'rtMin', 'rtMax', 'responseFactor'])
+      .where('substrateId', '=', id).execute()
+    if (windows.length) await trx.insertInto('substrateWindows').values(windows.map((w) => ({ ...w, substrateId: copy.id }))).execute()
+    const runs = await trx.selectFrom('standardRuns').select(['fileId', 'peaks', 'createdBy', 'createdAt']).where('substrateId', '=', id).execute()
+    if (runs.length) {
+      await trx.insertInto('standardRuns')
+        .values(runs.map((r) => ({ ...r, peaks: JSON.stringify(r.peaks), substrateId: copy.id }))).execute()
+    }
+    await audit(trx, event, { action: 'substrate.copy', entity: 'substrate', entityId: copy.id, after: { copiedFrom: id, name: copy.name, windows: windows.length, standardRuns: runs.length } })
+    return copy
+  })
+  setResponseStatus(event, 201)
+  return substrateDetail(row, me)
+})

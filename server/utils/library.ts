@@ -1,0 +1,308 @@
+import type { H3Event } from 'h3'
+import type { Expression, ExpressionBuilder, SqlBool } from 'kysely'
+import type { Database, Method, Substrate, SubstrateWindow, WindowKind } from '../database/schema'
+import type { SessionUser } from '#shared/types/auth'
+import type {
+  LibraryProduct, MethodView, StandardPeak, SubstrateDetail, SubstrateListItem, SubstrateWindowView, WindowInput,
+} from '#shared/types/library'
+import { REAGENT_HALOGEN } from '#shared/types/library'
+import { analyzeSubstrate, canonicalSmiles } from '#shared/utils/halogenation'
+import { depictSubstrate, positionLetter } from '#shared/utils/depiction'
+import { describeOverlap, findWindowOverlaps, windowDisplayName, type NamedTimeWindow } from '#shared/utils/windows'
+
+// The substrate library and the halogenation methods. Who sees what:
+//   shared entries (owner null)  every staff member reads them; nobody edits them (copy instead)
+//   an instructor's own entries  they read, edit and delete them
+//   entries used by a practical  readable by whoever may see that practical's course (a co-owner,
+//                                the course's TAs, the coordinator for the stockroom)
+// Students never list the library: their practical's page carries its substrate and windows.
+
+export type LibraryTable = 'substrates' | 'methods'
+type LibraryRow<T extends LibraryTable> = T extends 'substrates' ? Substrate : Method
+export type LibraryMode = 'read' | 'edit'
+
+const USED_BY_COLUMN = { substrates: 'substrateId', methods: 'methodId' } as const
+const NOUN = { substrates: 'Substrate', methods: 'Method' } as const
+
+export function requireLibraryReader(event: H3Event) {
+  return requireRole(event, 'instructor', 'ta', 'coordinator')
+}
+
+/** The scope of a library query, for its where clause: shared, mine, or used in a course I see. */
+export function libraryScope<T extends LibraryTable>(me: SessionUser, courseIds: number[], table: T): (eb: ExpressionBuilder<Database, T>) => Expression<SqlBool> {
+  // Both tables have id and owner_id; the builder is typed for one of them to name those columns.
+  return (builder) => {
+    const eb = builder as unknown as ExpressionBuilder<Database, 'substrates'>
+    return eb.or([
+    eb('ownerId', 'is', null),
+    eb('ownerId', '=', me.id),
+    ...(courseIds.length
+      ? [eb('id', 'in', eb.selectFrom('practicals').select(`practicals.${USED_BY_COLUMN[table]}` as 'practicals.substrateId').where('practicals.courseId', 'in', courseIds))]
+      : []),
+    ])
+  }
+}
+
+/**
+ * Loads one library entry the caller may see (404 otherwise). 'edit' also needs the caller to
+ * be the instructor who created it: shared entries are read-only for everyone (403).
+ */
+export async function requireLibraryEntry<T extends LibraryTable>(event: H3Event, table: T, id: number, mode: LibraryMode): Promise<{ me: SessionUser, row: LibraryRow<T> }> {
+  const me = requireLibraryReader(event)
+  if (mode === 'edit' && me.role !== 'instructor') throw createError({ statusCode: 403, statusMessage: 'Only instructors can change the library' })
+  const courseIds = await visibleCourseIds(me)
+  // Both tables share id and owner_id; the cast only picks one for the query builder's types.
+  const row = await useDb().selectFrom(table as 'substrates').selectAll()
+    .where('id', '=', id).where(libraryScope(me, courseIds, table as 'substrates')).executeTakeFirst()
+  if (!row) throw createError({ statusCode: 404, statusMessage: `${NOUN[table]} not found` })
+  if (mode === 'edit' && row.ownerId === null) {
+    throw createError({ statusCode: 403, statusMessage: 'Shared library entries are read-only; make a copy to change it' })
+  }
+  if (mode === 'edit' && row.ownerId !== me.id) {
+    throw createError({ statusCode: 403, statusMessage: 'Only the instructor who created this entry can change it' })
+  }
+  return { me, row: row as unknown as LibraryRow<T> }
+}
+
+/** Practicals using each entry, by id. */
+export async function libraryUsage(table: LibraryTable, ids: number[]): Promise<Map<number, number>> {
+  if (!ids.length) return new Map()
+  const column = `practicals.${USED_BY_COLUMN[table]}` as 'practicals.substrateId'
+  const rows = await useDb().selectFrom('practicals').select((eb) => [eb.ref(column).as('entryId'), eb.fn.countAll<number>().as('n')])
+    .where(column, 'in', ids).groupBy(column).execute()
+  return new Map(rows.map((r) => [r.entryId, r.n]))
+}
+
+/** 409 while a practical uses the entry: its students' results depend on it. */
+export async function refuseWhileInUse(table: LibraryTable, id: number, doing: string) {
+  const used = (await libraryUsage(table, [id])).get(id) ?? 0
+  if (used > 0) {
+    throw createError({ statusCode: 409, statusMessage: `${NOUN[table]} is used by ${used} practical${used === 1 ? '' : 's'}; it cannot be ${doing}` })
+  }
+}
+
+/** "2,3-dimethylbutane (copy)", kept within the name's length limit. */
+export function copyName(name: string): string {
+  const suffix = ' (copy)'
+  return `${name.slice(0, 120 - suffix.length)}${suffix}`
+}
+
+// ── Substrates ──────────────────────────────────────────────────────────────────────────────
+
+/** Chlorination products, lettered as the depiction letters them, each with its bromo twin. */
+export function libraryProducts(smiles: string): LibraryProduct[] {
+  const cl = analyzeSubstrate(smiles, { halogen: 'Cl' })
+  const br = analyzeSubstrate(smiles, { halogen: 'Br' })
+  return cl.products.map((p, i) => ({
+    label: positionLetter(i),
+    smiles: p.smiles,
+    brominated: (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles,
+    hydrogens: p.hydrogens,
+    carbonClass: p.carbonClass,
+  }))
+}
+
+interface ProductRef { position: string, halogen: 'Cl' | 'Br', smiles: string }
+
+function productIndex(products: LibraryProduct[]): Map<string, ProductRef> {
+  const index = new Map<string, ProductRef>()
+  for (const p of products) {
+    index.set(p.smiles, { position: p.label, halogen: 'Cl', smiles: p.smiles })
+    index.set(p.brominated, { position: p.label, halogen: 'Br', smiles: p.brominated })
+  }
+  return index
+}
+
+export function windowView(w: SubstrateWindow, products: LibraryProduct[]): SubstrateWindowView {
+  const ref = w.productSmiles ? productIndex(products).get(w.productSmiles) : undefined
+  return {
+    id: w.id,
+    kind: w.kind,
+    productSmiles: w.productSmiles,
+    position: ref?.position ?? null,
+    halogen: ref?.halogen ?? null,
+    label: w.label,
+    rtMin: w.rtMin,
+    rtMax: w.rtMax,
+    responseFactor: w.responseFactor,
+  }
+}
+
+export interface WindowRowValues {
+  kind: WindowKind
+  productSmiles: string | null
+  label: string
+  rtMin: number
+  rtMax: number
+  responseFactor: number
+}
+
+/**
+ * Matches each product window to the substrate's products (any SMILES spelling), then refuses
+ * duplicates and overlapping windows, naming the rows. Returns the rows to store.
+ */
+export function resolveWindows(windows: Array<WindowInput & { responseFactor: number }>, products: LibraryProduct[], substrateName: string): WindowRowValues[] {
+  const index = productIndex(products)
+  const seen = new Map<string, number>()
+  const rows = windows.map((w, i): WindowRowValues & NamedTimeWindow => {
+    const field = `windows.${i}.productSmiles`
+    let ref: ProductRef | undefined
+    if (w.kind === 'product') {
+      let canonical: string
+      try {
+        canonical = canonicalSmiles(w.productSmiles!)
+      } catch {
+        invalid([{ field, message: `“${w.productSmiles}” is not a readable SMILES` }])
+      }
+      ref = index.get(canonical)
+      if (!ref) invalid([{ field, message: `“${w.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
+      if (seen.has(ref.smiles)) invalid([{ field, message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])
+      seen.set(ref.smiles, i)
+    }
+    const label = w.kind === 'product' ? ref!.position : (w.label?.trim() || (w.kind === 'solvent' ? 'solvent' : 'starting material'))
+    return {
+      kind: w.kind,
+      productSmiles: ref?.smiles ?? null,
+      label,
+      rtMin: w.rtMin,
+      rtMax: w.rtMax,
+      responseFactor: w.responseFactor,
+      name: windowDisplayName({ kind: w.kind, position: ref?.position, halogen: ref?.halogen, productSmiles: ref?.smiles, label }),
+      group: ref?.halogen ?? null,
+    }
+  })
+  const [overlap] = findWindowOverlaps(rows)
+  if (overlap) {
+    const message = describeOverlap(overlap)
+    invalid(overlap.map((w) => ({ field: `windows.${rows.indexOf(w)}`, message })))
+  }
+  return rows.map(({ name: _name, group: _group, ...values }) => values)
+}
+
+export function toSubstrateListItem(row: Substrate, me: SessionUser, counts: { windowCount: number, usedBy: number }): SubstrateListItem {
+  return {
+    id: row.id,
+    name: row.name,
+    smiles: row.smiles,
+    formula: row.formula,
+    molarMass: row.molarMass,
+    density: row.density,
+    boilingPointC: row.boilingPointC,
+    shared: row.ownerId === null,
+    mine: row.ownerId === me.id,
+    ...counts,
+  }
+}
+
+export async function substrateDetail(row: Substrate, me: SessionUser): Promise<SubstrateDetail> {
+  const db = useDb()
+  const [windows, runs, usage] = await Promise.all([
+    db.selectFrom('substrateWindows').selectAll().where('substrateId', '=', row.id).orderBy('rtMin').orderBy('id').execute(),
+    db.selectFrom('standardRuns')
+      .innerJoin('files', 'files.id', 'standardRuns.fileId')
+      .leftJoin('users', 'users.id', 'standardRuns.createdBy')
+      .select(['standardRuns.id', 'standardRuns.peaks', 'standardRuns.createdAt', 'files.originalName', 'files.sha256', 'files.byteSize', 'users.name as uploadedBy'])
+      .where('standardRuns.substrateId', '=', row.id).orderBy('standardRuns.createdAt', 'desc').orderBy('standardRuns.id', 'desc').execute(),
+    libraryUsage('substrates', [row.id]),
+  ])
+  const products = libraryProducts(row.smiles)
+  return {
+    ...toSubstrateListItem(row, me, { windowCount: windows.length, usedBy: usage.get(row.id) ?? 0 }),
+    notes: row.notes,
+    source: row.source,
+    products,
+    windows: windows.map((w) => windowView(w, products)),
+    depictionSvg: depictSubstrate(row.smiles, { idPrefix: `substrate-${row.id}` }),
+    standardRuns: runs.map((r) => ({
+      id: r.id,
+      fileName: r.originalName,
+      sha256: r.sha256,
+      byteSize: r.byteSize,
+      uploadedBy: r.uploadedBy,
+      createdAt: r.createdAt.toISOString(),
+      peaks: r.peaks as StandardPeak[],
+    })),
+    createdAt: row.createdAt.toISOString(),
+    updatedAt: row.updatedAt.toISOString(),
+  }
+}
+
+/** Canonical SMILES, formula and molar mass of a substrate, always computed here. */
+export function substrateIdentity(smiles: string) {
+  const analysis = asBadRequest(() => analyzeSubstrate(smiles))
+  return { smiles: analysis.canonicalSmiles, formula: analysis.formula, molarMass: analysis.molarMass }
+}
+
+// ── Methods ─────────────────────────────────────────────────────────────────────────────────
+
+export function toMethodView(row: Method, me: SessionUser, usedBy: number): MethodView {
+  return {
+    id: row.id,
+    name: row.name,
+    reagent: row.reagent,
+    halogen: row.halogen,
+    temperatureC: row.temperatureC,
+    reactivity: { primary: row.rPrimary, secondary: row.rSecondary, tertiary: row.rTertiary },
+    source: row.source,
+    notes: row.notes,
+    shared: row.ownerId === null,
+    mine: row.ownerId === me.id,
+    usedBy,
+    createdAt: row.createdAt.toISOString(),
+    updatedAt: row.updatedAt.toISOString(),
+  }
+}
+
+/**
+ * Deletes an entry in one transaction with its audit row. A practical created after the usage
+ * check still wins: its foreign key refuses the delete, which is reported as the same 409.
+ */
+export async function deleteLibraryEntry(event: H3Event, table: LibraryTable, id: number, before: unknown) {
+  await refuseWhileInUse(table, id, 'deleted')
+  try {
+    await useDb().transaction().execute(async (trx) => {
+      await trx.deleteFrom(table as 'substrates').where('id', '=', id).execute()
+      await audit(trx, event, { action: `${table === 'substrates' ? 'substrate' : 'method'}.delete`, entity: table === 'substrates' ? 'substrate' : 'method', entityId: id, before })
+    })
+  } catch (error) {
+    if ((error as { code?: string }).code === '23503') await refuseWhileInUse(table, id, 'deleted')
+    throw error
+  }
+}
+
+interface MethodFields {
+  name?: string
+  halogen?: 'Cl' | 'Br'
+  reagent?: Method['reagent']
+  temperatureC?: number
+  reactivity?: { primary: number, secondary: number, tertiary: number }
+  source?: string
+  notes?: string
+}
+
+/** Form fields to columns (for a PATCH, only those given); the halogen follows from the reagent. */
+export function methodColumns(input: MethodFields) {
+  // A halogen sent with the form was checked against the reagent; the column follows the reagent.
+  const { reactivity, reagent, halogen: _halogen, ...rest } = input
+  return {
+    ...rest,
+    ...(reagent ? { reagent, halogen: REAGENT_HALOGEN[reagent] } : {}),
+    ...(reactivity ? { rPrimary: reactivity.primary, rSecondary: reactivity.secondary, rTertiary: reactivity.tertiary } : {}),
+  }
+}
+
+/** A complete method row from a validated form. */
+export function newMethodRow(input: Required<Omit<MethodFields, 'halogen'>>, ownerId: number | null) {
+  return {
+    name: input.name,
+    reagent: input.reagent,
+    halogen: REAGENT_HALOGEN[input.reagent],
+    temperatureC: input.temperatureC,
+    rPrimary: input.reactivity.primary,
+    rSecondary: input.reactivity.secondary,
+    rTertiary: input.reactivity.tertiary,
+    source: input.source,
+    notes: input.notes,
+    ownerId,
+  }
+}

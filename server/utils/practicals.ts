@@ -1,0 +1,194 @@
+import type { Transaction } from 'kysely'
+import type { Database, Method, Substrate } from '../database/schema'
+import type { PracticalScope } from './access'
+import type { SessionUser } from '#shared/types/auth'
+import { PLANNING_NOTE, type ItemInput, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView, type SessionView, type WindowView } from '#shared/types/practical'
+import { ChemistryInputError, analyzeSubstrate, canonicalSmiles, molarMassOf } from '#shared/utils/halogenation'
+import { depictSubstrate } from '#shared/utils/depiction'
+import { computeQuantities, defaultItems, expectedProducts, hazardsForReagent, type ItemSpec } from '#shared/utils/procedure'
+
+// Reading and writing practicals for the routes under server/api/practicals. Every reader takes
+// the caller's scope (from requirePracticalAccess / requireCourseAccess) and puts it in the SQL.
+
+export function methodSummary(m: Pick<Method, 'id' | 'name' | 'reagent' | 'halogen' | 'temperatureC' | 'source'>): MethodSummary {
+  return { id: m.id, name: m.name, reagent: m.reagent, halogen: m.halogen, temperatureC: m.temperatureC, source: m.source }
+}
+
+/** Sessions of some practicals, limited to the sections the caller may see (null: all). */
+export async function practicalSessionViews(practicalIds: number[], sectionIds: number[] | null): Promise<Map<number, SessionView[]>> {
+  const result = new Map<number, SessionView[]>()
+  if (!practicalIds.length || (sectionIds && !sectionIds.length)) return result
+  let query = useDb().selectFrom('practicalSessions').selectAll().where('practicalId', 'in', practicalIds)
+  if (sectionIds) query = query.where('sectionId', 'in', sectionIds)
+  const sessions = await query.orderBy('meetingDate').orderBy('id').execute()
+  if (!sessions.length) return result
+  const sections = new Map((await sectionRows().where('sections.id', 'in', [...new Set(sessions.map((s) => s.sectionId))]).execute())
+    .map((row) => [row.id, { row, meetings: meetingsOf(row) }]))
+  for (const s of sessions) {
+    const section = sections.get(s.sectionId)!
+    const meeting = section.meetings.find((m) => m.date === s.meetingDate)
+    const list = result.get(s.practicalId) ?? []
+    list.push({
+      sectionId: s.sectionId,
+      sectionCode: section.row.code,
+      meetingDate: s.meetingDate,
+      start: meeting?.start ?? null,
+      end: meeting?.end ?? null,
+      room: section.row.room,
+      dueAt: s.dueAt.toISOString(),
+    })
+    result.set(s.practicalId, list)
+  }
+  return result
+}
+
+export async function practicalItemViews(practicalId: number): Promise<ItemView[]> {
+  const rows = await useDb().selectFrom('practicalItems').selectAll().where('practicalId', '=', practicalId).orderBy('position').execute()
+  return rows.map((r) => ({ id: r.id, position: r.position, role: r.role, name: r.name, smiles: r.smiles, molarMass: r.molarMass, density: r.density, basis: r.basis, amount: r.amount }))
+}
+
+/**
+ * A substrate can carry windows for both its chloro and bromo products; a practical reads only
+ * those of its method's halogen.
+ */
+export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[], referenceWindows: ReferenceWindowView[] }> {
+  const rows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).orderBy('rtMin').execute()
+  const products = new Set(analyzeSubstrate(substrate.smiles, { halogen }).products.map((p) => p.smiles))
+  return {
+    windows: rows.filter((w) => w.kind === 'product' && w.productSmiles && products.has(w.productSmiles))
+      .map((w) => ({ productSmiles: w.productSmiles!, rtMin: w.rtMin, rtMax: w.rtMax, responseFactor: w.responseFactor })),
+    referenceWindows: rows.filter((w) => w.kind !== 'product')
+      .map((w) => ({ kind: w.kind as ReferenceWindowView['kind'], label: w.label, rtMin: w.rtMin, rtMax: w.rtMax })),
+  }
+}
+
+/** A student's due date is their own section's; anyone else sees the latest of those visible. */
+export function dueAtFor(scope: Pick<PracticalScope, 'role'>, sessions: SessionView[]): string | null {
+  if (!sessions.length) return null
+  if (scope.role === 'student') return sessions[0]!.dueAt
+  return sessions.map((s) => s.dueAt).sort().at(-1)!
+}
+
+export async function practicalDetail(scope: PracticalScope): Promise<PracticalDetail> {
+  const db = useDb()
+  const { practical, course } = scope
+  const substrate = await db.selectFrom('substrates').selectAll().where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
+  const method = await db.selectFrom('methods').selectAll().where('id', '=', practical.methodId).executeTakeFirstOrThrow()
+  const sessions = (await practicalSessionViews([practical.id], scope.sectionIds)).get(practical.id) ?? []
+  const { windows, referenceWindows } = await practicalWindows(substrate, method.halogen)
+  return {
+    id: practical.id,
+    title: practical.title,
+    substrate: { name: substrate.name, smiles: substrate.smiles, id: substrate.id, molarMass: substrate.molarMass, density: substrate.density },
+    method: method.name,
+    windows,
+    dueAt: dueAtFor(scope, sessions),
+    courseId: course.id,
+    courseCode: course.code,
+    timezone: course.timezone,
+    workUnit: practical.workUnit,
+    notes: practical.notes,
+    methodDetail: methodSummary(method),
+    referenceWindows,
+    sessions,
+    items: await practicalItemViews(practical.id),
+    role: scope.role,
+    canManage: scope.role === 'owner',
+  }
+}
+
+/** The shared library (no owner) and the instructor's own entries are theirs to use. */
+async function libraryEntry<T extends 'substrates' | 'methods'>(table: T, id: number, me: SessionUser) {
+  const row = await useDb().selectFrom(table as 'substrates').selectAll()
+    .where('id', '=', id)
+    .where((eb) => eb.or([eb('ownerId', 'is', null), eb('ownerId', '=', me.id)]))
+    .executeTakeFirst()
+  return row as (T extends 'substrates' ? Substrate : Method) | undefined
+}
+
+export async function requireLibraryChoice(me: SessionUser, choice: { substrateId?: number, methodId?: number }) {
+  const substrate = choice.substrateId === undefined ? undefined : await libraryEntry('substrates', choice.substrateId, me)
+  if (choice.substrateId !== undefined && !substrate) invalid([{ field: 'substrateId', message: 'Pick a substrate from your library' }])
+  const method = choice.methodId === undefined ? undefined : await libraryEntry('methods', choice.methodId, me)
+  if (choice.methodId !== undefined && !method) invalid([{ field: 'methodId', message: 'Pick a method from your library' }])
+  return { substrate, method }
+}
+
+export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reagent'>): ItemSpec[] {
+  return defaultItems({ name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density }, method.reagent)
+}
+
+/**
+ * Items as they will be stored: a SMILES must parse (it is stored as typed), and a missing
+ * molar mass comes from it (IUPAC standard atomic weights via openchemlib).
+ */
+export function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null, density: number | null }>): ItemSpec[] {
+  return items.map((item, i) => {
+    let molarMass = item.molarMass
+    if (item.smiles) {
+      try {
+        canonicalSmiles(item.smiles)
+        molarMass ??= Number(molarMassOf(item.smiles).molarMass.toFixed(3))
+      } catch (error) {
+        if (!(error instanceof ChemistryInputError)) throw error
+        invalid([{ field: `items.${i}.smiles`, message: 'Not a readable SMILES' }])
+      }
+    }
+    return { role: item.role, name: item.name, smiles: item.smiles, molarMass, density: item.density, basis: item.basis, amount: item.amount }
+  })
+}
+
+export async function replacePracticalItems(trx: Transaction<Database>, practicalId: number, items: ItemSpec[]) {
+  await trx.deleteFrom('practicalItems').where('practicalId', '=', practicalId).execute()
+  if (!items.length) return
+  await trx.insertInto('practicalItems').values(items.map((item, position) => ({ practicalId, position, ...item }))).execute()
+}
+
+export async function touchPractical(trx: Transaction<Database>, practicalId: number) {
+  await trx.updateTable('practicals').set({ updatedAt: new Date() }).where('id', '=', practicalId).execute()
+}
+
+/**
+ * The procedure card: for a student their own meeting, station and partner; for staff every
+ * session they can see. Quantities are per work unit either way.
+ */
+export async function procedureCard(scope: PracticalScope): Promise<ProcedureCardView> {
+  const db = useDb()
+  const { practical, course, me } = scope
+  const substrate = await db.selectFrom('substrates').selectAll().where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
+  const method = await db.selectFrom('methods').selectAll().where('id', '=', practical.methodId).executeTakeFirstOrThrow()
+  let sessions = (await practicalSessionViews([practical.id], scope.sectionIds)).get(practical.id) ?? []
+  const windowRows = await db.selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).execute()
+  const { referenceWindows } = await practicalWindows(substrate, method.halogen)
+  const items = (await practicalItemViews(practical.id)).map(({ id: _id, position: _p, ...item }) => item)
+
+  let student: ProcedureCardView['student'] = null
+  if (scope.role === 'student') {
+    const enrollment = await db.selectFrom('enrollments').innerJoin('sections', 'sections.id', 'enrollments.sectionId')
+      .select(['enrollments.sectionId', 'enrollments.station', 'enrollments.seat', 'sections.code'])
+      .where('enrollments.userId', '=', me.id).where('enrollments.courseId', '=', course.id).where('enrollments.status', '=', 'active')
+      .where('enrollments.sectionId', 'in', scope.sessionSectionIds).executeTakeFirstOrThrow()
+    const partners = enrollment.station === null ? [] : await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
+      .select('users.name').where('enrollments.sectionId', '=', enrollment.sectionId).where('enrollments.station', '=', enrollment.station)
+      .where('enrollments.status', '=', 'active').where('enrollments.userId', '<>', me.id).orderBy('enrollments.seat').execute()
+    sessions = sessions.filter((s) => s.sectionId === enrollment.sectionId)
+    student = { name: me.name, sectionCode: enrollment.code, station: enrollment.station, seat: enrollment.seat, partners: partners.map((p) => p.name) }
+  }
+
+  return {
+    practical: { id: practical.id, title: practical.title, workUnit: practical.workUnit, notes: practical.notes },
+    course: { id: course.id, code: course.code, title: course.title, timezone: course.timezone },
+    audience: student ? 'student' : 'staff',
+    student,
+    sessions,
+    substrate: { name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density },
+    method: methodSummary(method),
+    quantities: computeQuantities(items),
+    products: expectedProducts(substrate.smiles, method, windowRows),
+    referenceWindows,
+    dueAt: dueAtFor(scope, sessions),
+    hazards: hazardsForReagent(method.reagent),
+    planningNote: PLANNING_NOTE,
+    depictionSvg: depictSubstrate(substrate.smiles, { idPrefix: `card-${practical.id}` }),
+  }
+}

@@ -1,0 +1,162 @@
+import type { H3Event } from 'h3'
+import type { Kysely, Transaction } from 'kysely'
+import type { Database } from '../database/schema'
+import type { MultipartUpload } from './files'
+import {
+  checkRosterRows, mapRosterRecords, parseRosterCsv, rosterCapacityConflicts, rosterMappingProblems,
+  RosterFileError, suggestRosterMapping, summarizeRosterRows, type CheckedRosterRow, type RosterAccount,
+} from '#shared/utils/roster-csv'
+import { rosterMappingSchema, type RosterConflictView, type RosterMapping, type RosterSummary } from '#shared/types/roster'
+
+// Roster import: the file is read and every row checked against the course as it is now (the
+// import does it again inside its transaction, so a stale preview never decides anything).
+
+type Db = Kysely<Database> | Transaction<Database>
+
+export interface RosterPlan {
+  fileName: string
+  columns: string[]
+  mapping: RosterMapping
+  mappingIssues: Array<{ field: string, message: string }>
+  rows: CheckedRosterRow[]
+  summary: RosterSummary
+  conflicts: RosterConflictView[]
+}
+
+/** The course's sections with their active head-count, for checks and capacity. */
+export async function rosterSections(db: Db, courseId: number) {
+  return db.selectFrom('sections')
+    .select((eb) => ['sections.id', 'sections.code', 'sections.hoodStations', 'sections.studentsPerStation',
+      eb.selectFrom('enrollments').select((e) => e.fn.countAll<number>().as('n'))
+        .whereRef('enrollments.sectionId', '=', 'sections.id').where('enrollments.status', '=', 'active').as('enrolled')])
+    .where('sections.courseId', '=', courseId).orderBy('sections.code').execute()
+    .then((rows) => rows.map((r) => ({ ...r, enrolled: Number(r.enrolled ?? 0) })))
+}
+
+async function rosterAccounts(db: Db, courseId: number, emails: string[]): Promise<Map<string, RosterAccount>> {
+  const accounts = new Map<string, RosterAccount>()
+  if (!emails.length) return accounts
+  const rows = await db.selectFrom('users')
+    .leftJoin('enrollments', (j) => j.onRef('enrollments.userId', '=', 'users.id')
+      .on('enrollments.courseId', '=', courseId).on('enrollments.status', '=', 'active'))
+    .select(['users.id', 'users.email', 'users.role', 'enrollments.sectionId'])
+    .where('users.email', 'in', emails).execute()
+  for (const r of rows) accounts.set(r.email, { userId: r.id, role: r.role, activeSectionId: r.sectionId ?? null })
+  return accounts
+}
+
+function mappingOverride(raw: string | undefined): Partial<RosterMapping> {
+  if (!raw) return {}
+  let parsed: unknown
+  try {
+    parsed = JSON.parse(raw)
+  } catch {
+    throw createError({ statusCode: 400, statusMessage: 'mapping: send the column mapping as JSON' })
+  }
+  const result = rosterMappingSchema.safeParse(parsed)
+  if (!result.success) invalid(result.error.issues.map((i) => ({ field: `mapping.${i.path.join('.')}`, message: i.message })))
+  return Object.fromEntries(Object.entries(result.data).filter(([, v]) => v !== undefined))
+}
+
+/** Reads, maps and checks an uploaded roster file against the course. Writes nothing. */
+export async function planRosterImport(db: Db, courseId: number, upload: MultipartUpload): Promise<RosterPlan> {
+  const text = uploadAsText(upload.file)
+  let parsed: ReturnType<typeof parseRosterCsv>
+  try {
+    parsed = parseRosterCsv(text)
+  } catch (error) {
+    if (error instanceof RosterFileError) throw createError({ statusCode: 422, statusMessage: `file: ${error.message}` })
+    throw error
+  }
+  const mapping = { ...suggestRosterMapping(parsed.columns), ...mappingOverride(upload.fields.mapping) }
+  const mappingIssues = rosterMappingProblems(mapping, parsed.columns).map((p) => ({ field: `mapping.${p.field}`, message: p.message }))
+  const base = { fileName: upload.file.name, columns: parsed.columns, mapping, mappingIssues }
+  if (mappingIssues.length) return { ...base, rows: [], summary: summarizeRosterRows([]), conflicts: [] }
+
+  const mapped = mapRosterRecords(parsed, mapping)
+  const sections = await rosterSections(db, courseId)
+  const accounts = await rosterAccounts(db, courseId, [...new Set(mapped.map((r) => r.email).filter(Boolean))])
+  const rows = checkRosterRows(mapped, { sections, accounts })
+  return { ...base, rows, summary: summarizeRosterRows(rows), conflicts: rosterCapacityConflicts(sections, rows) }
+}
+
+/** The preview's rows without the internal ids. */
+export function rosterPreviewRows(rows: CheckedRosterRow[]) {
+  return rows.map(({ sectionId: _s, userId: _u, ...row }) => row)
+}
+
+export interface RosterWriteContext {
+  event: H3Event
+  course: { id: number, code: string, title: string }
+  me: { id: number, name: string }
+}
+
+/** Creates accounts, enrolments, moves and invitations for the rows of a clean plan. */
+export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWriteContext, rows: CheckedRosterRow[]) {
+  const fresh = rows.filter((r) => r.outcome === 'new')
+  const created = fresh.length
+    ? await trx.insertInto('users').values(fresh.map((r) => ({ email: r.email, name: r.name, role: 'student' as const, passwordHash: null })))
+      .returning(['id', 'email']).execute()
+    : []
+  const idOf = new Map(created.map((u) => [u.email, u.id]))
+  const enrolling = rows.filter((r) => r.outcome === 'new' || r.outcome === 'enrol')
+  if (enrolling.length) {
+    await trx.insertInto('enrollments').values(enrolling.map((r) => ({
+      courseId: ctx.course.id, sectionId: r.sectionId!, userId: r.userId ?? idOf.get(r.email)!,
+    }))).execute()
+  }
+  const moves = rows.filter((x) => x.outcome === 'move')
+  for (const r of moves) {
+    await trx.updateTable('enrollments').set({ sectionId: r.sectionId!, station: null, seat: null })
+      .where('courseId', '=', ctx.course.id).where('userId', '=', r.userId!).where('status', '=', 'active').execute()
+  }
+  const toInvite = [
+    ...fresh.map((r) => ({ userId: idOf.get(r.email)!, email: r.email, name: r.name })),
+    ...await uninvitedAccounts(trx, rows.filter((r) => r.outcome === 'enrol').map((r) => r.userId!)),
+  ]
+  for (const person of toInvite) await inviteToCourse(trx, ctx, person)
+  return {
+    invited: toInvite.length,
+    moved: moves.map((r) => ({ userId: r.userId!, from: r.fromSectionCode ?? null, to: r.sectionCode })),
+  }
+}
+
+/** Existing accounts that never set a password and hold no open invitation. */
+async function uninvitedAccounts(db: Db, userIds: number[]) {
+  if (!userIds.length) return []
+  return db.selectFrom('users').select(['id as userId', 'email', 'name'])
+    .where('id', 'in', userIds).where('passwordHash', 'is', null)
+    .where((eb) => eb.not(eb.exists(eb.selectFrom('invitations').select('invitations.id')
+      .whereRef('invitations.userId', '=', 'users.id').where('invitations.usedAt', 'is', null).where('invitations.expiresAt', '>', new Date()))))
+    .execute()
+}
+
+export async function inviteToCourse(trx: Db, ctx: RosterWriteContext, person: { userId: number, email: string, name: string }) {
+  const invitation = await issueInvitation(trx, person.userId, ctx.me.id)
+  await queueInvitationMail(trx, {
+    invitation,
+    to: { email: person.email, name: person.name },
+    courseLabel: `${ctx.course.code} ${ctx.course.title}`,
+    courseId: ctx.course.id,
+    invitedBy: ctx.me.name,
+    createdBy: ctx.me.id,
+  })
+  return invitation
+}
+
+/** A unique index tripped by a concurrent change: ask the person to look again, not a 500. */
+export async function withRosterRace<T>(work: () => Promise<T>, message: string): Promise<T> {
+  try {
+    return await work()
+  } catch (error) {
+    if ((error as { code?: string }).code === '23505') throw createError({ statusCode: 409, statusMessage: message })
+    throw error
+  }
+}
+
+/** 409 with the capacity conflicts unless the caller confirmed them. */
+export function refuseOverCapacity(conflicts: RosterConflictView[], confirmed: boolean) {
+  if (conflicts.length && !confirmed) {
+    throw createError({ statusCode: 409, statusMessage: conflicts[0]!.message, data: { conflicts } })
+  }
+}

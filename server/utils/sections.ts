@@ -1,0 +1,101 @@
+import { sql } from 'kysely'
+import { findConflicts, sectionMeetings, type Conflict, type ScheduledSection } from '#shared/utils/schedule'
+import type { SectionView } from '#shared/types/section'
+import type { Section } from '../database/schema'
+
+interface SectionRow extends Section {
+  courseCode: string
+  timezone: string
+  taIds: number[]
+  enrolled: number
+}
+
+/** Sections with their course's code and zone, TA ids and active enrolment, in one query. */
+export function sectionRows() {
+  return useDb()
+    .selectFrom('sections')
+    .innerJoin('courses', 'courses.id', 'sections.courseId')
+    .selectAll('sections')
+    .select([
+      'courses.code as courseCode',
+      'courses.timezone',
+      sql<number[]>`coalesce((select array_agg(st.user_id order by st.user_id) from section_tas st where st.section_id = sections.id), '{}')`.as('taIds'),
+      sql<number>`(select count(*)::int from enrollments e where e.section_id = sections.id and e.status = 'active')`.as('enrolled'),
+    ])
+    .orderBy('sections.weekday')
+    .orderBy('sections.startTime')
+    .orderBy('sections.code')
+}
+
+export function meetingsOf(row: Pick<SectionRow, 'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates' | 'timezone'>) {
+  return sectionMeetings({
+    weekday: row.weekday,
+    startTime: row.startTime,
+    endTime: row.endTime,
+    firstDate: row.firstDate,
+    lastDate: row.lastDate,
+    skippedDates: row.skippedDates,
+    timezone: row.timezone,
+  })
+}
+
+function scheduled(row: SectionRow): ScheduledSection {
+  return {
+    sectionId: row.id,
+    label: `${row.courseCode} ${row.code}`,
+    room: row.room,
+    taIds: row.taIds,
+    meetings: meetingsOf(row),
+    enrolled: row.enrolled,
+    hoodStations: row.hoodStations,
+    studentsPerStation: row.studentsPerStation,
+  }
+}
+
+async function taNames(ids: number[]) {
+  if (!ids.length) return {}
+  const rows = await useDb().selectFrom('users').select(['id', 'name']).where('id', 'in', ids).execute()
+  return Object.fromEntries(rows.map((r) => [r.id, r.name]))
+}
+
+/**
+ * Conflicts across every course on campus (a TA or a room is shared beyond one course),
+ * keeping those that involve the given sections. `candidate` replaces a stored section, or
+ * is a new one (id 0), so a save can be checked before it is written.
+ */
+export async function conflictsFor(sectionIds: number[], candidate?: SectionRow): Promise<Conflict[]> {
+  const rows = (await sectionRows().execute()) as SectionRow[]
+  const all = rows.filter((r) => r.id !== candidate?.id)
+  if (candidate) all.push(candidate)
+  const entries = all.map(scheduled)
+  const focus = new Set(candidate ? [...sectionIds, candidate.id] : sectionIds)
+  const names = await taNames([...new Set(all.flatMap((r) => r.taIds))])
+  return findConflicts(entries, names).filter((c) => c.sectionIds.some((id) => focus.has(id)))
+}
+
+export async function sectionViews(where: { courseId?: number, ids?: number[] }): Promise<SectionView[]> {
+  let query = sectionRows()
+  if (where.courseId !== undefined) query = query.where('sections.courseId', '=', where.courseId)
+  if (where.ids) query = query.where('sections.id', 'in', where.ids.length ? where.ids : [-1])
+  const rows = (await query.execute()) as SectionRow[]
+  const names = await taNames([...new Set(rows.flatMap((r) => r.taIds))])
+  return rows.map((r) => ({
+    id: r.id,
+    courseId: r.courseId,
+    code: r.code,
+    weekday: r.weekday,
+    startTime: r.startTime.slice(0, 5),
+    endTime: r.endTime.slice(0, 5),
+    room: r.room,
+    hoodStations: r.hoodStations,
+    studentsPerStation: r.studentsPerStation,
+    firstDate: r.firstDate,
+    lastDate: r.lastDate,
+    skippedDates: [...r.skippedDates].sort(),
+    tas: r.taIds.map((id) => ({ id, name: names[id] ?? '' })),
+    enrolled: r.enrolled,
+    meetings: meetingsOf(r),
+  }))
+}
+
+export type { SectionRow }

@@ -1,0 +1,78 @@
+import { z } from 'zod'
+
+export const OUTLIER_TESTS = ['grubbs', 'dixon', 'modified-z'] as const
+export type OutlierTestName = (typeof OUTLIER_TESTS)[number]
+export const OUTLIER_TEST_LABELS: Record<OutlierTestName, string> = {
+  'grubbs': "Grubbs' test (two-sided, iterative)",
+  'dixon': "Dixon's Q test (r10, 3–10 results)",
+  'modified-z': 'Modified z-score (median and MAD)',
+}
+
+export const RELEASE_POLICIES = ['on-review', 'after-due', 'manual'] as const
+export type ReleasePolicyName = (typeof RELEASE_POLICIES)[number]
+export const RELEASE_POLICY_LABELS: Record<ReleasePolicyName, string> = {
+  'on-review': 'As soon as a TA has reviewed the result',
+  'after-due': 'After the due date, once reviewed',
+  'manual': 'When the instructor releases the practical',
+}
+
+export const rubricCriterionSchema = z.object({
+  key: z.string().trim().regex(/^[a-z0-9-]{1,40}$/, 'Use lower-case letters, digits and dashes'),
+  label: z.string().trim().min(1, 'Name the criterion').max(80),
+  maxPoints: z.number().int('Whole points only').min(1, 'At least 1 point').max(100, 'At most 100 points'),
+  kind: z.enum(['accuracy', 'manual']).default('manual'),
+})
+export type RubricCriterionInput = z.infer<typeof rubricCriterionSchema>
+
+export const DEFAULT_RUBRIC: RubricCriterionInput[] = [
+  { key: 'accuracy', label: 'Selectivity against the literature value', maxPoints: 10, kind: 'accuracy' },
+  { key: 'chromatogram', label: 'Chromatogram and peak assignment', maxPoints: 6, kind: 'manual' },
+  { key: 'analysis', label: 'Calculation and discussion', maxPoints: 4, kind: 'manual' },
+]
+
+const rubricSchema = z.array(rubricCriterionSchema).min(1, 'Add at least one criterion').max(12, 'At most 12 criteria')
+  .refine((items) => new Set(items.map((i) => i.key)).size === items.length, 'Each criterion needs its own key')
+
+export const courseInputSchema = z.object({
+  code: z.string().trim().min(1, 'Enter the course code').max(30),
+  title: z.string().trim().min(1, 'Enter the course title').max(120),
+  term: z.string().trim().min(1, 'Enter the term, e.g. Spring 2027').max(40),
+  timezone: z.string().trim().min(1).max(64).refine(isTimeZone, 'Not a known time zone (e.g. America/Chicago)').default('America/Chicago'),
+})
+export type CourseInput = z.input<typeof courseInputSchema>
+
+export const courseSettingsSchema = z.object({
+  outlierTest: z.enum(OUTLIER_TESTS),
+  outlierAlpha: z.union([z.literal(0.05), z.literal(0.1)]),
+  zscoreLimit: z.number().min(1).max(10),
+  accuracyTolerancePercent: z.number().min(1, 'At least 1 %').max(200, 'At most 200 %'),
+  releasePolicy: z.enum(RELEASE_POLICIES),
+  rubric: rubricSchema,
+})
+export type CourseSettings = z.infer<typeof courseSettingsSchema>
+
+export const coOwnerSchema = z.object({ email: z.string().trim().toLowerCase().email('Enter an e-mail address') })
+
+function isTimeZone(value: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: value })
+    return true
+  } catch {
+    return false
+  }
+}
+
+/** GET /api/courses (public contract) */
+export interface CourseListItem {
+  id: number
+  code: string
+  title: string
+  term: string
+}
+
+export interface CourseDetail extends CourseListItem, CourseSettings {
+  timezone: string
+  owners: Array<{ id: number, name: string, email: string }>
+  /** The caller's relation to the course. */
+  role: 'owner' | 'ta' | 'coordinator' | 'student'
+}

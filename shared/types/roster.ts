@@ -1,0 +1,189 @@
+import { z } from 'zod'
+import { newPasswordSchema } from './auth'
+
+// Rosters, invitations and hood stations: the schemas the forms and the routes share, and the
+// shapes the routes answer with.
+
+/** The roster fields a CSV column can feed. A full name, or a first and a last name. */
+export const ROSTER_FIELDS = ['email', 'name', 'firstName', 'lastName', 'section'] as const
+export type RosterField = (typeof ROSTER_FIELDS)[number]
+
+export const ROSTER_FIELD_LABELS: Record<RosterField, string> = {
+  email: 'E-mail',
+  name: 'Full name',
+  firstName: 'First name',
+  lastName: 'Last name',
+  section: 'Section code',
+}
+
+/** Field → the column (by its header text) that feeds it; null leaves the field unmapped. */
+export type RosterMapping = Record<RosterField, string | null>
+
+// A key left out keeps the suggested column; null unmaps the field.
+const column = z.string().trim().min(1).max(200).nullable().optional()
+export const rosterMappingSchema = z.object({
+  email: column,
+  name: column,
+  firstName: column,
+  lastName: column,
+  section: column,
+})
+
+export const ROW_OUTCOMES = ['new', 'enrol', 'move', 'unchanged', 'error'] as const
+export type RosterRowOutcome = (typeof ROW_OUTCOMES)[number]
+
+export const ROW_OUTCOME_LABELS: Record<RosterRowOutcome, string> = {
+  new: 'New account',
+  enrol: 'Existing account, enrolled',
+  move: 'Moves section',
+  unchanged: 'Already there',
+  error: 'Needs fixing',
+}
+
+export interface RosterRowIssue {
+  field: RosterField | 'row'
+  message: string
+}
+
+export interface RosterPreviewRow {
+  /** The row's number in the spreadsheet: the header is row 1. */
+  row: number
+  email: string
+  name: string
+  sectionCode: string
+  outcome: RosterRowOutcome
+  /** For a move: the section the student leaves. */
+  fromSectionCode?: string
+  errors: RosterRowIssue[]
+}
+
+export interface RosterSummary {
+  new: number
+  enrol: number
+  move: number
+  unchanged: number
+  errors: number
+}
+
+export interface RosterConflictView {
+  kind: 'capacity'
+  sectionIds: number[]
+  message: string
+}
+
+export interface RosterPreview {
+  fileName: string
+  columns: string[]
+  mapping: RosterMapping
+  /** What is wrong with the mapping itself (`mapping.email` …); rows are empty until it is fixed. */
+  mappingIssues: Array<{ field: string, message: string }>
+  rows: RosterPreviewRow[]
+  summary: RosterSummary
+  conflicts: RosterConflictView[]
+}
+
+export interface RosterImportResult {
+  importId: number
+  summary: RosterSummary
+}
+
+export interface RosterImportHistoryItem {
+  id: number
+  createdAt: string
+  by: string | null
+  fileName: string
+  summary: RosterSummary
+}
+
+/** The optional text fields of the preview and import forms (multipart, so strings). */
+export const rosterUploadFieldsSchema = z.object({
+  mapping: z.string().max(4000).optional(),
+  confirmConflicts: z.enum(['true', 'false']).default('false'),
+})
+
+export const idParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+
+const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254, 'At most 254 characters')
+const personName = z.string().trim().min(1, 'Enter the student’s name').max(120, 'At most 120 characters')
+
+export const enrollmentAddSchema = z.object({
+  email,
+  name: personName,
+  confirmConflicts: z.boolean().default(false),
+})
+export type EnrollmentAdd = z.input<typeof enrollmentAddSchema>
+
+export const enrollmentPatchSchema = z.object({
+  sectionId: z.number().int().positive().optional(),
+  station: z.number().int('Whole stations only').min(1, 'Stations start at 1').nullable().optional(),
+  seat: z.number().int('Whole seats only').min(1, 'Seats start at 1').nullable().optional(),
+  confirmConflicts: z.boolean().default(false),
+}).superRefine((p, ctx) => {
+  if ((p.station === undefined) !== (p.seat === undefined)) {
+    ctx.addIssue({ code: 'custom', path: [p.station === undefined ? 'station' : 'seat'], message: 'Give the station and the seat together' })
+  } else if ((p.station === null) !== (p.seat === null)) {
+    ctx.addIssue({ code: 'custom', path: ['seat'], message: 'Clear the station and the seat together' })
+  }
+  if (p.sectionId === undefined && p.station === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['sectionId'], message: 'Say what to change: a section, or a station and seat' })
+  }
+})
+export type EnrollmentPatch = z.input<typeof enrollmentPatchSchema>
+
+/** 43 characters: 32 random bytes, base64url without padding. */
+export const invitationTokenSchema = z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'Not an invitation link')
+
+export const invitationAcceptSchema = z.object({
+  token: invitationTokenSchema,
+  password: newPasswordSchema,
+})
+export type InvitationAccept = z.infer<typeof invitationAcceptSchema>
+
+/** GET /api/invitations/:token */
+export interface InvitationView {
+  name: string
+  email: string
+  expiresAt: string
+}
+
+export type InvitationState = 'accepted' | 'invited' | 'expired' | 'none'
+
+export const INVITATION_STATE_LABELS: Record<InvitationState, string> = {
+  accepted: 'Password set',
+  invited: 'Invited',
+  expired: 'Invitation expired',
+  none: 'Not invited',
+}
+
+export interface RosterStudent {
+  /** The enrolment's id (what PATCH /api/enrollments/:id takes). */
+  id: number
+  userId: number
+  name: string
+  email: string
+  status: 'active' | 'withdrawn'
+  station: number | null
+  seat: number | null
+  /** Others at the same station, in seat order. */
+  partners: string[]
+  invitation: { state: InvitationState, expiresAt: string | null }
+  withdrawnAt: string | null
+}
+
+/** GET /api/sections/:id/roster */
+export interface SectionRosterView {
+  sectionId: number
+  courseId: number
+  code: string
+  hoodStations: number
+  studentsPerStation: number
+  students: RosterStudent[]
+}
+
+/** POST /api/sections/:id/enrollments */
+export interface EnrollmentAdded {
+  enrollmentId: number
+  userId: number
+  /** A new account was made and an invitation e-mail queued. */
+  invited: boolean
+}

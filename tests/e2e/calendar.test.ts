@@ -1,0 +1,105 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Client, DEMO, signedIn } from '../support/http'
+import { closeTestDb, testDb } from '../support/db'
+
+// iCalendar (RFC 5545): content lines folded at 75 octets continue with a leading space (§3.1).
+const unfold = (text: string) => text.replace(/\r\n[ \t]/g, '')
+const lines = (text: string) => unfold(text).split('\r\n')
+const events = (text: string) => unfold(text).split('BEGIN:VEVENT').slice(1).map((e) => e.split('END:VEVENT')[0]!)
+const prop = (event: string, name: string) => event.split('\r\n').find((l) => l.startsWith(`${name}:`) || l.startsWith(`${name};`))?.replace(/^[^:]*:/, '')
+const pathOf = (url: string) => new URL(url).pathname
+
+let sections: Record<string, { id: number, firstDate: string, lastDate: string, weekday: number, skippedDates: string[] }>
+
+/** Meeting dates worked out here, independently of the server's schedule code. */
+function expectedDates(code: string) {
+  const s = sections[code]!
+  const dates: string[] = []
+  for (let t = Date.parse(`${s.firstDate}T00:00:00Z`); t <= Date.parse(`${s.lastDate}T00:00:00Z`); t += 86_400_000) {
+    const d = new Date(t)
+    const date = d.toISOString().slice(0, 10)
+    if ((d.getUTCDay() || 7) === s.weekday && !s.skippedDates.includes(date)) dates.push(date)
+  }
+  return dates
+}
+
+beforeAll(async () => {
+  const rows = await testDb().selectFrom('sections').innerJoin('courses', 'courses.id', 'sections.courseId')
+    .select(['sections.id', 'sections.code', 'sections.firstDate', 'sections.lastDate', 'sections.weekday', 'sections.skippedDates'])
+    .where('courses.code', '=', 'CHEM 2240').execute()
+  sections = Object.fromEntries(rows.map((r) => [r.code, r]))
+})
+afterAll(closeTestDb)
+
+describe('calendar feed', () => {
+  it('lists exactly a student’s own section meetings, skipped holiday left out, in UTC', async () => {
+    // student49 is in R1, the Thursday section with a campus holiday (demo seed).
+    const student = await signedIn(DEMO.student(49))
+    const { status, body } = await student.get('/api/calendar')
+    expect(status).toBe(200)
+    expect(body.url).toMatch(/\/calendar\/[\w-]{43}\.ics$/)
+    expect((await student.get('/api/calendar')).body.url).toBe(body.url)
+
+    const feed = await new Client().get(pathOf(body.url))
+    expect(feed.status).toBe(200)
+    expect(feed.headers.get('content-type')).toBe('text/calendar; charset=utf-8')
+    expect(feed.headers.get('cache-control')).toBe('private, max-age=300')
+    const all = lines(feed.body)
+    expect(all[0]).toBe('BEGIN:VCALENDAR')
+    expect(all.filter(Boolean).at(-1)).toBe('END:VCALENDAR')
+    expect(all).toContain('X-WR-TIMEZONE:America/Chicago')
+
+    const r1 = sections.R1!
+    const dates = expectedDates('R1')
+    expect(r1.skippedDates).toHaveLength(1)
+    expect(dates).not.toContain(r1.skippedDates[0])
+    const vevents = events(feed.body)
+    expect(vevents).toHaveLength(dates.length)
+    expect(vevents.map((e) => prop(e, 'UID')).sort()).toEqual(dates.map((d) => `meeting-${r1.id}-${d}@halocline`).sort())
+    for (const e of vevents) {
+      expect(prop(e, 'DTSTART')).toMatch(/^\d{8}T\d{6}Z$/)
+      expect(prop(e, 'LOCATION')).toBe('Bellweather Hall 216')
+      const start = prop(e, 'DTSTART')!
+      const instant = new Date(`${start.slice(0, 4)}-${start.slice(4, 6)}-${start.slice(6, 8)}T${start.slice(9, 11)}:${start.slice(11, 13)}:00Z`)
+      // R1 meets Thursdays 08:30 Chicago time, whichever side of a DST change (IANA tz database).
+      expect(new Intl.DateTimeFormat('en-GB', { timeZone: 'America/Chicago', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(instant)).toBe('08:30')
+    }
+    const withPractical = vevents.filter((e) => prop(e, 'SUMMARY')!.includes('Chlorination of 1-chlorobutane'))
+    expect(withPractical).toHaveLength(1)
+    expect(prop(withPractical[0]!, 'SUMMARY')).toContain('CHEM 2240 section R1')
+  })
+
+  it('reset kills the old address at once and the new one works', async () => {
+    const student = await signedIn(DEMO.student(50))
+    const old = (await student.get('/api/calendar')).body.url
+    expect((await new Client().get(pathOf(old))).status).toBe(200)
+    const reset = await student.post('/api/calendar/reset')
+    expect(reset.status).toBe(200)
+    expect(reset.body.url).not.toBe(old)
+    expect((await new Client().get(pathOf(old))).status).toBe(404)
+    expect((await new Client().get(pathOf(reset.body.url))).status).toBe(200)
+    expect((await student.get('/api/calendar')).body.url).toBe(reset.body.url)
+  })
+
+  it('answers 404 to a wrong token and 401 to the API without a session', async () => {
+    expect((await new Client().get(`/calendar/${'A'.repeat(43)}.ics`)).status).toBe(404)
+    expect((await new Client().get('/calendar/short.ics')).status).toBe(404)
+    expect((await new Client().get('/api/calendar')).status).toBe(401)
+    expect((await new Client().post('/api/calendar/reset')).status).toBe(401)
+  })
+
+  it('gives a TA their sections, and the coordinator every section', async () => {
+    const ta = await signedIn(DEMO.ta1)
+    const taFeed = await new Client().get(pathOf((await ta.get('/api/calendar')).body.url))
+    const uids = events(taFeed.body).map((e) => prop(e, 'UID')!)
+    const ids = new Set(uids.map((u) => Number(u.split('-')[1])))
+    expect([...ids].sort()).toEqual([sections.M1!.id, sections.W1!.id].sort())
+    expect(uids).toHaveLength(expectedDates('M1').length + expectedDates('W1').length)
+
+    const coordinator = await signedIn(DEMO.coordinator)
+    const feed = await new Client().get(pathOf((await coordinator.get('/api/calendar')).body.url))
+    const total = ['M1', 'T1', 'W1', 'R1'].reduce((n, code) => n + expectedDates(code).length, 0)
+    const demoEvents = events(feed.body).filter((e) => prop(e, 'SUMMARY')!.startsWith('CHEM 2240'))
+    expect(demoEvents).toHaveLength(total)
+  })
+})
