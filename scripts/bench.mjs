@@ -2,6 +2,7 @@
 // npm run bench: each case is measured against a baseline run side by side in the same
 // process and reported as a ratio, so numbers compare across machines. Results are printed
 // and written to test-results/bench.json. Nothing here is a test: no pass or fail.
+// `npm run bench -- uploads` runs one case (http, uploads).
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -19,8 +20,15 @@ async function main() {
   const world = await step('Starting a throwaway Halocline', async () => ({ note: 'up', ...(await startWorld(root, { name: 'bench' })) }))
   const results = {}
   try {
-    const { benchHttp } = await import('./bench/http.mjs')
-    results.http = await step('Request throughput against a bare node:http server', () => benchHttp(world).then((rows) => Object.assign(rows, { note: `${rows.length} cases` })))
+    const only = process.argv[2]
+    const cases = [
+      ['http', 'Request throughput against a bare node:http server', () => import('./bench/http.mjs').then((m) => m.benchHttp(world))],
+      ['uploads', 'Uploads against papaparse alone', () => import('./bench/uploads.mjs').then((m) => m.benchUploads(world))],
+    ]
+    for (const [key, label, run] of cases) {
+      if (only && only !== key) continue
+      results[key] = await step(label, async () => Object.assign(await run(), { note: 'done' }))
+    }
   } finally {
     await world.stop()
   }

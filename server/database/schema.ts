@@ -1,4 +1,5 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
+import type { StockroomTables } from './schema-stockroom'
 
 // Timestamps come back from pg as Date and go in as Date or ISO text.
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -269,7 +270,61 @@ export interface CalendarFeedsTable {
   createdAt: CreatedAt
 }
 
-export interface Database {
+export type SubmissionStatus = 'pending' | 'accepted' | 'returned'
+
+export interface StoredFlag {
+  code: string
+  severity: 'info' | 'warning' | 'danger'
+  message: string
+}
+
+export interface SubmissionsTable {
+  id: Generated<number>
+  practicalId: number
+  sectionId: number
+  unitKey: string
+  version: number
+  fileId: number
+  inputKind: 'peak-table' | 'trace'
+  sha256: string
+  parsed: Json
+  result: Json
+  flags: Json<StoredFlag[]>
+  attention: Generated<number>
+  factorSecondary: number | null
+  factorTertiary: number | null
+  status: Generated<SubmissionStatus>
+  late: Generated<boolean>
+  submittedBy: number
+  idempotencyKey: string | null
+  excludedAt: Timestamp | null
+  excludedBy: number | null
+  exclusionReason: string | null
+  createdAt: CreatedAt
+  updatedAt: UpdatedAt
+}
+
+export interface SubmissionMembersTable {
+  submissionId: number
+  userId: number
+}
+
+export interface ReviewsTable {
+  id: Generated<number>
+  submissionId: number
+  reviewerId: number
+  decision: 'accept' | 'return'
+  reason: string | null
+  comment: Generated<string>
+  scores: Json<Record<string, number>>
+  total: number | null
+  createdAt: CreatedAt
+}
+
+export interface Database extends StockroomTables {
+  submissions: SubmissionsTable
+  submissionMembers: SubmissionMembersTable
+  reviews: ReviewsTable
   users: UsersTable
   loginAttempts: LoginAttemptsTable
   auditLog: AuditLogTable
@@ -306,3 +361,5 @@ export type Method = Selectable<MethodsTable>
 export type Practical = Selectable<PracticalsTable>
 export type PracticalItem = Selectable<PracticalItemsTable>
 export type PracticalSession = Selectable<PracticalSessionsTable>
+export type Submission = Selectable<SubmissionsTable>
+export type Review = Selectable<ReviewsTable>

@@ -6,6 +6,7 @@ import { DEMO_PASSWORD, seedPeople } from './people'
 import { seedLibrary } from './library'
 import { seedCourse } from './course'
 import { seedPracticals } from './practicals'
+import { seedSubmissions } from './submissions'
 
 export interface SeedOptions {
   /** The day the demo is seeded; every date in the scenario is set relative to it. */
@@ -29,5 +30,6 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}) 
     await seedLibrary(ctx)
     await seedCourse(ctx)
     await seedPracticals(ctx)
+    await seedSubmissions(ctx)
   })
 }

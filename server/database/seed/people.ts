@@ -35,8 +35,9 @@ export function demoPeople(): DemoPerson[] {
   const staff = STAFF.map((s) => ({ email: `${s.local}@${DEMO_DOMAIN}`, name: s.name, role: s.role }))
   const students = Array.from({ length: 64 }, (_, i) => ({
     email: `student${String(i + 1).padStart(2, '0')}@${DEMO_DOMAIN}`,
-    // Stride through the surname list so neighbours on the roster do not share initials.
-    name: `${FIRST[i % FIRST.length]} ${LAST[(i * 7 + 3) % LAST.length]}`,
+    // Stride through the surname list so neighbours on the roster do not share initials; the
+    // second pass through the first names is shifted, so no two students share a full name.
+    name: `${FIRST[i % FIRST.length]} ${LAST[(i * 7 + 3 + Math.floor(i / FIRST.length) * 11) % LAST.length]}`,
     role: 'student' as const,
   }))
   return [...staff, ...students]

@@ -1,0 +1,11 @@
+import { practicalParamsSchema } from '#shared/types/practical'
+import type { MySubmissionsView } from '../../../utils/student-submissions'
+
+// A student's own GC results for a practical: every version of their work unit, newest first,
+// with flags, the computed result and the reviewers' decisions (scores only once released).
+// Staff read submissions through the review routes, so any other role gets 403 here.
+export default defineEventHandler(async (event): Promise<MySubmissionsView> => {
+  requireRole(event, 'student')
+  const { id } = readParamsAs(event, practicalParamsSchema)
+  return mySubmissionsOf(event, await requirePracticalAccess(event, id))
+})

@@ -1,0 +1,14 @@
+import { z } from 'zod'
+
+const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
+
+// The same computation as an upload, shown before the student confirms; nothing is stored.
+export default defineEventHandler(async (event) => {
+  requireRole(event, 'student')
+  const { id } = readParamsAs(event, paramsSchema)
+  const scope = await requirePracticalAccess(event, id)
+  const unit = await studentUnit(event, scope)
+  const { file } = await readUpload(event)
+  const { run, chemistry } = await computeRun(scope, file)
+  return previewOf(run, chemistry, unit.dueAt !== null && Date.now() > unit.dueAt.getTime())
+})

@@ -1,0 +1,9 @@
+import { reviewIdParamsSchema } from '#shared/types/review'
+
+// Count an excluded run in the class statistics again.
+export default defineEventHandler(async (event) => {
+  requireRole(event, 'instructor', 'ta')
+  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { submission } = await requireReviewableSubmission(event, id)
+  return setSubmissionExclusion(event, submission, null)
+})

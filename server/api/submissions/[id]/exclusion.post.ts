@@ -1,0 +1,11 @@
+import { exclusionInputSchema } from '#shared/types/submission'
+import { reviewIdParamsSchema } from '#shared/types/review'
+
+// Leave a run out of the class statistics, with the reason; it stays visible and gradable.
+export default defineEventHandler(async (event) => {
+  requireRole(event, 'instructor', 'ta')
+  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { submission } = await requireReviewableSubmission(event, id)
+  const { reason } = await readBodyAs(event, exclusionInputSchema)
+  return setSubmissionExclusion(event, submission, reason)
+})

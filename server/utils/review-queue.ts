@@ -1,0 +1,165 @@
+import type { ReviewerScope } from './review-scope'
+import type { StoredFlag, SubmissionStatus } from '../database/schema'
+import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type UnitMember, type UnitView } from '#shared/types/review'
+import { findOutliers, type OutlierFinding } from '#shared/utils/outliers'
+
+// The review queue: each work unit's latest version in the caller's sections, with the stored
+// flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
+// by what needs a person first.
+
+export interface ClassOutliers {
+  run: OutlierRun
+  findings: Map<number, OutlierFinding>
+}
+
+/** The course's outlier test over every unit's latest pending-or-accepted, not excluded result. */
+export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<ClassOutliers> {
+  const rows = await latestClassResults(scope.practical.id)
+  const values = rows.filter((r) => r.excludedAt === null).flatMap((r) => {
+    const value = keyFactor === 'tertiaryToPrimary' ? r.tertiary : r.secondary
+    return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
+  })
+  const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
+  const report = findOutliers(values, settings)
+  return {
+    run: { test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit, note: report.note },
+    findings: new Map(report.outliers.map((o) => [o.submissionId, o])),
+  }
+}
+
+const TEST_WORDING = {
+  'grubbs': (f: OutlierFinding, run: OutlierRun) => `Grubbs' test: G = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (α = ${run.alpha}, two-sided)`,
+  'dixon': (f: OutlierFinding, run: OutlierRun) => `Dixon's Q test: Q = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (${Math.round((1 - run.alpha) * 100)} % confidence)`,
+  'modified-z': (f: OutlierFinding) => `modified z-score: |M| = ${Math.abs(f.statistic).toFixed(2)} is above the limit ${f.critical}`,
+} as const
+
+export function outlierFlagOf(finding: OutlierFinding, run: OutlierRun, keyFactor: ReviewFactorKey): ReviewFlag {
+  return {
+    code: 'outlier',
+    severity: 'warning',
+    message: `The ${KEY_FACTOR_LABELS[keyFactor]} selectivity of ${finding.value.toFixed(2)} is an outlier among the class's ${run.n} results by ${TEST_WORDING[run.test](finding, run)}. Check the run before it counts; exclude it from the class statistics if it is a bad run.`,
+    test: run.test,
+    statistic: finding.statistic,
+    critical: finding.critical,
+  }
+}
+
+/** Flags as stored with a version, plus the outlier flag when the class test marks it. */
+export function flagsWithOutlier(stored: StoredFlag[], submissionId: number, outliers: ClassOutliers, keyFactor: ReviewFactorKey): { flags: ReviewFlag[], attention: number, outlier: boolean } {
+  const finding = outliers.findings.get(submissionId)
+  const flags: ReviewFlag[] = finding ? [...stored, outlierFlagOf(finding, outliers.run, keyFactor)] : [...stored]
+  const rank = { info: 0, warning: 1, danger: 2 } as const
+  return { flags, attention: flags.reduce((max, f) => Math.max(max, rank[f.severity]), 0), outlier: Boolean(finding) }
+}
+
+/** 0 pending with a blocking flag, 1 pending with a warning, 2 other pending, 3 returned, 4 accepted. */
+export function queueBucket(row: { status: SubmissionStatus, attention: number }): number {
+  if (row.status === 'pending') return row.attention >= 2 ? 0 : row.attention === 1 ? 1 : 2
+  return row.status === 'returned' ? 3 : 4
+}
+
+/** What needs attention first; within a group, the oldest submission first. */
+export function compareQueueRows(a: QueueRow, b: QueueRow): number {
+  return queueBucket(a) - queueBucket(b) || a.submittedAt.localeCompare(b.submittedAt) || a.id - b.id
+}
+
+const STATION_KEY = /^station:\d+:(\d+)$/
+
+/** Names, e-mails and station of the people behind some submissions. */
+export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>): Promise<Map<number, UnitView>> {
+  const result = new Map<number, UnitView>()
+  if (!rows.length) return result
+  const members = await useDb().selectFrom('submissionMembers')
+    .innerJoin('users', 'users.id', 'submissionMembers.userId')
+    .innerJoin('submissions', 'submissions.id', 'submissionMembers.submissionId')
+    .leftJoin('enrollments', (join) => join.onRef('enrollments.userId', '=', 'submissionMembers.userId').onRef('enrollments.sectionId', '=', 'submissions.sectionId'))
+    .select(['submissionMembers.submissionId', 'users.id', 'users.name', 'users.email', 'enrollments.station'])
+    .where('submissionMembers.submissionId', 'in', rows.map((r) => r.id))
+    .orderBy('users.name').orderBy('users.id').execute()
+  for (const row of rows) {
+    const mine = members.filter((m) => m.submissionId === row.id)
+    const people: UnitMember[] = [...new Map(mine.map((m) => [m.id, { id: m.id, name: m.name, email: m.email }])).values()]
+    const keyed = STATION_KEY.exec(row.unitKey)
+    result.set(row.id, {
+      key: row.unitKey,
+      label: people.map((p) => p.name).join(' & ') || row.unitKey,
+      members: people,
+      station: keyed ? Number(keyed[1]) : (mine.find((m) => m.station !== null)?.station ?? null),
+    })
+  }
+  return result
+}
+
+/** Every work unit's latest version in the caller's sections, flagged and sorted. */
+export async function buildReviewQueue(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<{ rows: QueueRow[], outliers: ClassOutliers }> {
+  const db = useDb()
+  const sections = reviewSectionIds(scope)
+  let query = db.selectFrom((eb) => eb.selectFrom('submissions').distinctOn('unitKey').selectAll()
+    .where('practicalId', '=', scope.practical.id).orderBy('unitKey').orderBy('version', 'desc').as('s'))
+    .innerJoin('sections', 'sections.id', 's.sectionId')
+    .leftJoin('users as excluder', 'excluder.id', 's.excludedBy')
+    .select(['s.id', 's.sectionId', 'sections.code as sectionCode', 's.unitKey', 's.version', 's.createdAt', 's.late', 's.status', 's.flags',
+      's.factorSecondary', 's.factorTertiary', 's.excludedAt', 's.exclusionReason', 'excluder.name as excludedByName'])
+  if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
+  const latest = await query.execute()
+  const [outliers, units] = await Promise.all([classOutliersFor(scope, keyFactor), unitViewsOf(latest)])
+  const rows = latest.map((s): QueueRow => {
+    const { flags, attention } = flagsWithOutlier(s.flags as StoredFlag[], s.id, outliers, keyFactor)
+    const excluded = s.excludedAt ? { at: s.excludedAt.toISOString(), by: s.excludedByName, reason: s.exclusionReason ?? '' } : null
+    return {
+      id: s.id,
+      unit: units.get(s.id)!,
+      section: { id: s.sectionId, code: s.sectionCode },
+      version: s.version,
+      submittedAt: s.createdAt.toISOString(),
+      late: s.late,
+      status: s.status,
+      keyFactor: keyFactor === 'tertiaryToPrimary' ? s.factorTertiary : s.factorSecondary,
+      flags,
+      attention,
+      excluded,
+      clean: s.status === 'pending' && attention === 0 && !excluded,
+    }
+  })
+  return { rows: rows.sort(compareQueueRows), outliers }
+}
+
+export function countQueueRows(rows: QueueRow[]): QueueCounts {
+  return {
+    total: rows.length,
+    pending: rows.filter((r) => r.status === 'pending').length,
+    accepted: rows.filter((r) => r.status === 'accepted').length,
+    returned: rows.filter((r) => r.status === 'returned').length,
+    flagged: rows.filter((r) => r.status === 'pending' && r.attention > 0).length,
+    excluded: rows.filter((r) => r.excluded).length,
+  }
+}
+
+/** The first pending row after `currentId` in queue order (wrapping round), never the current one. */
+export function nextPendingAfter(rows: QueueRow[], currentId: number): number | null {
+  const pending = rows.filter((r) => r.status === 'pending')
+  const at = rows.findIndex((r) => r.id === currentId)
+  const after = pending.find((r) => r.id !== currentId && rows.indexOf(r) > at)
+  return (after ?? pending.find((r) => r.id !== currentId))?.id ?? null
+}
+
+/** The practical as the review pages show it. */
+export function queuePracticalOf(scope: ReviewerScope, chemistry: { keyFactor: ReviewFactorKey, literature: Record<ReviewFactorKey, number | null> }): QueuePractical {
+  return {
+    id: scope.practical.id,
+    title: scope.practical.title,
+    course: { id: scope.course.id, code: scope.course.code, title: scope.course.title },
+    timezone: scope.course.timezone,
+    keyFactor: chemistry.keyFactor,
+    literature: chemistry.literature[chemistry.keyFactor],
+    releasePolicy: scope.course.releasePolicy,
+    resultsReleasedAt: scope.practical.resultsReleasedAt?.toISOString() ?? null,
+  }
+}
+
+/** Sections running the practical that the caller reviews, for the filter. */
+export async function reviewSectionsOf(scope: ReviewerScope): Promise<Array<{ id: number, code: string }>> {
+  const ids = scope.sessionSectionIds
+  if (!ids.length) return []
+  return useDb().selectFrom('sections').select(['id', 'code']).where('id', 'in', ids).orderBy('code').execute()
+}

@@ -1,0 +1,49 @@
+import type { H3Event } from 'h3'
+import type { PracticalScope } from './access'
+import type { Kysely } from 'kysely'
+import type { Database, Submission } from '../database/schema'
+
+// Who reviews: the course's instructors (every section) and the TAs of the sections running a
+// practical (their sections only). The coordinator and students are refused outright (403):
+// grades and submissions are not theirs. Anything outside the caller's sections is a 404.
+
+export interface ReviewerScope extends PracticalScope {
+  role: 'owner' | 'ta'
+}
+
+const reviewForbidden = () => createError({ statusCode: 403, statusMessage: 'Reviewing results is for the course’s instructors and TAs' })
+const submissionNotFound = () => createError({ statusCode: 404, statusMessage: 'Submission not found' })
+
+export async function requireReviewerOf(event: H3Event, practicalId: number): Promise<ReviewerScope> {
+  requireRole(event, 'instructor', 'ta')
+  const scope = await requirePracticalAccess(event, practicalId)
+  if (scope.role !== 'owner' && scope.role !== 'ta') throw reviewForbidden()
+  return scope as ReviewerScope
+}
+
+/** The sections whose submissions the caller reviews; null means all of the course's. */
+export function reviewSectionIds(scope: ReviewerScope): number[] | null {
+  return scope.role === 'owner' ? null : (scope.sectionIds ?? [])
+}
+
+/** One submission in the caller's review scope, or 404 (403 for roles that never review). */
+export async function requireReviewableSubmission(event: H3Event, submissionId: number): Promise<{ scope: ReviewerScope, submission: Submission }> {
+  requireRole(event, 'instructor', 'ta')
+  const db = useDb()
+  const head = await db.selectFrom('submissions').select('practicalId').where('id', '=', submissionId).executeTakeFirst()
+  if (!head) throw submissionNotFound()
+  const scope = await requireReviewerOf(event, head.practicalId)
+  const sections = reviewSectionIds(scope)
+  let query = db.selectFrom('submissions').selectAll().where('id', '=', submissionId).where('practicalId', '=', scope.practical.id)
+  if (sections) query = query.where('sectionId', 'in', sections.length ? sections : [-1])
+  const submission = await query.executeTakeFirst()
+  if (!submission) throw submissionNotFound()
+  return { scope, submission }
+}
+
+/** The highest version of a submission's work unit (a review is only for that one). */
+export async function latestUnitVersion(db: Kysely<Database>, submission: Pick<Submission, 'practicalId' | 'unitKey'>): Promise<number> {
+  const row = await db.selectFrom('submissions').select((eb) => eb.fn.max('version').as('latest'))
+    .where('practicalId', '=', submission.practicalId).where('unitKey', '=', submission.unitKey).executeTakeFirst()
+  return Number(row?.latest ?? 0)
+}

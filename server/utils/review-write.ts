@@ -1,0 +1,148 @@
+import { sql, type Transaction } from 'kysely'
+import type { H3Event } from 'h3'
+import type { ReviewerScope } from './review-scope'
+import type { Database, Submission } from '../database/schema'
+import type { BulkAcceptResult, ExclusionView, QueueRow, ReviewSaved } from '#shared/types/review'
+import type { reviewInputSchema } from '#shared/types/submission'
+import type { z } from 'zod'
+import { rubricScoreIssues, rubricTotal, startingScores } from '#shared/utils/grading'
+
+// Review decisions, bulk acceptance and exclusions. Each write takes the work unit's lock (the
+// same one uploads take), checks again inside the transaction that the version is still the
+// latest, and writes its audit row with before and after in the same transaction.
+
+type ReviewBody = z.output<typeof reviewInputSchema>
+
+async function lockReviewUnit(trx: Transaction<Database>, s: Pick<Submission, 'practicalId' | 'unitKey'>) {
+  await sql`select pg_advisory_xact_lock(hashtext(${`submission:${s.practicalId}:${s.unitKey}`}))`.execute(trx)
+}
+
+async function lastReviewOf(trx: Transaction<Database>, submissionId: number) {
+  return trx.selectFrom('reviews').select(['decision', 'scores', 'total']).where('submissionId', '=', submissionId)
+    .orderBy('createdAt', 'desc').orderBy('id', 'desc').limit(1).executeTakeFirst()
+}
+
+interface Decision {
+  decision: 'accept' | 'return'
+  reason: string | null
+  comment: string
+  scores: Record<string, number>
+  total: number | null
+  bulk?: boolean
+}
+
+/** Inside a transaction holding the unit's lock: status, review row and audit row. */
+async function writeDecision(trx: Transaction<Database>, event: H3Event, submission: Submission, d: Decision): Promise<number> {
+  const before = await trx.selectFrom('submissions').select('status').where('id', '=', submission.id).forUpdate().executeTakeFirstOrThrow()
+  const previous = await lastReviewOf(trx, submission.id)
+  const status = d.decision === 'accept' ? 'accepted' as const : 'returned' as const
+  await trx.updateTable('submissions').set({ status, updatedAt: new Date() }).where('id', '=', submission.id).execute()
+  const review = await trx.insertInto('reviews').values({
+    submissionId: submission.id,
+    reviewerId: requireUser(event).id,
+    decision: d.decision,
+    reason: d.reason,
+    comment: d.comment,
+    scores: JSON.stringify(d.scores),
+    total: d.total,
+  }).returning('id').executeTakeFirstOrThrow()
+  await audit(trx, event, {
+    action: `submission.${d.decision}`,
+    entity: 'submission',
+    entityId: submission.id,
+    before: { status: before.status, scores: previous?.scores ?? null, total: previous?.total ?? null },
+    after: { status, scores: d.scores, total: d.total, reason: d.reason, comment: d.comment, reviewId: review.id, ...(d.bulk ? { bulk: true } : {}) },
+  })
+  return review.id
+}
+
+export async function saveSubmissionReview(event: H3Event, scope: ReviewerScope, submission: Submission, input: ReviewBody): Promise<ReviewSaved> {
+  const rubric = scope.course.rubric
+  const accept = input.decision === 'accept'
+  // A return carries no grade: its reason and comment are what the student needs.
+  const scores = accept ? input.scores : {}
+  const issues = rubricScoreIssues(rubric, scores, { requireAll: accept })
+  if (issues.length) invalid(issues)
+  if (accept && submission.attention >= 2 && !input.comment) {
+    invalid([{ field: 'comment', message: 'This run has a blocking flag: say in the comment why you accept it' }])
+  }
+  const total = accept ? rubricTotal(rubric, scores) : null
+  const reviewId = await useDb().transaction().execute(async (trx) => {
+    await lockReviewUnit(trx, submission)
+    const latest = await latestUnitVersion(trx, submission)
+    if (latest !== submission.version) {
+      throw createError({ statusCode: 409, statusMessage: `Only the latest version can be reviewed: version ${latest} is newer` })
+    }
+    return writeDecision(trx, event, submission, { decision: input.decision, reason: accept ? null : input.reason ?? null, comment: input.comment, scores, total })
+  })
+  return { id: submission.id, status: accept ? 'accepted' : 'returned', reviewId, scores, total }
+}
+
+function bulkSkipReason(row: QueueRow | undefined): string | null {
+  if (!row) return 'Not in your queue: not found, or not the latest version of its work unit'
+  if (row.status !== 'pending') return `Already ${row.status}`
+  if (row.excluded) return 'Excluded from the class statistics: review it on its own'
+  if (row.flags.some((f) => f.code === 'outlier')) return 'An outlier by the class test: review it on its own'
+  if (row.attention > 0) return 'Has flags to look at: review it on its own'
+  return null
+}
+
+/**
+ * Accepts only clean rows (latest, pending, no warning or blocking flag, no outlier, not
+ * excluded) with the suggested accuracy score and full marks elsewhere unless `given`.
+ */
+export async function acceptCleanInBulk(event: H3Event, scope: ReviewerScope, ids: number[], given: Record<string, number>): Promise<BulkAcceptResult> {
+  const rubric = scope.course.rubric
+  const issues = rubricScoreIssues(rubric, given)
+  if (issues.length) invalid(issues)
+  const chemistry = await practicalChemistry(scope.practical)
+  const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
+  const byId = new Map(rows.map((r) => [r.id, r]))
+  const result: BulkAcceptResult = { accepted: [], skipped: [] }
+  const chosen: Array<{ id: number, scores: Record<string, number> }> = []
+  for (const id of new Set(ids)) {
+    const row = byId.get(id)
+    const skip = bulkSkipReason(row)
+    if (skip) { result.skipped.push({ id, reason: skip }); continue }
+    const scores = startingScores(rubric, { observed: row!.keyFactor, literature: chemistry.literature[chemistry.keyFactor], tolerancePercent: scope.course.accuracyTolerancePercent }, given)
+    if (rubricScoreIssues(rubric, scores, { requireAll: true }).length) { result.skipped.push({ id, reason: 'No selectivity to score accuracy from: review it on its own' }); continue }
+    chosen.push({ id, scores })
+  }
+  await useDb().transaction().execute(async (trx) => {
+    for (const { id, scores } of chosen) {
+      const submission = await trx.selectFrom('submissions').selectAll().where('id', '=', id).executeTakeFirstOrThrow()
+      await lockReviewUnit(trx, submission)
+      const fresh = await trx.selectFrom('submissions').select('status').where('id', '=', id).executeTakeFirstOrThrow()
+      if (await latestUnitVersion(trx, submission) !== submission.version || fresh.status !== 'pending') {
+        result.skipped.push({ id, reason: 'Changed while accepting: review it on its own' })
+        continue
+      }
+      const total = rubricTotal(rubric, scores)
+      await writeDecision(trx, event, submission, { decision: 'accept', reason: null, comment: '', scores, total, bulk: true })
+      result.accepted.push({ id, scores, total })
+    }
+  })
+  return result
+}
+
+/** Excludes a run from the class statistics (reason given) or counts it again (reason null). */
+export async function setSubmissionExclusion(event: H3Event, submission: Submission, reason: string | null): Promise<{ id: number, excluded: ExclusionView | null }> {
+  const me = requireUser(event)
+  const at = new Date()
+  await useDb().transaction().execute(async (trx) => {
+    const before = await trx.selectFrom('submissions').select(['excludedAt', 'exclusionReason', 'excludedBy'])
+      .where('id', '=', submission.id).forUpdate().executeTakeFirstOrThrow()
+    if (reason === null && before.excludedAt === null) return
+    await trx.updateTable('submissions').set(reason === null
+      ? { excludedAt: null, excludedBy: null, exclusionReason: null, updatedAt: at }
+      : { excludedAt: at, excludedBy: me.id, exclusionReason: reason, updatedAt: at }).where('id', '=', submission.id).execute()
+    await audit(trx, event, {
+      action: reason === null ? 'submission.include' : 'submission.exclude',
+      entity: 'submission',
+      entityId: submission.id,
+      before: { excluded: before.excludedAt !== null, reason: before.exclusionReason, by: before.excludedBy },
+      after: { excluded: reason !== null, reason, by: reason === null ? null : me.id },
+    })
+  })
+  return { id: submission.id, excluded: reason === null ? null : { at: at.toISOString(), by: me.name, reason } }
+}

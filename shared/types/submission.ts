@@ -1,0 +1,81 @@
+import { z } from 'zod'
+
+export type SubmissionStatusName = 'pending' | 'accepted' | 'returned'
+export type FlagSeverity = 'info' | 'warning' | 'danger'
+
+export const SUBMISSION_STATUS_LABELS: Record<SubmissionStatusName, string> = {
+  pending: 'Waiting for review',
+  accepted: 'Accepted',
+  returned: 'Returned for resubmission',
+}
+
+export interface FlagView {
+  code: string
+  severity: FlagSeverity
+  message: string
+}
+
+export interface ResultView {
+  molePercents: Array<{ smiles: string, percent: number }>
+  factors: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
+}
+
+/** POST /api/practicals/:id/submissions (public contract), plus a few extra fields. */
+export interface SubmissionCreated {
+  id: number
+  version: number
+  status: SubmissionStatusName
+  result: ResultView
+  flags: FlagView[]
+  late: boolean
+  kind: 'peak-table' | 'trace'
+  /** Set when the same file was already the latest version: nothing new was stored. */
+  identicalTo?: number
+}
+
+export interface PeakView {
+  retentionTime: number
+  area: number
+  areaPercent?: number
+  height?: number
+  /** Product SMILES, 'solvent', 'starting-material', or null (unassigned). */
+  assignedTo: string | null
+}
+
+/** The full computed result kept with each version. */
+export interface StoredResult extends ResultView {
+  relative: Array<{ smiles: string, relativeReactivity: number | null }>
+  conversion: number | null
+  unassignedPercent: number
+  warnings: string[]
+  keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
+}
+
+/** A preview is the same computation, nothing stored. */
+export interface SubmissionPreview extends ResultView {
+  kind: 'peak-table' | 'trace'
+  peaks: PeakView[]
+  flags: FlagView[]
+  relative: StoredResult['relative']
+  conversion: number | null
+  unassignedPercent: number
+  warnings: string[]
+  predicted: Array<{ smiles: string, percent: number }>
+  statistical: Array<{ smiles: string, percent: number }>
+  products: Array<{ smiles: string, label: string, hydrogens: number, carbonClass: string }>
+  late: boolean
+}
+
+export const reviewInputSchema = z.object({
+  decision: z.enum(['accept', 'return']),
+  reason: z.string().trim().max(2000).optional(),
+  comment: z.string().trim().max(5000).default(''),
+  scores: z.record(z.string(), z.number().min(0, 'Scores are zero or more').max(1000)).default({}),
+}).superRefine((r, ctx) => {
+  if (r.decision === 'return' && !r.reason) ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Say why it is returned, so the student can fix it' })
+})
+export type ReviewInput = z.input<typeof reviewInputSchema>
+
+export const exclusionInputSchema = z.object({
+  reason: z.string().trim().min(3, 'Give the reason for excluding this run').max(2000),
+})

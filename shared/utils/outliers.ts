@@ -1,0 +1,65 @@
+// The course's chosen outlier test applied to a class's results, by submission id. Outliers are
+// flagged, never dropped: excluding a run is a person's decision, recorded with its reason.
+import { dixonQTest, grubbsTest, modifiedZScores, StatisticsError } from './statistics'
+
+export type OutlierTestName = 'grubbs' | 'dixon' | 'modified-z'
+
+export interface OutlierSettings {
+  test: OutlierTestName
+  /** Grubbs α and Dixon 1 − confidence (0.05 or 0.10). */
+  alpha: number
+  /** Modified z-score limit, usually 3.5. */
+  zscoreLimit: number
+}
+
+export interface OutlierFinding {
+  submissionId: number
+  value: number
+  /** G for Grubbs, Q for Dixon, M for the modified z-score. */
+  statistic: number
+  critical: number
+}
+
+export interface OutlierReport {
+  test: OutlierTestName
+  /** False when the test could not run (too few or too many values): see note. */
+  applied: boolean
+  outliers: OutlierFinding[]
+  note: string | null
+}
+
+export function findOutliers(values: Array<{ submissionId: number, value: number }>, settings: OutlierSettings): OutlierReport {
+  const xs = values.map((v) => v.value)
+  const at = (i: number) => values[i]!
+  if (settings.test === 'grubbs') {
+    if (xs.length < 3) return { test: 'grubbs', applied: false, outliers: [], note: `Grubbs' test needs at least 3 results; there are ${xs.length}.` }
+    const g = grubbsTest(xs, { alpha: settings.alpha })
+    return {
+      test: 'grubbs',
+      applied: true,
+      outliers: g.steps.filter((s) => s.outlier).map((s) => ({ submissionId: at(s.index).submissionId, value: s.value, statistic: s.G, critical: s.critical })),
+      note: g.note,
+    }
+  }
+  if (settings.test === 'dixon') {
+    try {
+      const q = dixonQTest(xs, { confidence: Math.round((1 - settings.alpha) * 100) / 100 })
+      return {
+        test: 'dixon',
+        applied: true,
+        outliers: q.outlier ? [{ submissionId: at(q.index).submissionId, value: q.value, statistic: q.q, critical: q.critical }] : [],
+        note: q.note,
+      }
+    } catch (error) {
+      if (error instanceof StatisticsError) return { test: 'dixon', applied: false, outliers: [], note: error.message }
+      throw error
+    }
+  }
+  const z = modifiedZScores(xs, { threshold: settings.zscoreLimit })
+  return {
+    test: 'modified-z',
+    applied: z.method !== 'none',
+    outliers: z.outliers.map((i) => ({ submissionId: at(i).submissionId, value: at(i).value, statistic: z.scores[i]!, critical: settings.zscoreLimit })),
+    note: z.note,
+  }
+}
