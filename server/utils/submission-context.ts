@@ -1,7 +1,5 @@
 import { practicalChemistryOf, type PracticalChemistry } from '#shared/utils/submission'
 
-export type { PracticalChemistry }
-
 /** A practical's products, windows, prediction and literature factors, from the database. */
 export async function practicalChemistry(practical: { substrateId: number, methodId: number }): Promise<PracticalChemistry> {
   const db = useDb()

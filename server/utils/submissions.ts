@@ -6,7 +6,7 @@ import type { Submission } from '../database/schema'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
 import { attentionOf, evaluateRun, RunInputError, type RunResult } from '#shared/utils/submission'
 
-export interface WorkUnit {
+export interface StudentWorkUnit {
   sectionId: number
   unitKey: string
   /** Everyone the result counts for: the student, and their station partner(s) for pair work. */
@@ -15,7 +15,7 @@ export interface WorkUnit {
 }
 
 /** The caller's own work unit for a practical: 404 unless they are a student in a section that runs it. */
-export async function studentUnit(event: H3Event, scope: PracticalScope): Promise<WorkUnit> {
+export async function studentUnit(event: H3Event, scope: PracticalScope): Promise<StudentWorkUnit> {
   if (scope.role !== 'student') throw createError({ statusCode: 403, statusMessage: 'Only students upload results' })
   const db = useDb()
   const enrollment = await db.selectFrom('enrollments').select(['sectionId', 'station'])

@@ -1,8 +1,7 @@
 // The course's chosen outlier test applied to a class's results, by submission id. Outliers are
 // flagged, never dropped: excluding a run is a person's decision, recorded with its reason.
 import { dixonQTest, grubbsTest, modifiedZScores, StatisticsError } from './statistics'
-
-export type OutlierTestName = 'grubbs' | 'dixon' | 'modified-z'
+import type { OutlierTestName } from '../types/course'
 
 export interface OutlierSettings {
   test: OutlierTestName
