@@ -9,14 +9,15 @@ export interface NavItem {
 
 const overview: NavItem = { label: 'Overview', to: '/', icon: 'home' }
 const review: NavItem = { label: 'Review', to: '/review', icon: 'review' }
+const results: NavItem = { label: 'Class results', to: '/results', icon: 'chart' }
 const explorer: NavItem = { label: 'Substrate explorer', to: '/explorer', icon: 'molecule' }
 const library: NavItem = { label: 'Library', to: '/library', icon: 'molecule' }
 const outbox: NavItem = { label: 'Outbox', to: '/outbox', icon: 'mail' }
 const mailbox: NavItem = { label: 'Demo mailbox', to: '/mailbox', icon: 'mail' }
 
 const byRole: Record<Role, NavItem[]> = {
-  instructor: [overview, { label: 'Courses', to: '/courses', icon: 'list' }, library, review, explorer, outbox],
-  ta: [overview, { label: 'My sections', to: '/sections', icon: 'calendar' }, review, library, explorer],
+  instructor: [overview, { label: 'Courses', to: '/courses', icon: 'list' }, library, review, results, explorer, outbox],
+  ta: [overview, { label: 'My sections', to: '/sections', icon: 'calendar' }, review, results, library, explorer],
   coordinator: [
     overview,
     { label: 'Schedule', to: '/schedule', icon: 'calendar' },

@@ -11,6 +11,9 @@ export async function migrateToLatest(db: Kysely<any>): Promise<MigrationReport>
   const migrator = new Migrator({
     db: db.withoutPlugins(),
     provider: { getMigrations: async () => migrations },
+    // Work that lands in a different order than its migrations were named (a database that
+    // already ran a later-dated migration) still gets the earlier one instead of refusing.
+    allowUnorderedMigrations: true,
   })
   const { error, results } = await migrator.migrateToLatest()
   if (error) {

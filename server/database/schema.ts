@@ -1,5 +1,6 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
 import type { StockroomTables } from './schema-stockroom'
+import type { DigestTables } from './schema-digests'
 
 // Timestamps come back from pg as Date and go in as Date or ISO text.
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -321,7 +322,7 @@ export interface ReviewsTable {
   createdAt: CreatedAt
 }
 
-export interface Database extends StockroomTables {
+export interface Database extends StockroomTables, DigestTables {
   submissions: SubmissionsTable
   submissionMembers: SubmissionMembersTable
   reviews: ReviewsTable

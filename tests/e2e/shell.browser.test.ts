@@ -8,8 +8,8 @@ beforeAll(async () => { browser = await launchBrowser() })
 afterAll(async () => { await browser?.close() })
 
 const NAV: Record<string, { email: string, links: string[] }> = {
-  instructor: { email: DEMO.instructor, links: ['Overview', 'Courses', 'Library', 'Review', 'Substrate explorer', 'Outbox', 'Demo mailbox'] },
-  ta: { email: DEMO.ta1, links: ['Overview', 'My sections', 'Review', 'Library', 'Substrate explorer'] },
+  instructor: { email: DEMO.instructor, links: ['Overview', 'Courses', 'Library', 'Review', 'Class results', 'Substrate explorer', 'Outbox', 'Demo mailbox'] },
+  ta: { email: DEMO.ta1, links: ['Overview', 'My sections', 'Review', 'Class results', 'Library', 'Substrate explorer'] },
   coordinator: { email: DEMO.coordinator, links: ['Overview', 'Schedule', 'Stockroom', 'Library', 'Outbox', 'Demo mailbox'] },
   student: { email: DEMO.student(5), links: ['My lab', 'Substrate explorer'] },
 }

@@ -6,12 +6,12 @@ const routes = (role: string, demo = false) => navigationFor(role, { demo }).map
 describe('navigationFor', () => {
   it('instructor', () => {
     expect(routes('instructor')).toEqual([
-      'Overview /', 'Courses /courses', 'Library /library', 'Review /review', 'Substrate explorer /explorer', 'Outbox /outbox',
+      'Overview /', 'Courses /courses', 'Library /library', 'Review /review', 'Class results /results', 'Substrate explorer /explorer', 'Outbox /outbox',
     ])
   })
 
   it('ta', () => {
-    expect(routes('ta')).toEqual(['Overview /', 'My sections /sections', 'Review /review', 'Library /library', 'Substrate explorer /explorer'])
+    expect(routes('ta')).toEqual(['Overview /', 'My sections /sections', 'Review /review', 'Class results /results', 'Library /library', 'Substrate explorer /explorer'])
   })
 
   it('coordinator', () => {

@@ -3,6 +3,7 @@ import * as createUsers from './2026_12_01_0900_create_users'
 import * as createMailMessages from './2026_12_01_0910_create_mail_messages'
 import * as createCourses from './2026_12_01_1100_create_courses'
 import * as createSubmissions from './2026_12_01_1300_create_submissions'
+import * as createDigests from './2026_12_01_1400_create_digests'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -11,4 +12,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_01_0910_create_mail_messages': createMailMessages,
   '2026_12_01_1100_create_courses': createCourses,
   '2026_12_01_1300_create_submissions': createSubmissions,
+  '2026_12_01_1400_create_digests': createDigests,
 }

@@ -1,0 +1,77 @@
+// GET /api/practicals/:id/summary with 2,000 and 20,000 submissions in the database, against
+// the raw SQL that reads the same rows, side by side; and how each grows from 2,000 to 20,000.
+import pg from 'pg'
+import { signIn } from '../lib/world.mjs'
+
+const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
+
+const RAW = `select distinct on (s.unit_key) s.id, s.section_id, s.unit_key, s.factor_secondary, s.factor_tertiary,
+  s.result -> 'molePercents' as mole_percents, s.excluded_at, s.exclusion_reason
+  from submissions s where s.practical_id = $1 and s.status in ('pending', 'accepted')
+  order by s.unit_key, s.version desc`
+
+/** A practical of its own with n units' results (and a superseded version for a tenth of them). */
+async function fill(client, n) {
+  const { rows: [base] } = await client.query(`select p.course_id, p.substrate_id, p.method_id, (select id from files limit 1) as file_id,
+    (select id from users where role = 'student' limit 1) as user_id from practicals p where p.title like 'Chlorination%' limit 1`)
+  const { rows: sections } = await client.query('select id from sections where course_id = $1 order by id', [base.course_id])
+  const { rows: [p] } = await client.query(`insert into practicals (course_id, title, substrate_id, method_id, work_unit)
+    values ($1, $2, $3, $4, 'student') returning id`, [base.course_id, `Bench practical ${n}`, base.substrate_id, base.method_id])
+  for (const s of sections) await client.query(`insert into practical_sessions (practical_id, section_id, meeting_date, due_at) values ($1, $2, current_date, now())`, [p.id, s.id])
+  const sectionIds = sections.map((s) => s.id)
+  await client.query(`insert into submissions (practical_id, section_id, unit_key, version, file_id, input_kind, sha256, parsed, result, flags,
+      factor_secondary, status, submitted_by)
+    select $1, ($2::int[])[1 + (g % array_length($2::int[], 1))], 'bench:' || g, v, $3, 'peak-table', md5(g::text || v::text), '[]'::jsonb,
+      jsonb_build_object('molePercents', jsonb_build_array(jsonb_build_object('smiles', 'ClCCCCCl', 'percent', 20 + (g % 7)))),
+      '[]'::jsonb, 2.5 + ((g * 7919) % 1000) / 1000.0, case when v = 1 and g % 10 = 0 then 'returned' else 'accepted' end, $4
+    from generate_series(1, $5) g cross join lateral (select 1 as v union all select 2 where g % 10 = 0) versions`,
+  [p.id, sectionIds, base.file_id, base.user_id, n])
+  await client.query('analyze submissions')
+  return p.id
+}
+
+async function timeRoute(baseUrl, cookie, practicalId, repeats) {
+  const times = []
+  for (let i = 0; i < repeats; i++) {
+    const t = performance.now()
+    const response = await fetch(`${baseUrl}/api/practicals/${practicalId}/summary`, { headers: { cookie } })
+    const body = await response.json()
+    times.push(performance.now() - t)
+    if (response.status !== 200 || !(body.n > 0)) throw new Error(`summary ${practicalId}: ${response.status}`)
+  }
+  return median(times)
+}
+
+async function timeRaw(client, practicalId, repeats) {
+  const times = []
+  for (let i = 0; i < repeats; i++) {
+    const t = performance.now()
+    await client.query(RAW, [practicalId])
+    times.push(performance.now() - t)
+  }
+  return median(times)
+}
+
+export async function benchSummary(world, { sizes = [2000, 20000], repeats = 9 } = {}) {
+  const client = new pg.Client({ connectionString: world.databaseUrl })
+  await client.connect()
+  const cookie = await signIn(world.baseUrl, 'instructor@larkspur.example')
+  const rows = []
+  try {
+    for (const n of sizes) {
+      const practicalId = await fill(client, n)
+      // One warm-up each, so both sides run with a warm cache and compiled code.
+      await timeRoute(world.baseUrl, cookie, practicalId, 1)
+      await timeRaw(client, practicalId, 1)
+      const route = await timeRoute(world.baseUrl, cookie, practicalId, repeats)
+      const raw = await timeRaw(client, practicalId, repeats)
+      rows.push({ case: `GET summary, ${n} submissions`, rawSqlMs: raw, routeMs: route, ratio: route / raw })
+    }
+  } finally {
+    await client.end()
+  }
+  if (rows.length === 2) {
+    rows.push({ case: `growth ${sizes[0]} → ${sizes[1]} (×${sizes[1] / sizes[0]} rows)`, rawSqlMs: rows[1].rawSqlMs / rows[0].rawSqlMs, routeMs: rows[1].routeMs / rows[0].routeMs, ratio: null })
+  }
+  return rows
+}

@@ -1,0 +1,46 @@
+import { sql } from 'kysely'
+import type { ResultsListItem } from '#shared/types/results'
+import { summarize } from '#shared/utils/statistics'
+
+// The practicals whose class results the caller may read (instructors: their courses; TAs:
+// practicals run in their sections), each with n and its headline factor over the whole class.
+export default defineEventHandler(async (event): Promise<ResultsListItem[]> => {
+  const me = requireRole(event, 'instructor', 'ta')
+  const courseIds = await visibleCourseIds(me)
+  if (!courseIds.length) return []
+  const db = useDb()
+  const mySections = me.role === 'ta'
+    ? (await db.selectFrom('sectionTas').select('sectionId').where('userId', '=', me.id).execute()).map((r) => r.sectionId)
+    : null
+  let query = db.selectFrom('practicals')
+    .innerJoin('courses', 'courses.id', 'practicals.courseId')
+    .innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
+    .innerJoin('methods', 'methods.id', 'practicals.methodId')
+    .innerJoin('practicalSessions', 'practicalSessions.practicalId', 'practicals.id')
+    .select((eb) => ['practicals.id', 'practicals.title', 'practicals.substrateId', 'practicals.methodId', 'courses.id as courseId', 'courses.code', 'courses.term',
+      'substrates.name as substrateName', 'methods.name as methodName', eb.fn.max('practicalSessions.meetingDate').as('lastMeeting')])
+    .where('practicals.courseId', 'in', courseIds)
+    .groupBy(['practicals.id', 'courses.id', 'substrates.id', 'methods.id'])
+  if (mySections) query = query.where('practicalSessions.sectionId', 'in', mySections.length ? mySections : [-1])
+  const practicals = await query.orderBy('lastMeeting', 'desc').orderBy('practicals.id').execute()
+  if (!practicals.length) return []
+  // Each unit's newest accepted-or-pending version, in one pass over every listed practical.
+  const { rows } = await sql<{ practicalId: number, secondary: number | null, tertiary: number | null }>`
+    select practical_id as "practicalId", factor_secondary as secondary, factor_tertiary as tertiary from (
+      select distinct on (practical_id, unit_key) practical_id, factor_secondary, factor_tertiary, excluded_at
+      from submissions where practical_id in (${sql.join(practicals.map((p) => p.id))}) and status in ('pending', 'accepted')
+      order by practical_id, unit_key, version desc) l
+    where excluded_at is null`.execute(db.withoutPlugins())
+  return Promise.all(practicals.map(async (p): Promise<ResultsListItem> => {
+    const chemistry = await practicalChemistry(p)
+    const pick = chemistry.keyFactor === 'tertiaryToPrimary' ? 'tertiary' : 'secondary'
+    const values = rows.filter((r) => r.practicalId === p.id).flatMap((r) => (r[pick] === null ? [] : [Number(r[pick])]))
+    const s = summarize(values)
+    return {
+      practicalId: p.id, title: p.title, courseId: p.courseId, courseCode: p.code, term: p.term,
+      substrateName: p.substrateName, methodName: p.methodName, keyFactor: chemistry.keyFactor,
+      literature: chemistry.literature[chemistry.keyFactor], n: s.n, mean: s.mean, ci95: s.ci, median: s.median,
+      lastMeeting: (p.lastMeeting as string | null) ?? null,
+    }
+  }))
+})

@@ -1,0 +1,63 @@
+import type { PracticalScope } from './access'
+import type { FactorSet, PracticalSummary } from '#shared/types/summary'
+import { factorStats, type FactorValue } from '#shared/utils/class-summary'
+import type { OutlierSettings } from '#shared/utils/outliers'
+import type { OutlierTestName } from '#shared/types/course'
+import type { ClassRow } from './class-results'
+
+function factorSet(rows: ClassRow[], settings: OutlierSettings, has: { secondary: boolean, tertiary: boolean }, withoutOutliers: boolean): FactorSet {
+  const values = (pick: (r: ClassRow) => number | null): FactorValue[] =>
+    rows.flatMap((r) => { const v = pick(r); return v === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: v }] })
+  return {
+    secondaryToPrimary: has.secondary ? factorStats(values((r) => r.secondary), settings, { withoutOutliers }) : null,
+    tertiaryToPrimary: has.tertiary ? factorStats(values((r) => r.tertiary), settings, { withoutOutliers }) : null,
+  }
+}
+
+/**
+ * The class-wide selectivity of a practical: every unit's latest accepted-or-pending result,
+ * excluded ones left out and listed. The whole class is summarised for everyone who may see
+ * the practical; the by-section part holds only the caller's sections.
+ */
+export async function practicalSummary(scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean }): Promise<PracticalSummary> {
+  const chemistry = await practicalChemistry(scope.practical)
+  const rows = await latestClassResults(scope.practical.id)
+  const included = rows.filter((r) => r.excludedAt === null)
+  const settings: OutlierSettings = {
+    test: options.method ?? scope.course.outlierTest,
+    alpha: scope.course.outlierAlpha,
+    zscoreLimit: scope.course.zscoreLimit,
+  }
+  const has = {
+    secondary: chemistry.products.some((p) => p.carbonClass === 'secondary'),
+    tertiary: chemistry.products.some((p) => p.carbonClass === 'tertiary'),
+  }
+  const withoutOutliers = options.withoutOutliers ?? false
+  const sections = await useDb().selectFrom('practicalSessions').innerJoin('sections', 'sections.id', 'practicalSessions.sectionId')
+    .select(['sections.id', 'sections.code']).where('practicalSessions.practicalId', '=', scope.practical.id)
+    .where('sections.id', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1]).orderBy('sections.code').execute()
+
+  const distribution = chemistry.products.map((p) => {
+    const xs = included.flatMap((r) => r.molePercents.filter((m) => m.smiles === p.smiles).map((m) => m.percent))
+    return {
+      smiles: p.smiles,
+      label: p.label,
+      observed: xs.length ? xs.reduce((a, b) => a + b, 0) / xs.length : null,
+      predicted: chemistry.predicted.find((x) => x.smiles === p.smiles)?.percent ?? 0,
+      statistical: chemistry.statistical.find((x) => x.smiles === p.smiles)?.percent ?? 0,
+    }
+  })
+  return {
+    n: included.length,
+    factors: factorSet(included, settings, has, withoutOutliers),
+    excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: r.exclusionReason ?? '' })),
+    bySection: sections.map((s) => {
+      const mine = included.filter((r) => r.sectionId === s.id)
+      return { sectionId: s.id, code: s.code, n: mine.length, factors: factorSet(mine, settings, has, withoutOutliers) }
+    }),
+    keyFactor: chemistry.keyFactor,
+    literature: chemistry.literature,
+    withoutOutliers,
+    distribution,
+  }
+}
