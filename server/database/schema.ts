@@ -255,6 +255,10 @@ export interface PracticalItemsTable {
   density: number | null
   basis: ItemBasis
   amount: number
+  /** The catalog reagent the item draws on (set by the stockroom); null until linked. */
+  reagentId: number | null
+  /** Grams of that reagent per mL, when the item is a solution made up from a stocked solid. */
+  reagentGramsPerMl: number | null
 }
 
 export interface PracticalSessionsTable {

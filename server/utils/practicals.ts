@@ -138,10 +138,20 @@ export function checkedItems(items: Array<ItemInput & { smiles: string | null, m
   })
 }
 
+/**
+ * Replaces a practical's items. The stockroom's link of each item to a catalog reagent is kept
+ * across the edit, matched by role and name, so an instructor's change does not undo it.
+ */
 export async function replacePracticalItems(trx: Transaction<Database>, practicalId: number, items: ItemSpec[]) {
+  const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'reagentId', 'reagentGramsPerMl']).where('practicalId', '=', practicalId).execute()
+  const key = (i: { role: string, name: string }) => `${i.role}|${i.name.trim().toLowerCase()}`
+  const links = new Map(before.filter((b) => b.reagentId !== null).map((b) => [key(b), b]))
   await trx.deleteFrom('practicalItems').where('practicalId', '=', practicalId).execute()
   if (!items.length) return
-  await trx.insertInto('practicalItems').values(items.map((item, position) => ({ practicalId, position, ...item }))).execute()
+  await trx.insertInto('practicalItems').values(items.map((item, position) => {
+    const link = links.get(key(item))
+    return { practicalId, position, ...item, reagentId: link?.reagentId ?? null, reagentGramsPerMl: link?.reagentGramsPerMl ?? null }
+  })).execute()
 }
 
 export async function touchPractical(trx: Transaction<Database>, practicalId: number) {

@@ -6,6 +6,7 @@ import { DEMO_PASSWORD, seedPeople } from './people'
 import { seedLibrary } from './library'
 import { seedCourse } from './course'
 import { seedPracticals } from './practicals'
+import { seedStockroom } from './stockroom'
 import { seedSubmissions } from './submissions'
 
 export interface SeedOptions {
@@ -31,5 +32,6 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}) 
     await seedCourse(ctx)
     await seedPracticals(ctx)
     await seedSubmissions(ctx)
+    await seedStockroom(ctx)
   })
 }

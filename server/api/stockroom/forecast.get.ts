@@ -1,0 +1,9 @@
+import { forecastQuerySchema, type ForecastAnswer } from '#shared/types/stockroom'
+
+// What the schedule will use in a date range, against the stock that will still be in date.
+// Coordinators see every course; instructors their own (the scope is in the loader's where).
+export default defineEventHandler(async (event): Promise<ForecastAnswer> => {
+  const me = requireStockroomReader(event)
+  const query = readQueryAs(event, forecastQuerySchema)
+  return loadForecast(me, query)
+})
