@@ -1,6 +1,8 @@
+import type { H3Event } from 'h3'
 import type { ReviewerScope } from './review-scope'
+import type { SessionUser } from '#shared/types/auth'
 import type { StoredFlag, SubmissionStatus } from '../database/schema'
-import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type UnitMember, type UnitView } from '#shared/types/review'
+import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView } from '#shared/types/review'
 import { findOutliers, type OutlierFinding } from '#shared/utils/outliers'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
@@ -162,4 +164,29 @@ export async function reviewSectionsOf(scope: ReviewerScope): Promise<Array<{ id
   const ids = scope.sessionSectionIds
   if (!ids.length) return []
   return useDb().selectFrom('sections').select(['id', 'code']).where('id', 'in', ids).orderBy('code').execute()
+}
+
+/** The practicals a reviewer works on (owned courses; a TA's sections), with their queue counts. */
+export async function reviewPracticalItems(event: H3Event, me: SessionUser): Promise<ReviewPracticalItem[]> {
+  const db = useDb()
+  const candidates = me.role === 'instructor'
+    ? await db.selectFrom('practicals').innerJoin('courseOwners', 'courseOwners.courseId', 'practicals.courseId')
+      .select('practicals.id').where('courseOwners.userId', '=', me.id).orderBy('practicals.id').execute()
+    : await db.selectFrom('practicals').innerJoin('practicalSessions', 'practicalSessions.practicalId', 'practicals.id')
+      .innerJoin('sectionTas', 'sectionTas.sectionId', 'practicalSessions.sectionId')
+      .select('practicals.id').distinct().where('sectionTas.userId', '=', me.id).orderBy('practicals.id').execute()
+  const items: ReviewPracticalItem[] = []
+  for (const { id } of candidates) {
+    const scope = await requireReviewerOf(event, id)
+    const chemistry = await practicalChemistry(scope.practical)
+    const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
+    items.push({
+      id,
+      title: scope.practical.title,
+      course: { id: scope.course.id, code: scope.course.code, title: scope.course.title },
+      sections: (await reviewSectionsOf(scope)).map((s) => s.code),
+      counts: countQueueRows(rows),
+    })
+  }
+  return items
 }

@@ -41,6 +41,9 @@ describe('sign-in and the app shell in Chromium', () => {
     await signInThroughPage(tab.page, DEMO.instructor)
     expect(new URL(tab.page.url()).pathname).toBe('/')
     await tab.page.getByRole('heading', { name: /Welcome, Ines/ }).waitFor()
+    // Live figures: the demo's practical 1 has results waiting and flagged runs.
+    await tab.page.getByRole('heading', { name: 'Waiting for review' }).waitFor()
+    await tab.page.getByRole('heading', { name: 'Next practical' }).waitFor()
     const violations = await seriousViolations(tab.page)
     expect(violations, describeViolations(violations)).toEqual([])
     await screenshot(tab.page, 'instructor-overview')
@@ -67,6 +70,18 @@ describe('sign-in and the app shell in Chromium', () => {
     await signInThroughPage(tab.page, DEMO.coordinator)
     await tab.page.waitForURL((url) => url.pathname === '/account')
     await tab.page.getByRole('heading', { name: /password/i }).first().waitFor()
+    await tab.context.close()
+  })
+
+  it('the coordinator’s overview shows what to order and the waste to expect', async () => {
+    const tab = await openTab(browser)
+    await signInThroughPage(tab.page, DEMO.coordinator)
+    await tab.page.getByRole('heading', { name: 'To order for the next four weeks' }).waitFor()
+    await tab.page.getByRole('heading', { name: 'Halogenated waste expected' }).waitFor()
+    const violations = await seriousViolations(tab.page)
+    expect(violations, describeViolations(violations)).toEqual([])
+    await screenshot(tab.page, 'coordinator-overview')
+    expect(tab.problems).toEqual([])
     await tab.context.close()
   })
 

@@ -1,5 +1,8 @@
-// The coordinator's overview. Later features add their counts here; for now it proves the role gate.
-export default defineEventHandler(async (event) => {
+import type { Overview } from '#shared/types/overview'
+
+// The coordinator's first screen: what to order, the waste to expect, the next practical.
+export default defineEventHandler(async (event): Promise<Overview> => {
   const me = requireRole(event, 'coordinator')
-  return { role: me.role, name: me.name, cards: [] as Array<{ title: string, value: string, to?: string }> }
+  const [stock, schedule] = await Promise.all([stockroomCards(me), scheduleAhead(me)])
+  return { role: me.role, name: me.name, cards: [...stock, nextLabCard(schedule)] }
 })

@@ -1,5 +1,8 @@
-// The instructor's overview. Later features add their counts here; for now it proves the role gate.
-export default defineEventHandler(async (event) => {
+import type { Overview } from '#shared/types/overview'
+
+// The instructor's first screen: the review queue, the next practical, what the stockroom lacks.
+export default defineEventHandler(async (event): Promise<Overview> => {
   const me = requireRole(event, 'instructor')
-  return { role: me.role, name: me.name, cards: [] as Array<{ title: string, value: string, to?: string }> }
+  const [review, schedule, stock, results] = await Promise.all([reviewCards(event, me), scheduleAhead(me), stockroomCards(me), classResultCard(event, me)])
+  return { role: me.role, name: me.name, cards: [...review, ...(results ? [results] : []), nextLabCard(schedule), stock[0]!] }
 })

@@ -1,5 +1,7 @@
-// The student's overview. Later features add their counts here; for now it proves the role gate.
-export default defineEventHandler(async (event) => {
+import type { Overview } from '#shared/types/overview'
+
+// The student's first screen is their lab (GET /api/me/lab); this stays for the role check.
+export default defineEventHandler(async (event): Promise<Overview> => {
   const me = requireRole(event, 'student')
-  return { role: me.role, name: me.name, cards: [] as Array<{ title: string, value: string, to?: string }> }
+  return { role: me.role, name: me.name, cards: [] }
 })

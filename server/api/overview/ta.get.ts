@@ -1,5 +1,8 @@
-// The ta's overview. Later features add their counts here; for now it proves the role gate.
-export default defineEventHandler(async (event) => {
+import type { Overview } from '#shared/types/overview'
+
+// A TA's first screen: their sections' queue and the next practical they teach.
+export default defineEventHandler(async (event): Promise<Overview> => {
   const me = requireRole(event, 'ta')
-  return { role: me.role, name: me.name, cards: [] as Array<{ title: string, value: string, to?: string }> }
+  const [review, schedule, results] = await Promise.all([reviewCards(event, me), scheduleAhead(me), classResultCard(event, me)])
+  return { role: me.role, name: me.name, cards: [...review, ...(results ? [results] : []), nextLabCard(schedule)] }
 })

@@ -1,0 +1,102 @@
+import type { H3Event } from 'h3'
+import type { OverviewCard } from '#shared/types/overview'
+import type { ScheduleEntry } from '#shared/types/section'
+import type { SessionUser } from '#shared/types/auth'
+
+const DAY_MS = 86_400_000
+const isoDay = (offset = 0) => new Date(Date.now() + offset * DAY_MS).toISOString().slice(0, 10)
+const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
+
+/** The review queue summed over every practical the caller reviews. */
+export async function reviewCards(event: H3Event, me: SessionUser): Promise<OverviewCard[]> {
+  const items = await reviewPracticalItems(event, me)
+  const pending = items.reduce((n, i) => n + i.counts.pending, 0)
+  const flagged = items.reduce((n, i) => n + i.counts.flagged, 0)
+  const busiest = [...items].sort((a, b) => b.counts.pending - a.counts.pending)[0]
+  return [
+    {
+      title: 'Waiting for review',
+      value: String(pending),
+      detail: busiest && busiest.counts.pending ? `Most in ${busiest.title} (${busiest.course.code})` : 'Nothing waits for you.',
+      to: busiest && busiest.counts.pending ? `/review/practicals/${busiest.id}` : '/review',
+      action: 'Open the queue',
+      tone: pending ? 'info' : 'ok',
+    },
+    {
+      title: 'Flagged runs',
+      value: String(flagged),
+      detail: flagged ? 'Results with a problem to look at first.' : 'No result carries a flag.',
+      to: '/review',
+      action: 'See them',
+      tone: flagged ? 'warning' : 'ok',
+    },
+  ]
+}
+
+/** The next meeting that runs a practical, from the caller's schedule. */
+export function nextLabCard(entries: ScheduleEntry[]): OverviewCard {
+  const next = entries.find((e) => e.practicals.length && e.start >= new Date().toISOString())
+  if (!next) return { title: 'Next practical', value: '—', detail: 'No practical is scheduled in the coming four weeks.', to: '/schedule', action: 'Open the schedule' }
+  const day = new Intl.DateTimeFormat('en-US', { timeZone: next.timezone, weekday: 'short', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false }).format(new Date(next.start))
+  return {
+    title: 'Next practical',
+    value: day,
+    detail: `${next.practicals.map((p) => p.title).join(', ')} · ${next.courseCode} ${next.sectionCode}, ${next.room}, ${plural(next.enrolled, 'student')}`,
+    to: `/practicals/${next.practicals[0]!.id}`,
+    action: 'Open the practical',
+  }
+}
+
+/** Shortfalls and waste for the coming four weeks, from the stockroom forecast. */
+export async function stockroomCards(me: SessionUser): Promise<OverviewCard[]> {
+  const today = stockroomToday()
+  const forecast = await loadForecast(me, { from: today, to: isoDay(27), today })
+  const short = forecast.lines.filter((l) => l.containers > 0)
+  return [
+    {
+      title: 'To order for the next four weeks',
+      value: plural(short.reduce((n, l) => n + l.containers, 0), 'container'),
+      detail: short.length ? short.map((l) => l.name).join(', ') : 'Stock on hand covers the schedule.',
+      to: '/stockroom/forecast',
+      action: 'Open the forecast',
+      tone: short.length ? 'warning' : 'ok',
+    },
+    {
+      title: 'Halogenated waste expected',
+      value: `${Math.round(forecast.halogenatedWasteMl)} mL`,
+      detail: 'A planning estimate for booking pickups; segregate it from other solvent waste.',
+      to: '/stockroom',
+      action: 'Stockroom overview',
+    },
+  ]
+}
+
+export function scheduleAhead(me: SessionUser): Promise<ScheduleEntry[]> {
+  return scheduleEntries(me, isoDay(0), isoDay(27))
+}
+
+/** The class-wide selectivity of the practical with the latest results the caller may see. */
+export async function classResultCard(event: H3Event, me: SessionUser): Promise<OverviewCard | null> {
+  const db = useDb()
+  let query = db.selectFrom('submissions').innerJoin('practicals', 'practicals.id', 'submissions.practicalId')
+    .select('practicals.id').orderBy('submissions.createdAt', 'desc').limit(1)
+  query = me.role === 'instructor'
+    ? query.where('practicals.courseId', 'in', db.selectFrom('courseOwners').select('courseId').where('userId', '=', me.id))
+    : query.where('submissions.sectionId', 'in', db.selectFrom('sectionTas').select('sectionId').where('userId', '=', me.id))
+  const latest = await query.executeTakeFirst()
+  if (!latest) return null
+  const scope = await requirePracticalAccess(event, latest.id)
+  const summary = await practicalSummary(scope, {})
+  const stats = summary.factors[summary.keyFactor]
+  if (!stats || stats.median === null) return null
+  const name = summary.keyFactor === 'tertiaryToPrimary' ? '3°:1°' : '2°:1°'
+  const literature = summary.literature[summary.keyFactor]
+  return {
+    title: `Class ${name} selectivity`,
+    value: stats.median.toFixed(2),
+    detail: `Median of ${plural(stats.n, 'result')} in ${scope.practical.title}${literature ? `; the method predicts ${literature.toFixed(2)}` : ''}${stats.outliers.length ? `; ${plural(stats.outliers.length, 'outlier')} flagged` : ''}.`,
+    to: `/results/practicals/${latest.id}`,
+    action: 'Open the class results',
+    tone: stats.outliers.length ? 'warning' : undefined,
+  }
+}
