@@ -12,7 +12,7 @@ function isCrossSite(event: H3Event): boolean {
   if (!origin) return false
   if (origin === 'null') return true
   try {
-    return new URL(origin).host !== getRequestHost(event, { xForwardedHost: useRuntimeConfig(event).trustProxy })
+    return new URL(origin).host !== getRequestHost(event, { xForwardedHost: useRuntimeConfig().trustProxy })
   } catch {
     return true
   }

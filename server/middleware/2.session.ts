@@ -23,7 +23,9 @@ async function loadSession(event: H3Event, name: string, sealed: string) {
 export default defineEventHandler(async (event) => {
   event.context.auth = null
   if (skips(event.path)) return
-  const name = useRuntimeConfig(event).session.name as string
+  // The process-wide config: reading it per event (useRuntimeConfig(event)) re-applies every
+  // environment override on each request, which cost more than the rest of the request.
+  const name = useRuntimeConfig().session.name as string
   const sealed = parseCookies(event)[name]
   // No cookie: do not call getUserSession, which would mint an empty session cookie.
   if (!sealed) return
