@@ -45,6 +45,17 @@ describe('same-origin rule for changes', () => {
   })
 })
 
+describe('unknown API routes', () => {
+  it('answer a JSON 404, and known routes beside them still work', async () => {
+    const reply = await new Client().get('/api/no-such-thing/here')
+    expect(reply.status).toBe(404)
+    expect(reply.body.statusMessage).toBe('No such API route')
+    const client = await signedIn(DEMO.student(4))
+    expect((await client.get('/api/_auth/session')).body.user.role).toBe('student')
+    expect((await client.get('/api/me/lab')).status).toBe(200)
+  })
+})
+
 describe('security headers', () => {
   it('pages carry a strict CSP and the usual headers', async () => {
     const reply = await new Client().get('/login')
