@@ -1,6 +1,6 @@
 import { z } from 'zod'
 
-export const SMILES_MAX_LENGTH = 400
+export const SMILES_MAX_LENGTH = 1000
 
 const smiles = z.string().trim().min(1, 'Enter a SMILES string').max(SMILES_MAX_LENGTH, `Use at most ${SMILES_MAX_LENGTH} characters`)
 const positive = z.number().finite().min(0, 'Must be zero or more')

@@ -69,20 +69,20 @@ export function keyFactorOf(products: RunProduct[]): 'tertiaryToPrimary' | 'seco
   return products.some((p) => p.carbonClass === 'tertiary') ? 'tertiaryToPrimary' : 'secondaryToPrimary'
 }
 
-function readPeaks(text: string): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
+function readPeaks(text: string, expectedMaxMinutes: number | undefined): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
   const sniff = sniffUpload(text)
   if (sniff.kind === 'trace') {
-    const trace = parseTrace(text)
+    const trace = parseTrace(text, { expectedMaxMinutes })
     if (trace.errors.length) throw new RunInputError(`The trace has ${trace.errors.length} unreadable row(s)`, trace.errors)
     const detected = detectPeaks({ time: trace.time, signal: trace.signal })
     const flags = detected.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity === 'warning' ? 'warning' : 'info'], message: f.message }))
     return { kind: 'trace', peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })), warnings: trace.warnings, flags }
   }
   if (sniff.kind === 'unknown') throw new RunInputError(`This is neither a peak table nor a detector trace: ${sniff.reason}`)
-  const table = parsePeakTable(text)
+  const table = parsePeakTable(text, { expectedMaxMinutes })
   if (table.errors.length) {
     const first = table.errors[0]!
-    throw new RunInputError(first.row > 0 ? `Row ${first.row}: ${first.message}` : first.message, table.errors)
+    throw new RunInputError(first.message, table.errors)
   }
   return { kind: 'peak-table', peaks: table.peaks, warnings: table.warnings, flags: [] }
 }
@@ -128,7 +128,10 @@ function farFromPrediction(input: RunInput, factors: RunResult['factors']): RunF
 }
 
 export function evaluateRun(input: RunInput): RunResult {
-  const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.text)
+  // The last window's end tells seconds from minutes when a file does not say (a 65 s peak is not a 65 min one).
+  const ends = [...input.windows.map(w => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
+  const expectedMaxMinutes = input.windows.length ? Math.max(...ends) : undefined
+  const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.text, expectedMaxMinutes)
   if (!peaks.length) throw new RunInputError('No peaks were found in the file')
   const assigned = assignPeaks(peaks, input.windows, {
     solvent: input.solvent ?? undefined,

@@ -40,6 +40,9 @@ const VALID: [string, { areaPercent?: boolean, height?: boolean, warning?: RegEx
   ['valid-15-unit-headers.tsv', { areaPercent: true, height: true }],
   ['valid-16-footer-lines.csv', { areaPercent: true, warning: /not part of the table/ }],
   ['valid-17-thousands-dot-decimal-comma.csv', {}],
+  ['valid-18-units-row-rel-area.csv', { areaPercent: true, height: true }],
+  ['valid-19-two-area-columns.txt', { areaPercent: true, height: true, warning: /totals row/ }],
+  ['valid-20-text-footer-decimal-comma.csv', { areaPercent: true, warning: /holds no numbers/ }],
 ]
 
 describe('parsePeakTable on messy but valid exports', () => {
@@ -63,6 +66,30 @@ describe('parsePeakTable on messy but valid exports', () => {
     const r = parsePeakTable('RT;Area\n1,234;500\n2,345;600\n')
     expect(r.meta!.decimalComma).toBe(true)
     expect(r.peaks.map(p => p.retentionTime)).toEqual([1.234, 2.345])
+  })
+
+  it('reads one decimal mark per column, taking the file\'s when a column alone cannot tell (common practice)', () => {
+    // "1,5" can only be a decimal comma, so "2,498" is one too, and the dots in the areas group thousands.
+    const r = parsePeakTable('RT;Area\n1,5;1.234\n2,498;15.678\n')
+    expect(r.peaks.map(p => [p.retentionTime, p.area])).toEqual([[1.5, 1234], [2.498, 15678]])
+    // A quoted "1,234.5" in a comma file is a thousands comma beside a decimal point.
+    expect(parsePeakTable('RT,Area\n1.502,"1,234.5"\n2.498,"12,345"\n').peaks.map(p => p.area)).toEqual([1234.5, 12345])
+  })
+
+  it('refuses a decimal mark that contradicts the rest of its column instead of guessing', () => {
+    const r = parsePeakTable('RT;Area\n1,5;1000\n2.5;2000\n3,5;3000\n')
+    expect(r.errors).toEqual([expect.objectContaining({ row: 3, code: 'non-numeric', message: expect.stringMatching(/decimal commas elsewhere/) })])
+  })
+
+  it('does not take a ratio column ("Area/Height") for the area', () => {
+    expect(parsePeakTable('RT,Area/Height,Area\n1.5,20,1000\n2.5,25,2000\n').peaks.map(p => p.area)).toEqual([1000, 2000])
+  })
+
+  it('skips text-only lines after the table, but refuses one between peaks', () => {
+    expect(parsePeakTable('RT,Area\n1.5,1000\n2.5,2000\n\nPrinted by,lab3\n').peaks).toHaveLength(2)
+    const inside = parsePeakTable('RT,Area\n1.5,1000\nsee note,below\n2.5,2000\n')
+    expect(inside.peaks).toEqual([])
+    expect(inside.errors[0]).toMatchObject({ row: 3, code: 'non-numeric' })
   })
 
   it('skips a totals row without a label when its area equals the sum', () => {
@@ -115,6 +142,8 @@ const INVALID: [string, string, number][] = [
   ['invalid-10-negative-rt.csv', 'negative-value', 2],
   ['invalid-11-unquoted-decimal-commas.csv', 'misaligned', 2],
   ['invalid-12-no-rt-column.csv', 'no-rt-column', 1],
+  ['invalid-13-mixed-decimal-marks.csv', 'non-numeric', 2],
+  ['invalid-14-overflowing-area.csv', 'non-numeric', 3],
 ]
 
 describe('parsePeakTable refusals', () => {

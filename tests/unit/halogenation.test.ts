@@ -78,6 +78,8 @@ describe('analyzeSubstrate', () => {
     expect(analyzeSubstrate('CC(C)C(C)C').molarMass).toBeCloseTo(86.18, 2) // 2,3-dimethylbutane, IUPAC atomic weights
     expect(molarMassOf('O=S(=O)(Cl)Cl')).toEqual({ formula: 'Cl2O2S', molarMass: expect.closeTo(134.96, 2) }) // sulfuryl chloride, IUPAC
     expect(molarMassOf('CC(C)(C#N)N=NC(C)(C)C#N')).toEqual({ formula: 'C8H12N4', molarMass: expect.closeTo(164.21, 2) }) // AIBN, IUPAC
+    // Iodoform CHI3: 393.73 g/mol from IUPAC standard atomic weights (I 126.90447, from memory).
+    expect(analyzeSubstrate('IC(I)I').molarMass).toBeCloseTo(393.73, 2)
   })
 
   const errorCases: [string, string][] = [

@@ -70,8 +70,21 @@ describe('evaluateRun', () => {
       evaluateRun(input('RT,Area\n1.2,abc\n'))
     } catch (error) {
       expect((error as RunInputError).rows[0]!.row).toBe(2)
+      expect((error as RunInputError).message).toBe('Row 2: the area "abc" is not a number.')
     }
     expect(() => evaluateRun(input('just some words\nand more\n'))).toThrow(/neither a peak table/i)
+  })
+
+  it('reads undeclared seconds by the windows, even when every time stays below 90', () => {
+    // A fast column: windows end at 1.17 min, so times of 41-69 with no unit can only be seconds.
+    const fast = windows.map((w) => ({ ...w, rtMin: w.rtMin / 5, rtMax: w.rtMax / 5 }))
+    const rows = fast.map((w) => `${(((w.rtMin + w.rtMax) / 2) * 60).toFixed(2)},${truth.find((t) => t.smiles === w.productSmiles)!.percent * 1000}`)
+    expect(Math.max(...rows.map((r) => Number(r.split(',')[0])))).toBeLessThan(90)
+    const run = evaluateRun(input(['RT,Area', ...rows].join('\n'), { windows: fast, solvent: null, startingMaterial: null }))
+    for (const p of truth) expect(run.molePercents.find((m) => m.smiles === p.smiles)!.percent).toBeCloseTo(p.percent, 1)
+    // A late extra peak in minutes (a trichloride at 14 min) keeps the file in minutes.
+    const late = evaluateRun(input(['RT,Area', ...windows.map((w) => `${(w.rtMin + w.rtMax) / 2},1000`), '14.2,50'].join('\n')))
+    expect(late.molePercents.every((m) => m.percent === 25)).toBe(true)
   })
 
   it('picks the tertiary factor for a substrate with a tertiary C–H', () => {

@@ -51,7 +51,7 @@ export const STANDARD_ATOMIC_WEIGHTS: Readonly<Record<string, number>> = {
   H: 1.008, Li: 6.94, B: 10.81, C: 12.011, N: 14.007, O: 15.999, F: 18.998, Na: 22.99,
   Mg: 24.305, Al: 26.982, Si: 28.085, P: 30.974, S: 32.06, Cl: 35.45, K: 39.098, Ca: 40.078,
   Cr: 51.996, Mn: 54.938, Fe: 55.845, Cu: 63.546, Zn: 65.38, Br: 79.904, Ag: 107.87,
-  Sn: 118.71, I: 126.9, Hg: 200.59,
+  Sn: 118.71, I: 126.90447, Hg: 200.59,
 }
 
 /** Syntax problems openchemlib would otherwise tolerate; null when none is found. */
@@ -95,6 +95,7 @@ export function smilesSyntaxProblem(smiles: string): string | null {
 }
 
 function readMolecule(input: string): Molecule {
+  if (typeof input !== 'string') throw new SubstrateError('empty', 'Enter a SMILES string for the substrate.')
   const smiles = input.trim()
   if (smiles === '') throw new SubstrateError('empty', 'Enter a SMILES string for the substrate.')
   if (smiles.length > MAX_SMILES_LENGTH) {

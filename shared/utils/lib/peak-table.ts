@@ -1,8 +1,8 @@
 // Peak-table reader for integration reports exported as CSV, TSV, semicolon or aligned text.
 import {
-  type Cell, type ColumnKind, type Delimiter, type TimeUnit,
-  SEPARATOR_LINE, UNIT_TOKEN, alignCells, classifyHeader, decimalCommaEvidence, looksNumeric,
-  mergeHeaderTokens, parseNumber, splitCells, splitLines, splitWideGaps, timeUnitOf, utf8Length,
+  type Cell, type ColumnKind, type DecimalMark, type Delimiter, type TimeUnit,
+  SEPARATOR_LINE, alignCells, classifyHeader, decimalCommaColumns, isUnitCell, looksNumeric,
+  mergeHeaderTokens, parseNumber, separatorHint, splitCells, splitLines, splitWideGaps, timeUnitOf, utf8Length,
 } from './table-text'
 
 export interface Peak {
@@ -105,9 +105,12 @@ function rowCells(line: string, header: HeaderCandidate): (string | undefined)[]
   return alignCells(cells, header.cells)
 }
 
-function isUnitsRow(cells: (string | undefined)[]): boolean {
+/** A row of units under the header; its retention-time cell, when present, must name a time unit. */
+function isUnitsRow(cells: (string | undefined)[], header: HeaderCandidate): boolean {
   const present = cells.filter((c): c is string => !!c && c.trim() !== '')
-  return present.length > 0 && present.every(c => UNIT_TOKEN.test(c.trim()))
+  if (present.length === 0 || !present.every(isUnitCell)) return false
+  const rt = cells[header.kinds.get('rt')!.index]?.trim().replace(/^[[(]|[\])]$/g, '') ?? ''
+  return rt === '' || timeUnitOf(rt) !== null
 }
 
 interface RawRow { row: number, cells: (string | undefined)[] }
@@ -120,6 +123,7 @@ function isRepeatedHeader(cells: (string | undefined)[], header: HeaderCandidate
 
 function collectRows(lines: string[], header: HeaderCandidate, warnings: string[], errors: RowError[]): { rows: RawRow[], unitsRow: (string | undefined)[] | null } {
   const rows: RawRow[] = []
+  const textLines: RawRow[] = []
   let unitsRow: (string | undefined)[] | null = null
   for (let i = header.row; i < lines.length; i++) {
     const line = lines[i]!
@@ -129,7 +133,7 @@ function collectRows(lines: string[], header: HeaderCandidate, warnings: string[
       errors.push({ row: i + 1, code: 'misaligned', message: `Row ${i + 1}: the values do not line up with the header columns.` })
       continue
     }
-    if (rows.length === 0 && !unitsRow && isUnitsRow(cells)) { unitsRow = cells; continue }
+    if (rows.length === 0 && !unitsRow && isUnitsRow(cells, header)) { unitsRow = cells; continue }
     if (isRepeatedHeader(cells, header)) {
       // Reports with several detector signals repeat the table; the first one is the product run.
       if (rows.length > 0) { warnings.push(`A second table starts at row ${i + 1}; only the first table was read.`); break }
@@ -144,13 +148,38 @@ function collectRows(lines: string[], header: HeaderCandidate, warnings: string[
       warnings.push(`Row ${i + 1} is not part of the table ("${filled[0]!.slice(0, 40)}") and was skipped.`)
       continue
     }
+    // A text-only line after the peaks ("Printed by,lab3") is a footer, unless more peaks follow it.
+    if (rows.length > 0 && filled.every(c => !looksNumeric(c))) {
+      textLines.push({ row: i + 1, cells })
+      continue
+    }
+    if (textLines.length) { rows.push(...textLines); textLines.length = 0 }
     if (header.delimiter === ',' && filled.length > header.cells.length) {
       errors.push({ row: i + 1, code: 'misaligned', message: `Row ${i + 1} has more values than the header has columns: a name or number containing a comma must be quoted (or export with semicolons or tabs if the file uses decimal commas).` })
       continue
     }
     rows.push({ row: i + 1, cells })
   }
+  for (const t of textLines) warnings.push(`Row ${t.row} follows the table and holds no numbers ("${t.cells.filter(Boolean).join(' ').slice(0, 40)}"); it was skipped.`)
   return { rows, unitsRow }
+}
+
+/** Two "Area" columns whose units row says "%" for one of them: that one is the area %. */
+function percentFromUnits(header: HeaderCandidate, unitsRow: (string | undefined)[] | null): HeaderCandidate['kinds'] {
+  const kinds = new Map(header.kinds)
+  if (!unitsRow) return kinds
+  const unitAt = (i: number) => unitsRow[i]?.trim().replace(/^[[(]|[\])]$/g, '') ?? ''
+  const percent = header.cells.map((c, i) => i)
+    .filter(i => unitAt(i) === '%' && classifyHeader(`${header.cells[i]!.text} %`).kind === 'areaPercent')
+  if (percent.length === 0) return kinds
+  const area = kinds.get('area')
+  if (area && unitAt(area.index) === '%') {
+    const absolute = header.cells.findIndex((c, i) => unitAt(i) !== '%' && classifyHeader(c.text).kind === 'area')
+    if (absolute < 0) return kinds
+    kinds.set('area', { index: absolute, unit: unitAt(absolute) || null })
+  }
+  if (!kinds.has('areaPercent')) kinds.set('areaPercent', { index: percent[0]!, unit: '%' })
+  return kinds
 }
 
 function declaredTimeUnit(header: HeaderCandidate, unitsRow: (string | undefined)[] | null): TimeUnit | null {
@@ -167,10 +196,11 @@ export function chooseTimeUnit(
   if (option && option !== 'auto') return { unit: option, source: 'option' }
   if (declared) return { unit: declared, source: 'header' }
   const max = values.reduce((m, v) => Math.max(m, v), 0)
-  // With the method's last expected time E: seconds when the times overshoot 3E as minutes but
-  // fit within it as seconds. Without it: seconds above SECONDS_THRESHOLD.
+  // With the method's last expected time E: seconds when the times overshoot 10E as minutes (a
+  // late polychlorinated peak or a bake-out stays well below that) but fit within 3E as seconds.
+  // Without it: seconds above SECONDS_THRESHOLD.
   const seconds = expectedMaxMinutes && expectedMaxMinutes > 0
-    ? max > 3 * expectedMaxMinutes && max / 60 <= 3 * expectedMaxMinutes
+    ? max > 10 * expectedMaxMinutes && max / 60 <= 3 * expectedMaxMinutes
     : max > SECONDS_THRESHOLD
   if (seconds) {
     warnings.push(`Times have no unit and reach ${max}; they were read as seconds and converted to minutes.`)
@@ -181,7 +211,7 @@ export function chooseTimeUnit(
 
 export const toMinutes = (unit: TimeUnit) => (unit === 's' ? 1 / 60 : unit === 'ms' ? 1 / 60000 : 1)
 
-function optionalNumber(raw: string | undefined, decimalComma: boolean): number | undefined | 'bad' {
+function optionalNumber(raw: string | undefined, decimalComma: DecimalMark): number | undefined | 'bad' {
   if (raw === undefined) return undefined
   const v = parseNumber(raw, decimalComma)
   if (v === null) return undefined
@@ -207,31 +237,34 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   const { rows, unitsRow } = collectRows(lines, header, warnings, errors)
   const maxRows = options.maxRows ?? MAX_PEAK_ROWS
   if (rows.length > maxRows) return refuse(rows[maxRows]!.row, 'too-many-rows', `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`)
-  const rtIdx = header.kinds.get('rt')!.index
-  const areaIdx = header.kinds.get('area')!.index
-  const pctIdx = header.kinds.get('areaPercent')?.index
-  const hIdx = header.kinds.get('height')?.index
-  const sample = rows.flatMap(r => [r.cells[rtIdx], r.cells[areaIdx]]).filter((c): c is string => !!c)
+  const kinds = percentFromUnits(header, unitsRow)
+  const rtIdx = kinds.get('rt')!.index
+  const areaIdx = kinds.get('area')!.index
+  const pctIdx = kinds.get('areaPercent')?.index
+  const hIdx = kinds.get('height')?.index
   // In comma-delimited files a decimal comma can only appear inside quotes, which splitCells has removed.
-  const decimalComma = decimalCommaEvidence(sample)
+  const numberColumns = [rtIdx, areaIdx, pctIdx, hIdx]
+  const commas = decimalCommaColumns(numberColumns.map(idx => idx === undefined ? [] : rows.map(r => r.cells[idx] ?? '')), header.delimiter)
+  const [rtComma, areaComma, pctComma, hComma] = commas as [DecimalMark, DecimalMark, DecimalMark, DecimalMark]
+  const decimalComma = rtComma === true
   const parsed: Peak[] = []
   const seen = new Map<number, number>()
   const areaSum = { value: 0 }
   const badOptional = new Set<string>()
   for (const { row, cells } of rows) {
     if (errors.length >= MAX_ERRORS) break
-    const rt = parseNumber(cells[rtIdx] ?? '', decimalComma)
-    const area = parseNumber(cells[areaIdx] ?? '', decimalComma)
+    const rt = parseNumber(cells[rtIdx] ?? '', rtComma)
+    const area = parseNumber(cells[areaIdx] ?? '', areaComma)
     if (rt === null && area !== null && !Number.isNaN(area) && parsed.length > 1 && Math.abs(area - areaSum.value) <= 0.005 * areaSum.value) {
       warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
       continue
     }
     const problems: RowError[] = []
     if (rt === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time is missing.` })
-    else if (Number.isNaN(rt)) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time "${cells[rtIdx]}" is not a number.` })
+    else if (Number.isNaN(rt)) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time "${cells[rtIdx]}" is not a number${separatorHint(cells[rtIdx] ?? '', rtComma)}.` })
     else if (rt < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the retention time ${cells[rtIdx]} is negative.` })
     if (area === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the area is missing.` })
-    else if (Number.isNaN(area)) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the area "${cells[areaIdx]}" is not a number.` })
+    else if (Number.isNaN(area)) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the area "${cells[areaIdx]}" is not a number${separatorHint(cells[areaIdx] ?? '', areaComma)}.` })
     else if (area < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the area ${cells[areaIdx]} is negative; re-integrate the peak or check the baseline.` })
     if (problems.length === 0 && rt !== null && seen.has(rt)) {
       problems.push({ row, code: 'duplicate-rt', message: `Row ${row}: retention time ${cells[rtIdx]} already appears on row ${seen.get(rt)}; remove the duplicate row.` })
@@ -240,9 +273,9 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
     seen.set(rt!, row)
     areaSum.value += area!
     const peak: Peak = { retentionTime: rt!, area: area!, row }
-    for (const [key, idx] of [['areaPercent', pctIdx], ['height', hIdx]] as const) {
+    for (const [key, idx, comma] of [['areaPercent', pctIdx, pctComma], ['height', hIdx, hComma]] as const) {
       if (idx === undefined) continue
-      const v = optionalNumber(cells[idx], decimalComma)
+      const v = optionalNumber(cells[idx], comma)
       if (v === 'bad') badOptional.add(key === 'height' ? 'height' : 'area %')
       else if (v !== undefined) peak[key] = v
     }

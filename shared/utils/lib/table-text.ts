@@ -91,6 +91,8 @@ export function classifyHeader(raw: string): HeaderName {
     return ' '
   })
   const slash = s.match(/^(.*?)\s*\/\s*([a-zµ*%.\s]+)$/)
+  // "Area/Height" is a ratio of two columns, not an area with a unit.
+  if (slash && isColumnName(slash[2]!)) return { kind: null, unit: null }
   if (slash) {
     s = slash[1]!
     unit = unit ?? slash[2]!.trim()
@@ -112,6 +114,11 @@ export function classifyHeader(raw: string): HeaderName {
   if (HEIGHT_NAMES.has(compact)) return { kind: 'height', unit }
   if (SIGNAL_NAMES.has(compact)) return { kind: 'signal', unit }
   return { kind: null, unit }
+}
+
+function isColumnName(text: string): boolean {
+  const compact = text.replace(/[\s._\-:]/g, '')
+  return RT_NAMES.has(compact) || AREA_NAMES.has(compact) || HEIGHT_NAMES.has(compact) || ['width', 'name', 'type', 'conc', 'amount'].includes(compact)
 }
 
 export interface HeaderColumn extends HeaderName {
@@ -150,31 +157,91 @@ export function cleanNumberText(raw: string): string {
   return raw.trim().replace(/^"(.*)"$/, '$1').replace(/\u2212/g, '-').replace(/(\d)[\s\u00a0\u202f\u2009'](?=\d)/g, '$1').replace(/\s*%$/, '').trim()
 }
 
-/** Evidence for decimal commas in a sample of numeric-looking cells. */
-export function decimalCommaEvidence(texts: string[]): boolean {
-  let comma = 0
-  let dot = 0
-  for (const raw of texts) {
-    const s = cleanNumberText(raw)
-    const lastComma = s.lastIndexOf(',')
-    const lastDot = s.lastIndexOf('.')
-    if (lastComma >= 0 && lastDot >= 0) {
-      if (lastComma > lastDot) comma++
-      else dot++
-    } else if (/^[+-]?\d+,\d+([eE][+-]?\d+)?$/.test(s)) {
-      if (!/^[+-]?\d{1,3}(,\d{3}){2,}$/.test(s)) comma++
-    } else if (/^[+-]?\d*\.\d+([eE][+-]?\d+)?$/.test(s)) dot++
-  }
-  return comma > 0 && dot === 0
+type Style = 'comma' | 'dot'
+/** true: decimal comma; false: decimal point; null: the column mixes both, so any mark is refused. */
+export type DecimalMark = boolean | null
+
+/**
+ * Which mark a cell uses as its decimal separator. `sure` is false when one separator followed
+ * by exactly three digits could be either ("2,498", "1.234"): the column or the file decides.
+ */
+function cellStyle(raw: string): { style: Style, sure: boolean } | null {
+  const s = cleanNumberText(raw).replace(/^[+-]/, '').replace(/[eE][+-]?\d+$/, '')
+  const commas = s.split(',').length - 1
+  const dots = s.split('.').length - 1
+  if (commas && dots) return { style: s.lastIndexOf(',') > s.lastIndexOf('.') ? 'comma' : 'dot', sure: true }
+  const mark = commas ? ',' : dots ? '.' : null
+  if (!mark) return null
+  const count = commas || dots
+  const style: Style = mark === ',' ? 'comma' : 'dot'
+  const other: Style = mark === ',' ? 'dot' : 'comma'
+  // Two or more marks can only be thousands groups ("1,234,567"), so the other mark is the decimal.
+  if (count > 1) return { style: other, sure: true }
+  const [whole, fraction] = s.split(mark) as [string, string]
+  const couldBeThousands = /^[1-9]\d{0,2}$/.test(whole) && /^\d{3}$/.test(fraction)
+  return { style, sure: !couldBeThousands }
 }
 
-/** A number, NaN when the cell is not numeric, null when it is empty. */
-export function parseNumber(raw: string, decimalComma: boolean): number | null {
+/**
+ * One decimal mark per column, from the column's own unambiguous cells, else the file's,
+ * else the delimiter's custom (semicolon, tab and space files come from decimal-comma locales;
+ * in comma-delimited files a comma inside a quoted number groups thousands).
+ */
+export function decimalCommaColumns(columns: string[][], delimiter: Delimiter): DecimalMark[] {
+  const tally = columns.map((cells) => {
+    const t = { comma: 0, dot: 0, unsureComma: 0, unsureDot: 0 }
+    for (const c of cells) {
+      const st = cellStyle(c)
+      if (!st) continue
+      if (st.sure) t[st.style]++
+      else if (st.style === 'comma') t.unsureComma++
+      else t.unsureDot++
+    }
+    return t
+  })
+  const fileComma = tally.reduce((n, t) => n + t.comma, 0)
+  const fileDot = tally.reduce((n, t) => n + t.dot, 0)
+  return tally.map((t) => {
+    if (t.comma !== t.dot) return t.comma > t.dot
+    // "2,514" beside "3.087" with nothing to tell which is the decimal: refuse, never guess.
+    if (t.comma === 0 && t.unsureComma && t.unsureDot) return null
+    if (fileComma !== fileDot) return fileComma > fileDot
+    if (t.unsureComma && !t.unsureDot) return delimiter !== ','
+    return false
+  })
+}
+
+const GROUPED = { comma: /^[+-]?\d{1,3}(\.\d{3})+(,\d*)?([eE][+-]?\d+)?$/, dot: /^[+-]?\d{1,3}(,\d{3})+(\.\d*)?([eE][+-]?\d+)?$/ }
+
+/**
+ * A number, NaN when the cell is not a finite number in the column's style (a decimal point in
+ * a decimal-comma column is refused, not guessed), null when it is empty.
+ */
+export function parseNumber(raw: string, decimalComma: DecimalMark): number | null {
   let s = cleanNumberText(raw)
   if (s === '') return null
-  if (decimalComma) s = s.replace(/\./g, '').replace(',', '.')
-  else s = s.replace(/,(?=\d{3}(\D|$))/g, '').replace(',', '.')
-  return NUMERIC.test(s) ? Number(s) : Number.NaN
+  if (decimalComma === null) {
+    if (/[.,]/.test(s)) return Number.NaN
+  } else if (decimalComma) {
+    if (s.includes('.')) s = GROUPED.comma.test(s) ? s.replace(/\./g, '') : 'x'
+    s = s.replace(',', '.')
+  } else if (s.includes(',')) {
+    s = GROUPED.dot.test(s) ? s.replace(/,/g, '') : 'x'
+  }
+  if (!NUMERIC.test(s)) return Number.NaN
+  const value = Number(s)
+  return Number.isFinite(value) ? value : Number.NaN
+}
+
+/** Why a numeric-looking cell was refused, for the row's message; '' when nothing specific. */
+export function separatorHint(raw: string, decimalComma: DecimalMark): string {
+  const s = cleanNumberText(raw)
+  if (!looksNumeric(s)) return ''
+  if (NUMERIC.test(s.replace(/,/g, '')) && !Number.isFinite(Number(s.replace(/,/g, '')))) return ' (it is too large to be a number)'
+  if (decimalComma === null) return ' (the column mixes decimal commas and points, so it cannot be read safely: export it with one decimal mark)'
+  return decimalComma
+    ? ' (this column uses decimal commas elsewhere, so a point here is ambiguous)'
+    : ' (this column uses decimal points elsewhere, so a comma here is ambiguous)'
 }
 
 export function looksNumeric(raw: string): boolean {
@@ -203,4 +270,9 @@ export function alignCells(cells: Cell[], columns: { start: number, end: number 
 }
 
 export const SEPARATOR_LINE = /^[\s\-=|+_*~.]+$/
-export const UNIT_TOKEN = /^(\[[^\]]*\]|\([^)]*\)|%|#|min|s|sec|pa|pa\*s|mv|mv\*s|counts|au)$/i
+/** A cell of a units row under the header: "min", "[pA*s]", "(mV.s)", "mAU*min", "%", "#". */
+export function isUnitCell(raw: string): boolean {
+  const s = raw.trim().replace(/^[[(](.*)[\])]$/, '$1').trim()
+  if (s === '' || s === '%' || s === '#') return true
+  return s.length <= 16 && /^[a-zµμ°·*/.^\-\s0-9]+$/i.test(s) && /[a-zµμ]/i.test(s) && !looksNumeric(s)
+}

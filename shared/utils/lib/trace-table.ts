@@ -1,8 +1,8 @@
 // Raw detector traces (time, signal) as text, and telling a trace from a peak table.
 import { type RowError, type TableMeta, type PeakTableOptions, chooseTimeUnit, findHeader, toMinutes } from './peak-table'
 import {
-  type Delimiter, type TimeUnit,
-  SEPARATOR_LINE, classifyHeader, decimalCommaEvidence, looksNumeric, mergeHeaderTokens, parseNumber,
+  type DecimalMark, type Delimiter, type TimeUnit,
+  SEPARATOR_LINE, classifyHeader, decimalCommaColumns, looksNumeric, mergeHeaderTokens, parseNumber,
   splitCells, splitLines, timeUnitOf, utf8Length,
 } from './table-text'
 
@@ -78,11 +78,15 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   const timeIdx = Math.max(0, header?.names.findIndex(n => n.kind === 'rt') ?? 0)
   const signalByName = header?.names.findIndex((n, i) => i !== timeIdx && (n.kind === 'signal' || n.kind === 'height')) ?? -1
   const signalIdx = signalByName >= 0 ? signalByName : timeIdx === 0 ? 1 : 0
-  const sampleCells: string[] = []
-  for (let i = start.index; i < lines.length && sampleCells.length < 400; i++) {
-    for (const c of splitCells(lines[i]!, start.delimiter)) sampleCells.push(c.text)
+  const timeSample: string[] = []
+  const signalSample: string[] = []
+  for (let i = start.index; i < lines.length && timeSample.length < 200; i++) {
+    const cells = splitCells(lines[i]!, start.delimiter)
+    timeSample.push(cells[timeIdx]?.text ?? '')
+    signalSample.push(cells[signalIdx]?.text ?? '')
   }
-  const decimalComma = decimalCommaEvidence(sampleCells)
+  const [timeComma, signalComma] = decimalCommaColumns([timeSample, signalSample], start.delimiter) as [DecimalMark, DecimalMark]
+  const decimalComma = timeComma === true
   const maxPoints = options.maxPoints ?? MAX_TRACE_POINTS
   const time: number[] = []
   const signal: number[] = []
@@ -96,8 +100,8 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       warnings.push(`Row ${i + 1} is not part of the trace and was skipped.`)
       continue
     }
-    const t = parseNumber(cells[timeIdx]?.text ?? '', decimalComma)
-    const y = parseNumber(cells[signalIdx]?.text ?? '', decimalComma)
+    const t = parseNumber(cells[timeIdx]?.text ?? '', timeComma)
+    const y = parseNumber(cells[signalIdx]?.text ?? '', signalComma)
     if (t === null || y === null || Number.isNaN(t) || Number.isNaN(y)) {
       errors.push({ row: i + 1, code: 'non-numeric', message: `Row ${i + 1}: the time and signal must both be numbers.` })
       continue
