@@ -7,6 +7,7 @@ import type { FactorStats } from '#shared/types/summary'
 import { RESULTS_FACTOR_LABELS, RESULTS_STATISTIC_SYMBOLS as STATISTIC_SYMBOL } from '#shared/types/results'
 import { OUTLIER_TEST_LABELS } from '#shared/types/course'
 import { SUBMISSION_STATUS_LABELS } from '#shared/types/submission'
+import { reviewFlagName } from '#shared/types/review'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
 
 function digestNumber(value: number | null | undefined, digits = 2): string {
@@ -73,6 +74,17 @@ function classFigures(ctx: DigestContext): string[] {
     `Literature value for the method: ${ctx.literature === null ? 'none given' : digestNumber(ctx.literature)}.`,
     `Section ${ctx.section.code}: ${statsLine(ctx.sectionStats)}.`,
   ]
+  const stats = ctx.classStats
+  if (stats?.log.mean != null) {
+    const ci = stats.log.ci95 ? ` (95 % CI ${digestNumber(stats.log.ci95[0])} to ${digestNumber(stats.log.ci95[1])})` : ''
+    lines.push(`Geometric mean of the class: ${digestNumber(stats.log.mean)}${ci}; ratios spread on a log scale, so this resists a few very large values.`)
+  }
+  if (stats?.ci95 && stats.ci95[0] < 0) {
+    lines.push('The interval of the class mean reaches below zero, which a selectivity cannot: a few large values drive the mean, so read the median and the geometric mean.')
+  }
+  if (stats?.test.applied && stats.outliers.length) {
+    lines.push(`${stats.outliers.length} result(s) flagged by the class's outlier test (${OUTLIER_TEST_LABELS[stats.test.name]}) are still counted here until a reviewer decides on them.`)
+  }
   if (ctx.excludedCount) lines.push(`${ctx.excludedCount} result(s) left out of the class figures by a reviewer, each with a reason.`)
   return lines
 }
@@ -142,7 +154,7 @@ function staffRow(ctx: DigestContext, unit: DigestUnit): StaffRow {
     version: v ? String(v.version) : '',
     status: statusLabel(v),
     factor: v ? digestNumber(v.factor) : '',
-    flags: [...(v?.flags.map((f) => f.code) ?? []), ...outlier].join('; '),
+    flags: [...(v?.flags.map((f) => reviewFlagName(f.code)) ?? []), ...outlier].join('; '),
     late: v?.late ? 'late' : '',
     excluded: v?.exclusionReason != null ? `excluded: ${v.exclusionReason || 'no reason given'}` : '',
   }

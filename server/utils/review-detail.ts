@@ -117,6 +117,10 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
       predicted: chemistry.predicted.find((m) => m.smiles === p.smiles)?.percent ?? 0,
     })),
     windows: chemistry.windows.map((w) => ({ productSmiles: w.productSmiles, rtMin: w.rtMin, rtMax: w.rtMax })),
+    referenceWindows: [
+      ...(chemistry.solvent ? [{ kind: 'solvent' as const, rtMin: chemistry.solvent.rtMin, rtMax: chemistry.solvent.rtMax }] : []),
+      ...(chemistry.startingMaterial ? [{ kind: 'starting-material' as const, rtMin: chemistry.startingMaterial.rtMin, rtMax: chemistry.startingMaterial.rtMax }] : []),
+    ],
     versions: versions.map((v) => ({
       id: v.id, version: v.version, submittedAt: v.createdAt.toISOString(), fileName: v.originalName, status: v.status,
       keyFactor: factorOf(v, key), late: v.late, excluded: v.excludedAt !== null,

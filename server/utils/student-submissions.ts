@@ -56,6 +56,9 @@ export interface MySubmissionsView {
   dueAt: string | null
   /** New uploads are still taken after the due date, and marked late. */
   pastDue: boolean
+  meetingDate: string | null
+  /** The section has not met yet (in the course's zone): an upload now is probably a mistake. */
+  beforeMeeting: boolean
   uploadsOpen: boolean
   closedReason: string | null
   releasePolicy: ReleasePolicy
@@ -146,6 +149,8 @@ export async function mySubmissionsOf(event: H3Event, scope: PracticalScope): Pr
     partners: partnerRows.map((p) => p.name),
     dueAt: unit.dueAt?.toISOString() ?? null,
     pastDue: unit.dueAt !== null && Date.now() > unit.dueAt.getTime(),
+    meetingDate: unit.meetingDate,
+    beforeMeeting: unit.meetingDate !== null && unit.meetingDate > new Intl.DateTimeFormat('en-CA', { timeZone: course.timezone }).format(new Date()),
     uploadsOpen: chemistry.windows.length > 0,
     closedReason: chemistry.windows.length > 0 ? null : 'This practical has no retention windows yet; ask your instructor to set them.',
     releasePolicy: course.releasePolicy,

@@ -12,6 +12,8 @@ export interface StudentWorkUnit {
   /** Everyone the result counts for: the student, and their station partner(s) for pair work. */
   memberIds: number[]
   dueAt: Date | null
+  /** The day the caller's section runs the practical ('YYYY-MM-DD'). */
+  meetingDate: string | null
 }
 
 /** The caller's own work unit for a practical: 404 unless they are a student in a section that runs it. */
@@ -23,7 +25,7 @@ export async function studentUnit(event: H3Event, scope: PracticalScope): Promis
     .where('sectionId', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1])
     .executeTakeFirst()
   if (!enrollment) throw createError({ statusCode: 404, statusMessage: 'Practical not found' })
-  const session = await db.selectFrom('practicalSessions').select('dueAt')
+  const session = await db.selectFrom('practicalSessions').select(['dueAt', 'meetingDate'])
     .where('practicalId', '=', scope.practical.id).where('sectionId', '=', enrollment.sectionId).executeTakeFirst()
   if (scope.practical.workUnit === 'pair' && enrollment.station !== null) {
     const partners = await db.selectFrom('enrollments').select('userId')
@@ -33,9 +35,10 @@ export async function studentUnit(event: H3Event, scope: PracticalScope): Promis
       unitKey: `station:${enrollment.sectionId}:${enrollment.station}`,
       memberIds: [...new Set([scope.me.id, ...partners.map((p) => p.userId)])],
       dueAt: session?.dueAt ?? null,
+      meetingDate: session?.meetingDate ?? null,
     }
   }
-  return { sectionId: enrollment.sectionId, unitKey: `user:${scope.me.id}`, memberIds: [scope.me.id], dueAt: session?.dueAt ?? null }
+  return { sectionId: enrollment.sectionId, unitKey: `user:${scope.me.id}`, memberIds: [scope.me.id], dueAt: session?.dueAt ?? null, meetingDate: session?.meetingDate ?? null }
 }
 
 /** Runs the engines on an uploaded file; an unreadable file is a 422 naming its rows. */

@@ -35,3 +35,14 @@ export interface MailboxMessage extends MailboxEntry {
   html: string | null
   attachmentNames: string[]
 }
+
+/** What each kind of message is, in words, for the outbox; unknown kinds show their code. */
+export const MAIL_KIND_LABELS: Record<string, string> = {
+  'invitation': 'Invitation',
+  'digest-student': 'Digest (student)',
+  'digest-staff': 'Digest (staff)',
+  'purchase-request': 'Purchase request',
+  'test': 'Test message',
+}
+
+export const mailKindLabel = (kind: string) => MAIL_KIND_LABELS[kind] ?? kind

@@ -216,6 +216,8 @@ export interface SubmissionDetail {
   outliers: OutlierRun
   distribution: DistributionRow[]
   windows: Array<{ productSmiles: string, rtMin: number, rtMax: number }>
+  /** The solvent and starting-material windows, so a chart can show where they were expected. */
+  referenceWindows: Array<{ kind: 'solvent' | 'starting-material', rtMin: number, rtMax: number }>
   versions: VersionView[]
   diff: VersionDiff | null
   reviews: ReviewView[]

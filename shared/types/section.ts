@@ -78,7 +78,7 @@ export interface ScheduleEntry {
 
 export interface MyLab {
   enrollments: Array<{
-    course: { id: number, code: string, title: string, term: string }
+    course: { id: number, code: string, title: string, term: string, timezone: string }
     section: { id: number, code: string, weekday: number, startTime: string, endTime: string, room: string, tas: string[] }
     station: number | null
     seat: number | null

@@ -68,7 +68,7 @@ describe('section digests', () => {
     const staffPreview = await owner.get(`/api/practicals/${world.practicalId}/digests/preview?sectionId=${s1}&audience=staff`)
     expect(staffPreview.status).toBe(200)
     expect(staffPreview.body.recipient.userId).toBe(world.owner.id)
-    expect(staffPreview.body.text).toContain('flags: retention-drift · late')
+    expect(staffPreview.body.text).toContain('flags: retention drift · late')
     expect(staffPreview.body.recipients.map((r: any) => r.audience).sort()).toEqual(['staff', 'staff', 'student', 'student', 'student'])
 
     const headers = { 'idempotency-key': `digest-test-${world.practicalId}` }

@@ -9,7 +9,7 @@ export default defineEventHandler(async (event): Promise<MyLab> => {
     .where('userId', '=', me.id).where('status', '=', 'active').execute()
   if (!mine.length) return { enrollments: [] }
   const views = await sectionViews({ ids: mine.map((e) => e.sectionId) })
-  const courses = new Map((await db.selectFrom('courses').select(['id', 'code', 'title', 'term']).where('id', 'in', views.map((v) => v.courseId)).execute()).map((c) => [c.id, c]))
+  const courses = new Map((await db.selectFrom('courses').select(['id', 'code', 'title', 'term', 'timezone']).where('id', 'in', views.map((v) => v.courseId)).execute()).map((c) => [c.id, c]))
   const practicals = await db.selectFrom('practicalSessions')
     .innerJoin('practicals', 'practicals.id', 'practicalSessions.practicalId')
     .innerJoin('substrates', 'substrates.id', 'practicals.substrateId')

@@ -34,7 +34,8 @@ export async function seedCourse(ctx: SeedContext): Promise<void> {
 
   const week0 = mondayOf(ctx.today)
   const firstDate = addDays(week0, -8 * 7)
-  const lastDate = addDays(week0, 6 * 7 + 4)
+  // The term ends the week after practical 2, as a term ends before the winter break.
+  const lastDate = addDays(week0, 2 * 7 + 4)
   // A campus holiday two weeks ago falls on the Thursday section (its meeting is skipped).
   const holiday = addDays(week0, -2 * 7 + 3)
 

@@ -146,6 +146,7 @@ export async function seedStockroom(ctx: SeedContext): Promise<void> {
   const so2cl2 = ids.get('so2cl2')!
   const restock = await db.insertInto('orderSheets').values({
     title: 'Practical 1: sulfuryl chloride', status: 'received', forecastFrom: day(-38), forecastTo: day(-22), createdBy: coordinatorId,
+    createdAt: new Date(`${day(-39)}T16:00:00Z`), updatedAt: new Date(`${day(-35)}T16:00:00Z`),
     sentAt: new Date(`${day(-38)}T15:00:00Z`), sentBy: coordinatorId, receivedOn: day(-35), receivedBy: coordinatorId,
     notes: 'Ship with the usual corrosive packaging.',
   }).returning('id').executeTakeFirstOrThrow()
@@ -155,7 +156,8 @@ export async function seedStockroom(ctx: SeedContext): Promise<void> {
   }).returning('id').executeTakeFirstOrThrow()
   const dcm = ids.get('dcm')!
   const solvent = await db.insertInto('orderSheets').values({
-    title: 'GC solvent and waste containers', status: 'sent', createdBy: coordinatorId, sentAt: new Date(`${day(0)}T14:00:00Z`), sentBy: coordinatorId,
+    title: 'GC solvent and waste containers', status: 'sent', createdBy: coordinatorId, sentAt: new Date(`${day(-1)}T15:00:00Z`), sentBy: coordinatorId,
+    createdAt: new Date(`${day(-2)}T16:00:00Z`), updatedAt: new Date(`${day(-1)}T15:00:00Z`),
   }).returning('id').executeTakeFirstOrThrow()
   await db.insertInto('orderLines').values([
     { orderId: solvent.id, position: 0, reagentId: dcm.id, name: dcm.name, supplierName: dcm.supplierName, supplierEmail: dcm.supplierEmail, catalogNumber: dcm.catalogNumber, containers: 2, containerSize: 1000, unit: 'mL', note: '' },

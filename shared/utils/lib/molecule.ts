@@ -110,12 +110,22 @@ function readMolecule(input: string): Molecule {
     // Constitutional products are wanted, so stereo is dropped at the door.
     mol = Molecule.fromSmiles(smiles, { noStereo: true })
   } catch (error) {
-    const detail = String((error as Error)?.message ?? error).replace(/^.*?SmilesParser:\s*/, '')
-    throw new SubstrateError('unparsable', `That SMILES could not be read (${detail}).`)
+    throw new SubstrateError('unparsable', `That SMILES could not be read: ${parserProblemInWords(String((error as Error)?.message ?? error))}`)
   }
   if (mol.getAllAtoms() === 0) throw new SubstrateError('unparsable', 'That SMILES contains no atoms.')
   mol.stripStereoInformation()
   return mol
+}
+
+/** openchemlib's parser messages, in a sentence a student can act on. */
+function parserProblemInWords(raw: string): string {
+  const detail = raw.replace(/^.*?SmilesParser:\s*/, '')
+  const at = detail.match(/Position:\s*(\d+)/)
+  const where = at ? ` (at character ${Number(at[1]) + 1})` : ''
+  if (/unknown element/i.test(detail)) return `it names an element that does not exist${where}. Write organic-subset atoms as C, Cl, Br, F, I, or in brackets, such as [CH3].`
+  if (/ring closure|closure/i.test(detail)) return `a ring-closure digit is not paired${where}.`
+  if (/bracket|\]/i.test(detail)) return `a bracket atom is not written correctly${where}, for example [CH2] or [C@H].`
+  return `it is not valid SMILES${where}. Check the atoms, brackets and ring-closure digits.`
 }
 
 /** Canonical isomeric SMILES without stereo: any valid SMILES of the same constitution gives the same string. */
