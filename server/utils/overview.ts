@@ -13,6 +13,7 @@ export async function reviewCards(event: H3Event, me: SessionUser): Promise<Over
   const pending = items.reduce((n, i) => n + i.counts.pending, 0)
   const flagged = items.reduce((n, i) => n + i.counts.flagged, 0)
   const busiest = [...items].sort((a, b) => b.counts.pending - a.counts.pending)[0]
+  const mostFlagged = [...items].sort((a, b) => b.counts.flagged - a.counts.flagged)[0]
   return [
     {
       title: 'Waiting for review',
@@ -26,7 +27,8 @@ export async function reviewCards(event: H3Event, me: SessionUser): Promise<Over
       title: 'Flagged runs',
       value: String(flagged),
       detail: flagged ? 'Results with a problem to look at first.' : 'No result carries a flag.',
-      to: '/review',
+      // The queue filtered to the waiting runs that need attention, in the practical with the most.
+      to: flagged && mostFlagged ? `/review/practicals/${mostFlagged.id}?status=pending&flag=any` : '/review',
       action: 'See them',
       tone: flagged ? 'warning' : 'ok',
     },

@@ -9,6 +9,8 @@ describe('role overviews with live figures', () => {
     // The demo seed leaves R1's runs and the flagged ones of practical 1 pending.
     expect(Number(byTitle['Waiting for review'].value)).toBeGreaterThan(0)
     expect(Number(byTitle['Flagged runs'].value)).toBeGreaterThan(0)
+    // "See them" opens a queue filtered to the waiting runs that need attention.
+    expect(byTitle['Flagged runs'].to).toMatch(/^\/review\/practicals\/\d+\?status=pending&flag=any$/)
     expect(byTitle['Next practical'].detail).toContain('2,3-dimethylbutane')
     // The seeded practical-1 class: a median near the demo's invented truth, the solvent run flagged.
     const selectivity = byTitle['Class 2°:1° selectivity']

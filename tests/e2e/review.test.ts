@@ -234,6 +234,11 @@ describe('the queue', () => {
     const drift = await owner.get(`/api/practicals/${world.practicalId}/queue?flag=retention-drift`)
     expect(drift.body.rows.map((r: any) => r.id)).toEqual([ids.warning])
     expect(drift.body.flagCodes).toEqual(expect.arrayContaining([{ code: 'outlier', count: 1 }, { code: 'missing-product', count: 1 }]))
+    // "any": every run that needs attention (a blocking flag, a warning or a class outlier), none of the clean ones.
+    const any = (await owner.get(`/api/practicals/${world.practicalId}/queue?status=pending&flag=any`)).body.rows.map((r: any) => r.id)
+    expect(any).toEqual(expect.arrayContaining([ids.danger, ids.outlier, ids.warning]))
+    expect(any).not.toContain(ids.oldest)
+    expect(any).not.toContain(ids.newest)
     const bad = await owner.get(`/api/practicals/${world.practicalId}/queue?status=done`)
     expect(bad.status).toBe(400)
     expect(bad.body.statusMessage).toMatch(/^status: /)

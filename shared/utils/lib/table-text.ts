@@ -158,6 +158,15 @@ export function cleanNumberText(raw: string): string {
 }
 
 type Style = 'comma' | 'dot'
+
+function countOf(text: string, mark: string): number {
+  let n = 0
+  for (let i = text.indexOf(mark); i >= 0; i = text.indexOf(mark, i + 1)) n++
+  return n
+}
+
+/** Cells read per column to decide its decimal mark; a contradicting cell further down is still refused by parseNumber. */
+const STYLE_SAMPLE = 400
 /** true: decimal comma; false: decimal point; null: the column mixes both, so any mark is refused. */
 export type DecimalMark = boolean | null
 
@@ -167,8 +176,8 @@ export type DecimalMark = boolean | null
  */
 function cellStyle(raw: string): { style: Style, sure: boolean } | null {
   const s = cleanNumberText(raw).replace(/^[+-]/, '').replace(/[eE][+-]?\d+$/, '')
-  const commas = s.split(',').length - 1
-  const dots = s.split('.').length - 1
+  const commas = countOf(s, ',')
+  const dots = countOf(s, '.')
   if (commas && dots) return { style: s.lastIndexOf(',') > s.lastIndexOf('.') ? 'comma' : 'dot', sure: true }
   const mark = commas ? ',' : dots ? '.' : null
   if (!mark) return null
@@ -190,7 +199,7 @@ function cellStyle(raw: string): { style: Style, sure: boolean } | null {
 export function decimalCommaColumns(columns: string[][], delimiter: Delimiter): DecimalMark[] {
   const tally = columns.map((cells) => {
     const t = { comma: 0, dot: 0, unsureComma: 0, unsureDot: 0 }
-    for (const c of cells) {
+    for (const c of cells.length > STYLE_SAMPLE ? cells.slice(0, STYLE_SAMPLE) : cells) {
       const st = cellStyle(c)
       if (!st) continue
       if (st.sure) t[st.style]++

@@ -1,7 +1,7 @@
 import { queueQuerySchema, reviewIdParamsSchema, type QueueResponse } from '#shared/types/review'
 
 // The review queue of one practical: each work unit's latest version in the caller's sections,
-// what needs attention first. Filters: ?section=, ?status=, ?flag= (a flag code, or "outlier").
+// what needs attention first. Filters: ?section=, ?status=, ?flag= (a flag code, "outlier", or "any" for every run that needs attention).
 export default defineEventHandler(async (event): Promise<QueueResponse> => {
   requireRole(event, 'instructor', 'ta')
   const { id } = readParamsAs(event, reviewIdParamsSchema)
@@ -16,7 +16,7 @@ export default defineEventHandler(async (event): Promise<QueueResponse> => {
     practical: queuePracticalOf(scope, chemistry),
     role: scope.role,
     sections: await reviewSectionsOf(scope),
-    rows: inSection.filter((r) => (!query.status || r.status === query.status) && (!query.flag || r.flags.some((f) => f.code === query.flag))),
+    rows: inSection.filter((r) => (!query.status || r.status === query.status) && (!query.flag || (query.flag === 'any' ? r.attention > 0 : r.flags.some((f) => f.code === query.flag)))),
     counts: countQueueRows(inSection),
     flagCodes: [...codes].map(([code, count]) => ({ code, count })).sort((a, b) => a.code.localeCompare(b.code)),
     outliers: outliers.run,
