@@ -8,7 +8,8 @@ const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS'])
 function isCrossSite(event: H3Event): boolean {
   const fetchSite = getRequestHeader(event, 'sec-fetch-site')
   if (fetchSite && fetchSite !== 'same-origin' && fetchSite !== 'none') return true
-  const origin = getRequestHeader(event, 'origin')
+  // Without Origin, an old browser may still say where the request came from in Referer.
+  const origin = getRequestHeader(event, 'origin') ?? getRequestHeader(event, 'referer')
   if (!origin) return false
   if (origin === 'null') return true
   try {

@@ -2,6 +2,7 @@ import { readdir, readFile, stat } from 'node:fs/promises'
 import { basename, join } from 'node:path'
 import { simpleParser, type AddressObject } from 'mailparser'
 import type { MailboxEntry, MailboxMessage } from '#shared/types/mail'
+import type { SessionUser } from '#shared/types/auth'
 
 // The local SMTP fake writes one .eml per message; in demo mode staff can read them here.
 export function requireDemoMailbox(): string {
@@ -17,9 +18,23 @@ function addressText(value: AddressObject | AddressObject[] | undefined): string
   return (Array.isArray(value) ? value : [value]).map((a) => a.text).join(', ')
 }
 
-async function parseFile(path: string): Promise<MailboxMessage> {
+/** Our Message-IDs carry the mail_messages id (`<halocline.ID.hash@host>`); anything else has none. */
+function messageRowId(messageId: string | undefined): number | null {
+  const m = messageId?.match(/^<halocline\.(\d+)\./)
+  return m ? Number(m[1]) : null
+}
+
+/** Of these message ids, the ones the caller may read: the outbox's own scope. */
+async function visibleIds(me: SessionUser, ids: number[]): Promise<Set<number>> {
+  if (!ids.length) return new Set()
+  const rows = await useDb().selectFrom('mailMessages').select('id').where('id', 'in', ids).where(mailVisibleTo(me)).execute()
+  return new Set(rows.map((r) => r.id))
+}
+
+async function parseFile(path: string): Promise<MailboxMessage & { rowId: number | null }> {
   const mail = await simpleParser(await readFile(path))
   return {
+    rowId: messageRowId(mail.messageId),
     file: basename(path),
     subject: mail.subject ?? '(no subject)',
     from: addressText(mail.from),
@@ -32,22 +47,31 @@ async function parseFile(path: string): Promise<MailboxMessage> {
   }
 }
 
-export async function listMailbox(dir: string, limit = 100): Promise<MailboxEntry[]> {
+/** How many of the newest files are read to fill one page of the caller's messages. */
+const SCAN_LIMIT = 1000
+
+// The fake holds everyone's mail (grades, invitation links): each caller sees only the messages
+// the outbox would show them, matched by the Message-ID our sender sets.
+export async function listMailbox(me: SessionUser, dir: string, limit = 100): Promise<MailboxEntry[]> {
   const names = (await readdir(dir).catch(() => [] as string[])).filter((n) => n.endsWith('.eml'))
   const withTimes = await Promise.all(names.map(async (name) => ({ name, mtime: (await stat(join(dir, name))).mtimeMs })))
-  const newest = withTimes.sort((a, b) => b.mtime - a.mtime).slice(0, limit)
+  const newest = withTimes.sort((a, b) => b.mtime - a.mtime).slice(0, SCAN_LIMIT)
   const parsed = await Promise.all(newest.map(({ name }) => parseFile(join(dir, name))))
-  return parsed.map(({ text: _t, html: _h, attachmentNames: _a, ...entry }) => entry)
+  const allowed = await visibleIds(me, parsed.flatMap((p) => (p.rowId === null ? [] : [p.rowId])))
+  return parsed.filter((p) => p.rowId !== null && allowed.has(p.rowId)).slice(0, limit)
+    .map(({ text: _t, html: _h, attachmentNames: _a, rowId: _r, ...entry }) => entry)
 }
 
-export async function readMailboxFile(dir: string, file: string): Promise<MailboxMessage> {
+export async function readMailboxFile(me: SessionUser, dir: string, file: string): Promise<MailboxMessage> {
   // Only plain names the fake itself writes: no path can leave the mailbox folder.
   if (!/^[\w.-]+\.eml$/.test(file) || file !== basename(file)) {
     throw createError({ statusCode: 400, statusMessage: 'file: not a mailbox file name' })
   }
-  try {
-    return await parseFile(join(dir, file))
-  } catch {
+  const message = await parseFile(join(dir, file)).catch(() => null)
+  // Someone else's message answers exactly like a missing one.
+  if (!message || message.rowId === null || !(await visibleIds(me, [message.rowId])).has(message.rowId)) {
     throw createError({ statusCode: 404, statusMessage: 'Message not found' })
   }
+  const { rowId: _r, ...rest } = message
+  return rest
 }

@@ -22,3 +22,18 @@ export function isDatabaseUnavailable(error: unknown, depth = 0): boolean {
   if (Array.isArray(e.errors) && e.errors.some((inner) => isDatabaseUnavailable(inner, depth + 1))) return true
   return isDatabaseUnavailable(e.cause, depth + 1)
 }
+
+// PostgreSQL refusing a value the request carried: a number beyond its integer column (an id of
+// 2^31 or more) or an impossible date. The request is wrong, not the server.
+const BAD_VALUE_CODES = new Set([
+  '22003', // numeric_value_out_of_range
+  '22008', // datetime_field_overflow
+  '22007', // invalid_datetime_format
+])
+
+export function isBadRequestValue(error: unknown, depth = 0): boolean {
+  if (!error || typeof error !== 'object' || depth > 5) return false
+  const e = error as { code?: unknown, cause?: unknown }
+  if (typeof e.code === 'string' && BAD_VALUE_CODES.has(e.code)) return true
+  return isBadRequestValue(e.cause, depth + 1)
+}

@@ -15,6 +15,15 @@ function factorSet(rows: ClassRow[], settings: OutlierSettings, has: { secondary
 }
 
 /**
+ * A reviewer's reason can name a student or their mistake: only the course's instructors and the
+ * TAs of that run's section read it; everyone else learns only that a reviewer left it out.
+ */
+function exclusionReasonFor(scope: PracticalScope, row: { sectionId: number, exclusionReason: string | null }): string {
+  const reads = scope.role === 'owner' || (scope.role === 'ta' && (scope.sectionIds ?? []).includes(row.sectionId))
+  return reads ? row.exclusionReason ?? '' : 'Left out of the class figures by a reviewer.'
+}
+
+/**
  * The class-wide selectivity of a practical: every unit's latest accepted-or-pending result,
  * excluded ones left out and listed. The whole class is summarised for everyone who may see
  * the practical; the by-section part holds only the caller's sections.
@@ -50,7 +59,7 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
   return {
     n: included.length,
     factors: factorSet(included, settings, has, withoutOutliers),
-    excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: r.exclusionReason ?? '' })),
+    excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
     bySection: sections.map((s) => {
       const mine = included.filter((r) => r.sectionId === s.id)
       return { sectionId: s.id, code: s.code, n: mine.length, factors: factorSet(mine, settings, has, withoutOutliers) }

@@ -26,12 +26,36 @@ export function validate<T extends z.ZodType>(schema: T, value: unknown): z.outp
   return result.data
 }
 
+/** No JSON body of ours comes near this (files go through readUpload); anything larger is refused unread. */
+export const MAX_JSON_BYTES = 1_000_000
+
+const bodyTooLarge = () => createError({ statusCode: 413, statusMessage: `The request body is larger than ${MAX_JSON_BYTES / 1_000_000} MB` })
+
+/** The raw body, refused with 413 as soon as it passes the cap, declared or chunked. */
+async function readCappedText(event: H3Event): Promise<string | undefined> {
+  const req = event.node.req as typeof event.node.req & { body?: unknown }
+  // Requests made inside Nitro (no socket) carry their body already; h3 knows how to read it.
+  if (req.body !== undefined || !req.socket) return readRawBody(event, 'utf8')
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_JSON_BYTES) throw bodyTooLarge()
+  const chunks: Buffer[] = []
+  let size = 0
+  for await (const chunk of req) {
+    size += (chunk as Buffer).length
+    if (size > MAX_JSON_BYTES) throw bodyTooLarge()
+    chunks.push(chunk as Buffer)
+  }
+  return chunks.length ? Buffer.concat(chunks).toString('utf8') : undefined
+}
+
 export async function readBodyAs<T extends z.ZodType>(event: H3Event, schema: T): Promise<z.output<T>> {
-  let body: unknown
-  try {
-    body = await readBody(event)
-  } catch {
-    throw createError({ statusCode: 400, statusMessage: 'The request body is not valid JSON' })
+  const text = await readCappedText(event)
+  let body: unknown = {}
+  if (text && text.trim() !== '') {
+    try {
+      body = JSON.parse(text)
+    } catch {
+      throw createError({ statusCode: 400, statusMessage: 'The request body is not valid JSON' })
+    }
   }
   return validate(schema, body ?? {})
 }

@@ -3,13 +3,15 @@ import { z } from 'zod'
 export const SMILES_MAX_LENGTH = 1000
 
 const smiles = z.string().trim().min(1, 'Enter a SMILES string').max(SMILES_MAX_LENGTH, `Use at most ${SMILES_MAX_LENGTH} characters`)
-const positive = z.number().finite().min(0, 'Must be zero or more')
+// Relative reactivities per H run from 1 to a few thousand (bromination's 3° is about 1600); a
+// million leaves room and keeps every sum a finite number.
+const positive = z.number().finite().min(0, 'Must be zero or more').max(1_000_000, 'At most 1,000,000')
 
 export const reactivitySchema = z.object({
   primary: positive,
   secondary: positive,
   tertiary: positive,
-})
+}).refine((r) => r.primary + r.secondary + r.tertiary > 0, { message: 'At least one class must react (above zero)', path: ['primary'] })
 
 export const analyzeInputSchema = z.object({
   smiles,

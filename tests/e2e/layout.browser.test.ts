@@ -25,6 +25,8 @@ async function fitsSideways(page: Page, label: string) {
 
 /** Scrolled into view the way a reader would (scroll boxes included), nothing clips it. */
 async function reachable(target: Locator) {
+  // Hydrated first: every scroll box has measured itself, so nothing changes under the check.
+  await target.page().waitForFunction(() => !document.querySelector('[data-scroll-box]:not([data-measured])'))
   await target.scrollIntoViewIfNeeded()
   return target.evaluate((el) => {
     const r = el.getBoundingClientRect()

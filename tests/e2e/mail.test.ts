@@ -57,15 +57,24 @@ describe('e-mail through the queue to the SMTP fake', () => {
     expect(row.attempts).toBeGreaterThan(1)
   })
 
-  it('the demo mailbox lists what the fake received, for staff only', async () => {
+  it('the demo mailbox lists what the fake received, for staff only, each their own outbox\'s messages', async () => {
     const instructor = await signedIn(DEMO.instructor)
-    const list = await instructor.get('/api/demo/mailbox')
-    expect(list.status).toBe(200)
-    expect(list.body.length).toBeGreaterThan(0)
-    const one = await instructor.get(`/api/demo/mailbox/${list.body[0].file}`)
+    const queued = await instructor.post('/api/outbox/test')
+    expect(queued.status).toBe(202)
+    const mine = await eventually(async () => {
+      const list = await instructor.get('/api/demo/mailbox')
+      return list.status === 200 && list.body.find((m: any) => m.to.includes(DEMO.instructor))
+    }, 30_000)
+    const one = await instructor.get(`/api/demo/mailbox/${mine.file}`)
     expect(one.status).toBe(200)
     expect(one.body.text.length).toBeGreaterThan(0)
     expect((await instructor.get('/api/demo/mailbox/..%2F..%2Fetc%2Fpasswd')).status).toBeGreaterThanOrEqual(400)
+    // The coordinator neither lists nor opens the instructor's message (it may hold grades or an invitation link).
+    const coordinator = await signedIn(DEMO.coordinator)
+    const theirs = await coordinator.get('/api/demo/mailbox')
+    expect(theirs.status).toBe(200)
+    expect(theirs.body.map((m: any) => m.file)).not.toContain(mine.file)
+    expect((await coordinator.get(`/api/demo/mailbox/${mine.file}`)).status).toBe(404)
     const student = await signedIn(DEMO.student(3))
     expect((await student.get('/api/demo/mailbox')).status).toBe(403)
   })

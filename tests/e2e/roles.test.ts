@@ -37,6 +37,11 @@ describe('same-origin rule for changes', () => {
     expect(crossSite.status).toBe(403)
     const own = await client.post('/api/outbox/test', undefined, { headers: { origin: client.baseUrl, 'sec-fetch-site': 'same-origin' } })
     expect(own.status).toBe(202)
+    // No Origin, but a Referer from elsewhere (an older browser): refused too; our own Referer passes.
+    const referred = await client.post('/api/outbox/test', undefined, { headers: { referer: 'https://attacker.example/page' } })
+    expect(referred.status).toBe(403)
+    const ownReferer = await client.post('/api/outbox/test', undefined, { headers: { referer: `${client.baseUrl}/outbox` } })
+    expect(ownReferer.status).toBe(202)
   })
 
   it('the login route is guarded too', async () => {
@@ -66,5 +71,51 @@ describe('security headers', () => {
     expect(csp).not.toMatch(/script-src[^;]*'unsafe-inline'/)
     expect(reply.headers.get('x-content-type-options')).toBe('nosniff')
     expect(reply.headers.get('referrer-policy')).toBeTruthy()
+  })
+})
+
+describe('requests the server must refuse cleanly', () => {
+  it('an id past PostgreSQL\'s integer range or an impossible date is a 400, not a 500', async () => {
+    const instructor = await signedIn(DEMO.instructor)
+    const big = await instructor.get('/api/courses/2147483648')
+    expect(big.status).toBe(400)
+    expect(big.body.statusMessage).toMatch(/out of range/)
+    expect((await instructor.get('/api/submissions/2147483648')).status).toBe(400)
+    expect((await instructor.get('/api/courses/2147483647')).status).toBe(404)
+    const date = await instructor.get('/api/schedule?from=2026-02-31&to=2026-03-01')
+    expect(date.status).toBe(400)
+    expect(date.body.statusMessage).toMatch(/^from: Not a calendar date/)
+  })
+
+  it('a JSON body over 1 MB is refused with 413 unread, declared or chunked, even before sign-in', async () => {
+    const huge = JSON.stringify({ email: 'x@larkspur.example', password: 'p'.repeat(1_100_000) })
+    const declared = await new Client().request('/api/auth/login', { method: 'POST', body: huge, headers: { 'content-type': 'application/json' } })
+    expect(declared.status).toBe(413)
+    const bytes = new TextEncoder().encode(huge)
+    const stream = new ReadableStream({
+      start(controller) {
+        for (let i = 0; i < bytes.length; i += 64 * 1024) controller.enqueue(bytes.slice(i, i + 64 * 1024))
+        controller.close()
+      },
+    })
+    const chunked = await new Client().request('/api/auth/login', { method: 'POST', body: stream, headers: { 'content-type': 'application/json' }, duplex: 'half' } as RequestInit)
+    expect(chunked.status).toBe(413)
+  })
+
+  it('a form-encoded body is not read as fields (an HTML form from elsewhere cannot post one)', async () => {
+    const form = await new Client().request('/api/auth/login', {
+      method: 'POST', body: `email=${encodeURIComponent(DEMO.instructor)}&password=halocline-demo`,
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    })
+    expect(form.status).toBe(400)
+  })
+
+  it('reactivities too large to add up, or all zero, are a 400 naming the field', async () => {
+    const student = await signedIn(DEMO.student(4))
+    const huge = await student.post('/api/chemistry/analyze', { smiles: 'CCC', reactivity: { primary: 1e308, secondary: 1e308, tertiary: 1e308 } })
+    expect(huge.status).toBe(400)
+    expect(huge.body.statusMessage).toMatch(/^reactivity\.primary: /)
+    const zero = await student.post('/api/chemistry/analyze', { smiles: 'CCC', reactivity: { primary: 0, secondary: 0, tertiary: 0 } })
+    expect(zero.status).toBe(400)
   })
 })

@@ -96,4 +96,17 @@ describe('GET /api/practicals/:id/summary', () => {
     expect((await stranger.get(`/api/practicals/${world.practicalId}/summary`)).status).toBe(404)
     expect((await (await signedIn(DEMO.coordinator)).get(`/api/practicals/${world.practicalId}/summary`)).status).toBe(403)
   })
+
+  it('a reviewer\'s reason for an exclusion reaches the instructors and that section\'s TA only', async () => {
+    const { world, excludedId } = await nistPractical()
+    const read = async (user: { email: string, password: string }) =>
+      (await (await signedIn(user.email, user.password)).get(`/api/practicals/${world.practicalId}/summary`)).body.excluded
+    const reason = [{ submissionId: excludedId, reason: 'Sample boiled dry; wrong product mixture' }]
+    const generic = [{ submissionId: excludedId, reason: 'Left out of the class figures by a reviewer.' }]
+    // The excluded run is in the second section.
+    expect(await read(world.sections[1]!.ta)).toEqual(reason)
+    expect(await read(world.sections[0]!.ta)).toEqual(generic)
+    expect(await read(world.sections[0]!.students[0]!)).toEqual(generic)
+    expect(await read(world.sections[1]!.students[3]!)).toEqual(generic)
+  })
 })

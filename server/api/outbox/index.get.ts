@@ -12,11 +12,7 @@ export default defineEventHandler(async (event): Promise<OutboxMessage[]> => {
   let query = useDb()
     .selectFrom('mailMessages')
     .select(['id', 'kind', 'toAddresses', 'subject', 'status', 'attempts', 'lastError', 'scheduledAt', 'sentAt', 'createdAt'])
-    // Mine, and (for instructors) anything about a course I own, whoever queued it.
-    .where((eb) => eb.or([
-      eb('createdBy', '=', me.id),
-      eb('courseId', 'in', eb.selectFrom('courseOwners').select('courseId').where('userId', '=', me.id)),
-    ]))
+    .where(mailVisibleTo(me))
     .orderBy('createdAt', 'desc')
     .limit(limit)
   if (status) query = query.where('status', '=', status)

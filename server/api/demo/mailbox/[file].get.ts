@@ -3,7 +3,7 @@ import { z } from 'zod'
 const paramsSchema = z.object({ file: z.string().min(1).max(200) })
 
 export default defineEventHandler(async (event) => {
-  requireRole(event, 'instructor', 'coordinator')
+  const me = requireRole(event, 'instructor', 'coordinator')
   const { file } = readParamsAs(event, paramsSchema)
-  return readMailboxFile(requireDemoMailbox(), file)
+  return readMailboxFile(me, requireDemoMailbox(), file)
 })

@@ -1,4 +1,4 @@
 export default defineEventHandler(async (event) => {
-  requireRole(event, 'instructor', 'coordinator')
-  return listMailbox(requireDemoMailbox())
+  const me = requireRole(event, 'instructor', 'coordinator')
+  return listMailbox(me, requireDemoMailbox())
 })
