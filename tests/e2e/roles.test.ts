@@ -100,6 +100,9 @@ describe('requests the server must refuse cleanly', () => {
     })
     const chunked = await new Client().request('/api/auth/login', { method: 'POST', body: stream, headers: { 'content-type': 'application/json' }, duplex: 'half' } as RequestInit)
     expect(chunked.status).toBe(413)
+    // The connection closes after the refusal, so no later request lands on a half-read socket.
+    expect(chunked.headers.get('connection')).toBe('close')
+    expect((await new Client().get('/api/health')).status).toBe(200)
   })
 
   it('a form-encoded body is not read as fields (an HTML form from elsewhere cannot post one)', async () => {
