@@ -44,6 +44,8 @@ export default defineNuxtConfig({
       // __Host- pins the cookie to this exact origin over HTTPS (browsers also accept it on
       // loopback); the dev server keeps a plain name.
       name: process.env.NODE_ENV === 'production' ? '__Host-halocline' : 'halocline-session',
+      // Never baked into the build: the server reads NUXT_SESSION_PASSWORD when it starts.
+      password: '',
       sessionHeader: false,
       maxAge: 60 * 60 * 12,
       cookie: { sameSite: 'lax', secure: true, httpOnly: true },

@@ -12,6 +12,8 @@ import { randomSecret } from './env.mjs'
 /**
  * Options: name (folder under .data), database, seed, serverEnv (extra NUXT_* for the server),
  * stdio (the server's), tasks (server/database/tasks.ts when the caller has already loaded it). Returns the addresses of everything, and stop().
+ * @param {string} root
+ * @param {{ name?: string, database?: string, seed?: boolean, serverEnv?: Record<string, string>, stdio?: any, tasks?: any }} [options]
  */
 export async function startWorld(root, { name = 'world', database = 'halocline', seed = true, serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], tasks = null } = {}) {
   const runRoot = join(root, '.data', `${name}-${process.pid}`)

@@ -9,7 +9,7 @@ pg.types.setTypeParser(pg.types.builtins.NUMERIC, (v) => Number.parseFloat(v))
 pg.types.setTypeParser(pg.types.builtins.DATE, (v) => v)
 // date[] likewise: '{2026-11-19,2026-11-26}' → ['2026-11-19', '2026-11-26'] (dates hold no commas or quotes).
 const DATE_ARRAY_OID = 1182
-pg.types.setTypeParser(DATE_ARRAY_OID, (v) => (v === '{}' ? [] : v.slice(1, -1).split(',')))
+pg.types.setTypeParser(DATE_ARRAY_OID as Parameters<typeof pg.types.setTypeParser>[0], (v) => (v === '{}' ? [] : v.slice(1, -1).split(',')))
 
 export interface ConnectionOptions {
   max?: number

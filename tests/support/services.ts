@@ -20,7 +20,7 @@ export function stopSmtp() {
 
 export async function startSmtp() {
   const child = await startSmtpFake({ root: inject('root'), port: inject('smtpPort'), dir: inject('mailDir'), pidFile: inject('smtpPidFile') })
-  child.unref()
+  ;(child as unknown as import('node:child_process').ChildProcess).unref()
 }
 
 /** Every message the SMTP fake holds, parsed back with mailparser. */

@@ -78,7 +78,7 @@ export async function up(db: Kysely<any>): Promise<void> {
   await db.schema.createIndex('enrollments_section').on('enrollments').columns(['section_id', 'status']).execute()
   await db.schema.createIndex('enrollments_user').on('enrollments').column('user_id').execute()
   // Two students cannot hold the same seat at the same station.
-  await db.schema.createIndex('enrollments_seat').on('enrollments').columns(['section_id', 'station', 'seat']).unique().where(sql`status = 'active' and station is not null`).execute()
+  await db.schema.createIndex('enrollments_seat').on('enrollments').columns(['section_id', 'station', 'seat']).unique().where(sql<boolean>`status = 'active' and station is not null`).execute()
 
   await db.schema
     .createTable('invitations')
@@ -147,8 +147,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('substrate_windows_range', sql`rt_max > rt_min and rt_min >= 0`)
     .addCheckConstraint('substrate_windows_product', sql`(kind = 'product') = (product_smiles is not null)`)
     .execute()
-  await db.schema.createIndex('substrate_windows_product').on('substrate_windows').columns(['substrate_id', 'product_smiles']).unique().where(sql`product_smiles is not null`).execute()
-  await db.schema.createIndex('substrate_windows_kind').on('substrate_windows').columns(['substrate_id', 'kind']).unique().where(sql`kind <> 'product'`).execute()
+  await db.schema.createIndex('substrate_windows_product').on('substrate_windows').columns(['substrate_id', 'product_smiles']).unique().where(sql<boolean>`product_smiles is not null`).execute()
+  await db.schema.createIndex('substrate_windows_kind').on('substrate_windows').columns(['substrate_id', 'kind']).unique().where(sql<boolean>`kind <> 'product'`).execute()
 
   await db.schema
     .createTable('standard_runs')
