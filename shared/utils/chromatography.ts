@@ -1,8 +1,8 @@
 // GC results to mole fractions: peak tables and raw traces in, products' mole % and flags out.
 // Method: PRODUCT.md, "GC peak tables → mole fractions". Pure: no I/O, no clock.
-import type { Peak, RowError } from './lib/peak-table'
+import { MAX_PEAK_AREA, MAX_RETENTION_MINUTES, type Peak, type RowError } from './lib/peak-table'
 
-export { parsePeakTable, MAX_PEAK_ROWS, MAX_TABLE_BYTES, SECONDS_THRESHOLD } from './lib/peak-table'
+export { parsePeakTable, MAX_PEAK_ROWS, MAX_TABLE_BYTES, SECONDS_THRESHOLD, MAX_PEAK_AREA, MAX_RETENTION_MINUTES } from './lib/peak-table'
 export type { Peak, RowError, ParseErrorCode, ParsedPeakTable, PeakTableOptions, TableMeta } from './lib/peak-table'
 export { parseTrace, sniffUpload, MIN_TRACE_POINTS, MAX_TRACE_POINTS } from './lib/trace-table'
 export type { ParsedTrace, TraceOptions, UploadSniff } from './lib/trace-table'
@@ -37,7 +37,7 @@ export interface AssignOptions {
 export type FlagCode =
   | 'missing-product' | 'split-peak' | 'unassigned-area' | 'area-percent-sum' | 'retention-drift'
   | 'negative-value' | 'non-numeric' | 'no-product-peaks' | 'missing-solvent' | 'missing-starting-material'
-  | 'overlapping-windows' | 'overlap' | 'parse-error'
+  | 'overlapping-windows' | 'overlap' | 'parse-error' | 'out-of-range'
 
 export interface Flag {
   code: FlagCode
@@ -135,11 +135,33 @@ function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
       flags.push({ code: 'negative-value', severity: 'error', retentionTimes: [p.retentionTime], message: `The ${p.area < 0 ? 'area' : 'retention time'} of ${where} is negative; re-integrate that peak. It was left out.` })
       return false
     }
+    if (p.area > MAX_PEAK_AREA || p.retentionTime > MAX_RETENTION_MINUTES) {
+      const what = p.area > MAX_PEAK_AREA ? 'area is above 1e15' : `retention time is above ${MAX_RETENTION_MINUTES / 60} hours`
+      flags.push({ code: 'out-of-range', severity: 'error', message: `The ${what} at ${where}, beyond any real measurement; that peak was left out.` })
+      return false
+    }
     return true
   })
 }
 
+// Areas passed validPeaks are at most MAX_PEAK_AREA each, so a sum of any array of them is finite.
 const sumArea = (peaks: Peak[]) => peaks.reduce((s, p) => s + p.area, 0)
+
+/**
+ * Percent shares of non-negative values. The plain sum is used when it is finite, else the
+ * values are scaled by the largest first. An infinite value (an area divided by a response
+ * factor near zero) has lost its size, so then no share is given rather than a guessed one.
+ */
+function sharesOf(values: number[]): (number | null)[] {
+  const total = values.reduce((s, v) => s + v, 0)
+  if (Number.isFinite(total)) return values.map(v => (total > 0 ? (v / total) * 100 : null))
+  if (values.every(Number.isFinite)) {
+    const max = Math.max(...values)
+    const scaled = values.reduce((s, v) => s + v / max, 0)
+    return values.map(v => (v / max / scaled) * 100)
+  }
+  return values.map(() => null)
+}
 
 /**
  * Assigns peaks to products by retention-time window, divides by response factors and
@@ -172,7 +194,8 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   flags.push(...driftFlags(slots, unassigned, options.edgeFraction ?? 0.1))
   // Mole-based: each monohalide came from one substrate molecule.
   const smCorrected = startingMaterial?.peaks.length ? startingMaterial.correctedArea : null
-  const conversion = smCorrected !== null && productTotal > 0 ? (productTotal / (productTotal + smCorrected)) * 100 : null
+  const converted = smCorrected !== null && productTotal > 0 ? (productTotal / (productTotal + smCorrected)) * 100 : null
+  const conversion = converted !== null && Number.isFinite(converted) ? converted : null
   return {
     molePercents: products.map(p => ({ smiles: p.smiles, percent: p.percent })),
     products,
@@ -218,8 +241,9 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     const largest = [...s.peaks].sort((a, b) => b.area - a.area)[0]
     return { smiles: windows[i]!.productSmiles, percent: null, area, correctedArea: area / rf, responseFactor: rf, retentionTime: largest?.retentionTime ?? null, peaks: s.peaks }
   })
+  const shares = sharesOf(products.map(p => p.correctedArea))
+  products.forEach((p, i) => { p.percent = shares[i]! })
   const total = products.reduce((s, p) => s + p.correctedArea, 0)
-  for (const p of products) p.percent = total > 0 ? (p.correctedArea / total) * 100 : null
   slots.forEach((s, i) => {
     const w = windows[i]!
     const range = `${fmt(w.rtMin)}–${fmt(w.rtMax)} min`

@@ -218,14 +218,20 @@ function pooled(products: ReactivityProduct[], cls: CarbonClass): { x: number, n
   return { x: members.reduce((s, p) => s + p.percent, 0), n: members.reduce((s, p) => s + p.hydrogens, 0) }
 }
 
+const finiteOrNull = (v: number): number | null => (Number.isFinite(v) ? v : null)
+
 function classFactor(products: ReactivityProduct[], cls: 'secondary' | 'tertiary'): { value: number | null, note: string | null } {
   const c = pooled(products, cls)
   if (!c) return { value: null, note: `The substrate has no ${cls} C–H.` }
   const p = pooled(products, 'primary')
   if (!p) return { value: null, note: 'The substrate has no primary C–H to compare with.' }
   if (p.x === 0) return { value: null, note: 'No primary product was observed, so the ratio is undefined.' }
-  return { value: (c.x / c.n) / (p.x / p.n), note: null }
+  const value = finiteOrNull((c.x / c.n) / (p.x / p.n))
+  return value === null
+    ? { value: null, note: 'The primary product is too small against the others for the ratio to be a number.' }
+    : { value, note: null }
 }
+
 
 /**
  * Per-H reactivities from observed percentages: ρ_p = x_p / n_p, relative to a reference
@@ -239,14 +245,17 @@ export function relativeReactivities(
 ): ReactivityResult {
   const percents = matchObserved(analysis, observed)
   const warnings: string[] = []
-  const total = [...percents.values()].reduce((s, v) => s + v, 0)
+  // Inputs near the largest double would overflow their sum: share them out on the scale of the largest.
+  const largest = Math.max(...percents.values())
+  const scale = largest > 0 && !Number.isFinite([...percents.values()].reduce((s, v) => s + v, 0)) ? largest : 1
+  const total = [...percents.values()].reduce((s, v) => s + v / scale, 0)
   if (!(total > 0)) throw new ReactivityInputError('no-observed', 'The observed percentages add up to zero.')
-  if (Math.abs(total - 100) > 0.5) warnings.push(`The observed percentages add up to ${total.toFixed(1)} %; they were rescaled to 100 %.`)
+  if (scale !== 1 || Math.abs(total - 100) > 0.5) warnings.push(`The observed percentages add up to ${scale === 1 ? `${total.toFixed(1)} %` : 'far more than 100 %'}; they were rescaled to 100 %.`)
   for (const p of analysis.products) {
     if (!percents.has(p.smiles)) warnings.push(`No percentage was given for ${p.smiles}; it was counted as 0 %.`)
   }
   const products = analysis.products.map(p => {
-    const percent = ((percents.get(p.smiles) ?? 0) / total) * 100
+    const percent = ((percents.get(p.smiles) ?? 0) / scale / total) * 100
     return { ...p, percent, perHydrogen: percent / 100 / p.hydrogens, relativeReactivity: null as number | null }
   })
   let reference: ReactivityResult['reference']
@@ -269,7 +278,9 @@ export function relativeReactivities(
     refValue = first.perHydrogen
   }
   if (refValue > 0) {
-    for (const p of products) p.relativeReactivity = p.perHydrogen / refValue
+    // A reference far smaller than a site overflows the ratio: no number beats Infinity.
+    for (const p of products) p.relativeReactivity = finiteOrNull(p.perHydrogen / refValue)
+    if (products.some(p => p.relativeReactivity === null)) warnings.push('The reference product is too small against the others for a relative reactivity to be given.')
   } else {
     warnings.push('The reference product was not observed, so relative reactivities cannot be given.')
   }

@@ -142,7 +142,9 @@ export function evaluateRun(input: RunInput): RunResult {
   const reactivity = anyProduct
     ? relativeReactivities({ products: input.products.map((p) => ({ ...p, atoms: [] })) }, molePercents)
     : null
-  const factors = reactivity?.factors ?? { secondaryToPrimary: null, tertiaryToPrimary: null }
+  // A factor is a finite number or null: Infinity or NaN would poison the class statistics.
+  const finiteFactor = (v: number | null | undefined) => (typeof v === 'number' && Number.isFinite(v) ? v : null)
+  const factors = { secondaryToPrimary: finiteFactor(reactivity?.factors.secondaryToPrimary), tertiaryToPrimary: finiteFactor(reactivity?.factors.tertiaryToPrimary) }
   const engineFlags: RunFlag[] = assigned.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity], message: f.message }))
   const flags = [...readFlags, ...engineFlags, ...countedAsProduct(input, assigned, molePercents), ...farFromPrediction(input, factors)]
   // Peaks are matched by value: the engine may hand back copies.

@@ -149,6 +149,19 @@ describe('what comes in', () => {
     expect(reply.body.data.rows[0]).toEqual(expect.objectContaining({ row: 3, message: expect.stringMatching(/Row 3/) }))
   })
 
+  it('reads thousands separators by the file\'s own decimal mark, and refuses one it cannot tell by row (422)', async () => {
+    const sim = gcTable(dmb, { seed: 21 })
+    const lines = (area: (a: number) => string) => ['RT\tArea', ...sim.peaks.map((p) => `${p.retentionTime.toFixed(3)}\t${area(Math.round(p.area))}`)].join('\n')
+    const plain = await uploadGc(flagger, dmb.practicalId, lines((a) => String(a)), { preview: true })
+    const grouped = await uploadGc(flagger, dmb.practicalId, lines((a) => a.toLocaleString('en-US')), { preview: true })
+    expect(plain.status).toBe(200)
+    expect(grouped.status).toBe(200)
+    expect(grouped.body.molePercents).toEqual(plain.body.molePercents)
+    const ambiguous = await uploadGc(flagger, dmb.practicalId, 'RT [s],Area\n171,987\n208,"45,769"\n')
+    expect(ambiguous.status).toBe(422)
+    expect(ambiguous.body.data.rows[0]).toEqual(expect.objectContaining({ row: 3, message: expect.stringMatching(/45,769 could be 45769 or 45\.769/) }))
+  })
+
   const formulaCells = () => {
     const sim = gcTable(dmb, { seed: 13 })
     const cells = ["=cmd|' /C calc'!A0", '+SUM(A1:A2)', '@HYPERLINK("http://127.0.0.1/")', '-2+3', '=1+1']

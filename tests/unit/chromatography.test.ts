@@ -42,7 +42,7 @@ const VALID: [string, { areaPercent?: boolean, height?: boolean, warning?: RegEx
   ['valid-17-thousands-dot-decimal-comma.csv', {}],
   ['valid-18-units-row-rel-area.csv', { areaPercent: true, height: true }],
   ['valid-19-two-area-columns.txt', { areaPercent: true, height: true, warning: /totals row/ }],
-  ['valid-20-text-footer-decimal-comma.csv', { areaPercent: true, warning: /holds no numbers/ }],
+  ['valid-20-text-footer-decimal-comma.csv', { areaPercent: true, warning: /holds no peak/ }],
 ]
 
 describe('parsePeakTable on messy but valid exports', () => {
@@ -250,6 +250,18 @@ describe('assignPeaks', () => {
     const r = assignPeaks([peak(2.5, -3), peak(Number.NaN, 3), peak(2.5, 10), peak(3.05, 10), peak(3.45, 10)], W)
     expect(r.flags.map(f => f.code).sort()).toEqual(['negative-value', 'non-numeric'])
     expect(r.molePercents.map(m => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map(v => expect.closeTo(v, 10)))
+  })
+
+  it('leaves out absurd peaks and keeps every share finite', () => {
+    const r = assignPeaks([peak(2.5, 1e308), peak(3.05, 10), peak(3.45, 10), peak(2.45, 10)], W)
+    expect(r.flags.map(f => f.code)).toContain('out-of-range')
+    expect(r.molePercents.map(m => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map(v => expect.closeTo(v, 10)))
+    expect(assignPeaks([peak(2.5, 10), peak(3.05, 10), peak(3.45, 10), peak(40_000, 5)], W).flags.map(f => f.code)).toContain('out-of-range')
+    // A response factor near zero makes a corrected area overflow: no share is then better than NaN or a guess.
+    const tinyRf = assignPeaks([peak(2.5, 1e15), peak(3.05, 1e15)], [{ ...W[0]!, responseFactor: 1e-300 }, { ...W[1]!, responseFactor: 1e-300 }])
+    expect(tinyRf.molePercents.every(m => m.percent === null)).toBe(true)
+    const largeRf = assignPeaks([peak(2.5, 1e15), peak(3.05, 1e15)], [{ ...W[0]!, responseFactor: 1e-293 }, { ...W[1]!, responseFactor: 1e-293 }])
+    expect(largeRf.molePercents.map(m => m.percent)).toEqual([50, 50])
   })
 
   it('flags a table with no product area at all', () => {

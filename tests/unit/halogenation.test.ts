@@ -293,6 +293,19 @@ describe('relativeReactivities', () => {
     expect(() => relativeReactivities(analyzeSubstrate('CCC'), [{ smiles: 'ClCCC', percent: 50 }], { reference: 'CCCCCl' })).toThrow(/reference/)
   })
 
+  it('gives a finite factor or null, never Infinity, whatever the magnitudes', () => {
+    const a = analyzeSubstrate('CC(C)C')
+    // Each near the largest double: the plain sum overflows, the shares must not.
+    const huge = relativeReactivities(a, [{ smiles: 'C(Cl)C(C)C', percent: 1e308 }, { smiles: 'ClC(C)(C)C', percent: 1e308 }])
+    expect(huge.factors.tertiaryToPrimary).toBeCloseTo(9, 10)
+    expect(huge.warnings.join(' ')).toMatch(/rescaled/)
+    // A primary share that underflows per H would divide to Infinity.
+    const tiny = relativeReactivities(a, [{ smiles: 'C(Cl)C(C)C', percent: 1e-306 }, { smiles: 'ClC(C)(C)C', percent: 50 }])
+    expect(tiny.factors.tertiaryToPrimary).toBeNull()
+    expect(tiny.factorNotes.tertiaryToPrimary).toMatch(/too small/)
+    expect(tiny.products.every(p => p.relativeReactivity === null || Number.isFinite(p.relativeReactivity))).toBe(true)
+  })
+
   it('refuses duplicates, negative and empty observations', () => {
     const a = analyzeSubstrate('CCC')
     expect(() => relativeReactivities(a, [{ smiles: 'ClCCC', percent: 40 }, { smiles: 'C(Cl)CC', percent: 20 }])).toThrow(/more than once/)

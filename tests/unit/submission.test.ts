@@ -87,6 +87,27 @@ describe('evaluateRun', () => {
     expect(late.molePercents.every((m) => m.percent === 25)).toBe(true)
   })
 
+  it('reads thousands separators in an upload as its numbers say (1,1-dichlorobutane 0.5 %, not 83.8 %)', () => {
+    const text = 'RT\tArea\n3.432\t987\n3.939\t45,769\n4.532\t96,376\n5.716\t48,847\n'
+    const run = evaluateRun(input(text, { solvent: null, startingMaterial: null }))
+    const geminal = run.molePercents.find((m) => m.smiles === canonical[0])!
+    // 987 / (987 + 45769 + 96376 + 48847) = 0.514 %
+    expect(geminal.percent).toBeCloseTo(0.514, 3)
+  })
+
+  it('refuses an absurd area by its row and never returns a non-finite factor', () => {
+    try {
+      evaluateRun(input('RT,Area\n3.432,1e308\n3.939,45769\n4.532,96376\n5.716,48847\n'))
+      expect.unreachable()
+    } catch (error) {
+      expect((error as RunInputError).rows[0]).toMatchObject({ row: 2 })
+    }
+    // A vanishing primary share (about 5e-310 %): dividing by it overflows, so the factor is null.
+    const text = ['RT,Area', '3.43,1e-306', '3.93,100000', '4.53,100000', '5.72,1e-306'].join('\n')
+    const run = evaluateRun(input(text, { solvent: null, startingMaterial: null }))
+    expect(run.factors.secondaryToPrimary).toBeNull()
+  })
+
   it('picks the tertiary factor for a substrate with a tertiary C–H', () => {
     expect(keyFactorOf(analyzeSubstrate('CC(C)C(C)C').products)).toBe('tertiaryToPrimary')
     expect(keyFactorOf(analysis.products)).toBe('secondaryToPrimary')

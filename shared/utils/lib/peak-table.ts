@@ -1,9 +1,11 @@
 // Peak-table reader for integration reports exported as CSV, TSV, semicolon or aligned text.
-import {
-  type Cell, type ColumnKind, type DecimalMark, type Delimiter, type TimeUnit,
-  SEPARATOR_LINE, alignCells, classifyHeader, decimalCommaColumns, isUnitCell, looksNumeric,
-  mergeHeaderTokens, parseNumber, separatorHint, splitCells, splitLines, splitWideGaps, timeUnitOf, utf8Length,
-} from './table-text'
+import type { TimeUnit } from './header-names'
+import { type Mark, type CellRead, type ColumnStyle, type ReadProblem, analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness } from './number-text'
+import { type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
+import { type Delimiter, splitLines, utf8Length } from './table-text'
+
+export type { HeaderCandidate } from './table-layout'
+export { findHeader } from './table-layout'
 
 export interface Peak {
   /** Minutes. */
@@ -18,6 +20,7 @@ export interface Peak {
 export type ParseErrorCode =
   | 'too-large' | 'empty' | 'no-header' | 'no-rt-column' | 'no-area-column' | 'no-peaks'
   | 'non-numeric' | 'negative-value' | 'duplicate-rt' | 'too-many-rows' | 'misaligned' | 'non-monotonic-time' | 'too-few-points'
+  | 'ambiguous-number' | 'out-of-range'
 
 export interface RowError {
   /** 1-based line number in the file; 0 when the problem is the file as a whole. */
@@ -38,10 +41,15 @@ export interface PeakTableOptions {
 export interface TableMeta {
   delimiter: Delimiter
   decimalComma: boolean
+  /** The decimal mark of the retention-time column; null when no cell shows one. */
+  decimalMark: Mark | null
   headerRow: number
   timeUnit: TimeUnit
-  timeUnitSource: 'header' | 'option' | 'detected' | 'assumed'
+  /** 'cells' when the times were written m:ss. */
+  timeUnitSource: 'header' | 'option' | 'detected' | 'assumed' | 'cells'
   columns: string[]
+  /** 'areaPercent' when the file has no absolute areas and the area % column stood in for them. */
+  areaSource: 'area' | 'areaPercent'
 }
 
 export interface ParsedPeakTable {
@@ -53,146 +61,21 @@ export interface ParsedPeakTable {
 
 export const MAX_PEAK_ROWS = 5000
 export const MAX_TABLE_BYTES = 2_000_000
-const HEADER_SCAN_LINES = 200
 const MAX_ERRORS = 100
 /** Undeclared times above this are read as seconds: a teaching GC run does not last 90 min (common practice). */
 export const SECONDS_THRESHOLD = 90
-
-export interface HeaderCandidate {
-  row: number
-  delimiter: Delimiter
-  cells: Cell[]
-  kinds: Map<ColumnKind, { index: number, unit: string | null }>
-}
-
-function candidatesFor(line: string): HeaderCandidate[] {
-  const out: Omit<HeaderCandidate, 'row'>[] = []
-  const consider = (delimiter: Delimiter, cells: Cell[]) => {
-    const kinds = new Map<ColumnKind, { index: number, unit: string | null }>()
-    cells.forEach((c, index) => {
-      const { kind, unit } = classifyHeader(c.text)
-      if (kind && !kinds.has(kind)) kinds.set(kind, { index, unit })
-    })
-    out.push({ delimiter, cells, kinds })
-  }
-  for (const d of ['\t', ';', ','] as const) if (line.includes(d)) consider(d, splitCells(line, d))
-  consider('whitespace', splitWideGaps(line))
-  consider('whitespace', mergeHeaderTokens(splitCells(line, 'whitespace')))
-  return out.map(c => ({ ...c, row: 0 }))
-}
-
-const tableScore = (c: HeaderCandidate) => ['rt', 'area', 'areaPercent', 'height'].filter(k => c.kinds.has(k as ColumnKind)).length
-
-/** The header row: the first line naming both a time and an area, else the best partial one (for the error). */
-export function findHeader(lines: string[], wanted: ColumnKind[] = ['rt', 'area']): HeaderCandidate | null {
-  let partial: HeaderCandidate | null = null
-  for (let i = 0; i < Math.min(lines.length, HEADER_SCAN_LINES); i++) {
-    const line = lines[i]!
-    if (line.trim() === '' || SEPARATOR_LINE.test(line)) continue
-    const best = candidatesFor(line).sort((a, b) => tableScore(b) - tableScore(a))[0]!
-    best.row = i + 1
-    if (wanted.every(k => best.kinds.has(k))) return best
-    if ((best.kinds.has('rt') || best.kinds.has('area')) && best.cells.length >= 2 && (!partial || tableScore(best) > tableScore(partial))) partial = best
-  }
-  return partial
-}
-
-const TOTALS = /^(grand\s+)?(totals?|sum|summe|gesamt)\b|^[σΣ∑]/i
-
-function rowCells(line: string, header: HeaderCandidate): (string | undefined)[] | null {
-  const cells = splitCells(line, header.delimiter)
-  if (header.delimiter !== 'whitespace' || cells.length === header.cells.length) return cells.map(c => c.text)
-  return alignCells(cells, header.cells)
-}
-
-/** A row of units under the header; its retention-time cell, when present, must name a time unit. */
-function isUnitsRow(cells: (string | undefined)[], header: HeaderCandidate): boolean {
-  const present = cells.filter((c): c is string => !!c && c.trim() !== '')
-  if (present.length === 0 || !present.every(isUnitCell)) return false
-  const rt = cells[header.kinds.get('rt')!.index]?.trim().replace(/^[[(]|[\])]$/g, '') ?? ''
-  return rt === '' || timeUnitOf(rt) !== null
-}
-
-interface RawRow { row: number, cells: (string | undefined)[] }
-
-function isRepeatedHeader(cells: (string | undefined)[], header: HeaderCandidate): boolean {
-  const rt = header.kinds.get('rt')!.index
-  const area = header.kinds.get('area')?.index
-  return classifyHeader(cells[rt] ?? '').kind === 'rt' && area !== undefined && classifyHeader(cells[area] ?? '').kind === 'area'
-}
-
-function collectRows(lines: string[], header: HeaderCandidate, warnings: string[], errors: RowError[]): { rows: RawRow[], unitsRow: (string | undefined)[] | null } {
-  const rows: RawRow[] = []
-  const textLines: RawRow[] = []
-  let unitsRow: (string | undefined)[] | null = null
-  for (let i = header.row; i < lines.length; i++) {
-    const line = lines[i]!
-    if (line.trim() === '' || SEPARATOR_LINE.test(line)) continue
-    const cells = rowCells(line, header)
-    if (!cells) {
-      errors.push({ row: i + 1, code: 'misaligned', message: `Row ${i + 1}: the values do not line up with the header columns.` })
-      continue
-    }
-    if (rows.length === 0 && !unitsRow && isUnitsRow(cells, header)) { unitsRow = cells; continue }
-    if (isRepeatedHeader(cells, header)) {
-      // Reports with several detector signals repeat the table; the first one is the product run.
-      if (rows.length > 0) { warnings.push(`A second table starts at row ${i + 1}; only the first table was read.`); break }
-      continue
-    }
-    const filled = cells.filter((c): c is string => c !== undefined && c.trim() !== '')
-    if (filled.some(c => TOTALS.test(c.trim()))) {
-      warnings.push(`Row ${i + 1} looks like a totals row and was skipped.`)
-      continue
-    }
-    if (filled.length === 1 && !looksNumeric(filled[0]!)) {
-      warnings.push(`Row ${i + 1} is not part of the table ("${filled[0]!.slice(0, 40)}") and was skipped.`)
-      continue
-    }
-    // A text-only line after the peaks ("Printed by,lab3") is a footer, unless more peaks follow it.
-    if (rows.length > 0 && filled.every(c => !looksNumeric(c))) {
-      textLines.push({ row: i + 1, cells })
-      continue
-    }
-    if (textLines.length) { rows.push(...textLines); textLines.length = 0 }
-    if (header.delimiter === ',' && filled.length > header.cells.length) {
-      errors.push({ row: i + 1, code: 'misaligned', message: `Row ${i + 1} has more values than the header has columns: a name or number containing a comma must be quoted (or export with semicolons or tabs if the file uses decimal commas).` })
-      continue
-    }
-    rows.push({ row: i + 1, cells })
-  }
-  for (const t of textLines) warnings.push(`Row ${t.row} follows the table and holds no numbers ("${t.cells.filter(Boolean).join(' ').slice(0, 40)}"); it was skipped.`)
-  return { rows, unitsRow }
-}
-
-/** Two "Area" columns whose units row says "%" for one of them: that one is the area %. */
-function percentFromUnits(header: HeaderCandidate, unitsRow: (string | undefined)[] | null): HeaderCandidate['kinds'] {
-  const kinds = new Map(header.kinds)
-  if (!unitsRow) return kinds
-  const unitAt = (i: number) => unitsRow[i]?.trim().replace(/^[[(]|[\])]$/g, '') ?? ''
-  const percent = header.cells.map((c, i) => i)
-    .filter(i => unitAt(i) === '%' && classifyHeader(`${header.cells[i]!.text} %`).kind === 'areaPercent')
-  if (percent.length === 0) return kinds
-  const area = kinds.get('area')
-  if (area && unitAt(area.index) === '%') {
-    const absolute = header.cells.findIndex((c, i) => unitAt(i) !== '%' && classifyHeader(c.text).kind === 'area')
-    if (absolute < 0) return kinds
-    kinds.set('area', { index: absolute, unit: unitAt(absolute) || null })
-  }
-  if (!kinds.has('areaPercent')) kinds.set('areaPercent', { index: percent[0]!, unit: '%' })
-  return kinds
-}
-
-function declaredTimeUnit(header: HeaderCandidate, unitsRow: (string | undefined)[] | null): TimeUnit | null {
-  const rt = header.kinds.get('rt')!
-  const fromHeader = timeUnitOf(rt.unit)
-  if (fromHeader) return fromHeader
-  const unitCell = unitsRow?.[rt.index]?.trim().replace(/^[[(]|[\])]$/g, '')
-  return timeUnitOf(unitCell ?? null)
-}
+/**
+ * Largest area taken as a measurement. A 24-bit converter read 100 times a second for a whole
+ * hour sums to about 6e12 counts, so no integrator reports 1e15 (common practice); anything
+ * larger is a broken export, and refusing it keeps every later sum and ratio finite.
+ */
+export const MAX_PEAK_AREA = 1e15
+/** Latest retention time taken as real: GC programs run minutes to a couple of hours, never ten (common practice). */
+export const MAX_RETENTION_MINUTES = 600
 
 export function chooseTimeUnit(
   values: number[], declared: TimeUnit | null, option: PeakTableOptions['timeUnit'], expectedMaxMinutes: number | undefined, warnings: string[],
-): { unit: TimeUnit, source: TableMeta['timeUnitSource'] } {
+): { unit: TimeUnit, source: 'header' | 'option' | 'detected' | 'assumed' } {
   if (option && option !== 'auto') return { unit: option, source: 'option' }
   if (declared) return { unit: declared, source: 'header' }
   const max = values.reduce((m, v) => Math.max(m, v), 0)
@@ -211,11 +94,71 @@ export function chooseTimeUnit(
 
 export const toMinutes = (unit: TimeUnit) => (unit === 's' ? 1 / 60 : unit === 'ms' ? 1 / 60000 : 1)
 
-function optionalNumber(raw: string | undefined, decimalComma: DecimalMark): number | undefined | 'bad' {
-  if (raw === undefined) return undefined
-  const v = parseNumber(raw, decimalComma)
-  if (v === null) return undefined
-  return Number.isNaN(v) ? 'bad' : v
+const MARK_NAME: Record<Mark, string> = { ',': 'comma', '.': 'point' }
+
+/** Why a cell was refused, as the end of "Row N: the area …". */
+export function describeProblem(what: string, raw: string, p: ReadProblem): string {
+  const cell = excerpt(raw)
+  switch (p.kind) {
+    case 'ambiguous':
+      return `the ${what} ${cell} could be ${p.readings[0]} or ${p.readings[1]}: nothing in the file shows whether the ${MARK_NAME[p.mark]} is a decimal mark or a thousands separator. Export the table with its decimals shown, or without thousands separators`
+    case 'too-large':
+      return `the ${what} "${cell}" is not a number (it is too large to be a number)`
+    case 'mixed':
+      return p.decimal === null
+        ? `the ${what} "${cell}" is not a number (the column mixes decimal commas and points, so it cannot be read safely: export it with one decimal mark)`
+        : `the ${what} "${cell}" is not a number (this column uses decimal ${MARK_NAME[p.decimal]}s elsewhere, so a ${MARK_NAME[p.decimal === ',' ? '.' : ',']} here is ambiguous)`
+    case 'clock-mix':
+      return `the ${what} "${cell}" is not a number (the column writes times as minutes:seconds elsewhere)`
+    default:
+      return `the ${what} "${cell}" is not a number`
+  }
+}
+
+interface Column {
+  key: 'rt' | 'area' | 'areaPercent' | 'height'
+  what: string
+  index: number
+  style: ColumnStyle
+  reads: CellRead[]
+  /** Grouped cells refused because the column also writes long numbers ungrouped. */
+  regrouped: Map<number, string>
+}
+
+/**
+ * Reads every cell of the number columns in the column's style. A "45,769" read as 45769 in a
+ * column that also writes "98765" unseparated is refused: the column does not group thousands,
+ * so the comma may be a decimal after all.
+ */
+function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[]): Column[] {
+  const cells = specs.map(s => rows.map(r => r.cells[s.index] ?? ''))
+  const analyses = cells.map(column => column.map(analyseCell))
+  const styles = decideStyles(analyses.map(tallyColumn), 0)
+  return specs.map((spec, k) => {
+    const reads = analyses[k]!.map(a => readCell(a, styles[k]!))
+    const regrouped = new Map<number, string>()
+    const witness = ungroupedWitness(reads)
+    reads.forEach((r, i) => {
+      if (!r || 'problem' in r || !r.grouped || !r.ambiguous) return
+      const readings = `the ${spec.what} ${excerpt(cells[k]![i]!)} could be ${r.value} or ${String(r.value / 1000)}`
+      // Retention times are never grouped by thousands, so a grouped reading is the file's marks disagreeing.
+      if (spec.key === 'rt') regrouped.set(i, `${readings}: retention times are not written with thousands separators, yet the file uses the other mark as its decimal`)
+      else if (witness >= 0) regrouped.set(i, `${readings}: the column does not group thousands elsewhere (row ${rows[witness]!.row} reads ${excerpt(cells[k]![witness]!)}), so the mark may be a decimal`)
+    })
+    return { ...spec, style: styles[k]!, reads, regrouped }
+  })
+}
+
+/** A cell's number, the row's error, or null when the cell is empty. */
+function valueAt(col: Column, i: number, row: number, raw: string): number | RowError | null {
+  const r = col.reads[i]
+  if (r === null || r === undefined) return null
+  const regrouped = col.regrouped.get(i)
+  if (regrouped) return { row, code: 'ambiguous-number', message: `Row ${row}: ${regrouped}.` }
+  if ('problem' in r) {
+    return { row, code: r.problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric', message: `Row ${row}: ${describeProblem(col.what, raw, r.problem)}.` }
+  }
+  return r.value
 }
 
 /** Reads a peak table. Any error refuses the whole table: `peaks` is then empty. */
@@ -230,67 +173,91 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   const header = findHeader(lines)
   if (!header) return refuse(0, 'no-header', 'No header row naming the retention time and area columns was found.')
   if (!header.kinds.has('rt')) return refuse(header.row, 'no-rt-column', `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`)
-  if (!header.kinds.has('area')) {
+  const { rows, unitsRow, errors: layout } = collectRows(lines, header, warnings)
+  errors.push(...layout)
+  const kinds = columnsOf(header, unitsRow)
+  if (!kinds.has('area') && !kinds.has('areaPercent')) {
     const hint = header.kinds.has('signal') ? ' It looks like a raw detector trace: upload it as a trace instead.' : ''
-    return refuse(header.row, 'no-area-column', `Row ${header.row}: the header has no area column; export the table with peak areas ("Area"), not only heights or area %.${hint}`)
+    return refuse(header.row, 'no-area-column', `Row ${header.row}: the header has no area column; export the table with peak areas ("Area") or area %, not only heights.${hint}`)
   }
-  const { rows, unitsRow } = collectRows(lines, header, warnings, errors)
   const maxRows = options.maxRows ?? MAX_PEAK_ROWS
   if (rows.length > maxRows) return refuse(rows[maxRows]!.row, 'too-many-rows', `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`)
-  const kinds = percentFromUnits(header, unitsRow)
-  const rtIdx = kinds.get('rt')!.index
-  const areaIdx = kinds.get('area')!.index
-  const pctIdx = kinds.get('areaPercent')?.index
-  const hIdx = kinds.get('height')?.index
-  // In comma-delimited files a decimal comma can only appear inside quotes, which splitCells has removed.
-  const numberColumns = [rtIdx, areaIdx, pctIdx, hIdx]
-  const commas = decimalCommaColumns(numberColumns.map(idx => idx === undefined ? [] : rows.map(r => r.cells[idx] ?? '')), header.delimiter)
-  const [rtComma, areaComma, pctComma, hComma] = commas as [DecimalMark, DecimalMark, DecimalMark, DecimalMark]
-  const decimalComma = rtComma === true
+  const fromPercent = !kinds.has('area')
+  if (fromPercent) warnings.push('The file has no absolute peak areas, so the mole % were computed from its area % column.')
+  const specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[] = [
+    { key: 'rt', what: 'retention time', index: kinds.get('rt')!.index },
+    { key: 'area', what: fromPercent ? 'area %' : 'area', index: kinds.get(fromPercent ? 'areaPercent' : 'area')!.index },
+  ]
+  if (!fromPercent && kinds.has('areaPercent')) specs.push({ key: 'areaPercent', what: 'area %', index: kinds.get('areaPercent')!.index })
+  if (kinds.has('height')) specs.push({ key: 'height', what: 'height', index: kinds.get('height')!.index })
+  const columns = readColumns(rows, specs)
+  const [rtCol, areaCol] = columns as [Column, Column]
+  const maxArea = fromPercent ? 100 : MAX_PEAK_AREA
   const parsed: Peak[] = []
   const seen = new Map<number, number>()
-  const areaSum = { value: 0 }
-  const badOptional = new Set<string>()
-  for (const { row, cells } of rows) {
-    if (errors.length >= MAX_ERRORS) break
-    const rt = parseNumber(cells[rtIdx] ?? '', rtComma)
-    const area = parseNumber(cells[areaIdx] ?? '', areaComma)
-    if (rt === null && area !== null && !Number.isNaN(area) && parsed.length > 1 && Math.abs(area - areaSum.value) <= 0.005 * areaSum.value) {
+  let areaSum = 0
+  const leftOut = new Set<string>()
+  rows.forEach(({ row, cells }, i) => {
+    if (errors.length >= MAX_ERRORS) return
+    const rtRaw = cells[rtCol.index] ?? ''
+    const areaRaw = cells[areaCol.index] ?? ''
+    const rt = valueAt(rtCol, i, row, rtRaw)
+    const area = valueAt(areaCol, i, row, areaRaw)
+    if (rt === null && typeof area === 'number' && parsed.length > 1 && Math.abs(area - areaSum) <= 0.005 * areaSum) {
       warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
-      continue
+      return
     }
     const problems: RowError[] = []
     if (rt === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time is missing.` })
-    else if (Number.isNaN(rt)) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time "${cells[rtIdx]}" is not a number${separatorHint(cells[rtIdx] ?? '', rtComma)}.` })
-    else if (rt < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the retention time ${cells[rtIdx]} is negative.` })
-    if (area === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the area is missing.` })
-    else if (Number.isNaN(area)) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the area "${cells[areaIdx]}" is not a number${separatorHint(cells[areaIdx] ?? '', areaComma)}.` })
-    else if (area < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the area ${cells[areaIdx]} is negative; re-integrate the peak or check the baseline.` })
-    if (problems.length === 0 && rt !== null && seen.has(rt)) {
-      problems.push({ row, code: 'duplicate-rt', message: `Row ${row}: retention time ${cells[rtIdx]} already appears on row ${seen.get(rt)}; remove the duplicate row.` })
+    else if (typeof rt !== 'number') problems.push(rt)
+    else if (rt < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the retention time ${excerpt(rtRaw)} is negative.` })
+    if (area === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the ${areaCol.what} is missing.` })
+    else if (typeof area !== 'number') problems.push(area)
+    else if (area < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the ${areaCol.what} ${excerpt(areaRaw)} is negative; re-integrate the peak or check the baseline.` })
+    else if (area > maxArea) {
+      problems.push({ row, code: 'out-of-range', message: fromPercent
+        ? `Row ${row}: the area % ${excerpt(areaRaw)} is above 100.`
+        : `Row ${row}: the area ${excerpt(areaRaw)} is above 1e15, far beyond what an integrator reports; check the export.` })
     }
-    if (problems.length) { errors.push(...problems); continue }
-    seen.set(rt!, row)
-    areaSum.value += area!
-    const peak: Peak = { retentionTime: rt!, area: area!, row }
-    for (const [key, idx, comma] of [['areaPercent', pctIdx, pctComma], ['height', hIdx, hComma]] as const) {
-      if (idx === undefined) continue
-      const v = optionalNumber(cells[idx], comma)
-      if (v === 'bad') badOptional.add(key === 'height' ? 'height' : 'area %')
-      else if (v !== undefined) peak[key] = v
+    if (problems.length === 0 && typeof rt === 'number' && seen.has(rt)) {
+      problems.push({ row, code: 'duplicate-rt', message: `Row ${row}: retention time ${excerpt(rtRaw)} already appears on row ${seen.get(rt)}; remove the duplicate row.` })
+    }
+    if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
+    seen.set(rt, row)
+    areaSum += area
+    const peak: Peak = { retentionTime: rt, area, row }
+    if (fromPercent) peak.areaPercent = area
+    for (const col of columns.slice(2)) {
+      const v = valueAt(col, i, row, cells[col.index] ?? '')
+      const limit = col.key === 'areaPercent' ? 100 : MAX_PEAK_AREA
+      if (typeof v === 'number' && Math.abs(v) <= limit) peak[col.key as 'areaPercent' | 'height'] = v
+      else if (v !== null) leftOut.add(col.what)
     }
     parsed.push(peak)
-  }
-  for (const name of badOptional) warnings.push(`Some ${name} values are not numbers and were left out.`)
+  })
+  for (const name of leftOut) warnings.push(`Some ${name} values are not numbers or out of range and were left out.`)
   if (errors.length) return { peaks: [], warnings, errors, meta: null }
   if (parsed.length === 0) return refuse(header.row, 'no-peaks', `The table under the header on row ${header.row} has no peak rows.`)
-  const { unit, source } = chooseTimeUnit(parsed.map(p => p.retentionTime), declaredTimeUnit(header, unitsRow), options.timeUnit, options.expectedMaxMinutes, warnings)
+  const clock = rtCol.style.clock
+  const { unit, source } = clock
+    ? { unit: 'min' as const, source: 'cells' as const }
+    : chooseTimeUnit(parsed.map(p => p.retentionTime), declaredTimeUnit(header, unitsRow), options.timeUnit, options.expectedMaxMinutes, warnings)
   const factor = toMinutes(unit)
   if (factor !== 1) for (const p of parsed) p.retentionTime *= factor
+  for (const p of parsed) {
+    if (p.retentionTime > MAX_RETENTION_MINUTES && errors.length < MAX_ERRORS) {
+      errors.push({ row: p.row!, code: 'out-of-range', message: `Row ${p.row}: the retention time ${+p.retentionTime.toPrecision(6)} min is more than ${MAX_RETENTION_MINUTES / 60} hours; check the time unit of the export.` })
+    }
+  }
+  if (errors.length) return { peaks: [], warnings, errors, meta: null }
+  const decimalMark = rtCol.style.decimal ?? columns.find(c => c.style.decimal)?.style.decimal ?? null
   return {
     peaks: parsed,
     warnings,
     errors: [],
-    meta: { delimiter: header.delimiter, decimalComma, headerRow: header.row, timeUnit: unit, timeUnitSource: source, columns: header.cells.map(c => c.text) },
+    meta: {
+      delimiter: header.delimiter, decimalComma: decimalMark === ',', decimalMark, headerRow: header.row, timeUnit: unit, timeUnitSource: source,
+      columns: header.cells.map(c => c.text), areaSource: fromPercent ? 'areaPercent' : 'area',
+    },
   }
 }

@@ -1,10 +1,10 @@
-// Text-level helpers for instrument exports: lines, delimiters, cells, header names, numbers
-// and time units. Shared by the peak-table and trace parsers.
-import Papa from 'papaparse'
+// Text-level helpers for instrument exports: lines, delimiters, cells, aligned columns, units
+// rows and report furniture. Shared by the peak-table and trace parsers.
 
-export type Delimiter = ',' | ';' | '\t' | 'whitespace'
-export type ColumnKind = 'rt' | 'area' | 'areaPercent' | 'height' | 'signal'
-export type TimeUnit = 'min' | 's' | 'ms'
+import { classifyHeader, isFillerWord } from './header-names'
+import { looksNumeric } from './number-text'
+
+export type Delimiter = ',' | ';' | '\t' | '|' | 'whitespace'
 
 export interface Cell {
   text: string
@@ -29,7 +29,7 @@ export function utf8Length(text: string): number {
   return bytes
 }
 
-/** Splits one line. Quoted cells go through papaparse; plain ones take the fast path. */
+/** Splits one line; cells may be quoted as in RFC 4180 ("a ""b""", doubled quotes inside). */
 export function splitCells(line: string, delimiter: Delimiter): Cell[] {
   if (delimiter === 'whitespace') {
     const cells: Cell[] = []
@@ -47,8 +47,36 @@ export function splitCells(line: string, delimiter: Delimiter): Cell[] {
     }
     return cells
   }
-  const parsed = Papa.parse<string[]>(line, { delimiter, header: false })
-  return (parsed.data[0] ?? []).map((text, i) => ({ text: text.trim(), start: i, end: i }))
+  return splitQuoted(line, delimiter)
+}
+
+// Hand-written rather than papaparse: a parser set up per line costs more than the whole line's work.
+function splitQuoted(line: string, delimiter: string): Cell[] {
+  const cells: Cell[] = []
+  let i = 0
+  while (i <= line.length) {
+    const start = i
+    while (line[i] === ' ' || (line[i] === '\t' && delimiter !== '\t')) i++
+    let text = ''
+    if (line[i] === '"') {
+      i++
+      for (;;) {
+        const close = line.indexOf('"', i)
+        if (close < 0) { text += line.slice(i); i = line.length; break }
+        text += line.slice(i, close)
+        i = close + 1
+        if (line[i] !== '"') break
+        text += '"'
+        i++
+      }
+    }
+    const next = line.indexOf(delimiter, i)
+    const end = next < 0 ? line.length : next
+    text += line.slice(i, end)
+    cells.push({ text: text.trim(), start, end })
+    i = end + 1
+  }
+  return cells
 }
 
 /** Aligned text reports separate columns by runs of spaces; header names may hold single spaces. */
@@ -60,79 +88,13 @@ export function splitWideGaps(line: string): Cell[] {
   return cells
 }
 
-const RT_NAMES = new Set(['retentiontime', 'retentiontimes', 'rt', 'rtime', 'rettime', 'ret', 'time', 'retention', 'tr', 'tret', 'apexrt', 'rtapex', 'apextime', 'peaktime'])
-const AREA_NAMES = new Set(['area', 'peakarea', 'areas', 'integratedarea', 'absarea', 'rawarea', 'areacounts', 'areasum'])
-const HEIGHT_NAMES = new Set(['height', 'peakheight', 'ht', 'heights', 'maxheight'])
-const AREA_PERCENT_BASES = new Set(['area', '', 'norm', 'peakarea', 'normarea', 'normalizedarea', 'relarea', 'relativearea'])
-const SIGNAL_NAMES = new Set(['signal', 'intensity', 'response', 'detector', 'fid', 'y', 'value', 'abundance', 'counts', 'voltage', 'current', 'pa', 'mv', 'uv', 'detectorsignal'])
-
-export interface HeaderName {
-  kind: ColumnKind | null
-  unit: string | null
-}
-
-const TIME_UNITS: Record<string, TimeUnit> = {
-  min: 'min', mins: 'min', minute: 'min', minutes: 'min', m: 'min',
-  s: 's', sec: 's', secs: 's', second: 's', seconds: 's',
-  ms: 'ms', msec: 'ms', millisecond: 'ms', milliseconds: 'ms',
-}
-
-export function timeUnitOf(unit: string | null): TimeUnit | null {
-  if (!unit) return null
-  return TIME_UNITS[unit.trim().toLowerCase().replace(/\.$/, '')] ?? null
-}
-
-/** Classifies a header cell by meaning, tolerating units in brackets, after a slash or as a last word. */
-export function classifyHeader(raw: string): HeaderName {
-  let s = raw.trim().toLowerCase().replace(/^"+|"+$/g, '')
-  let unit: string | null = null
-  s = s.replace(/[[(]([^\])]*)[\])]/g, (_, u: string) => {
-    unit = unit ?? u.trim()
-    return ' '
-  })
-  const slash = s.match(/^(.*?)\s*\/\s*([a-zµ*%.\s]+)$/)
-  // "Area/Height" is a ratio of two columns, not an area with a unit.
-  if (slash && isColumnName(slash[2]!)) return { kind: null, unit: null }
-  if (slash) {
-    s = slash[1]!
-    unit = unit ?? slash[2]!.trim()
-  }
-  s = s.replace(/[._\-:]/g, ' ').replace(/\s+/g, ' ').trim()
-  const words = s.split(' ')
-  const last = words[words.length - 1] ?? ''
-  if (words.length > 1 && TIME_UNITS[last]) {
-    unit = unit ?? last
-    s = words.slice(0, -1).join(' ')
-  }
-  const compact = s.replace(/\s/g, '')
-  const percent = /%|pct|percent|perc\b/.test(compact) || unit === '%'
-  const base = compact.replace(/%|pct|percent|perc/g, '')
-  if (percent && AREA_PERCENT_BASES.has(base)) return { kind: 'areaPercent', unit: '%' }
-  if (percent) return { kind: null, unit }
-  if (RT_NAMES.has(compact)) return { kind: 'rt', unit }
-  if (AREA_NAMES.has(compact)) return { kind: 'area', unit }
-  if (HEIGHT_NAMES.has(compact)) return { kind: 'height', unit }
-  if (SIGNAL_NAMES.has(compact)) return { kind: 'signal', unit }
-  return { kind: null, unit }
-}
-
-function isColumnName(text: string): boolean {
-  const compact = text.replace(/[\s._\-:]/g, '')
-  return RT_NAMES.has(compact) || AREA_NAMES.has(compact) || HEIGHT_NAMES.has(compact) || ['width', 'name', 'type', 'conc', 'amount'].includes(compact)
-}
-
-export interface HeaderColumn extends HeaderName {
-  index: number
-  start: number
-  end: number
-}
-
 /** Greedy longest-name merge of whitespace tokens ("Ret. Time [min]" is three tokens). */
 export function mergeHeaderTokens(cells: Cell[]): Cell[] {
   const merged: Cell[] = []
   for (let i = 0; i < cells.length;) {
     let taken = 1
-    for (let j = Math.min(cells.length, i + 4); j > i + 1; j--) {
+    // In a single-spaced report header a leading "Peak" is the peak-number column, not part of "Peak RetTime".
+    for (let j = Math.min(cells.length, i + 4); j > i + 1 && !isFillerWord(cells[i]!.text); j--) {
       const text = cells.slice(i, j).map(c => c.text).join(' ')
       if (classifyHeader(text).kind) { taken = j - i; break }
     }
@@ -150,117 +112,10 @@ export function mergeHeaderTokens(cells: Cell[]): Cell[] {
   return out
 }
 
-const NUMERIC = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/
-
-export function cleanNumberText(raw: string): string {
-  // U+2212 is the typographic minus some reports print.
-  return raw.trim().replace(/^"(.*)"$/, '$1').replace(/\u2212/g, '-').replace(/(\d)[\s\u00a0\u202f\u2009'](?=\d)/g, '$1').replace(/\s*%$/, '').trim()
-}
-
-type Style = 'comma' | 'dot'
-
-function countOf(text: string, mark: string): number {
-  let n = 0
-  for (let i = text.indexOf(mark); i >= 0; i = text.indexOf(mark, i + 1)) n++
-  return n
-}
-
-/** Cells read per column to decide its decimal mark; a contradicting cell further down is still refused by parseNumber. */
-const STYLE_SAMPLE = 400
-/** true: decimal comma; false: decimal point; null: the column mixes both, so any mark is refused. */
-export type DecimalMark = boolean | null
-
-/**
- * Which mark a cell uses as its decimal separator. `sure` is false when one separator followed
- * by exactly three digits could be either ("2,498", "1.234"): the column or the file decides.
- */
-function cellStyle(raw: string): { style: Style, sure: boolean } | null {
-  const s = cleanNumberText(raw).replace(/^[+-]/, '').replace(/[eE][+-]?\d+$/, '')
-  const commas = countOf(s, ',')
-  const dots = countOf(s, '.')
-  if (commas && dots) return { style: s.lastIndexOf(',') > s.lastIndexOf('.') ? 'comma' : 'dot', sure: true }
-  const mark = commas ? ',' : dots ? '.' : null
-  if (!mark) return null
-  const count = commas || dots
-  const style: Style = mark === ',' ? 'comma' : 'dot'
-  const other: Style = mark === ',' ? 'dot' : 'comma'
-  // Two or more marks can only be thousands groups ("1,234,567"), so the other mark is the decimal.
-  if (count > 1) return { style: other, sure: true }
-  const [whole, fraction] = s.split(mark) as [string, string]
-  const couldBeThousands = /^[1-9]\d{0,2}$/.test(whole) && /^\d{3}$/.test(fraction)
-  return { style, sure: !couldBeThousands }
-}
-
-/**
- * One decimal mark per column, from the column's own unambiguous cells, else the file's,
- * else the delimiter's custom (semicolon, tab and space files come from decimal-comma locales;
- * in comma-delimited files a comma inside a quoted number groups thousands).
- */
-export function decimalCommaColumns(columns: string[][], delimiter: Delimiter): DecimalMark[] {
-  const tally = columns.map((cells) => {
-    const t = { comma: 0, dot: 0, unsureComma: 0, unsureDot: 0 }
-    for (const c of cells.length > STYLE_SAMPLE ? cells.slice(0, STYLE_SAMPLE) : cells) {
-      const st = cellStyle(c)
-      if (!st) continue
-      if (st.sure) t[st.style]++
-      else if (st.style === 'comma') t.unsureComma++
-      else t.unsureDot++
-    }
-    return t
-  })
-  const fileComma = tally.reduce((n, t) => n + t.comma, 0)
-  const fileDot = tally.reduce((n, t) => n + t.dot, 0)
-  return tally.map((t) => {
-    if (t.comma !== t.dot) return t.comma > t.dot
-    // "2,514" beside "3.087" with nothing to tell which is the decimal: refuse, never guess.
-    if (t.comma === 0 && t.unsureComma && t.unsureDot) return null
-    if (fileComma !== fileDot) return fileComma > fileDot
-    if (t.unsureComma && !t.unsureDot) return delimiter !== ','
-    return false
-  })
-}
-
-const GROUPED = { comma: /^[+-]?\d{1,3}(\.\d{3})+(,\d*)?([eE][+-]?\d+)?$/, dot: /^[+-]?\d{1,3}(,\d{3})+(\.\d*)?([eE][+-]?\d+)?$/ }
-
-/**
- * A number, NaN when the cell is not a finite number in the column's style (a decimal point in
- * a decimal-comma column is refused, not guessed), null when it is empty.
- */
-export function parseNumber(raw: string, decimalComma: DecimalMark): number | null {
-  let s = cleanNumberText(raw)
-  if (s === '') return null
-  if (decimalComma === null) {
-    if (/[.,]/.test(s)) return Number.NaN
-  } else if (decimalComma) {
-    if (s.includes('.')) s = GROUPED.comma.test(s) ? s.replace(/\./g, '') : 'x'
-    s = s.replace(',', '.')
-  } else if (s.includes(',')) {
-    s = GROUPED.dot.test(s) ? s.replace(/,/g, '') : 'x'
-  }
-  if (!NUMERIC.test(s)) return Number.NaN
-  const value = Number(s)
-  return Number.isFinite(value) ? value : Number.NaN
-}
-
-/** Why a numeric-looking cell was refused, for the row's message; '' when nothing specific. */
-export function separatorHint(raw: string, decimalComma: DecimalMark): string {
-  const s = cleanNumberText(raw)
-  if (!looksNumeric(s)) return ''
-  if (NUMERIC.test(s.replace(/,/g, '')) && !Number.isFinite(Number(s.replace(/,/g, '')))) return ' (it is too large to be a number)'
-  if (decimalComma === null) return ' (the column mixes decimal commas and points, so it cannot be read safely: export it with one decimal mark)'
-  return decimalComma
-    ? ' (this column uses decimal commas elsewhere, so a point here is ambiguous)'
-    : ' (this column uses decimal points elsewhere, so a comma here is ambiguous)'
-}
-
-export function looksNumeric(raw: string): boolean {
-  const s = cleanNumberText(raw)
-  return s !== '' && /^[+-]?[\d.,]*\d[\d.,]*([eE][+-]?\d+)?$/.test(s)
-}
-
 /**
  * Maps the cells of an aligned-text row onto header columns by character position, for
- * reports that leave a column blank in some rows. Returns null when two cells land in one column.
+ * reports that leave a column blank in some rows. Words that land in one column join ("chloro
+ * butane"); returns null when a number shares its column with anything else.
  */
 export function alignCells(cells: Cell[], columns: { start: number, end: number }[]): (string | undefined)[] | null {
   const out: (string | undefined)[] = Array.from({ length: columns.length })
@@ -272,16 +127,48 @@ export function alignCells(cells: Cell[], columns: { start: number, end: number 
       const score = overlap > 0 ? overlap : -Math.min(Math.abs(cell.end - col.end), Math.abs(cell.start - col.start))
       if (score > bestScore) { bestScore = score; best = i }
     })
-    if (out[best] !== undefined) return null
-    out[best] = cell.text
+    // A word under no header belongs to the text column it trails ("butane A" under "Name").
+    if (bestScore <= 0 && !looksNumeric(cell.text)) {
+      const before = columns.findLastIndex(col => col.start <= cell.start)
+      if (before >= 0) best = before
+    }
+    const taken = out[best]
+    if (taken !== undefined && (looksNumeric(taken) || looksNumeric(cell.text))) return null
+    out[best] = taken === undefined ? cell.text : `${taken} ${cell.text}`
   }
   return out
 }
 
 export const SEPARATOR_LINE = /^[\s\-=|+_*~.]+$/
-/** A cell of a units row under the header: "min", "[pA*s]", "(mV.s)", "mAU*min", "%", "#". */
+/** A cell of a units row under the header: "min", "[pA*s]", "(mV.s)", "mAU*min", "µV·s", "mm:ss", "%", "#". */
 export function isUnitCell(raw: string): boolean {
   const s = raw.trim().replace(/^[[(](.*)[\])]$/, '$1').trim()
   if (s === '' || s === '%' || s === '#') return true
-  return s.length <= 16 && /^[a-zµμ°·*/.^\-\s0-9]+$/i.test(s) && /[a-zµμ]/i.test(s) && !looksNumeric(s)
+  return s.length <= 16 && /^[a-zµμ°·*/.:^\-\s0-9]+$/i.test(s) && /[a-zµμ]/i.test(s) && !looksNumeric(s)
+}
+
+// Report furniture: lines printed around a table that are neither peaks nor header, in the
+// languages of the header names. Matched on the line stripped of decoration ("*** … ***").
+const END_MARK = /^(end|end of (the )?(report|table|results|data|listing|file)|report end|end report|fin( du| de| del)? (rapport|informe|relatorio|relat[oó]rio)|ende( des)? (berichts|reports)|berichtsende|fine( del)? rapporto|einde( van het)? rapport|koniec raportu)$/i
+const PAGE_MARK = /^(page|seite|p[aá]gina|strona|blz|pag)\.?\s*\d+(\s*(of|von|de|di|sur|z|van|\/)\s*\d+)?$/i
+const PRINT_MARK = /^(printed|print (date|time)|report (printed|generated|created|date)|generated|created|signed|signature|analy[sz]t|operator|reviewed|approved|checked|verified|gedruckt|druckdatum|unterschrift|gepr[uü]ft|imprim[eé]|impreso|impresso|stampato|afgedrukt|wydrukowano|podpis|firma|assinatura|handtekening)\b/i
+/** "Number of peaks: 4", "Method = CHLOR-A": a label and a value, never a peak row. */
+const LABEL_LINE = /^\p{L}[\p{L}\p{M} .'()/#-]{0,40}?\s*[:=]/u
+const DECORATION = /^[\s*=\-#~_<>[\]|+.:]+|[\s*=\-#~_<>[\]|+.:]+$/g
+
+export type Furniture = 'page' | 'end' | 'print' | 'label'
+
+/** What kind of report furniture a line is, or null when it may be part of the table. */
+export function furnitureOf(line: string): Furniture | null {
+  if (line.includes('\f')) return 'page'
+  // Every mark and label starts with a word: rows of bare numbers skip the patterns.
+  if (!/\p{L}/u.test(line)) return null
+  // Cells of a delimited footer ("Page,1,of,1") read as one line.
+  const core = line.replace(/["\t,;|]+/g, ' ').replace(DECORATION, '').replace(/\s+/g, ' ')
+  if (core === '') return null
+  if (END_MARK.test(core)) return 'end'
+  if (PAGE_MARK.test(core)) return 'page'
+  if (PRINT_MARK.test(core)) return 'print'
+  if (LABEL_LINE.test(line.trim())) return 'label'
+  return null
 }

@@ -1,10 +1,11 @@
 // Raw detector traces (time, signal) as text, and telling a trace from a peak table.
-import { type RowError, type TableMeta, type PeakTableOptions, chooseTimeUnit, findHeader, toMinutes } from './peak-table'
+import { type TimeUnit, classifyHeader, timeUnitOf } from './header-names'
+import { type ColumnStyle, type ReadProblem, decideStyles, excerpt, looksNumeric, readCell, tallyColumn } from './number-text'
 import {
-  type DecimalMark, type Delimiter, type TimeUnit,
-  SEPARATOR_LINE, classifyHeader, decimalCommaColumns, looksNumeric, mergeHeaderTokens, parseNumber,
-  splitCells, splitLines, timeUnitOf, utf8Length,
-} from './table-text'
+  type RowError, type TableMeta, type PeakTableOptions,
+  MAX_PEAK_AREA, MAX_RETENTION_MINUTES, chooseTimeUnit, describeProblem, findHeader, toMinutes,
+} from './peak-table'
+import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, utf8Length } from './table-text'
 
 export interface TraceOptions {
   timeUnit?: PeakTableOptions['timeUnit']
@@ -19,7 +20,7 @@ export interface ParsedTrace {
   signal: number[]
   warnings: string[]
   errors: RowError[]
-  meta: (Omit<TableMeta, 'headerRow' | 'columns'> & { headerRow: number | null, firstDataRow: number }) | null
+  meta: (Omit<TableMeta, 'headerRow' | 'columns' | 'areaSource'> & { headerRow: number | null, firstDataRow: number }) | null
 }
 
 export const MAX_TRACE_POINTS = 1_000_000
@@ -27,6 +28,8 @@ export const MAX_TRACE_BYTES = 50_000_000
 /** Fewer rows than this is a table, not a detector trace (common practice: traces hold thousands). */
 export const MIN_TRACE_POINTS = 200
 const MAX_ERRORS = 100
+/** Rows read to decide each column's decimal mark. */
+const STYLE_SAMPLE = 5000
 
 function numericCells(line: string, d: Delimiter): number {
   const cells = splitCells(line, d)
@@ -78,15 +81,16 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   const timeIdx = Math.max(0, header?.names.findIndex(n => n.kind === 'rt') ?? 0)
   const signalByName = header?.names.findIndex((n, i) => i !== timeIdx && (n.kind === 'signal' || n.kind === 'height')) ?? -1
   const signalIdx = signalByName >= 0 ? signalByName : timeIdx === 0 ? 1 : 0
+  // The decimal mark is decided on the first rows; a later cell that contradicts it is refused.
   const timeSample: string[] = []
   const signalSample: string[] = []
-  for (let i = start.index; i < lines.length && timeSample.length < 200; i++) {
+  for (let i = start.index; i < lines.length && timeSample.length < STYLE_SAMPLE; i++) {
     const cells = splitCells(lines[i]!, start.delimiter)
     timeSample.push(cells[timeIdx]?.text ?? '')
     signalSample.push(cells[signalIdx]?.text ?? '')
   }
-  const [timeComma, signalComma] = decimalCommaColumns([timeSample, signalSample], start.delimiter) as [DecimalMark, DecimalMark]
-  const decimalComma = timeComma === true
+  const [timeStyle, signalStyle] = decideStyles([tallyColumn(timeSample), tallyColumn(signalSample)], 0) as [ColumnStyle, ColumnStyle]
+  const decimalMark = timeStyle.decimal
   const maxPoints = options.maxPoints ?? MAX_TRACE_POINTS
   const time: number[] = []
   const signal: number[] = []
@@ -100,29 +104,45 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       warnings.push(`Row ${i + 1} is not part of the trace and was skipped.`)
       continue
     }
-    const t = parseNumber(cells[timeIdx]?.text ?? '', timeComma)
-    const y = parseNumber(cells[signalIdx]?.text ?? '', signalComma)
-    if (t === null || y === null || Number.isNaN(t) || Number.isNaN(y)) {
+    const tRaw = cells[timeIdx]?.text ?? ''
+    const yRaw = cells[signalIdx]?.text ?? ''
+    const t = readCell(tRaw, timeStyle)
+    const y = readCell(yRaw, signalStyle)
+    if (t === null || y === null) {
       errors.push({ row: i + 1, code: 'non-numeric', message: `Row ${i + 1}: the time and signal must both be numbers.` })
       continue
     }
-    if (time.length > 0 && !(t > time[time.length - 1]!)) {
-      errors.push({ row: i + 1, code: 'non-monotonic-time', message: `Row ${i + 1}: the time ${cells[timeIdx]!.text} does not increase from the row before.` })
+    if ('problem' in t || 'problem' in y) {
+      const [what, raw, problem] = 'problem' in t ? ['time', tRaw, t.problem] as const : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
+      errors.push({ row: i + 1, code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric', message: `Row ${i + 1}: ${describeProblem(what, raw, problem)}.` })
+      continue
+    }
+    if (Math.abs(y.value) > MAX_PEAK_AREA) {
+      errors.push({ row: i + 1, code: 'out-of-range', message: `Row ${i + 1}: the signal ${excerpt(yRaw)} is beyond any detector's range; check the export.` })
+      continue
+    }
+    if (time.length > 0 && !(t.value > time[time.length - 1]!)) {
+      errors.push({ row: i + 1, code: 'non-monotonic-time', message: `Row ${i + 1}: the time ${excerpt(tRaw)} does not increase from the row before.` })
       continue
     }
     if (time.length >= maxPoints) return refuse(i + 1, 'too-many-rows', `The trace has more than ${maxPoints} points.`)
-    time.push(t)
-    signal.push(y)
+    time.push(t.value)
+    signal.push(y.value)
   }
   if (errors.length) return { time: [], signal: [], warnings, errors, meta: null }
   if (time.length < 10) return refuse(start.index + 1, 'too-few-points', 'A trace needs at least 10 points.')
   const declared: TimeUnit | null = header ? timeUnitOf(header.names[timeIdx]?.unit ?? null) : null
-  const { unit, source } = chooseTimeUnit([time[time.length - 1]!], declared, options.timeUnit, options.expectedMaxMinutes, warnings)
+  const { unit, source } = timeStyle.clock
+    ? { unit: 'min' as const, source: 'cells' as const }
+    : chooseTimeUnit([time[time.length - 1]!], declared, options.timeUnit, options.expectedMaxMinutes, warnings)
   const factor = toMinutes(unit)
   if (factor !== 1) for (let i = 0; i < time.length; i++) time[i]! *= factor
+  if (time[time.length - 1]! > MAX_RETENTION_MINUTES) {
+    return refuse(start.index + 1, 'out-of-range', `The trace runs to ${+time[time.length - 1]!.toPrecision(6)} min, more than ${MAX_RETENTION_MINUTES / 60} hours; check the time unit of the export.`)
+  }
   return {
     time, signal, warnings, errors: [],
-    meta: { delimiter: start.delimiter, decimalComma, headerRow: header?.row ?? null, firstDataRow: start.index + 1, timeUnit: unit, timeUnitSource: source },
+    meta: { delimiter: start.delimiter, decimalComma: decimalMark === ',', decimalMark, headerRow: header?.row ?? null, firstDataRow: start.index + 1, timeUnit: unit, timeUnitSource: source },
   }
 }
 
@@ -136,7 +156,7 @@ export function sniffUpload(text: string): UploadSniff {
   if (typeof text !== 'string' || text.trim() === '') return { kind: 'unknown', reason: 'The file is empty.' }
   const lines = splitLines(text)
   const header = findHeader(lines)
-  if (header?.kinds.has('rt') && header.kinds.has('area')) return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
+  if (header?.kinds.has('rt') && (header.kinds.has('area') || header.kinds.has('areaPercent'))) return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
   const start = findDataStart(lines)
   if (start) {
     const probe = lines.slice(0, Math.min(lines.length, start.index + 2000)).join('\n')
