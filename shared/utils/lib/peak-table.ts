@@ -121,14 +121,14 @@ interface Column {
   index: number
   style: ColumnStyle
   reads: CellRead[]
-  /** Grouped cells refused because the column also writes long numbers ungrouped. */
+  /** Cells whose reading as grouped thousands is refused: a retention time, or a column that writes long numbers ungrouped. */
   regrouped: Map<number, string>
 }
 
 /**
  * Reads every cell of the number columns in the column's style. A "45,769" read as 45769 in a
  * column that also writes "98765" unseparated is refused: the column does not group thousands,
- * so the comma may be a decimal after all.
+ * so the comma may be a decimal after all. A retention time is never read as grouped.
  */
 function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[]): Column[] {
   const cells = specs.map(s => rows.map(r => r.cells[s.index] ?? ''))
@@ -142,7 +142,7 @@ function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 're
       if (!r || 'problem' in r || !r.grouped || !r.ambiguous) return
       const readings = `the ${spec.what} ${excerpt(cells[k]![i]!)} could be ${r.value} or ${String(r.value / 1000)}`
       // Retention times are never grouped by thousands, so a grouped reading is the file's marks disagreeing.
-      if (spec.key === 'rt') regrouped.set(i, `${readings}: retention times are not written with thousands separators, yet the file uses the other mark as its decimal`)
+      if (spec.key === 'rt') regrouped.set(i, `${readings}: retention times are not written with thousands separators, so this mark disagrees with the file's decimal mark`)
       else if (witness >= 0) regrouped.set(i, `${readings}: the column does not group thousands elsewhere (row ${rows[witness]!.row} reads ${excerpt(cells[k]![witness]!)}), so the mark may be a decimal`)
     })
     return { ...spec, style: styles[k]!, reads, regrouped }
