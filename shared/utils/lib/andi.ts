@@ -104,7 +104,8 @@ function retentionFactor(reader: AndiReader, warnings: string[]): number {
     return 1 / 60
   }
   const factor = minutesPer(unit)
-  if (factor === null) throw new AndiFileError(`the time unit "${unit.slice(0, 20)}" (retention_unit) is not seconds or minutes.`)
+  // Echoed in the answer's status line: printable ASCII only.
+  if (factor === null) throw new AndiFileError(`the time unit "${unit.slice(0, 20).replace(/[^\x20-\x7e]/g, '?')}" (retention_unit) is not seconds or minutes.`)
   return factor
 }
 
