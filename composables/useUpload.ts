@@ -2,6 +2,7 @@ import { readonly, ref } from 'vue'
 import type { InternalApi } from 'nitropack/types'
 import type { FlagView, SubmissionStatusName } from '#shared/types/submission'
 import type { BadgeTone } from '~/components/base/BaseBadge.vue'
+import { MAX_UPLOAD_BYTES, MAX_UPLOAD_WORDS } from '#shared/utils/limits'
 
 // Sending a GC file with a progress bar. fetch() reports no upload progress, so this uses
 // XMLHttpRequest and its upload.onprogress. State lives inside each call of useUpload(), never
@@ -26,15 +27,18 @@ export class UploadRefused extends Error {
   }
 }
 
-/** The server's own limit (server/utils/files.ts); checked here too so a big file is not sent at all. */
-export const UPLOAD_MAX_BYTES = 2 * 1024 * 1024
-export const UPLOAD_ACCEPT = '.csv,.tsv,.txt,text/csv,text/plain,text/tab-separated-values'
+/** What the file chooser offers; the server judges the bytes, whatever the name. */
+export const UPLOAD_ACCEPT = [
+  '.csv', '.tsv', '.txt', '.xlsx', '.cdf', '.nc',
+  'text/csv', 'text/plain', 'text/tab-separated-values',
+  'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', 'application/x-netcdf',
+].join(',')
 
-/** Why a chosen file will not be sent, or null. The server judges the content again. */
+/** Why a chosen file will not be sent, or null. The server reads the content, not the name, and judges it again. */
 export function chosenFileProblem(file: File): string | null {
-  if (!/\.(csv|tsv|txt)$/i.test(file.name)) return 'Choose the export as a CSV, TSV or TXT file.'
+  if (/\.xls$/i.test(file.name)) return 'This is an old Excel file (.xls). Save it as .xlsx or CSV and choose that.'
   if (file.size === 0) return 'The file is empty. Export the peak table or trace again.'
-  if (file.size > UPLOAD_MAX_BYTES) return 'The file is larger than 2 MB. Export only the peak table, or a trace with fewer points.'
+  if (file.size > MAX_UPLOAD_BYTES) return `The file is larger than ${MAX_UPLOAD_WORDS}. Export only the peak table, or a trace with fewer points.`
   return null
 }
 

@@ -2,9 +2,9 @@ import { createHash } from 'node:crypto'
 import type { H3Event } from 'h3'
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../database/schema'
-
-// "2 MB" as the peak-table parser counts it, so both refuse at the same size.
-export const MAX_UPLOAD_BYTES = 2_000_000
+import { MAX_UPLOAD_BYTES } from '#shared/utils/limits'
+import { decodeTextBytes } from '#shared/utils/lib/text-encoding'
+import { byteFormatOf, nonTextFormatProblem, readUploadContent, UploadFormatError, type UploadContent } from '#shared/utils/lib/upload-content'
 
 export interface UploadedFile {
   name: string
@@ -54,22 +54,37 @@ export async function readUpload(event: H3Event, { maxBytes = MAX_UPLOAD_BYTES, 
 }
 
 function tooLarge(maxBytes: number) {
-  return createError({ statusCode: 413, statusMessage: `file: larger than ${(maxBytes / 1024 / 1024).toFixed(0)} MB` })
+  return createError({ statusCode: 413, statusMessage: `file: larger than ${+(maxBytes / 1e6).toFixed(1)} MB` })
 }
 
 /**
- * Decodes an upload as text, judging by the bytes, not the name: NUL bytes or invalid UTF-8
- * mean it is not a text table. A UTF-8 BOM is dropped; Latin-1 exports are accepted.
+ * Decodes an upload as text, judging by the bytes, not the name: UTF-8 (with or without a BOM),
+ * UTF-16 "Unicode text" (by its BOM or its pattern of zero bytes) or Windows-1252. Other binary
+ * files are a 415 naming what they seem to be.
  */
 export function uploadAsText(file: UploadedFile): string {
-  const bytes = file.bytes
-  if (bytes.length === 0) throw createError({ statusCode: 422, statusMessage: 'file: the file is empty' })
-  if (bytes.includes(0)) throw createError({ statusCode: 415, statusMessage: 'file: this is a binary file, not a text table (CSV, TSV or TXT)' })
-  const utf8 = new TextDecoder('utf-8', { fatal: false }).decode(bytes)
-  // Many replacement characters: not UTF-8; read as Windows-1252, which older instruments write.
-  const broken = (utf8.match(/\uFFFD/g) ?? []).length
-  const text = broken > 0 ? new TextDecoder('windows-1252').decode(bytes) : utf8
-  return text.replace(/^\uFEFF/, '')
+  const problem = nonTextFormatProblem(byteFormatOf(file.bytes), file.bytes)
+  if (problem) throw createError({ statusCode: 415, statusMessage: `file: ${problem}` })
+  const decoded = decodeTextBytes(file.bytes)
+  if (decoded.ok) return decoded.text
+  const status = decoded.reason === 'binary' ? 415 : 422
+  throw createError({ statusCode: status, statusMessage: `file: ${decoded.reason === 'binary' ? 'this is a binary file, not a text table (CSV, TSV or TXT)' : decoded.message}` })
+}
+
+/**
+ * What a GC upload holds (text, the first sheet of an .xlsx, or an ANDI/AIA netCDF trace or
+ * peak table), by its bytes; a 415 or 422 with the reason (and the stored peaks at fault) when
+ * it cannot be read.
+ */
+export async function uploadContent(file: UploadedFile): Promise<UploadContent> {
+  try {
+    return await readUploadContent(file.bytes)
+  } catch (error) {
+    if (error instanceof UploadFormatError) {
+      throw createError({ statusCode: error.status, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
+    }
+    throw error
+  }
 }
 
 /** Keeps the original bytes forever (uploads are never lost); returns the file row id. */

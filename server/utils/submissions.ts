@@ -41,15 +41,19 @@ export async function studentUnit(event: H3Event, scope: PracticalScope): Promis
   return { sectionId: enrollment.sectionId, unitKey: `user:${scope.me.id}`, memberIds: [scope.me.id], dueAt: session?.dueAt ?? null, meetingDate: session?.meetingDate ?? null }
 }
 
-/** Runs the engines on an uploaded file; an unreadable file is a 422 naming its rows. */
-export async function computeRun(scope: PracticalScope, file: UploadedFile): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>> }> {
-  const text = uploadAsText(file)
+/**
+ * Runs the engines on an uploaded file (text, .xlsx or ANDI/AIA netCDF, judged by its bytes);
+ * an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what the original is kept as.
+ */
+export async function computeRun(scope: PracticalScope, file: UploadedFile): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, mediaType: string }> {
+  const content = await uploadContent(file)
   const chemistry = await practicalChemistry(scope.practical)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
   }
   try {
-    return { run: evaluateRun({ text, ...chemistry }), chemistry }
+    const run = evaluateRun({ source: content.source, ...chemistry })
+    return { run, chemistry, mediaType: content.mediaType ?? (run.kind === 'trace' ? 'text/csv; profile=trace' : 'text/csv; profile=peak-table') }
   } catch (error) {
     if (error instanceof RunInputError) {
       throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
@@ -110,7 +114,7 @@ export async function createSubmission(event: H3Event, scope: PracticalScope, fi
     if (earlier) return { status: 201, body: toCreated(earlier) }
   }
   const unit = await studentUnit(event, scope)
-  const { run, chemistry } = await computeRun(scope, file)
+  const { run, chemistry, mediaType } = await computeRun(scope, file)
   const db = useDb()
   const latest = await db.selectFrom('submissions').selectAll()
     .where('practicalId', '=', scope.practical.id).where('unitKey', '=', unit.unitKey)
@@ -133,7 +137,7 @@ export async function createSubmission(event: H3Event, scope: PracticalScope, fi
       await sql`select pg_advisory_xact_lock(hashtext(${`submission:${scope.practical.id}:${unit.unitKey}`}))`.execute(trx)
       const { next } = await trx.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
         .where('practicalId', '=', scope.practical.id).where('unitKey', '=', unit.unitKey).executeTakeFirstOrThrow()
-      const fileId = await storeFile(trx, file, me.id, run.kind === 'trace' ? 'text/csv; profile=trace' : 'text/csv; profile=peak-table')
+      const fileId = await storeFile(trx, file, me.id, mediaType)
       const inserted = await trx.insertInto('submissions').values({
         practicalId: scope.practical.id,
         sectionId: unit.sectionId,

@@ -4,6 +4,7 @@
 import { assignPeaks, detectPeaks, parsePeakTable, parseTrace, sniffUpload, type Flag, type Peak } from './chromatography'
 import { analyzeSubstrate, predictDistribution, relativeReactivities, type CarbonClass } from './halogenation'
 import { positionLetter } from './depiction'
+import type { RunSource } from './lib/upload-content'
 
 export type Severity = 'info' | 'warning' | 'danger'
 
@@ -20,7 +21,9 @@ export interface RunProduct {
 }
 
 export interface RunInput {
-  text: string
+  /** The file as text (a peak table or a trace); `source` instead when another reader made peaks or a trace. */
+  text?: string
+  source?: RunSource
   products: RunProduct[]
   windows: Array<{ productSmiles: string, rtMin: number, rtMax: number, responseFactor: number }>
   solvent?: { rtMin: number, rtMax: number } | null
@@ -69,14 +72,20 @@ export function keyFactorOf(products: RunProduct[]): 'tertiaryToPrimary' | 'seco
   return products.some((p) => p.carbonClass === 'tertiary') ? 'tertiaryToPrimary' : 'secondaryToPrimary'
 }
 
-function readPeaks(text: string, expectedMaxMinutes: number | undefined): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
+function readPeaks(source: RunSource, expectedMaxMinutes: number | undefined): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
+  const integrate = (time: ArrayLike<number>, signal: ArrayLike<number>, warnings: string[]) => {
+    const detected = detectPeaks({ time, signal })
+    const flags = detected.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity === 'warning' ? 'warning' : 'info'], message: f.message }))
+    return { kind: 'trace' as const, peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })), warnings, flags }
+  }
+  if (source.kind === 'trace') return integrate(source.time, source.signal, source.warnings ?? [])
+  if (source.kind === 'peaks') return { kind: 'peak-table', peaks: source.peaks, warnings: source.warnings ?? [], flags: [] }
+  const { text } = source
   const sniff = sniffUpload(text)
   if (sniff.kind === 'trace') {
     const trace = parseTrace(text, { expectedMaxMinutes })
     if (trace.errors.length) throw new RunInputError(`The trace has ${trace.errors.length} unreadable row(s)`, trace.errors)
-    const detected = detectPeaks({ time: trace.time, signal: trace.signal })
-    const flags = detected.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity === 'warning' ? 'warning' : 'info'], message: f.message }))
-    return { kind: 'trace', peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })), warnings: trace.warnings, flags }
+    return integrate(trace.time, trace.signal, [...source.warnings ?? [], ...trace.warnings])
   }
   if (sniff.kind === 'unknown') throw new RunInputError(`This is neither a peak table nor a detector trace: ${sniff.reason}`)
   const table = parsePeakTable(text, { expectedMaxMinutes })
@@ -84,7 +93,7 @@ function readPeaks(text: string, expectedMaxMinutes: number | undefined): { kind
     const first = table.errors[0]!
     throw new RunInputError(first.message, table.errors)
   }
-  return { kind: 'peak-table', peaks: table.peaks, warnings: table.warnings, flags: [] }
+  return { kind: 'peak-table', peaks: table.peaks, warnings: [...source.warnings ?? [], ...table.warnings], flags: [] }
 }
 
 /**
@@ -131,7 +140,7 @@ export function evaluateRun(input: RunInput): RunResult {
   // The last window's end tells seconds from minutes when a file does not say (a 65 s peak is not a 65 min one).
   const ends = [...input.windows.map(w => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
   const expectedMaxMinutes = input.windows.length ? Math.max(...ends) : undefined
-  const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.text, expectedMaxMinutes)
+  const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.source ?? { kind: 'text', text: input.text ?? '' }, expectedMaxMinutes)
   if (!peaks.length) throw new RunInputError('No peaks were found in the file')
   const assigned = assignPeaks(peaks, input.windows, {
     solvent: input.solvent ?? undefined,

@@ -1,7 +1,7 @@
 import { mkdirSync, readFileSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { join } from 'node:path'
-import { inject } from 'vitest'
+import { expect, inject } from 'vitest'
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core'
 
 const require = createRequire(import.meta.url)
@@ -55,6 +55,18 @@ export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
 
 export function describeViolations(violations: AxeViolation[]) {
   return violations.map((v) => `${v.impact} ${v.id}: ${v.help} at ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`).join('\n')
+}
+
+/** Fails the test on any serious or critical axe-core violation, listing them. */
+export async function expectAccessible(page: Page) {
+  const violations = await seriousViolations(page)
+  expect(violations, describeViolations(violations)).toEqual([])
+}
+
+/** A full-page screenshot from the top, so a sticky header does not land mid-page. */
+export async function screenshotFromTop(page: Page, name: string) {
+  await page.evaluate(() => window.scrollTo(0, 0))
+  return screenshot(page, name)
 }
 
 export async function screenshot(page: Page, name: string) {

@@ -1,4 +1,12 @@
 import { reviewIdParamsSchema } from '#shared/types/review'
+import { NETCDF_MEDIA_TYPE, XLSX_MEDIA_TYPE } from '#shared/utils/lib/upload-content'
+
+// What a download is served as, by what the upload was read as: text stays text/plain (its bytes,
+// whatever their encoding, are sent as they came), workbooks and netCDF keep their own types.
+const DOWNLOAD_TYPES = [
+  { type: XLSX_MEDIA_TYPE, fallback: 'upload.xlsx' },
+  { type: NETCDF_MEDIA_TYPE, fallback: 'upload.cdf' },
+]
 
 // The original uploaded bytes, exactly as stored, as a download: for the staff who review the
 // submission and for the members of its work unit. Never rendered inline.
@@ -12,8 +20,9 @@ export default defineEventHandler(async (event) => {
     await requireReviewableSubmission(event, id)
   }
   const file = await useDb().selectFrom('submissions').innerJoin('files', 'files.id', 'submissions.fileId')
-    .select(['submissions.version', 'files.originalName', 'files.content'])
+    .select(['submissions.version', 'files.originalName', 'files.content', 'files.mediaType'])
     .where('submissions.id', '=', id).executeTakeFirstOrThrow()
-  setReviewDownloadHeaders(event, `submission-${id}-v${file.version}-${reviewSafeFileName(file.originalName, 'upload.txt')}`, 'text/plain')
+  const kind = DOWNLOAD_TYPES.find((t) => t.type === file.mediaType) ?? { type: 'text/plain', fallback: 'upload.txt' }
+  setReviewDownloadHeaders(event, `submission-${id}-v${file.version}-${reviewSafeFileName(file.originalName, kind.fallback)}`, kind.type)
   return file.content
 })
