@@ -116,9 +116,13 @@ describe('class results in Chromium', () => {
     expect(await select.inputValue()).toBe('gesd')
     expect(await select.locator('option').allInnerTexts()).toEqual(['Generalized ESD (several outliers)', "Grubbs' test (two-sided, iterative)", "Dixon's Q test (r10, 3–10 results)", 'Modified z-score (median and MAD)'])
     await page.getByText(/at least 2\) at once, so two bad runs cannot hide each other/).waitFor()
-    await select.selectOption('grubbs')
-    await page.getByText(/with 6 or fewer results it is unreliable/).waitFor()
-    await select.selectOption('gesd')
+    // A choice made while the page still hydrates can be lost: choose again until the hint follows.
+    const choose = async (test: string, hint: RegExp) => expect.poll(async () => {
+      await select.selectOption(test)
+      return page.getByText(hint).isVisible()
+    }, { timeout: 20_000 }).toBe(true)
+    await choose('grubbs', /with 6 or fewer results it is unreliable/)
+    await choose('gesd', /so two bad runs cannot hide each other/)
     await screenshot(page, 'course-settings-outlier-test')
     await noSeriousViolations(page)
     expect(tab.problems).toEqual([])

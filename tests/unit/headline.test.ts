@@ -129,6 +129,19 @@ describe('summarize against overflow', () => {
     expect(s.sd).toBeNull()
     expect(s.iqr).toBeNull()
     expect(s.notes.join(' ')).toMatch(/largest number/)
-    expect(JSON.stringify(s)).not.toMatch(/NaN|Infinity/)
+    expect(numbersIn(s).every(Number.isFinite)).toBe(true)
+  })
+
+  it('gives no Infinity or NaN for any finite doubles, from 5e-324 to 1.8e308 of either sign (property)', () => {
+    fc.assert(fc.property(fc.array(fc.double({ noNaN: true, noDefaultInfinity: true }), { minLength: 1, maxLength: 40 }), (xs) => {
+      expect(numbersIn(summarize(xs)).every(Number.isFinite)).toBe(true)
+      expect(numbersIn(chooseHeadline(xs)).every(Number.isFinite)).toBe(true)
+    }), { numRuns: 500 })
   })
 })
+
+/** Every number anywhere in a result (JSON.stringify would hide NaN and Infinity as null). */
+function numbersIn(value: unknown): number[] {
+  if (typeof value === 'number') return [value]
+  return value && typeof value === 'object' ? Object.values(value).flatMap(numbersIn) : []
+}

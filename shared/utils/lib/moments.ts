@@ -45,8 +45,9 @@ export function momentsOf(xs: readonly number[]): { mean: number, sd: number } {
 }
 
 /**
- * Linear-interpolation quantile (Hyndman–Fan type 7, the spreadsheet default; common practice),
- * written as a weighted sum so that two huge values of opposite sign do not overflow.
+ * Linear-interpolation quantile (Hyndman–Fan type 7, the spreadsheet default; common practice).
+ * a + w(b − a) is exact when a = b, even among subnormal values; only when the gap itself
+ * overflows (huge values of opposite sign) does it fall back to the weighted sum.
  */
 export function quantileOf(sorted: readonly number[], p: number): number {
   const h = (sorted.length - 1) * p
@@ -54,7 +55,8 @@ export function quantileOf(sorted: readonly number[], p: number): number {
   const w = h - lo
   const a = sorted[lo]!
   const b = sorted[Math.min(lo + 1, sorted.length - 1)]!
-  return w === 0 ? a : a * (1 - w) + b * w
+  const gap = b - a
+  return w === 0 ? a : Number.isFinite(gap) ? a + w * gap : a * (1 - w) + b * w
 }
 
 export const medianOf = (xs: readonly number[]) => quantileOf([...xs].sort((a, b) => a - b), 0.5)
