@@ -72,7 +72,7 @@ export interface MailMessagesTable {
   updatedAt: UpdatedAt
 }
 
-export type OutlierTest = 'grubbs' | 'dixon' | 'modified-z'
+export type OutlierTest = 'gesd' | 'grubbs' | 'dixon' | 'modified-z'
 export type ReleasePolicy = 'on-review' | 'after-due' | 'manual'
 
 export interface RubricCriterion {

@@ -4,6 +4,8 @@ export interface ClassRow {
   submissionId: number
   sectionId: number
   unitKey: string
+  /** 'pending' until a reviewer accepts it. */
+  status: 'pending' | 'accepted'
   secondary: number | null
   tertiary: number | null
   molePercents: Array<{ smiles: string, percent: number }>
@@ -18,7 +20,7 @@ export interface ClassRow {
 export async function latestClassResults(practicalId: number): Promise<ClassRow[]> {
   const { rows } = await sql<ClassRow>`
     select distinct on (s.unit_key)
-      s.id as "submissionId", s.section_id as "sectionId", s.unit_key as "unitKey",
+      s.id as "submissionId", s.section_id as "sectionId", s.unit_key as "unitKey", s.status,
       s.factor_secondary as "secondary", s.factor_tertiary as "tertiary",
       s.result -> 'molePercents' as "molePercents",
       s.excluded_at as "excludedAt", s.exclusion_reason as "exclusionReason"

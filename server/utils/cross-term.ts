@@ -2,6 +2,7 @@ import { sql } from 'kysely'
 import type { PracticalScope } from './access'
 import type { CrossTermComparison, CrossTermRow, CrossTermStats } from '#shared/types/results'
 import { summarize } from '#shared/utils/statistics'
+import { chooseHeadline } from '#shared/utils/headline'
 
 interface CrossTermResultRow {
   practicalId: number
@@ -9,9 +10,10 @@ interface CrossTermResultRow {
   value: number | null
 }
 
-function crossTermStats(values: number[]): CrossTermStats {
+function crossTermStats(stored: number[]): CrossTermStats {
+  const values = stored.filter(Number.isFinite)
   const s = summarize(values)
-  return { n: s.n, mean: s.mean, sd: s.sd, ci95: s.ci, median: s.median }
+  return { n: s.n, mean: s.mean, sd: s.sd, ci95: s.ci, median: s.median, headline: chooseHeadline(values) }
 }
 
 /**

@@ -27,8 +27,8 @@ export interface DigestUnit {
   latest: DigestVersion | null
   /** The version the class figures count (newest accepted-or-pending), if any. */
   counted: DigestVersion | null
-  /** The class's outlier test flags the counted version. */
-  outlier: { statistic: number, critical: number } | null
+  /** The class's outlier test flags the counted version (step: the generalized ESD's). */
+  outlier: { statistic: number, critical: number, step?: number } | null
 }
 
 /** Everything a digest template needs, read once per section: templates stay pure. */
@@ -135,7 +135,7 @@ async function digestUnits(scope: PracticalScope, sectionId: number, stats: Fact
     if (!unit) continue
     unit.counted = versions.get(c.submissionId) ?? null
     const o = flagged.get(c.submissionId)
-    unit.outlier = o ? { statistic: o.statistic, critical: o.critical } : null
+    unit.outlier = o ? { statistic: o.statistic, critical: o.critical, ...(o.step ? { step: o.step } : {}) } : null
   }
   return [...units.values()].sort((a, b) => (a.station ?? 1e9) - (b.station ?? 1e9)
     || (a.members[0]?.name ?? '').localeCompare(b.members[0]?.name ?? '') || a.unitKey.localeCompare(b.unitKey))

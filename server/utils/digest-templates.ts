@@ -5,10 +5,11 @@ import type { DigestContext, DigestUnit, DigestVersion } from './digest-data'
 import type { DigestMessage, DigestRecipient } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
 import { RESULTS_FACTOR_LABELS, RESULTS_STATISTIC_SYMBOLS as STATISTIC_SYMBOL } from '#shared/types/results'
-import { OUTLIER_TEST_LABELS } from '#shared/types/course'
+import { DEFAULT_OUTLIER_TEST, OUTLIER_TEST_LABELS, type OutlierTestName } from '#shared/types/course'
 import { SUBMISSION_STATUS_LABELS } from '#shared/types/submission'
 import { reviewFlagName } from '#shared/types/review'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
+import { formatArithmeticMean, formatHeadline, HEADLINE_LABELS } from '#shared/utils/headline'
 
 function digestNumber(value: number | null | undefined, digits = 2): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : 'n/a'
@@ -27,15 +28,29 @@ function digestCsvAttachment(filename: string, header: string[], rows: CsvCell[]
   return { filename, contentType: 'text/csv; charset=utf-8', content: Buffer.from(toSafeCsv(header, rows), 'utf8').toString('base64') }
 }
 
+/**
+ * "R = 2.943 against a critical value of 3.151 at step 2 (…)": the generalized ESD test flags
+ * every value removed up to its deciding step, also one whose own R is below its λ.
+ */
+function outlierFigures(test: OutlierTestName, o: NonNullable<DigestUnit['outlier']>, against = 'against a critical value of'): string {
+  const figures = `${STATISTIC_SYMBOL[test]} = ${digestNumber(Math.abs(o.statistic), 3)} ${against} ${digestNumber(o.critical, 3)}`
+  if (test !== 'gesd' || !o.step) return figures
+  return `${figures} at step ${o.step}${Math.abs(o.statistic) > o.critical ? '' : '; a later step exceeds its critical value, so every result removed up to it is an outlier'}`
+}
+
 function statusLabel(version: DigestVersion | null): string {
   return version ? SUBMISSION_STATUS_LABELS[version.status] : 'No upload yet'
 }
 
-/** "mean 3.12 (95 % CI 2.95 to 3.29), median 3.05, n = 31" */
+/**
+ * "geometric mean 3.12 (95 % CI 2.95 to 3.29), median 3.05, n = 31": the headline figure first
+ * (shared/utils/headline.ts), as on the results page, its print view and the overview cards.
+ */
 function statsLine(stats: FactorStats | null): string {
   if (!stats || !stats.n) return 'no results yet'
-  const ci = stats.ci95 ? ` (95 % CI ${digestNumber(stats.ci95[0])} to ${digestNumber(stats.ci95[1])})` : ''
-  return `mean ${digestNumber(stats.mean)}${ci}, median ${digestNumber(stats.median)}, n = ${stats.n}`
+  const lead = formatHeadline(stats.headline)
+  const median = stats.headline.statistic === 'median' ? '' : `, median ${digestNumber(stats.median)}`
+  return `${lead.charAt(0).toLowerCase()}${lead.slice(1)}${median}, n = ${stats.n}`
 }
 
 /** Where one value sits in the class: rank, the middle half, and against the literature. */
@@ -75,12 +90,8 @@ function classFigures(ctx: DigestContext): string[] {
     `Section ${ctx.section.code}: ${statsLine(ctx.sectionStats)}.`,
   ]
   const stats = ctx.classStats
-  if (stats?.log.mean != null) {
-    const ci = stats.log.ci95 ? ` (95 % CI ${digestNumber(stats.log.ci95[0])} to ${digestNumber(stats.log.ci95[1])})` : ''
-    lines.push(`Geometric mean of the class: ${digestNumber(stats.log.mean)}${ci}; ratios spread on a log scale, so this resists a few very large values.`)
-  }
-  if (stats?.ci95 && stats.ci95[0] < 0) {
-    lines.push('The interval of the class mean reaches below zero, which a selectivity cannot: a few large values drive the mean, so read the median and the geometric mean.')
+  if (stats?.n) {
+    lines.splice(1, 0, `${formatArithmeticMean(stats.headline)}.`, stats.headline.reason)
   }
   if (stats?.test.applied && stats.outliers.length) {
     lines.push(`${stats.outliers.length} result(s) flagged by the class's outlier test (${OUTLIER_TEST_LABELS[stats.test.name]}) are still counted here until a reviewer decides on them.`)
@@ -99,7 +110,7 @@ export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecip
   const unit = ctx.units.find((u) => u.members.some((m) => m.id === recipient.userId)) ?? null
   const mine = unit?.counted ?? null
   const whose = ctx.practical.workUnit === 'pair' && unit?.station !== null && unit?.station !== undefined ? 'Your station’s result' : 'Your result'
-  const test = ctx.classStats?.test.name ?? 'grubbs'
+  const test = ctx.classStats?.test.name ?? DEFAULT_OUTLIER_TEST
   const own: string[] = []
   if (!mine) {
     own.push('We have no accepted or waiting-for-review result from you for this practical. If yours was returned, upload the corrected version.')
@@ -110,7 +121,7 @@ export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecip
     own.push(`Mole %: ${molePercentText(ctx, mine.molePercents).join('; ')}.`)
     for (const f of mine.flags) own.push(`Flag: ${f.message}`)
     if (unit?.outlier) {
-      own.push(`The class’s outlier test (${OUTLIER_TEST_LABELS[test]}) flags this result: ${STATISTIC_SYMBOL[test]} = ${digestNumber(Math.abs(unit.outlier.statistic), 3)} against a critical value of ${digestNumber(unit.outlier.critical, 3)}. Flagged results stay in the class figures unless a reviewer leaves them out with a reason.`)
+      own.push(`The class’s outlier test (${OUTLIER_TEST_LABELS[test]}) flags this result: ${outlierFigures(test, unit.outlier)}. Flagged results stay in the class figures unless a reviewer leaves them out with a reason.`)
     }
     if (mine.exclusionReason !== null) own.push(`This result is left out of the class figures: ${mine.exclusionReason || 'no reason given'}.`)
   }
@@ -125,13 +136,17 @@ export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecip
     `<p>${escapeHtml(outro)}</p>`, `<p style="color:#3A5671">Halocline, for ${escapeHtml(ctx.course.code)}</p>`,
   ].join(''))
 
-  const header = ['Row', 'Factor', 'n', 'Mean', '95 % CI low', '95 % CI high', 'Median', 'Literature', 'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${p.label}`)]
-  const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] =>
-    [name, label, s?.n ?? 0, digestCell(s?.mean), digestCell(s?.ci95?.[0]), digestCell(s?.ci95?.[1]), digestCell(s?.median), digestCell(ctx.literature), null, null, null, null, ...mole.map((m) => digestCell(m))]
+  // The headline figure first, as in the text; the arithmetic mean after the median.
+  const header = ['Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature', 'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${p.label}`)]
+  const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] => {
+    const h = s?.headline
+    return [name, label, s?.n ?? 0, h?.statistic ? HEADLINE_LABELS[h.statistic] : null, digestCell(h?.value), digestCell(h?.ci95?.[0]), digestCell(h?.ci95?.[1]),
+      digestCell(s?.median), digestCell(s?.mean), digestCell(ctx.literature), null, null, null, null, ...mole.map((m) => digestCell(m))]
+  }
   const rows: CsvCell[][] = [
     statsRow('Class', ctx.classStats, ctx.products.map((p) => ctx.classMolePercents.find((m) => m.smiles === p.smiles)?.percent ?? null)),
     statsRow(`Section ${ctx.section.code}`, ctx.sectionStats, ctx.products.map(() => null)),
-    [whose, label, null, null, null, null, null, digestCell(ctx.literature), digestCell(mine?.factor), mine?.version ?? null, statusLabel(mine),
+    [whose, label, null, null, null, null, null, null, null, digestCell(ctx.literature), digestCell(mine?.factor), mine?.version ?? null, statusLabel(mine),
       [...(mine?.flags.map((f) => f.code) ?? []), ...(unit?.outlier ? ['outlier'] : []), ...(mine?.exclusionReason != null ? ['excluded'] : [])].join('; '),
       ...ctx.products.map((p) => digestCell(mine?.molePercents.find((m) => m.smiles === p.smiles)?.percent))],
   ]
@@ -145,9 +160,9 @@ interface StaffRow { station: string, students: string, version: string, status:
 
 function staffRow(ctx: DigestContext, unit: DigestUnit): StaffRow {
   const v = unit.latest
-  const test = ctx.classStats?.test.name ?? 'grubbs'
+  const test = ctx.classStats?.test.name ?? DEFAULT_OUTLIER_TEST
   const outlier = unit.outlier && unit.counted?.submissionId === v?.submissionId
-    ? [`outlier (${STATISTIC_SYMBOL[test]} = ${digestNumber(Math.abs(unit.outlier.statistic), 3)}, critical ${digestNumber(unit.outlier.critical, 3)})`] : []
+    ? [`outlier (${outlierFigures(test, unit.outlier, 'critical')})`] : []
   return {
     station: unit.station === null ? '' : String(unit.station),
     students: unit.members.map((m) => m.name).join(' & ') || unit.unitKey,
@@ -167,7 +182,7 @@ export function staffDigestTemplate(ctx: DigestContext, recipient: DigestRecipie
   const withResult = ctx.units.filter((u) => u.latest).length
   const test = ctx.classStats?.test
   const testLine = !test ? 'Outlier test: no results yet.'
-    : test.applied ? `Outlier test: ${OUTLIER_TEST_LABELS[test.name]}; ${ctx.units.filter((u) => u.outlier).length} result(s) flagged in this section.`
+    : test.applied ? `Outlier test: ${OUTLIER_TEST_LABELS[test.name]}; ${ctx.units.filter((u) => u.outlier).length} result(s) flagged in this section.${test.note ? ` ${test.note}` : ''}`
       : `Outlier test: ${OUTLIER_TEST_LABELS[test.name]} could not run: ${test.note ?? 'not enough results'}.`
   const subject = `${ctx.course.code} ${ctx.section.code} · ${ctx.practical.title}: section results`
   const intro = `Section ${ctx.section.code} results for ${heading(ctx)} ${withResult} of ${ctx.units.length} work units have uploaded.`

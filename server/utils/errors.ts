@@ -31,6 +31,14 @@ const BAD_VALUE_CODES = new Set([
   '22007', // invalid_datetime_format
 ])
 
+/** A statistics engine refusing its input (shared/utils/statistics.ts): never a 500. */
+export function statisticsFailureOf(error: unknown, depth = 0): Error | null {
+  if (!error || typeof error !== 'object' || depth > 5) return null
+  const e = error as { name?: unknown, cause?: unknown }
+  if (e.name === 'StatisticsError' && error instanceof Error) return error
+  return statisticsFailureOf(e.cause, depth + 1)
+}
+
 export function isBadRequestValue(error: unknown, depth = 0): boolean {
   if (!error || typeof error !== 'object' || depth > 5) return false
   const e = error as { code?: unknown, cause?: unknown }

@@ -2,6 +2,7 @@ import type { H3Event } from 'h3'
 import type { OverviewCard } from '#shared/types/overview'
 import type { ScheduleEntry } from '#shared/types/section'
 import type { SessionUser } from '#shared/types/auth'
+import { HEADLINE_LABELS } from '#shared/utils/headline'
 
 const DAY_MS = 86_400_000
 const isoDay = (offset = 0) => new Date(Date.now() + offset * DAY_MS).toISOString().slice(0, 10)
@@ -90,13 +91,17 @@ export async function classResultCard(event: H3Event, me: SessionUser): Promise<
   const scope = await requirePracticalAccess(event, latest.id)
   const summary = await practicalSummary(scope, {})
   const stats = summary.factors[summary.keyFactor]
-  if (!stats || stats.median === null) return null
+  const headline = summary.headline
+  if (!stats || !headline || headline.value === null || !headline.statistic) return null
   const name = summary.keyFactor === 'tertiaryToPrimary' ? '3°:1°' : '2°:1°'
   const literature = summary.literature[summary.keyFactor]
+  // The same figure the results page and the digests lead with (shared/utils/headline.ts).
+  const ci = headline.ci95 ? ` (95 % CI ${headline.ci95[0].toFixed(2)} to ${headline.ci95[1].toFixed(2)})` : ''
+  const median = headline.statistic === 'median' ? '' : `; median ${stats.median?.toFixed(2) ?? 'n/a'}`
   return {
     title: `Class ${name} selectivity`,
-    value: stats.median.toFixed(2),
-    detail: `Median of ${plural(stats.n, 'result')} in ${scope.practical.title}${literature ? `; the method predicts ${literature.toFixed(2)}` : ''}${stats.outliers.length ? `; ${plural(stats.outliers.length, 'outlier')} flagged` : ''}.`,
+    value: headline.value.toFixed(2),
+    detail: `${HEADLINE_LABELS[headline.statistic]} of ${plural(stats.n, 'result')} in ${scope.practical.title}${ci}${median}${literature ? `; the method predicts ${literature.toFixed(2)}` : ''}${stats.test.applied && stats.outliers.length ? `; ${plural(stats.outliers.length, 'outlier')} flagged` : ''}.`,
     to: `/results/practicals/${latest.id}`,
     action: 'Open the class results',
     tone: stats.outliers.length ? 'warning' : undefined,

@@ -24,12 +24,14 @@ export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFa
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
   const report = findOutliers(values, settings)
   return {
-    run: { test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit, note: report.note },
+    run: { test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit, maxOutliers: report.maxOutliers, note: report.note },
     findings: new Map(report.outliers.map((o) => [o.submissionId, o])),
   }
 }
 
 const TEST_WORDING = {
+  // A value removed before the deciding step is an outlier even when its own R is below λ.
+  'gesd': (f: OutlierFinding, run: OutlierRun) => `the generalized ESD test (α = ${run.alpha}, up to ${run.maxOutliers ?? '?'} outliers): removed at step ${f.step ?? 1} with R = ${f.statistic.toFixed(3)} against the critical value ${f.critical.toFixed(3)}${f.statistic > f.critical ? '' : ', and a later step exceeds its critical value, so every value removed up to that step is an outlier'}`,
   'grubbs': (f: OutlierFinding, run: OutlierRun) => `Grubbs' test: G = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (α = ${run.alpha}, two-sided)`,
   'dixon': (f: OutlierFinding, run: OutlierRun) => `Dixon's Q test: Q = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (${Math.round((1 - run.alpha) * 100)} % confidence)`,
   'modified-z': (f: OutlierFinding) => `modified z-score: |M| = ${Math.abs(f.statistic).toFixed(2)} is above the limit ${f.critical}`,
@@ -43,6 +45,7 @@ export function outlierFlagOf(finding: OutlierFinding, run: OutlierRun, keyFacto
     test: run.test,
     statistic: finding.statistic,
     critical: finding.critical,
+    ...(finding.step ? { step: finding.step } : {}),
   }
 }
 

@@ -8,9 +8,12 @@ import type { ClassRow } from './class-results'
 function factorSet(rows: ClassRow[], settings: OutlierSettings, has: { secondary: boolean, tertiary: boolean }, withoutOutliers: boolean): FactorSet {
   const values = (pick: (r: ClassRow) => number | null): FactorValue[] =>
     rows.flatMap((r) => { const v = pick(r); return v === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: v }] })
+  // A flagged run no reviewer has accepted yet is what "pulls the mean" in the headline.
+  const unreviewed = new Set(rows.filter((r) => r.status === 'pending').map((r) => r.submissionId))
+  const options = { withoutOutliers, unreviewed }
   return {
-    secondaryToPrimary: has.secondary ? factorStats(values((r) => r.secondary), settings, { withoutOutliers }) : null,
-    tertiaryToPrimary: has.tertiary ? factorStats(values((r) => r.tertiary), settings, { withoutOutliers }) : null,
+    secondaryToPrimary: has.secondary ? factorStats(values((r) => r.secondary), settings, options) : null,
+    tertiaryToPrimary: has.tertiary ? factorStats(values((r) => r.tertiary), settings, options) : null,
   }
 }
 
@@ -28,7 +31,7 @@ function exclusionReasonFor(scope: PracticalScope, row: { sectionId: number, exc
  * excluded ones left out and listed. The whole class is summarised for everyone who may see
  * the practical; the by-section part holds only the caller's sections.
  */
-export async function practicalSummary(scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean }): Promise<PracticalSummary> {
+export async function practicalSummary(scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number }): Promise<PracticalSummary> {
   const chemistry = await practicalChemistry(scope.practical)
   const rows = await latestClassResults(scope.practical.id)
   const included = rows.filter((r) => r.excludedAt === null)
@@ -36,6 +39,7 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
     test: options.method ?? scope.course.outlierTest,
     alpha: scope.course.outlierAlpha,
     zscoreLimit: scope.course.zscoreLimit,
+    maxOutliers: options.maxOutliers ?? null,
   }
   const has = {
     secondary: chemistry.products.some((p) => p.carbonClass === 'secondary'),
@@ -56,9 +60,12 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
       statistical: chemistry.statistical.find((x) => x.smiles === p.smiles)?.percent ?? 0,
     }
   })
+  const factors = factorSet(included, settings, has, withoutOutliers)
+  const key = factors[chemistry.keyFactor]
   return {
     n: included.length,
-    factors: factorSet(included, settings, has, withoutOutliers),
+    headline: key ? { factor: chemistry.keyFactor, ...key.headline } : null,
+    factors,
     excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
     bySection: sections.map((s) => {
       const mine = included.filter((r) => r.sectionId === s.id)

@@ -1,11 +1,23 @@
 import { z } from 'zod'
 
-export const OUTLIER_TESTS = ['grubbs', 'dixon', 'modified-z'] as const
+// The generalized ESD test comes first: it is the default for new courses (it finds several
+// outliers at once, where repeated Grubbs' tests let two bad runs hide each other).
+export const OUTLIER_TESTS = ['gesd', 'grubbs', 'dixon', 'modified-z'] as const
 export type OutlierTestName = (typeof OUTLIER_TESTS)[number]
+export const DEFAULT_OUTLIER_TEST: OutlierTestName = 'gesd'
 export const OUTLIER_TEST_LABELS: Record<OutlierTestName, string> = {
+  'gesd': 'Generalized ESD (several outliers)',
   'grubbs': "Grubbs' test (two-sided, iterative)",
   'dixon': "Dixon's Q test (r10, 3–10 results)",
   'modified-z': 'Modified z-score (median and MAD)',
+}
+
+/** One line each on when a test fits, for the settings form. */
+export const OUTLIER_TEST_HINTS: Record<OutlierTestName, string> = {
+  'gesd': 'Looks for up to one result in five (at least 2) at once, so two bad runs cannot hide each other. Suits a class of any size from 3.',
+  'grubbs': "One outlier at a time, repeated. Two similar bad runs can mask each other, and with 6 or fewer results it is unreliable.",
+  'dixon': 'Only for 3 to 10 results; with more or fewer it does not run (and says so).',
+  'modified-z': 'Scores each result against the median and MAD, which a few far-off runs barely move.',
 }
 
 export const RELEASE_POLICIES = ['on-review', 'after-due', 'manual'] as const

@@ -10,6 +10,8 @@ declare module 'jstat' {
     normal: ContinuousDistribution<[mean: number, sd: number]>
     centralF: ContinuousDistribution<[df1: number, df2: number]>
     chisquare: ContinuousDistribution<[dof: number]>
+    /** Regularised incomplete beta function I_x(a, b). */
+    ibeta(x: number, a: number, b: number): number
   }
   const jStat: JStatStatic
   export default jStat

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import type { OutlierTestName as OutlierTest } from './course'
+import type { ClassHeadline } from '../utils/headline'
 
 // Class results pages, section digests and the cross-term comparison: API types and the
 // schemas shared by the forms and the routes.
@@ -26,6 +27,8 @@ export interface ResultsListItem {
   mean: number | null
   ci95: [number, number] | null
   median: number | null
+  /** The figure the list leads with (geometric mean, or the median), as on the class page. */
+  headline: ClassHeadline
   /** The last meeting of the practical in the caller's sections (YYYY-MM-DD). */
   lastMeeting: string | null
 }
@@ -64,6 +67,8 @@ export interface CrossTermStats {
   sd: number | null
   ci95: [number, number] | null
   median: number | null
+  /** Each class's leading figure (flagged runs included, reviewer exclusions left out). */
+  headline: ClassHeadline
 }
 
 /** One practical on the same substrate and method, in any course: aggregates only. */
@@ -88,7 +93,7 @@ export interface CrossTermComparison {
 }
 
 /** The statistic each outlier test compares with its critical value (magnitudes: |M| for z). */
-export const RESULTS_STATISTIC_SYMBOLS: Record<OutlierTest, string> = { 'grubbs': 'G', 'dixon': 'Q', 'modified-z': '|M|' }
+export const RESULTS_STATISTIC_SYMBOLS: Record<OutlierTest, string> = { 'gesd': 'R', 'grubbs': 'G', 'dixon': 'Q', 'modified-z': '|M|' }
 
 // Section digests.
 

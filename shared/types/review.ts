@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import type { FlagView, PeakView, StoredResult, SubmissionStatusName } from './submission'
+import type { OutlierTestName } from './course'
 
 // The TA review side: queue, detail, bulk acceptance, grade export. The review and exclusion
 // bodies themselves are `reviewInputSchema` and `exclusionInputSchema` in ./submission.
@@ -32,9 +33,11 @@ export type BulkAcceptInput = z.input<typeof bulkAcceptSchema>
 
 /** A stored flag, or the dynamic outlier flag with its test's numbers. */
 export interface ReviewFlag extends FlagView {
-  test?: 'grubbs' | 'dixon' | 'modified-z'
+  test?: OutlierTestName
   statistic?: number
   critical?: number
+  /** Generalized ESD: the step that removed the value. */
+  step?: number
 }
 
 export interface UnitMember {
@@ -75,12 +78,14 @@ export interface QueueRow {
 }
 
 export interface OutlierRun {
-  test: 'grubbs' | 'dixon' | 'modified-z'
+  test: OutlierTestName
   applied: boolean
   /** Results the test ran over (latest pending or accepted, not excluded, whole class). */
   n: number
   alpha: number
   zscoreLimit: number
+  /** Generalized ESD: the most outliers looked for (r). */
+  maxOutliers: number | null
   note: string | null
 }
 

@@ -1,9 +1,13 @@
 import { z } from 'zod'
+import { OUTLIER_TESTS, type OutlierTestName } from './course'
+import type { ClassHeadline } from '../utils/headline'
 
 export const summaryQuerySchema = z.object({
-  method: z.enum(['grubbs', 'dixon', 'modified-z']).optional(),
+  method: z.enum(OUTLIER_TESTS).optional(),
   /** Leave the flagged outliers out of the statistics (a preview; nothing is excluded). */
   withoutOutliers: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+  /** Generalized ESD: the most outliers to look for (r); by default one in five, at least 2. */
+  maxOutliers: z.coerce.number({ error: 'Enter a whole number' }).int('Enter a whole number').min(1, 'At least 1').max(1000, 'At most 1000').optional(),
 })
 
 export interface OutlierView {
@@ -11,9 +15,14 @@ export interface OutlierView {
   value: number
   statistic: number
   critical: number
+  /** Generalized ESD: the step that removed the value. */
+  step?: number
 }
 
-/** PRODUCT.md's Stats, plus the spread's other measures and the test that was run. */
+/**
+ * PRODUCT.md's Stats, plus the spread's other measures, the test that was run and the figure
+ * that leads (`headline`: geometric mean, or the median when a value is zero or below).
+ */
 export interface FactorStats {
   n: number
   mean: number | null
@@ -30,7 +39,9 @@ export interface FactorStats {
   max: number | null
   /** Geometric mean and its 95 % interval: ratios spread on a log scale. */
   log: { mean: number | null, ci95: [number, number] | null, sd: number | null }
-  test: { name: 'grubbs' | 'dixon' | 'modified-z', applied: boolean, note: string | null }
+  /** applied: false means the test could not run (see note), not "no outliers". */
+  test: { name: OutlierTestName, applied: boolean, note: string | null, maxOutliers: number | null }
+  headline: ClassHeadline
   notes: string[]
   values: Array<{ submissionId: number, sectionId: number, value: number }>
 }
@@ -40,8 +51,12 @@ export interface FactorSet {
   tertiaryToPrimary: FactorStats | null
 }
 
+/** The key factor's headline, the one figure a page, e-mail or card leads with. */
+export type SummaryHeadline = ClassHeadline & { factor: 'secondaryToPrimary' | 'tertiaryToPrimary' }
+
 export interface PracticalSummary {
   n: number
+  headline: SummaryHeadline | null
   factors: FactorSet
   excluded: Array<{ submissionId: number, reason: string }>
   bySection: Array<{ sectionId: number, code: string, n: number, factors: FactorSet }>

@@ -1,6 +1,8 @@
-// Class statistics for one factor: the summary, on a log scale too, and the course's outlier test.
+// Class statistics for one factor: the summary, on a log scale too, the course's outlier test,
+// and the figure that leads (shared/utils/headline.ts).
 import { summarize } from './statistics'
 import { findOutliers, type OutlierSettings } from './outliers'
+import { chooseHeadline } from './headline'
 import type { FactorStats } from '../types/summary'
 
 export interface FactorValue {
@@ -9,14 +11,25 @@ export interface FactorValue {
   value: number
 }
 
-export function factorStats(values: FactorValue[], settings: OutlierSettings, options: { withoutOutliers?: boolean } = {}): FactorStats {
-  const report = findOutliers(values, settings)
+export interface FactorStatsOptions {
+  /** Leave what the test flags out of the figures (a preview). */
+  withoutOutliers?: boolean
+  /** Submissions no reviewer has accepted yet: a flagged one among them pulls the mean. */
+  unreviewed?: ReadonlySet<number>
+}
+
+export function factorStats(values: FactorValue[], settings: OutlierSettings, options: FactorStatsOptions = {}): FactorStats {
+  // A stored factor PostgreSQL reads back as NaN or beyond a double cannot be summarised: listed, not counted.
+  const finite = values.filter((v) => Number.isFinite(v.value))
+  const dropped = values.length - finite.length
+  const report = findOutliers(finite, settings)
   const flagged = new Set(report.outliers.map((o) => o.submissionId))
-  const used = options.withoutOutliers ? values.filter((v) => !flagged.has(v.submissionId)) : values
+  const used = options.withoutOutliers ? finite.filter((v) => !flagged.has(v.submissionId)) : finite
   const xs = used.map((v) => v.value)
   const s = summarize(xs)
   const positive = xs.every((x) => x > 0)
   const log = xs.length && positive ? summarize(xs, { logScale: true }) : null
+  const unreviewedOutliers = used.filter((v) => flagged.has(v.submissionId) && (options.unreviewed?.has(v.submissionId) ?? false)).length
   return {
     n: s.n,
     mean: s.mean,
@@ -32,8 +45,13 @@ export function factorStats(values: FactorValue[], settings: OutlierSettings, op
     min: s.min,
     max: s.max,
     log: { mean: log?.mean ?? null, ci95: log?.ci ?? null, sd: log?.sd ?? null },
-    test: { name: report.test, applied: report.applied, note: report.note },
-    notes: [...s.notes, ...(xs.length && !positive ? ['Some values are zero or negative, so no log-scale summary.'] : [])],
+    test: { name: report.test, applied: report.applied, note: report.note, maxOutliers: report.maxOutliers },
+    headline: chooseHeadline(xs, { unreviewedOutliers }),
+    notes: [
+      ...s.notes,
+      ...(xs.length && !positive ? ['Some values are zero or negative, so no log-scale summary.'] : []),
+      ...(dropped ? [`${dropped} stored result(s) are not finite numbers and are left out.`] : []),
+    ],
     values: used,
   }
 }

@@ -2,6 +2,7 @@
 // distribution. Methods: NIST/SEMATECH e-Handbook §1.3.5.17 (Grubbs, per ASTM E178),
 // Rorabacher, Anal. Chem. 63 (1991) 139 (Dixon r10), Iglewicz & Hoaglin (modified z).
 import jStat from 'jstat'
+import { madOf, meanOf as mean, medianOf, quantileOf as quantile, requireFiniteList, sampleSdOf as sampleSd, tameScale } from './lib/moments'
 
 export class StatisticsError extends Error {
   constructor(message: string) {
@@ -17,27 +18,7 @@ export function tCritical(p: number, df: number): number {
   return jStat.studentt.inv(p, df)
 }
 
-function finiteValues(values: readonly number[]): number[] {
-  if (!Array.isArray(values)) throw new StatisticsError('Values must be a list of numbers.')
-  values.forEach((v, i) => {
-    if (typeof v !== 'number' || !Number.isFinite(v)) throw new StatisticsError(`Value ${i + 1} is not a finite number.`)
-  })
-  return [...values]
-}
-
-const mean = (xs: number[]) => xs.reduce((s, v) => s + v, 0) / xs.length
-function sampleSd(xs: number[]): number {
-  const m = mean(xs)
-  return Math.sqrt(xs.reduce((s, v) => s + (v - m) ** 2, 0) / (xs.length - 1))
-}
-/** Linear-interpolation quantile (Hyndman–Fan type 7, the spreadsheet default; common practice). */
-function quantile(sorted: number[], p: number): number {
-  const h = (sorted.length - 1) * p
-  const lo = Math.floor(h)
-  return sorted[lo]! + (h - lo) * ((sorted[Math.min(lo + 1, sorted.length - 1)]! - sorted[lo]!))
-}
-const medianOf = (xs: number[]) => quantile([...xs].sort((a, b) => a - b), 0.5)
-const madOf = (xs: number[], med: number) => medianOf(xs.map(v => Math.abs(v - med)))
+const finiteValues = (values: readonly number[]) => requireFiniteList(values, (message) => new StatisticsError(message))
 
 export interface Summary {
   n: number
@@ -64,6 +45,21 @@ export interface Summary {
   notes: string[]
 }
 
+const TOO_LARGE_NOTE = 'Some figures are beyond the largest number a computer holds (about 1.8e308), so they are left blank.'
+
+/** Every figure that overflowed becomes null, with one note saying why. */
+function withoutOverflow(s: Summary): Summary {
+  const keys = ['mean', 'sd', 'sem', 'median', 'mad', 'q1', 'q3', 'iqr', 'min', 'max', 'cv'] as const
+  const out: Summary = { ...s }
+  let lost = false
+  for (const k of keys) {
+    const v = out[k]
+    if (v !== null && !Number.isFinite(v)) { out[k] = null; lost = true }
+  }
+  if (out.ci && !out.ci.every(Number.isFinite)) { out.ci = null; lost = true }
+  return lost ? { ...out, notes: [...out.notes, TOO_LARGE_NOTE] } : out
+}
+
 export function summarize(values: readonly number[], options: { confidence?: number, logScale?: boolean } = {}): Summary {
   const xs = finiteValues(values)
   const confidence = options.confidence ?? 0.95
@@ -73,15 +69,19 @@ export function summarize(values: readonly number[], options: { confidence?: num
   const empty: Summary = { n, scale: logScale ? 'log' : 'linear', mean: null, sd: null, sem: null, ci: null, confidence, median: null, mad: null, q1: null, q3: null, iqr: null, min: null, max: null, cv: null, notes: [] }
   if (n === 0) return { ...empty, notes: ['No values.'] }
   if (logScale && xs.some(v => v <= 0)) return { ...empty, notes: ['A log-scale summary needs values above zero.'] }
+  // Linear figures are computed on tamed values and multiplied back; logs never overflow.
+  // Order statistics come from the values themselves (quantile() cannot overflow).
+  const { values: tamed, scale } = logScale ? { values: xs, scale: 1 } : tameScale(xs)
+  const unit = (v: number) => v * scale
   const sorted = [...xs].sort((a, b) => a - b)
   const median = quantile(sorted, 0.5)
   const q1 = quantile(sorted, 0.25)
   const q3 = quantile(sorted, 0.75)
   const base = { ...empty, median, mad: madOf(xs, median), q1, q3, iqr: q3 - q1, min: sorted[0]!, max: sorted[n - 1]! }
-  const work = logScale ? xs.map(Math.log) : xs
+  const work = logScale ? xs.map(Math.log) : tamed
   const m = mean(work)
-  const back = (v: number) => (logScale ? Math.exp(v) : v)
-  if (n === 1) return { ...base, mean: back(m), notes: ['The SD and confidence interval need at least 2 values.'] }
+  const back = (v: number) => (logScale ? Math.exp(v) : unit(v))
+  if (n === 1) return withoutOverflow({ ...base, mean: back(m), notes: ['The SD and confidence interval need at least 2 values.'] })
   const sd = sampleSd(work)
   const sem = sd / Math.sqrt(n)
   const t = tCritical(1 - (1 - confidence) / 2, n - 1)
@@ -91,7 +91,9 @@ export function summarize(values: readonly number[], options: { confidence?: num
   if (logScale) cv = Math.sqrt(Math.exp(sd * sd) - 1)
   else if (m !== 0) cv = sd / Math.abs(m)
   else { cv = null; notes.push('The CV is undefined because the mean is zero.') }
-  return { ...base, mean: back(m), sd, sem, ci: [back(m - t * sem), back(m + t * sem)], cv, notes }
+  return withoutOverflow({
+    ...base, mean: back(m), sd: logScale ? sd : unit(sd), sem: logScale ? sem : unit(sem), ci: [back(m - t * sem), back(m + t * sem)], cv, notes,
+  })
 }
 
 export interface GrubbsStep {
@@ -114,6 +116,13 @@ export interface GrubbsResult {
 }
 
 /**
+ * NIST/SEMATECH e-Handbook §1.3.5.17.1: Grubbs' test "should not be used for sample sizes of six
+ * or fewer since it frequently tags most of the points as outliers". It still runs, with this note.
+ */
+export const GRUBBS_SMALL_N = 6
+const GRUBBS_SMALL_NOTE = "With 6 or fewer results Grubbs' test is unreliable: it tends to tag most of the points as outliers (NIST/SEMATECH e-Handbook)."
+
+/**
  * Grubbs' test (ASTM E178). G = max|x − mean| / s; critical value
  * G = (n − 1)/√n · √(t² / (n − 2 + t²)), t the upper α/(2n) (two-sided) or α/n (one-sided)
  * quantile with n − 2 df. Iterative: remove the outlier and test again while n ≥ 3.
@@ -128,7 +137,9 @@ export function grubbsTest(
   const twoSided = options.twoSided ?? true
   const iterative = options.iterative ?? true
   const result: GrubbsResult = { outliers: [], steps: [], alpha, twoSided, note: null }
-  let remaining = xs.map((value, index) => ({ value, index }))
+  // G is a ratio: tamed values give the same G without overflowing (lib/moments.ts).
+  const { values: tamed, scale } = tameScale(xs)
+  let remaining = tamed.map((value, index) => ({ value, index }))
   while (remaining.length >= 3) {
     const n = remaining.length
     const vals = remaining.map(r => r.value)
@@ -141,13 +152,14 @@ export function grubbsTest(
     const t = tCritical(1 - (twoSided ? alpha / (2 * n) : alpha / n), n - 2)
     const critical = ((n - 1) / Math.sqrt(n)) * Math.sqrt((t * t) / (n - 2 + t * t))
     const outlier = G > critical
-    result.steps.push({ n, index: suspect.index, value: suspect.value, mean: m, sd, G, critical, outlier })
+    result.steps.push({ n, index: suspect.index, value: xs[suspect.index]!, mean: m * scale, sd: sd * scale, G, critical, outlier })
     if (!outlier) break
     result.outliers.push(suspect.index)
     if (!iterative) break
     remaining = remaining.filter(r => r !== suspect)
   }
   if (xs.length < 3) result.note = "Grubbs' test needs at least 3 values."
+  else if (xs.length <= GRUBBS_SMALL_N) result.note = [GRUBBS_SMALL_NOTE, result.note].filter(Boolean).join(' ')
   return result
 }
 
@@ -183,16 +195,17 @@ export function dixonQTest(values: readonly number[], options: { confidence?: nu
   if (!table) throw new StatisticsError(`Dixon's Q test is available at ${Object.keys(DIXON_R10_CRITICAL).map(k => `${Number(k) * 100} %`).join(' and ')} confidence.`)
   const n = xs.length
   if (n < 3 || n > 10) throw new StatisticsError(`Dixon's Q test (r10) needs 3 to 10 values; there are ${n}. Use Grubbs' test or the modified z-score for other sizes.`)
-  const order = xs.map((value, index) => ({ value, index })).sort((a, b) => a.value - b.value)
+  // Q is a ratio of gaps: tamed values keep the range finite (lib/moments.ts).
+  const order = tameScale(xs).values.map((value, index) => ({ value, index })).sort((a, b) => a.value - b.value)
   const range = order[n - 1]!.value - order[0]!.value
   const critical = table[n - 3]!
-  if (range === 0) return { n, q: 0, critical, confidence, index: order[n - 1]!.index, value: order[n - 1]!.value, side: 'high', outlier: false, note: 'All values are equal, so none can be an outlier.' }
+  if (range === 0) return { n, q: 0, critical, confidence, index: order[n - 1]!.index, value: xs[order[n - 1]!.index]!, side: 'high', outlier: false, note: 'All values are equal, so none can be an outlier.' }
   const low = (order[1]!.value - order[0]!.value) / range
   const high = (order[n - 1]!.value - order[n - 2]!.value) / range
   const side = high >= low ? 'high' : 'low'
   const suspect = side === 'high' ? order[n - 1]! : order[0]!
   const q = Math.max(low, high)
-  return { n, q, critical, confidence, index: suspect.index, value: suspect.value, side, outlier: q > critical, note: null }
+  return { n, q, critical, confidence, index: suspect.index, value: xs[suspect.index]!, side, outlier: q > critical, note: null }
 }
 
 export interface ModifiedZResult {
@@ -213,10 +226,12 @@ export interface ModifiedZResult {
  * from the median, M = (x − median)/(1.2533·meanAD) = 0.7979(x − median)/meanAD (common practice).
  */
 export function modifiedZScores(values: readonly number[], options: { threshold?: number } = {}): ModifiedZResult {
-  const xs = finiteValues(values)
+  const raw = finiteValues(values)
   const threshold = options.threshold ?? 3.5
   if (!(threshold > 0)) throw new StatisticsError('The threshold must be positive.')
-  if (xs.length === 0) return { scores: [], outliers: [], median: null, mad: null, threshold, method: 'none', note: 'No values.' }
+  if (raw.length === 0) return { scores: [], outliers: [], median: null, mad: null, threshold, method: 'none', note: 'No values.' }
+  // M is a ratio: tamed values give the same scores without overflowing (lib/moments.ts).
+  const { values: xs, scale } = tameScale(raw)
   const med = medianOf(xs)
   const mad = madOf(xs, med)
   let scores: (number | null)[]
@@ -238,5 +253,5 @@ export function modifiedZScores(values: readonly number[], options: { threshold?
     }
   }
   const outliers = scores.flatMap((z, i) => (z !== null && Math.abs(z) > threshold ? [i] : []))
-  return { scores, outliers, median: med, mad, threshold, method, note }
+  return { scores, outliers, median: med * scale, mad: mad * scale, threshold, method, note }
 }

@@ -51,7 +51,8 @@ describe('courses and sections', () => {
     const created = await client.post('/api/courses', { code: 'CHEM 9001', title: 'Test Lab', term: 'Spring 2027', timezone: 'America/Chicago' })
     expect(created.status).toBe(201)
     const detail = await client.get(`/api/courses/${created.body.id}`)
-    expect(detail.body).toMatchObject({ outlierTest: 'grubbs', releasePolicy: 'on-review', role: 'owner' })
+    // New courses run the generalized ESD test (migration 2026_12_03_0930_outlier_test_gesd).
+    expect(detail.body).toMatchObject({ outlierTest: 'gesd', releasePolicy: 'on-review', role: 'owner' })
     expect(detail.body.rubric.length).toBeGreaterThan(0)
     const again = await client.post('/api/courses', { code: 'CHEM 9001', title: 'Again', term: 'Spring 2027' })
     expect(again.status).toBe(409)

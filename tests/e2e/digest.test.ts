@@ -61,9 +61,14 @@ describe('section digests', () => {
     // Class (4 counted results: 3.2, 3.6, 2.9, 3.4), their section, and their own row.
     const rows = csvRows(fromBase64(studentPreview.body.attachments[0].content))
     expect(rows.map((r) => r[0])).toEqual(['Row', 'Class', 'Section S1', 'Your result'])
+    // The headline figure leads the CSV as it leads the text: the geometric mean, then the median and the arithmetic mean.
+    expect(rows[0]!.slice(2, 9)).toEqual(['n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean'])
     expect(Number(rows[1]![2])).toBe(4)
-    expect(Number(rows[1]![3])).toBeCloseTo((3.2 + 3.6 + 2.9 + 3.4) / 4, 4)
-    expect(Number(rows[3]![8])).toBeCloseTo(3.2, 4)
+    expect(rows[1]![3]).toBe('Geometric mean')
+    expect(Number(rows[1]![4])).toBeCloseTo((3.2 * 3.6 * 2.9 * 3.4) ** (1 / 4), 4)
+    expect(Number(rows[1]![8])).toBeCloseTo((3.2 + 3.6 + 2.9 + 3.4) / 4, 4)
+    expect(Number(rows[3]![10])).toBeCloseTo(3.2, 4)
+    expect(studentPreview.body.text).toMatch(/Class, 2°:1° selectivity per H: geometric mean 3\.26 \(95 % CI \d\.\d\d to \d\.\d\d\), median 3\.30, n = 4\./)
     expect(studentPreview.body.text).toContain('Higher than 1 of the other 3 results in the class.')
     const staffPreview = await owner.get(`/api/practicals/${world.practicalId}/digests/preview?sectionId=${s1}&audience=staff`)
     expect(staffPreview.status).toBe(200)
@@ -126,6 +131,27 @@ describe('section digests', () => {
     for (const r of recipients) expect(await mailTo(r), r).toHaveLength(1)
     const rows = await waitForMessages(digestId!, 5)
     expect(rows.every((r) => r.status === 'sent')).toBe(true)
+  })
+
+  it('the demo digest leads with the geometric mean; the arithmetic mean follows, marked while flagged runs wait', async () => {
+    const practical = await testDb().selectFrom('practicals').select('id').where('title', '=', 'Chlorination of 1-chlorobutane').executeTakeFirstOrThrow()
+    const owner = await signedIn(DEMO.instructor)
+    const summary = (await owner.get(`/api/practicals/${practical.id}/summary`)).body
+    const section = summary.bySection[0]
+    const preview = await owner.get(`/api/practicals/${practical.id}/digests/preview?sectionId=${section.sectionId}&audience=student`)
+    expect(preview.status).toBe(200)
+    const text: string = preview.body.text
+    const h = summary.headline
+    const classLine = text.split('\n').find((l) => l.startsWith('Class, '))!
+    expect(classLine).toContain(`geometric mean ${h.value.toFixed(2)} (95 % CI ${h.ci95[0].toFixed(2)} to ${h.ci95[1].toFixed(2)})`)
+    expect(classLine).not.toMatch(/: mean /)
+    expect(text.indexOf('geometric mean')).toBeLessThan(text.indexOf('Arithmetic mean'))
+    if (h.meanPulledByOutliers) expect(text).toMatch(/Arithmetic mean \d+\.\d\d, pulled (up|down) by \d+ flagged run/)
+    // No interval below zero anywhere in the message.
+    expect(text).not.toMatch(/CI -/)
+    const staff = await owner.get(`/api/practicals/${practical.id}/digests/preview?sectionId=${section.sectionId}&audience=staff`)
+    expect(staff.body.text).toContain('Outlier test: Generalized ESD (several outliers)')
+    expect(staff.body.html).toContain('geometric mean')
   })
 
   it('a TA previews only their own sections; only the owner sends', async () => {

@@ -35,6 +35,16 @@ describe('migrations', () => {
       const second = await migrateToLatest(db)
       expect(second.applied).toEqual([])
       expect(await schemaSnapshot(url)).toEqual(snapshot)
+      // New courses run the generalized ESD test; its down step restores Grubbs' test.
+      const outlierDefault = async () => (await sql<{ d: string }>`
+        select column_default as d from information_schema.columns where table_name = 'courses' and column_name = 'outlier_test'`.execute(db)).rows[0]!.d
+      expect(await outlierDefault()).toMatch(/'gesd'/)
+      const gesd = migrations['2026_12_03_0930_outlier_test_gesd']!
+      await gesd.down!(db)
+      expect(await outlierDefault()).toMatch(/'grubbs'/)
+      await expect(sql`insert into courses (code, title, term, outlier_test) values ('X', 'X', 'X', 'gesd')`.execute(db)).rejects.toThrow(/check/)
+      await gesd.up(db)
+      expect(await outlierDefault()).toMatch(/'gesd'/)
     } finally {
       await db.destroy()
       await sql.raw(`drop database if exists ${name}`).execute(testDb())

@@ -17,6 +17,8 @@ describe('role overviews with live figures', () => {
     expect(Number(selectivity.value)).toBeGreaterThan(2)
     expect(Number(selectivity.value)).toBeLessThan(4.5)
     expect(selectivity.detail).toMatch(/outlier/)
+    // The card leads with the same figure as the class page and the digests.
+    expect(selectivity.detail).toMatch(/^Geometric mean of \d+ results in .+ \(95 % CI \d+\.\d\d to \d+\.\d\d\); median \d+\.\d\d/)
   })
 
   it('a TA’s figures cover only their sections', async () => {

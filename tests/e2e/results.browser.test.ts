@@ -48,7 +48,15 @@ describe('class results in Chromium', () => {
     await chartsDrawn(page, 5)
     const n = await page.locator('dl', { hasText: 'Results (n)' }).locator('dd').first().innerText()
     expect(Number(n)).toBeGreaterThan(20)
-    // The solvent-counted run of the demo is flagged by the course's test (Grubbs).
+    // The key factor leads with the geometric mean and its interval (never below zero); the
+    // arithmetic mean follows, marked while the demo's flagged runs wait for a reviewer.
+    const key = page.locator('section', { has: page.getByRole('heading', { name: '2°:1° selectivity per H' }) })
+    const lead = key.locator('[data-headline]')
+    expect(await lead.locator('dt').innerText()).toBe('Geometric mean')
+    expect(await lead.innerText()).toMatch(/95 % CI \d+\.\d\d to \d+\.\d\d, on the log scale/)
+    expect(await key.locator('[data-arithmetic-mean]').innerText()).toMatch(/Arithmetic mean[\s\S]*Pulled up by \d+ flagged run\(s\) not yet reviewed/)
+    expect(await page.getByText('Class mean').count()).toBe(0)
+    // The solvent-counted run of the demo is flagged by the course's test (generalized ESD).
     const flagged = page.getByRole('table', { name: 'Runs the outlier test flags' })
     await flagged.waitFor()
     expect(await flagged.locator('tbody tr').count()).toBeGreaterThanOrEqual(1)
@@ -71,13 +79,52 @@ describe('class results in Chromium', () => {
 
     await page.selectOption('select', { value: 'modified-z' })
     await page.getByText(/Modified z-score \(median and MAD\), limit/).waitFor()
-    await page.selectOption('select', { value: 'grubbs' })
+    // Dixon's Q cannot run on more than 10 results: the page says so and never "0 flagged".
+    await page.selectOption('select', { value: 'dixon' })
+    await page.getByText('The test could not run').waitFor()
+    await page.getByText(/This test could not run on these results/).waitFor()
+    expect(await page.getByText(/\b0 flagged/).count()).toBe(0)
+    await page.getByRole('group', { name: 'Show Every result as' }).getByRole('button', { name: 'Table' }).click()
+    expect(await values.locator('tbody tr', { hasText: 'Not flagged' }).count()).toBe(0)
+    expect(await values.locator('tbody tr', { hasText: 'Not tested' }).count()).toBe(Number(n))
+    await page.getByRole('group', { name: 'Show Every result as' }).getByRole('button', { name: 'Chart' }).click()
+    await screenshot(page, 'results-practical-dixon-not-run')
+    await page.selectOption('select', { value: 'gesd' })
+    await page.getByText(/Generalized ESD \(several outliers\), α = 0\.05, up to \d+ outliers/).waitFor()
     await chartsDrawn(page, 5)
 
     await page.emulateMedia({ media: 'print' })
     await chartsDrawn(page, 5)
+    // The print view leads with the same figure.
+    expect(await lead.isVisible()).toBe(true)
+    expect(await lead.locator('dt').innerText()).toBe('Geometric mean')
+    await page.getByText(/Outlier test: Generalized ESD \(several outliers\) \(α = 0\.05, up to \d+ outliers\)/).waitFor()
     await screenshot(page, 'results-practical-print')
     await page.emulateMedia({ media: 'screen' })
+    expect(tab.problems).toEqual([])
+    await tab.context.close()
+  })
+
+  it('the course settings offer the generalized ESD test, chosen for the demo course, with a line on when each test fits', async () => {
+    const course = await testDb().selectFrom('courses').select('id').where('code', '=', 'CHEM 2240').orderBy('id').executeTakeFirstOrThrow()
+    const tab = await openTab(browser, { width: 1280, height: 900 })
+    const { page } = tab
+    await signInThroughPage(page, DEMO.instructor)
+    await page.goto(`/courses/${course.id}?tab=settings`)
+    const select = page.getByLabel('Test', { exact: true })
+    await select.waitFor()
+    expect(await select.inputValue()).toBe('gesd')
+    expect(await select.locator('option').allInnerTexts()).toEqual(['Generalized ESD (several outliers)', "Grubbs' test (two-sided, iterative)", "Dixon's Q test (r10, 3–10 results)", 'Modified z-score (median and MAD)'])
+    await page.getByText(/at least 2\) at once, so two bad runs cannot hide each other/).waitFor()
+    // A choice made while the page still hydrates can be lost: choose again until the hint follows.
+    const choose = async (test: string, hint: RegExp) => expect.poll(async () => {
+      await select.selectOption(test)
+      return page.getByText(hint).isVisible()
+    }, { timeout: 20_000 }).toBe(true)
+    await choose('grubbs', /with 6 or fewer results it is unreliable/)
+    await choose('gesd', /so two bad runs cannot hide each other/)
+    await screenshot(page, 'course-settings-outlier-test')
+    await noSeriousViolations(page)
     expect(tab.problems).toEqual([])
     await tab.context.close()
   })
@@ -104,7 +151,7 @@ describe('class results in Chromium', () => {
     await ta.page.getByRole('heading', { name: '2°:1° selectivity per H' }).waitFor()
     await chartsDrawn(ta.page, 4)
     await ta.page.getByRole('group', { name: 'Show Section by section as' }).getByRole('button', { name: 'Table' }).click()
-    const groups = await ta.page.getByRole('region', { name: 'Section means' }).locator('tbody tr th, tbody tr td:first-child').allInnerTexts()
+    const groups = await ta.page.getByRole('region', { name: 'Section figures' }).locator('tbody tr th, tbody tr td:first-child').allInnerTexts()
     expect(groups).toEqual(['Whole class', 'Section M1', 'Section W1'])
     expect(await ta.page.getByRole('heading', { name: 'Across terms' }).count()).toBe(0)
     await screenshot(ta.page, 'results-practical-ta-phone')

@@ -37,6 +37,7 @@ describe('GET /api/results/cross-term', () => {
     const theirs = rows.find((r) => r.practicalId === earlier.practicalId)
     expect(mine).toMatchObject({ courseCode: later.course.code, term: 'Fall 2026 (fixture)', n: 3, current: true, sectionCodes: ['S1'] })
     expect(mine.mean).toBeCloseTo(mean(b), 9)
+    expect(mine.headline.value).toBeCloseTo(Math.exp(mean(b.map(Math.log))), 9)
     expect(mine.median).toBeCloseTo(median(b), 9)
     expect(mine.ci95[1] - mine.mean).toBeCloseTo(T_0975[2]! * sd(b) / Math.sqrt(3), 3)
     // Another instructor's course in another term: aggregates only.
@@ -77,6 +78,9 @@ describe('GET /api/results and /api/results/practicals/:id', () => {
     expect(list.body).toHaveLength(1)
     expect(list.body[0]).toMatchObject({ practicalId: earlier.practicalId, n: 4, keyFactor: 'secondaryToPrimary' })
     expect(list.body[0].mean).toBeCloseTo(mean(a), 9)
+    // The list leads with the same figure as the class page: the geometric mean, exp(mean of ln x).
+    expect(list.body[0].headline.statistic).toBe('geometric-mean')
+    expect(list.body[0].headline.value).toBeCloseTo(Math.exp(mean(a.map(Math.log))), 9)
     const ta = earlier.sections[1]!.ta
     const taList = await (await signedIn(ta.email, ta.password)).get('/api/results')
     expect(taList.body.map((p: any) => p.practicalId)).toEqual([earlier.practicalId])
@@ -98,6 +102,6 @@ describe('GET /api/results and /api/results/practicals/:id', () => {
     expect(detail.body.units.map((u: any) => u.label).sort()).toEqual([earlier.students[3]!.name, earlier.students[4]!.name].sort())
     const owner = await (await signedIn(earlier.owner.email, earlier.owner.password)).get(`/api/results/practicals/${earlier.practicalId}`)
     expect(owner.body.units).toHaveLength(5)
-    expect(owner.body.outlier.test).toBe('grubbs')
+    expect(owner.body.outlier.test).toBe('gesd')
   })
 })

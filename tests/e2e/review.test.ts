@@ -225,6 +225,24 @@ describe('the queue', () => {
     expect(detail.body.flags.find((f: any) => f.code === 'outlier').statistic).toBeCloseTo(2.4687, 3)
   })
 
+  it('flags with the generalized ESD test when the course uses it: R_1 = G, λ_1 = the Grubbs critical value (NIST data)', async () => {
+    const courses = testDb().updateTable('courses').where('id', '=', world.courseId)
+    await courses.set({ outlierTest: 'gesd' }).execute()
+    try {
+      const reply = await owner.get(`/api/practicals/${world.practicalId}/queue?flag=outlier`)
+      expect(reply.body.rows.map((r: any) => r.id)).toEqual([ids.outlier])
+      const flag = reply.body.rows[0].flags.find((f: any) => f.code === 'outlier')
+      expect(flag).toMatchObject({ severity: 'warning', test: 'gesd', step: 1 })
+      // NIST/SEMATECH e-Handbook §1.3.5.17.1 and §1.3.5.17.3: with one outlier, R_1 = G = 2.4687, λ_1 = 2.1266.
+      expect(flag.statistic).toBeCloseTo(2.4687, 3)
+      expect(flag.critical).toBeCloseTo(2.1266, 3)
+      expect(flag.message).toMatch(/generalized ESD test \(α = 0\.05, up to 2 outliers\): removed at step 1/)
+      expect(reply.body.outliers).toMatchObject({ test: 'gesd', applied: true, n: 8, maxOutliers: 2 })
+    } finally {
+      await courses.set({ outlierTest: 'grubbs' }).execute()
+    }
+  })
+
   it('filters by section, status and flag; bad filters are 400 naming the field', async () => {
     const r2 = await owner.get(`/api/practicals/${world.practicalId}/queue?section=${world.sections[1]!.id}`)
     expect(r2.body.rows.map((r: any) => r.id)).toEqual([ids.oldest, ids.older, ids.newest, ids.acceptedB])

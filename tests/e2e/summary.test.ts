@@ -1,6 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest'
+import { sql } from 'kysely'
 import { signedIn, DEMO } from '../support/http'
-import { closeTestDb } from '../support/db'
+import { closeTestDb, testDb } from '../support/db'
 import { insertResult, makeCourse } from '../support/fixtures'
 
 afterAll(closeTestDb)
@@ -108,5 +109,95 @@ describe('GET /api/practicals/:id/summary', () => {
     expect(await read(world.sections[0]!.ta)).toEqual(generic)
     expect(await read(world.sections[0]!.students[0]!)).toEqual(generic)
     expect(await read(world.sections[1]!.students[3]!)).toEqual(generic)
+  })
+})
+
+// Two equal far-off runs among eight: repeated Grubbs' tests flag neither (masking); the
+// generalized ESD test (Rosner, Technometrics 25 (1983) 165) flags both.
+const MASKED = [10.0, 10.1, 9.9, 10.2, 9.8, 10.0, 15.0, 15.0]
+
+async function practicalWith(values: number[], extra: { status?: 'pending' | 'accepted' } = {}) {
+  const world = await makeCourse({ sections: 1, studentsPerSection: values.length })
+  const students = world.sections[0]!.students
+  const ids: number[] = []
+  for (const [i, value] of values.entries()) ids.push(await insertResult(world.practicalId, world.sections[0]!.id, students[i]!.id, { secondary: value }, extra))
+  return { world, ids, client: await signedIn(world.owner.email, world.owner.password) }
+}
+
+describe('the headline figure and the generalized ESD test', () => {
+  it('the demo practical leads with the geometric mean of its key factor, an interval above zero, and runs the course test (gesd)', async () => {
+    const practical = await testDb().selectFrom('practicals').select('id').where('title', '=', 'Chlorination of 1-chlorobutane').executeTakeFirstOrThrow()
+    const s = (await (await signedIn(DEMO.instructor)).get(`/api/practicals/${practical.id}/summary`)).body
+    const key = s.factors[s.keyFactor]
+    expect(key.test).toMatchObject({ name: 'gesd', applied: true })
+    expect(key.test.maxOutliers).toBeGreaterThanOrEqual(2)
+    expect(s.headline).toMatchObject({ factor: s.keyFactor, statistic: 'geometric-mean', n: key.n })
+    expect(s.headline.value).toBeCloseTo(key.log.mean, 9)
+    expect(s.headline.ci95[0]).toBeGreaterThan(0)
+    expect(s.headline.ci95[0]).toBeLessThan(s.headline.value)
+    expect(key.headline).toEqual(Object.fromEntries(Object.entries(s.headline).filter(([k]) => k !== 'factor')))
+    // Every contract field is still there.
+    for (const field of ['n', 'mean', 'sd', 'ci95', 'median', 'mad', 'outliers', 'test']) expect(key).toHaveProperty(field)
+    // The demo leaves its flagged runs waiting for review: they pull the arithmetic mean.
+    const pendingFlagged = await testDb().selectFrom('submissions').select('id')
+      .where('id', 'in', key.outliers.length ? key.outliers.map((o: any) => o.submissionId) : [-1]).where('status', '=', 'pending').execute()
+    expect(s.headline.unreviewedOutliers).toBe(pendingFlagged.length)
+    expect(s.headline.meanPulledByOutliers).toBe(pendingFlagged.length > 0)
+  })
+
+  it('?method=gesd flags both masked runs where Grubbs flags none; ?maxOutliers is honoured and validated', async () => {
+    const { world, ids, client } = await practicalWith(MASKED)
+    const url = `/api/practicals/${world.practicalId}/summary`
+    const gesd = (await client.get(`${url}?method=gesd`)).body.factors.secondaryToPrimary
+    expect(gesd.test).toMatchObject({ name: 'gesd', applied: true, maxOutliers: 2 })
+    expect(gesd.outliers.map((o: any) => o.submissionId).sort()).toEqual([ids[6], ids[7]].sort())
+    expect(gesd.outliers.map((o: any) => o.step)).toEqual([1, 2])
+    expect((await client.get(`${url}?method=grubbs`)).body.factors.secondaryToPrimary.outliers).toEqual([])
+    expect((await client.get(`${url}?method=gesd&maxOutliers=1`)).body.factors.secondaryToPrimary.outliers).toEqual([])
+    // The course default is the generalized ESD test (migration 2026_12_03_0930).
+    expect((await client.get(url)).body.factors.secondaryToPrimary.test.name).toBe('gesd')
+    const bad = await client.get(`${url}?maxOutliers=0`)
+    expect(bad.status).toBe(400)
+    expect(bad.body.statusMessage).toMatch(/^maxOutliers:/)
+  })
+
+  it('a test that cannot run says so: Dixon on 12 results is applied: false with a note, never "no outliers"', async () => {
+    const { world, client } = await practicalWith([...MASKED, 10.1, 9.9, 10.0, 10.05])
+    const dixon = (await client.get(`/api/practicals/${world.practicalId}/summary?method=dixon`)).body.factors.secondaryToPrimary
+    expect(dixon.test).toMatchObject({ name: 'dixon', applied: false })
+    expect(dixon.test.note).toMatch(/3 to 10/)
+    expect(dixon.outliers).toEqual([])
+    // NIST/SEMATECH e-Handbook §1.3.5.17.1: Grubbs' test is not for 6 or fewer values.
+    const small = await practicalWith([3.1, 3.3, 3.2, 3.4, 3.0])
+    const grubbs = (await small.client.get(`/api/practicals/${small.world.practicalId}/summary?method=grubbs`)).body.factors.secondaryToPrimary
+    expect(grubbs.test).toMatchObject({ name: 'grubbs', applied: true })
+    expect(grubbs.test.note).toMatch(/6 or fewer/)
+  })
+
+  it('a zero among the results puts the median in the lead with a rank interval inside the data', async () => {
+    const { world, client } = await practicalWith([0, 2.9, 3.1, 3.3, 3.4, 3.6, 3.8])
+    const s = (await client.get(`/api/practicals/${world.practicalId}/summary`)).body
+    expect(s.headline).toMatchObject({ statistic: 'median', value: 3.3, ci95: [0, 3.8] })
+    expect(s.headline.interval).toMatchObject({ method: 'order-statistics', ranks: [1, 7] })
+  })
+
+  it('huge and unreadable stored factors give finite figures and a 200, never Infinity, NaN or a 500', async () => {
+    const { world, ids, client } = await practicalWith([1e300, 2e300, 3e300, 4e300, 5e300, 6e300])
+    const db = testDb()
+    await sql`update submissions set factor_secondary = 'NaN'::numeric where id = ${ids[4]}`.execute(db)
+    await sql`update submissions set factor_secondary = 1e400 where id = ${ids[5]}`.execute(db)
+    const reply = await client.get(`/api/practicals/${world.practicalId}/summary`)
+    expect(reply.status).toBe(200)
+    const f = reply.body.factors.secondaryToPrimary
+    expect(f.n).toBe(4)
+    expect(f.mean / 1e300).toBeCloseTo(2.5, 9)
+    expect(f.headline.statistic).toBe('geometric-mean')
+    expect(Number.isFinite(f.headline.ci95[1])).toBe(true)
+    expect(f.notes.join(' ')).toMatch(/2 stored result\(s\) are not finite/)
+    // JSON turns NaN and Infinity into null: every figure must still be a number.
+    for (const x of [f.mean, f.sd, f.median, f.mad, ...f.ci95, f.headline.value, ...f.headline.ci95, f.log.mean]) expect(typeof x).toBe('number')
+    expect((await client.get('/api/results')).status).toBe(200)
+    expect((await client.get(`/api/results/cross-term?practicalId=${world.practicalId}`)).status).toBe(200)
+    expect((await client.get(`/api/practicals/${world.practicalId}/queue`)).status).toBe(200)
   })
 })

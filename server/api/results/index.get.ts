@@ -1,6 +1,6 @@
 import { sql } from 'kysely'
 import type { ResultsListItem } from '#shared/types/results'
-import { summarize } from '#shared/utils/statistics'
+import { factorStats } from '#shared/utils/class-summary'
 
 // The practicals whose class results the caller may read (instructors: their courses; TAs:
 // practicals run in their sections), each with n and its headline factor over the whole class.
@@ -18,6 +18,7 @@ export default defineEventHandler(async (event): Promise<ResultsListItem[]> => {
     .innerJoin('methods', 'methods.id', 'practicals.methodId')
     .innerJoin('practicalSessions', 'practicalSessions.practicalId', 'practicals.id')
     .select((eb) => ['practicals.id', 'practicals.title', 'practicals.substrateId', 'practicals.methodId', 'courses.id as courseId', 'courses.code', 'courses.term',
+      'courses.outlierTest', 'courses.outlierAlpha', 'courses.zscoreLimit',
       'substrates.name as substrateName', 'methods.name as methodName', eb.fn.max('practicalSessions.meetingDate').as('lastMeeting')])
     .where('practicals.courseId', 'in', courseIds)
     .groupBy(['practicals.id', 'courses.id', 'substrates.id', 'methods.id'])
@@ -25,21 +26,25 @@ export default defineEventHandler(async (event): Promise<ResultsListItem[]> => {
   const practicals = await query.orderBy('lastMeeting', 'desc').orderBy('practicals.id').execute()
   if (!practicals.length) return []
   // Each unit's newest accepted-or-pending version, in one pass over every listed practical.
-  const { rows } = await sql<{ practicalId: number, secondary: number | null, tertiary: number | null }>`
-    select practical_id as "practicalId", factor_secondary as secondary, factor_tertiary as tertiary from (
-      select distinct on (practical_id, unit_key) practical_id, factor_secondary, factor_tertiary, excluded_at
+  const { rows } = await sql<{ submissionId: number, sectionId: number, status: string, practicalId: number, secondary: number | null, tertiary: number | null }>`
+    select id as "submissionId", section_id as "sectionId", status, practical_id as "practicalId", factor_secondary as secondary, factor_tertiary as tertiary from (
+      select distinct on (practical_id, unit_key) id, section_id, status, practical_id, factor_secondary, factor_tertiary, excluded_at
       from submissions where practical_id in (${sql.join(practicals.map((p) => p.id))}) and status in ('pending', 'accepted')
       order by practical_id, unit_key, version desc) l
     where excluded_at is null`.execute(db.withoutPlugins())
   return Promise.all(practicals.map(async (p): Promise<ResultsListItem> => {
     const chemistry = await practicalChemistry(p)
     const pick = chemistry.keyFactor === 'tertiaryToPrimary' ? 'tertiary' : 'secondary'
-    const values = rows.filter((r) => r.practicalId === p.id).flatMap((r) => (r[pick] === null ? [] : [Number(r[pick])]))
-    const s = summarize(values)
+    const mine = rows.filter((r) => r.practicalId === p.id)
+    const values = mine.flatMap((r) => (r[pick] === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: Number(r[pick]) }]))
+    // The course's own test, so the list leads with the same figure as the class page.
+    const s = factorStats(values, { test: p.outlierTest, alpha: p.outlierAlpha, zscoreLimit: p.zscoreLimit }, {
+      unreviewed: new Set(mine.filter((r) => r.status === 'pending').map((r) => r.submissionId)),
+    })
     return {
       practicalId: p.id, title: p.title, courseId: p.courseId, courseCode: p.code, term: p.term,
       substrateName: p.substrateName, methodName: p.methodName, keyFactor: chemistry.keyFactor,
-      literature: chemistry.literature[chemistry.keyFactor], n: s.n, mean: s.mean, ci95: s.ci, median: s.median,
+      literature: chemistry.literature[chemistry.keyFactor], n: s.n, mean: s.mean, ci95: s.ci95, median: s.median, headline: s.headline,
       lastMeeting: (p.lastMeeting as string | null) ?? null,
     }
   }))

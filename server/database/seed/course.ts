@@ -1,4 +1,4 @@
-import { DEFAULT_RUBRIC } from '../../../shared/types/course'
+import { DEFAULT_RUBRIC, DEFAULT_OUTLIER_TEST } from '../../../shared/types/course'
 import { addDays, mondayOf, type SeedContext } from './context'
 import { DEMO_DOMAIN } from './people'
 
@@ -26,6 +26,8 @@ export async function seedCourse(ctx: SeedContext): Promise<void> {
     title: 'Organic Laboratory II',
     term: termName(ctx.today),
     timezone: 'America/Chicago',
+    // The demo class runs the generalized ESD test, the default for new courses.
+    outlierTest: DEFAULT_OUTLIER_TEST,
     rubric: JSON.stringify(DEFAULT_RUBRIC),
     createdBy: instructorId,
   }).returning('id').executeTakeFirstOrThrow()

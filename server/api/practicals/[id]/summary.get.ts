@@ -10,5 +10,5 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, paramsSchema)
   const scope = await requirePracticalAccess(event, id)
   const query = readQueryAs(event, summaryQuerySchema)
-  return practicalSummary(scope, { method: query.method, withoutOutliers: query.withoutOutliers })
+  return practicalSummary(scope, { method: query.method, withoutOutliers: query.withoutOutliers, maxOutliers: query.maxOutliers })
 })

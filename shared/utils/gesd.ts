@@ -1,0 +1,86 @@
+// The generalized extreme Studentized deviate (ESD) test: Rosner, Technometrics 25 (1983) 165;
+// NIST/SEMATECH e-Handbook §1.3.5.17.3. Given an upper bound r, it removes the most extreme value
+// r times and then decides how many of them are outliers all at once, so two far-off results
+// cannot hide each other as they do from repeated Grubbs' tests (masking). Pure.
+import { StatisticsError, tCritical } from './statistics'
+import { meanOf, requireFiniteList, sampleSdOf, tameScale } from './lib/moments'
+
+export interface GesdStep {
+  /** i = 1…r */
+  step: number
+  /** Values left before this step's removal (n − i + 1). */
+  size: number
+  /** Index in the input of the value removed at this step. */
+  index: number
+  value: number
+  /** R_i = max |x − mean| / s over the values left. */
+  R: number
+  /** λ_i, the critical value for i outliers. */
+  lambda: number
+}
+
+export interface GesdResult {
+  /** Indices of the outliers in the input, most extreme first. */
+  outliers: number[]
+  steps: GesdStep[]
+  /** The largest i with R_i > λ_i (0: none). */
+  count: number
+  /** The bound used, after any lowering to n − 2. */
+  maxOutliers: number
+  alpha: number
+  note: string | null
+}
+
+/**
+ * Default upper bound r: one result in five, as in the e-Handbook's own example (r = 10 for
+ * 54 values), but at least 2 so that a pair of bad runs masking each other can be found, and at
+ * most n − 2 so the last step keeps n − r − 1 ≥ 1 degree of freedom. A class rarely has more
+ * than one bad run in five; a larger r would let the final steps judge a handful of survivors.
+ */
+export function gesdDefaultMaxOutliers(n: number): number {
+  return Math.max(0, Math.min(n - 2, Math.max(2, Math.floor(n / 5))))
+}
+
+/** λ_i = (n − i)·t / √((n − i − 1 + t²)(n − i + 1)), t at p = 1 − α/(2(n − i + 1)) with n − i − 1 df. */
+export function gesdCritical(n: number, i: number, alpha: number): number {
+  const df = n - i - 1
+  if (df < 1) throw new StatisticsError(`Step ${i} of the generalized ESD test needs n - i - 1 >= 1 degrees of freedom; n is ${n}.`)
+  const t = tCritical(1 - alpha / (2 * (n - i + 1)), df)
+  return ((n - i) * t) / Math.sqrt((df + t * t) * (n - i + 1))
+}
+
+/** Below this many values Rosner's λ is only roughly right (e-Handbook §1.3.5.17.3, from memory). */
+const GESD_ACCURATE_N = 15
+
+export function gesdTest(values: readonly number[], options: { alpha?: number, maxOutliers?: number | null } = {}): GesdResult {
+  const xs = requireFiniteList(values, (message) => new StatisticsError(message))
+  const alpha = options.alpha ?? 0.05
+  if (!(alpha > 0 && alpha < 1)) throw new StatisticsError('Alpha must lie strictly between 0 and 1.')
+  const n = xs.length
+  if (n < 3) throw new StatisticsError(`The generalized ESD test needs at least 3 results; there are ${n}.`)
+  const asked = options.maxOutliers ?? null
+  if (asked !== null && !(Number.isInteger(asked) && asked >= 1)) throw new StatisticsError('The most outliers to look for (r) must be a whole number of at least 1.')
+  const r = asked === null ? gesdDefaultMaxOutliers(n) : Math.min(asked, n - 2)
+  const notes: string[] = []
+  if (asked !== null && asked > n - 2) notes.push(`At most ${n - 2} outliers can be tested among ${n} results (each step needs a degree of freedom), so r was lowered from ${asked} to ${r}.`)
+  if (n < GESD_ACCURATE_N) notes.push(`With fewer than ${GESD_ACCURATE_N} results the critical values are approximate.`)
+
+  // R is a ratio: tamed values give the same R without overflowing (lib/moments.ts).
+  let remaining = tameScale(xs).values.map((value, index) => ({ value, index }))
+  const steps: GesdStep[] = []
+  for (let i = 1; i <= r; i++) {
+    const vals = remaining.map((v) => v.value)
+    const m = meanOf(vals)
+    const s = sampleSdOf(vals)
+    if (!(s > 0)) {
+      notes.push(i === 1 ? 'All values are equal, so none can be an outlier.' : `After ${i - 1} removal(s) the remaining values are all equal, so the test stops there.`)
+      break
+    }
+    const suspect = remaining.reduce((best, v) => (Math.abs(v.value - m) > Math.abs(best.value - m) ? v : best))
+    steps.push({ step: i, size: remaining.length, index: suspect.index, value: xs[suspect.index]!, R: Math.abs(suspect.value - m) / s, lambda: gesdCritical(n, i, alpha) })
+    remaining = remaining.filter((v) => v !== suspect)
+  }
+  const count = steps.reduce((k, st) => (st.R > st.lambda ? st.step : k), 0)
+  if (count > 0) notes.push(`Step ${count} is the last whose R exceeds its critical value, so the ${count} most extreme result(s) are outliers (up to ${r} tested).`)
+  return { outliers: steps.slice(0, count).map((st) => st.index), steps, count, maxOutliers: r, alpha, note: notes.length ? notes.join(' ') : null }
+}
