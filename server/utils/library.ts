@@ -3,9 +3,10 @@ import type { Expression, ExpressionBuilder, SqlBool } from 'kysely'
 import type { Database, Method, Substrate, SubstrateWindow, WindowKind } from '../database/schema'
 import type { SessionUser } from '#shared/types/auth'
 import type {
-  LibraryProduct, MethodView, StandardPeak, SubstrateDetail, SubstrateListItem, SubstrateWindowView, WindowInput,
+  LibraryProduct, MethodView, ProductNameInput, StandardPeak, SubstrateDetail, SubstrateListItem, SubstrateWindowView, WindowInput,
 } from '#shared/types/library'
 import { REAGENT_HALOGEN } from '#shared/types/library'
+import { builtInProductName } from '#shared/data/product-names'
 import { analyzeSubstrate, canonicalSmiles } from '#shared/utils/halogenation'
 import { depictSubstrate, positionLetter } from '#shared/utils/depiction'
 import { describeOverlap, findWindowOverlaps, windowDisplayName, type NamedTimeWindow } from '#shared/utils/windows'
@@ -89,17 +90,52 @@ export function copyName(name: string): string {
 
 // ── Substrates ──────────────────────────────────────────────────────────────────────────────
 
-/** Chlorination products, lettered as the depiction letters them, each with its bromo twin. */
-export function libraryProducts(smiles: string): LibraryProduct[] {
+/** Chlorination products, lettered as the depiction letters them, each with its bromo twin and their names. */
+export function libraryProducts(smiles: string, nameOf: (smiles: string) => string | null = builtInProductName): LibraryProduct[] {
   const cl = analyzeSubstrate(smiles, { halogen: 'Cl' })
   const br = analyzeSubstrate(smiles, { halogen: 'Br' })
-  return cl.products.map((p, i) => ({
-    label: positionLetter(i),
-    smiles: p.smiles,
-    brominated: (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles,
-    hydrogens: p.hydrogens,
-    carbonClass: p.carbonClass,
-  }))
+  return cl.products.map((p, i) => {
+    const brominated = (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles
+    return {
+      label: positionLetter(i),
+      smiles: p.smiles,
+      brominated,
+      name: nameOf(p.smiles),
+      brominatedName: nameOf(brominated),
+      hydrogens: p.hydrogens,
+      carbonClass: p.carbonClass,
+    }
+  })
+}
+
+/** The same products with names from another source (after the instructor renamed some). */
+export function renameLibraryProducts(products: LibraryProduct[], nameOf: (smiles: string) => string | null): LibraryProduct[] {
+  return products.map((p) => ({ ...p, name: nameOf(p.smiles), brominatedName: nameOf(p.brominated) }))
+}
+
+/**
+ * The names to store for a substrate's products: each SMILES matched to one of its products
+ * (any spelling), no product twice; a name equal to the built-in one, or empty, stores nothing.
+ */
+export function resolveProductNames(names: ProductNameInput[], products: LibraryProduct[], substrateName: string): Array<{ productSmiles: string, name: string }> {
+  const index = productIndex(products)
+  const seen = new Set<string>()
+  const rows: Array<{ productSmiles: string, name: string }> = []
+  names.forEach((n, i) => {
+    const field = `names.${i}.productSmiles`
+    let canonical: string
+    try {
+      canonical = canonicalSmiles(n.productSmiles)
+    } catch {
+      invalid([{ field, message: `“${n.productSmiles}” is not a readable SMILES` }])
+    }
+    if (!index.has(canonical)) invalid([{ field, message: `“${n.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
+    if (seen.has(canonical)) invalid([{ field, message: `${canonical} is named twice` }])
+    seen.add(canonical)
+    const name = n.name.trim()
+    if (name && name !== builtInProductName(canonical)) rows.push({ productSmiles: canonical, name })
+  })
+  return rows
 }
 
 interface ProductRef { position: string, halogen: 'Cl' | 'Br', smiles: string }
@@ -205,12 +241,14 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
       .where('standardRuns.substrateId', '=', row.id).orderBy('standardRuns.createdAt', 'desc').orderBy('standardRuns.id', 'desc').execute(),
     libraryUsage('substrates', [row.id]),
   ])
-  const products = libraryProducts(row.smiles)
+  const [nameOf, references] = await Promise.all([substrateProductNamer(db, row.id), substrateReferenceViews(row.id)])
+  const products = libraryProducts(row.smiles, nameOf)
   return {
     ...toSubstrateListItem(row, me, { windowCount: windows.length, usedBy: usage.get(row.id) ?? 0 }),
     notes: row.notes,
     source: row.source,
     products,
+    references,
     windows: windows.map((w) => windowView(w, products)),
     depictionSvg: depictSubstrate(row.smiles, { idPrefix: `substrate-${row.id}` }),
     standardRuns: runs.map((r) => ({
