@@ -143,7 +143,6 @@ export function driftFlags(slots: readonly DriftSlot[], outcome: DriftOutcome, e
   }
   const shifts: number[] = outcome.drifted.map((d) => d.minutes)
   for (const s of slots) {
-    if (!s.product) continue
     const margin = edgeFraction * (s.window.rtMax - s.window.rtMin)
     for (const p of s.peaks) {
       if (outcome.drifted.some((d) => d.peak === p)) continue
