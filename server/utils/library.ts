@@ -108,6 +108,15 @@ export function libraryProducts(smiles: string, nameOf: (smiles: string) => stri
   })
 }
 
+/** A client's SMILES for a product in canonical form, or a 400 naming the field. */
+export function canonicalOrInvalid(smiles: string, field: string): string {
+  try {
+    return canonicalSmiles(smiles)
+  } catch {
+    invalid([{ field, message: `“${smiles}” is not a readable SMILES` }])
+  }
+}
+
 /** The same products with names from another source (after the instructor renamed some). */
 export function renameLibraryProducts(products: LibraryProduct[], nameOf: (smiles: string) => string | null): LibraryProduct[] {
   return products.map((p) => ({ ...p, name: nameOf(p.smiles), brominatedName: nameOf(p.brominated) }))
@@ -123,12 +132,7 @@ export function resolveProductNames(names: ProductNameInput[], products: Library
   const rows: Array<{ productSmiles: string, name: string }> = []
   names.forEach((n, i) => {
     const field = `names.${i}.productSmiles`
-    let canonical: string
-    try {
-      canonical = canonicalSmiles(n.productSmiles)
-    } catch {
-      invalid([{ field, message: `“${n.productSmiles}” is not a readable SMILES` }])
-    }
+    const canonical = canonicalOrInvalid(n.productSmiles, field)
     if (!index.has(canonical)) invalid([{ field, message: `“${n.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
     if (seen.has(canonical)) invalid([{ field, message: `${canonical} is named twice` }])
     seen.add(canonical)
@@ -184,12 +188,7 @@ export function resolveWindows(windows: Array<WindowInput & { responseFactor: nu
     const field = `windows.${i}.productSmiles`
     let ref: ProductRef | undefined
     if (w.kind === 'product') {
-      let canonical: string
-      try {
-        canonical = canonicalSmiles(w.productSmiles!)
-      } catch {
-        invalid([{ field, message: `“${w.productSmiles}” is not a readable SMILES` }])
-      }
+      const canonical = canonicalOrInvalid(w.productSmiles!, field)
       ref = index.get(canonical)
       if (!ref) invalid([{ field, message: `“${w.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
       if (seen.has(ref.smiles)) invalid([{ field, message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])

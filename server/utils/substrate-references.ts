@@ -2,7 +2,7 @@ import { sql } from 'kysely'
 import type { SessionUser } from '#shared/types/auth'
 import type { Substrate } from '../database/schema'
 import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput, type ReferenceView } from '#shared/types/library'
-import { analyzeSubstrate, canonicalSmiles } from '#shared/utils/halogenation'
+import { analyzeSubstrate } from '#shared/utils/halogenation'
 
 // Reference distributions of a substrate: what its product mixture really looks like with one
 // reagent family, read by the library page, written by its owner, and filled from the course's
@@ -28,12 +28,7 @@ export function resolveReferencePercents(input: Pick<ReferenceInput, 'percents'>
   const seen = new Map<string, number>()
   const rows = input.percents.map((p, i) => {
     const field = `percents.${i}.productSmiles`
-    let smiles: string
-    try {
-      smiles = canonicalSmiles(p.productSmiles)
-    } catch {
-      invalid([{ field, message: `“${p.productSmiles}” is not a readable SMILES` }])
-    }
+    const smiles = canonicalOrInvalid(p.productSmiles, field)
     if (!products.includes(smiles)) invalid([{ field, message: `“${p.productSmiles}” is not a product of ${substrate.name} with this reagent` }])
     if (seen.has(smiles)) invalid([{ field, message: `${smiles} is listed twice (rows ${seen.get(smiles)! + 1} and ${i + 1})` }])
     seen.set(smiles, i)
