@@ -139,16 +139,19 @@ export const STATUS_TONES: Record<SubmissionStatusName, BadgeTone> = {
   returned: 'warning',
 }
 
-interface ProductLabel { smiles: string, label: string }
+interface ProductLabel { smiles: string, label: string, name?: string | null }
 
-/** What a peak was assigned to, in words ("product b", "solvent", "unassigned"), with the product's SMILES. */
-export function peakAssignment(assignedTo: string | null, products: ProductLabel[]): { label: string, smiles: string | null, tone: BadgeTone } {
-  if (assignedTo === null) return { label: 'unassigned', smiles: null, tone: 'warning' }
-  if (assignedTo === 'solvent') return { label: 'solvent', smiles: null, tone: 'neutral' }
-  if (assignedTo === 'starting-material') return { label: 'starting material', smiles: null, tone: 'neutral' }
+/** What a peak was assigned to, in words ("product b", "solvent", "unassigned"), with the product's name and SMILES. */
+export function peakAssignment(assignedTo: string | null, products: ProductLabel[]): { label: string, name: string | null, smiles: string | null, tone: BadgeTone } {
+  if (assignedTo === null) return { label: 'unassigned', name: null, smiles: null, tone: 'warning' }
+  if (assignedTo === 'solvent') return { label: 'solvent', name: null, smiles: null, tone: 'neutral' }
+  if (assignedTo === 'starting-material') return { label: 'starting material', name: null, smiles: null, tone: 'neutral' }
   const product = products.find((p) => p.smiles === assignedTo)
-  return { label: product ? `product ${product.label}` : 'product', smiles: assignedTo, tone: 'ok' }
+  return { label: product ? `product ${product.label}` : 'product', name: product?.name ?? null, smiles: assignedTo, tone: 'ok' }
 }
+
+/** "1,3-dichlorobutane (CC(CCCl)Cl)" for text where a component cannot go (chart labels, CSV). */
+export const productText = (p: { name?: string | null, smiles: string }) => (p.name ? `${p.name} (${p.smiles})` : p.smiles)
 
 const number = (digits: number) => new Intl.NumberFormat('en', { minimumFractionDigits: digits, maximumFractionDigits: digits })
 export const formatPercent = (value: number | null | undefined, digits = 1) => (typeof value === 'number' && Number.isFinite(value) ? `${number(digits).format(value)} %` : '—')

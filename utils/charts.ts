@@ -13,9 +13,10 @@ export function useCharts() {
   }
 }
 
-/** One colour per series, distinct in greyscale too (light, mid, dark). */
+/** One colour per series, distinct in greyscale too (light, mid-light, mid, dark). */
 export const SERIES_COLOURS = {
   statistical: '#BCCDDC',
+  reference: '#D08A2E',
   predicted: '#147268',
   observed: '#0B1A2B',
   accent: '#BCD22F',

@@ -1,6 +1,7 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
 import type { StockroomTables } from './schema-stockroom'
 import type { DigestTables } from './schema-digests'
+import type { LibraryDataTables } from './schema-library'
 
 // Timestamps come back from pg as Date and go in as Date or ISO text.
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -326,7 +327,7 @@ export interface ReviewsTable {
   createdAt: CreatedAt
 }
 
-export interface Database extends StockroomTables, DigestTables {
+export interface Database extends StockroomTables, DigestTables, LibraryDataTables {
   submissions: SubmissionsTable
   submissionMembers: SubmissionMembersTable
   reviews: ReviewsTable

@@ -40,7 +40,7 @@ export interface DigestContext {
   methodName: string
   keyFactor: ResultsKeyFactor
   literature: number | null
-  products: Array<{ smiles: string, label: string }>
+  products: Array<{ smiles: string, label: string, name: string | null }>
   /** Class mean mole % per product (included results). */
   classMolePercents: Array<{ smiles: string, percent: number | null }>
   classStats: FactorStats | null
@@ -164,7 +164,7 @@ export async function loadDigestContext(scope: PracticalScope, sectionId: number
     methodName: names.method,
     keyFactor: key,
     literature: summary.literature[key],
-    products: chemistry.products.map((p) => ({ smiles: p.smiles, label: p.label })),
+    products: chemistry.products.map((p) => ({ smiles: p.smiles, label: p.label, name: p.name })),
     classMolePercents: summary.distribution.map((d) => ({ smiles: d.smiles, percent: d.observed })),
     classStats,
     sectionStats,

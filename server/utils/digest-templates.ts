@@ -69,8 +69,11 @@ function placement(value: number, own: number | null, stats: FactorStats | null,
   return lines
 }
 
+/** "b, 1,3-dichlorobutane (CC(CCCl)Cl)": the letter, then the name, the SMILES beside it. */
+const digestProduct = (p: DigestContext['products'][number]) => `${p.label}, ${p.name ? `${p.name} (${p.smiles})` : p.smiles}`
+
 function molePercentText(ctx: DigestContext, mole: Array<{ smiles: string, percent: number | null }>): string[] {
-  return ctx.products.map((p) => `${p.label} (${p.smiles}): ${digestNumber(mole.find((m) => m.smiles === p.smiles)?.percent ?? null, 1)} %`)
+  return ctx.products.map((p) => `${digestProduct(p)}: ${digestNumber(mole.find((m) => m.smiles === p.smiles)?.percent ?? null, 1)} %`)
 }
 
 const HTML_CELL = 'style="border:1px solid #D6D0C2;padding:4px 8px;text-align:left;vertical-align:top"'
@@ -137,7 +140,7 @@ export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecip
   ].join(''))
 
   // The headline figure first, as in the text; the arithmetic mean after the median.
-  const header = ['Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature', 'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${p.label}`)]
+  const header = ['Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature', 'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${digestProduct(p)}`)]
   const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] => {
     const h = s?.headline
     return [name, label, s?.n ?? 0, h?.statistic ? HEADLINE_LABELS[h.statistic] : null, digestCell(h?.value), digestCell(h?.ci95?.[0]), digestCell(h?.ci95?.[1]),
@@ -200,7 +203,7 @@ export function staffDigestTemplate(ctx: DigestContext, recipient: DigestRecipie
     `<p style="color:#3A5671">Halocline, for ${escapeHtml(ctx.course.code)}</p>`,
   ].join(''))
 
-  const csvHeader = ['Station', 'Students', 'Version', 'Status', `${label} selectivity`, ...ctx.products.map((p) => `mol % ${p.label} (${p.smiles})`), 'Flags', 'Late', 'Excluded', 'Exclusion reason']
+  const csvHeader = ['Station', 'Students', 'Version', 'Status', `${label} selectivity`, ...ctx.products.map((p) => `mol % ${digestProduct(p)}`), 'Flags', 'Late', 'Excluded', 'Exclusion reason']
   const csvRows: CsvCell[][] = ctx.units.map((u, i) => {
     const v = u.latest
     return [u.station, rows[i]!.students, v?.version ?? null, rows[i]!.status, digestCell(v?.factor),

@@ -3,9 +3,10 @@ import type { Expression, ExpressionBuilder, SqlBool } from 'kysely'
 import type { Database, Method, Substrate, SubstrateWindow, WindowKind } from '../database/schema'
 import type { SessionUser } from '#shared/types/auth'
 import type {
-  LibraryProduct, MethodView, StandardPeak, SubstrateDetail, SubstrateListItem, SubstrateWindowView, WindowInput,
+  LibraryProduct, MethodView, ProductNameInput, StandardPeak, SubstrateDetail, SubstrateListItem, SubstrateWindowView, WindowInput,
 } from '#shared/types/library'
 import { REAGENT_HALOGEN } from '#shared/types/library'
+import { builtInProductName } from '#shared/data/product-names'
 import { analyzeSubstrate, canonicalSmiles } from '#shared/utils/halogenation'
 import { depictSubstrate, positionLetter } from '#shared/utils/depiction'
 import { describeOverlap, findWindowOverlaps, windowDisplayName, type NamedTimeWindow } from '#shared/utils/windows'
@@ -89,17 +90,56 @@ export function copyName(name: string): string {
 
 // ── Substrates ──────────────────────────────────────────────────────────────────────────────
 
-/** Chlorination products, lettered as the depiction letters them, each with its bromo twin. */
-export function libraryProducts(smiles: string): LibraryProduct[] {
+/** Chlorination products, lettered as the depiction letters them, each with its bromo twin and their names. */
+export function libraryProducts(smiles: string, nameOf: (smiles: string) => string | null = builtInProductName): LibraryProduct[] {
   const cl = analyzeSubstrate(smiles, { halogen: 'Cl' })
   const br = analyzeSubstrate(smiles, { halogen: 'Br' })
-  return cl.products.map((p, i) => ({
-    label: positionLetter(i),
-    smiles: p.smiles,
-    brominated: (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles,
-    hydrogens: p.hydrogens,
-    carbonClass: p.carbonClass,
-  }))
+  return cl.products.map((p, i) => {
+    const brominated = (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles
+    return {
+      label: positionLetter(i),
+      smiles: p.smiles,
+      brominated,
+      name: nameOf(p.smiles),
+      brominatedName: nameOf(brominated),
+      hydrogens: p.hydrogens,
+      carbonClass: p.carbonClass,
+    }
+  })
+}
+
+/** A client's SMILES for a product in canonical form, or a 400 naming the field. */
+export function canonicalOrInvalid(smiles: string, field: string): string {
+  try {
+    return canonicalSmiles(smiles)
+  } catch {
+    invalid([{ field, message: `“${smiles}” is not a readable SMILES` }])
+  }
+}
+
+/** The same products with names from another source (after the instructor renamed some). */
+export function renameLibraryProducts(products: LibraryProduct[], nameOf: (smiles: string) => string | null): LibraryProduct[] {
+  return products.map((p) => ({ ...p, name: nameOf(p.smiles), brominatedName: nameOf(p.brominated) }))
+}
+
+/**
+ * The names to store for a substrate's products: each SMILES matched to one of its products
+ * (any spelling), no product twice; a name equal to the built-in one, or empty, stores nothing.
+ */
+export function resolveProductNames(names: ProductNameInput[], products: LibraryProduct[], substrateName: string): Array<{ productSmiles: string, name: string }> {
+  const index = productIndex(products)
+  const seen = new Set<string>()
+  const rows: Array<{ productSmiles: string, name: string }> = []
+  names.forEach((n, i) => {
+    const field = `names.${i}.productSmiles`
+    const canonical = canonicalOrInvalid(n.productSmiles, field)
+    if (!index.has(canonical)) invalid([{ field, message: `“${n.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
+    if (seen.has(canonical)) invalid([{ field, message: `${canonical} is named twice` }])
+    seen.add(canonical)
+    const name = n.name.trim()
+    if (name && name !== builtInProductName(canonical)) rows.push({ productSmiles: canonical, name })
+  })
+  return rows
 }
 
 interface ProductRef { position: string, halogen: 'Cl' | 'Br', smiles: string }
@@ -148,12 +188,7 @@ export function resolveWindows(windows: Array<WindowInput & { responseFactor: nu
     const field = `windows.${i}.productSmiles`
     let ref: ProductRef | undefined
     if (w.kind === 'product') {
-      let canonical: string
-      try {
-        canonical = canonicalSmiles(w.productSmiles!)
-      } catch {
-        invalid([{ field, message: `“${w.productSmiles}” is not a readable SMILES` }])
-      }
+      const canonical = canonicalOrInvalid(w.productSmiles!, field)
       ref = index.get(canonical)
       if (!ref) invalid([{ field, message: `“${w.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
       if (seen.has(ref.smiles)) invalid([{ field, message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])
@@ -205,12 +240,14 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
       .where('standardRuns.substrateId', '=', row.id).orderBy('standardRuns.createdAt', 'desc').orderBy('standardRuns.id', 'desc').execute(),
     libraryUsage('substrates', [row.id]),
   ])
-  const products = libraryProducts(row.smiles)
+  const [nameOf, references] = await Promise.all([substrateProductNamer(db, row.id), substrateReferenceViews(row.id)])
+  const products = libraryProducts(row.smiles, nameOf)
   return {
     ...toSubstrateListItem(row, me, { windowCount: windows.length, usedBy: usage.get(row.id) ?? 0 }),
     notes: row.notes,
     source: row.source,
     products,
+    references,
     windows: windows.map((w) => windowView(w, products)),
     depictionSvg: depictSubstrate(row.smiles, { idPrefix: `substrate-${row.id}` }),
     standardRuns: runs.map((r) => ({

@@ -194,7 +194,7 @@ export async function procedureCard(scope: PracticalScope): Promise<ProcedureCar
     substrate: { name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density },
     method: methodSummary(method),
     quantities: computeQuantities(items),
-    products: expectedProducts(substrate.smiles, method, windowRows),
+    products: expectedProducts(substrate.smiles, method, windowRows, await substrateProductNamer(db, substrate.id)),
     referenceWindows,
     dueAt: dueAtFor(scope, sessions),
     hazards: hazardsForReagent(method.reagent),

@@ -53,15 +53,15 @@ async function unitReviews(versionIds: number[]): Promise<ReviewView[]> {
   }))
 }
 
-export function accuracySuggestionFor(scope: ReviewerScope, observed: number | null, literature: number | null): AccuracySuggestionView {
+export function accuracySuggestionFor(scope: ReviewerScope, observed: number | null, expected: number | null, comparedWith: string): AccuracySuggestionView {
   const tolerancePercent = scope.course.accuracyTolerancePercent
   const scores: Record<string, number> = {}
   for (const c of scope.course.rubric.filter((r) => r.kind === 'accuracy')) {
-    const points = suggestAccuracyPoints(c, { observed, literature, tolerancePercent })
+    const points = suggestAccuracyPoints(c, { observed, expected, tolerancePercent })
     if (points !== null) scores[c.key] = points
   }
-  const deviationPercent = observed !== null && literature ? (Math.abs(observed - literature) / literature) * 100 : null
-  return { tolerancePercent, observed, literature, deviationPercent, scores }
+  const deviationPercent = observed !== null && expected ? (Math.abs(observed - expected) / expected) * 100 : null
+  return { tolerancePercent, observed, expected, comparedWith, deviationPercent, scores }
 }
 
 export async function buildSubmissionDetail(scope: ReviewerScope, submission: Submission, compareId?: number): Promise<SubmissionDetail> {
@@ -111,10 +111,11 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     attention,
     outliers: queue.outliers.run,
     distribution: chemistry.products.map((p) => ({
-      smiles: p.smiles, label: p.label, carbonClass: p.carbonClass, hydrogens: p.hydrogens,
+      smiles: p.smiles, label: p.label, name: p.name, carbonClass: p.carbonClass, hydrogens: p.hydrogens,
       observed: result.molePercents.find((m) => m.smiles === p.smiles)?.percent ?? null,
       statistical: chemistry.statistical.find((m) => m.smiles === p.smiles)?.percent ?? 0,
       predicted: chemistry.predicted.find((m) => m.smiles === p.smiles)?.percent ?? 0,
+      reference: referenceShare(chemistry, p.smiles),
     })),
     windows: chemistry.windows.map((w) => ({ productSmiles: w.productSmiles, rtMin: w.rtMin, rtMax: w.rtMax })),
     referenceWindows: [
@@ -128,7 +129,7 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     diff: chosenDiff(versions, current, compareId, labels),
     reviews: await unitReviews(versions.map((v) => v.id)),
     rubric: scope.course.rubric,
-    suggestion: accuracySuggestionFor(scope, observed, chemistry.literature[key]),
+    suggestion: accuracySuggestionFor(scope, observed, chemistry.expected.factors[key], chemistry.expected.description),
     excluded: submission.excludedAt ? { at: submission.excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' } : null,
     nextPendingId: nextPendingAfter(queue.rows, submission.id),
     pendingCount: queue.rows.filter((r) => r.status === 'pending').length,

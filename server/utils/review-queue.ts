@@ -1,3 +1,4 @@
+import type { PracticalChemistry } from '#shared/utils/submission'
 import type { H3Event } from 'h3'
 import type { ReviewerScope } from './review-scope'
 import type { SessionUser } from '#shared/types/auth'
@@ -149,14 +150,16 @@ export function nextPendingAfter(rows: QueueRow[], currentId: number): number | 
 }
 
 /** The practical as the review pages show it. */
-export function queuePracticalOf(scope: ReviewerScope, chemistry: { keyFactor: ReviewFactorKey, literature: Record<ReviewFactorKey, number | null> }): QueuePractical {
+export function queuePracticalOf(scope: ReviewerScope, chemistry: Pick<PracticalChemistry, 'keyFactor' | 'expected'>): QueuePractical {
   return {
     id: scope.practical.id,
     title: scope.practical.title,
     course: { id: scope.course.id, code: scope.course.code, title: scope.course.title },
     timezone: scope.course.timezone,
     keyFactor: chemistry.keyFactor,
-    literature: chemistry.literature[chemistry.keyFactor],
+    expected: chemistry.expected.factors[chemistry.keyFactor],
+    comparedWith: chemistry.expected.description,
+    expectedBasis: chemistry.expected.basis,
     releasePolicy: scope.course.releasePolicy,
     resultsReleasedAt: scope.practical.resultsReleasedAt?.toISOString() ?? null,
   }

@@ -104,7 +104,7 @@ export async function acceptCleanInBulk(event: H3Event, scope: ReviewerScope, id
     const row = byId.get(id)
     const skip = bulkSkipReason(row)
     if (skip) { result.skipped.push({ id, reason: skip }); continue }
-    const scores = startingScores(rubric, { observed: row!.keyFactor, literature: chemistry.literature[chemistry.keyFactor], tolerancePercent: scope.course.accuracyTolerancePercent }, given)
+    const scores = startingScores(rubric, { observed: row!.keyFactor, expected: chemistry.expected.factors[chemistry.keyFactor], tolerancePercent: scope.course.accuracyTolerancePercent }, given)
     if (rubricScoreIssues(rubric, scores, { requireAll: true }).length) { result.skipped.push({ id, reason: 'No selectivity to score accuracy from: review it on its own' }); continue }
     chosen.push({ id, scores })
   }

@@ -1,7 +1,7 @@
 import type { H3Event } from 'h3'
 import type { PracticalScope } from './access'
 import type { ReleasePolicy, RubricCriterion } from '../database/schema'
-import type { FlagView, PeakView, StoredResult, SubmissionStatusName } from '#shared/types/submission'
+import type { ExpectationView, FlagView, PeakView, ProductView, StoredResult, SubmissionStatusName } from '#shared/types/submission'
 
 // A student's own GC results for one practical: every version of their work unit (the pair's,
 // for pair work), newest first, with what the reviewers decided. Scores and comments follow the
@@ -63,12 +63,15 @@ export interface MySubmissionsView {
   closedReason: string | null
   releasePolicy: ReleasePolicy
   chemistry: {
-    products: Array<{ smiles: string, label: string, hydrogens: number, carbonClass: 'primary' | 'secondary' | 'tertiary' }>
+    products: Array<ProductView & { carbonClass: 'primary' | 'secondary' | 'tertiary' }>
     predicted: Array<{ smiles: string, percent: number }>
     statistical: Array<{ smiles: string, percent: number }>
     windows: Array<{ productSmiles: string, rtMin: number, rtMax: number, responseFactor: number }>
     keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
     literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
+    expected: ExpectationView
+    /** "dichlorides", "monobromides": what the products are, for the conversion's wording. */
+    productKind: string
   }
   versions: MyVersionView[]
 }
@@ -161,6 +164,8 @@ export async function mySubmissionsOf(event: H3Event, scope: PracticalScope): Pr
       windows: chemistry.windows,
       keyFactor: chemistry.keyFactor,
       literature: chemistry.literature,
+      expected: expectationView(chemistry),
+      productKind: chemistry.productKind,
     },
     versions: rows.map((row) => {
       const review = reviews.get(row.id)

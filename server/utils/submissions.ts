@@ -89,6 +89,8 @@ export function previewOf(run: RunResult, chemistry: Awaited<ReturnType<typeof p
     predicted: chemistry.predicted,
     statistical: chemistry.statistical,
     products: chemistry.products,
+    expected: expectationView(chemistry),
+    productKind: chemistry.productKind,
     late,
   }
 }

@@ -55,9 +55,11 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
     return {
       smiles: p.smiles,
       label: p.label,
+      name: p.name,
       observed: xs.length ? xs.reduce((a, b) => a + b, 0) / xs.length : null,
       predicted: chemistry.predicted.find((x) => x.smiles === p.smiles)?.percent ?? 0,
       statistical: chemistry.statistical.find((x) => x.smiles === p.smiles)?.percent ?? 0,
+      reference: referenceShare(chemistry, p.smiles),
     }
   })
   const factors = factorSet(included, settings, has, withoutOutliers)
@@ -75,5 +77,6 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
     literature: chemistry.literature,
     withoutOutliers,
     distribution,
+    comparison: { basis: chemistry.expected.basis, description: chemistry.expected.description, factors: chemistry.expected.factors },
   }
 }

@@ -75,8 +75,17 @@ export const windowInputSchema = z.object({
 })
 export type WindowInput = z.input<typeof windowInputSchema>
 
+/** A product's name as the instructor types it; empty means "use the built-in name, if any". */
+export const productNameSchema = z.object({
+  productSmiles: smiles,
+  name: z.string().trim().max(120, 'At most 120 characters'),
+})
+export type ProductNameInput = z.input<typeof productNameSchema>
+
 export const windowsInputSchema = z.object({
   windows: z.array(windowInputSchema).max(80, 'At most 80 windows'),
+  /** Names of the substrate's products (chloro and bromo), saved with the windows; absent leaves them as they are. */
+  names: z.array(productNameSchema).max(80, 'At most 80 names').optional(),
 }).superRefine(({ windows }, ctx) => {
   for (const kind of ['solvent', 'starting-material'] as const) {
     const extra = windows.findIndex((w, i) => w.kind === kind && windows.findIndex((o) => o.kind === kind) !== i)
@@ -94,6 +103,9 @@ export interface LibraryProduct {
   smiles: string
   /** Canonical SMILES of the monobromination product at the same position. */
   brominated: string
+  /** Names of the two products: the instructor's, else the built-in IUPAC name; null when neither. */
+  name: string | null
+  brominatedName: string | null
   hydrogens: number
   carbonClass: CarbonClassKey
 }
@@ -159,6 +171,8 @@ export interface SubstrateDetail extends SubstrateListItem {
   notes: string
   source: string
   products: LibraryProduct[]
+  /** Reference distributions, one per reagent family at most. */
+  references: ReferenceView[]
   windows: SubstrateWindowView[]
   depictionSvg: string
   standardRuns: StandardRunView[]
@@ -261,3 +275,61 @@ export interface MethodView {
 }
 
 export const CARBON_CLASS_SHORT: Record<CarbonClassKey, string> = { primary: '1°', secondary: '2°', tertiary: '3°' }
+
+// ── Reference distributions ───────────────────────────────────────────────────────────────
+
+export const REFERENCE_SOURCE_KINDS = ['published', 'from-memory', 'course-results', 'other'] as const
+export type ReferenceSourceKindName = (typeof REFERENCE_SOURCE_KINDS)[number]
+export const REFERENCE_SOURCE_KIND_LABELS: Record<ReferenceSourceKindName, string> = {
+  'published': 'Published (paper, handbook)',
+  'from-memory': 'Recalled from memory',
+  'course-results': 'This course’s own earlier results',
+  'other': 'Other',
+}
+
+export const referenceParamsSchema = z.object({
+  id: z.coerce.number().int().positive(),
+  reagent: z.enum(METHOD_REAGENTS, { error: 'Not a reagent family' }),
+})
+
+/** Percentages must add up to 100 within this many points (rounded figures, means of runs). */
+export const REFERENCE_SUM_TOLERANCE = 1
+
+export const referenceInputSchema = z.object({
+  percents: z.array(z.object({
+    productSmiles: smiles,
+    percent: z.number({ error: 'Enter the mol % as a number' }).finite().min(0, 'Must be 0 % or more').max(100, 'At most 100 %'),
+  })).min(1, 'Give the mol % of each product').max(40, 'At most 40 products'),
+  source: z.string().trim().min(1, 'Say where the distribution comes from (a paper, the course’s earlier results, or “from memory”)').max(500, 'At most 500 characters'),
+  sourceKind: z.enum(REFERENCE_SOURCE_KINDS, { error: 'Choose what kind of source it is' }),
+}).superRefine((value, ctx) => {
+  const sum = value.percents.reduce((s, p) => s + p.percent, 0)
+  if (Math.abs(sum - 100) > REFERENCE_SUM_TOLERANCE) ctx.addIssue({ code: 'custom', path: ['percents'], message: `The percentages add up to ${sum.toFixed(1)} %; make them add up to 100 %` })
+})
+export type ReferenceInput = z.input<typeof referenceInputSchema>
+
+export interface ReferenceView {
+  reagent: LibraryReagent
+  halogen: 'Cl' | 'Br'
+  percents: Array<{ smiles: string, percent: number }>
+  source: string
+  sourceKind: ReferenceSourceKindName
+  updatedBy: string | null
+  updatedAt: string
+}
+
+/** A practical whose accepted results can fill a reference distribution. */
+export interface ReferenceCandidate {
+  practicalId: number
+  title: string
+  courseCode: string
+  term: string
+  reagent: LibraryReagent
+  methodName: string
+  /** Accepted results counted (each work unit's latest accepted version, not excluded). */
+  n: number
+  /** Mean mol % per product over those results. */
+  percents: Array<{ smiles: string, percent: number }>
+  /** A source line to start from. */
+  source: string
+}

@@ -105,7 +105,11 @@ export interface QueuePractical {
   /** The course's IANA zone: times are shown in it, the same on server and browser. */
   timezone: string
   keyFactor: ReviewFactorKey
-  literature: number | null
+  /** The key factor runs are judged against (reference distribution, else the class model). */
+  expected: number | null
+  /** "the reference distribution from …" or "the class model (1° : 2° : 3° per H) …". */
+  comparedWith: string
+  expectedBasis: 'reference' | 'class-model'
   releasePolicy: 'on-review' | 'after-due' | 'manual'
   resultsReleasedAt: string | null
 }
@@ -183,7 +187,10 @@ export interface RubricView {
 export interface AccuracySuggestionView {
   tolerancePercent: number
   observed: number | null
-  literature: number | null
+  /** The expected key factor the score is judged against. */
+  expected: number | null
+  /** What that value comes from, to follow "compared with". */
+  comparedWith: string
   deviationPercent: number | null
   /** Suggested points per accuracy criterion key (absent: no suggestion possible). */
   scores: Record<string, number>
@@ -192,11 +199,16 @@ export interface AccuracySuggestionView {
 export interface DistributionRow {
   smiles: string
   label: string
+  /** The product's name, shown before its SMILES; null when none is known. */
+  name: string | null
   carbonClass: string
   hydrogens: number
   observed: number | null
   statistical: number
+  /** The class model's share (n·r per class). */
   predicted: number
+  /** The substrate's reference distribution for the reagent; null when it has none. */
+  reference: number | null
 }
 
 export interface SubmissionDetail {

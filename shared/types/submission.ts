@@ -51,6 +51,25 @@ export interface StoredResult extends ResultView {
   keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
 }
 
+/** What a run is judged against, as pages show it (see `Expectation` in shared/utils/submission.ts). */
+export interface ExpectationView {
+  basis: 'reference' | 'class-model'
+  /** To follow "compared with": "the reference distribution from …", "the class model (1° : 2° : 3° per H) …". */
+  description: string
+  percents: Array<{ smiles: string, percent: number }>
+  factors: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
+}
+
+export interface ProductView {
+  smiles: string
+  /** Position letter, as in the depiction. */
+  label: string
+  /** The product's name ("1,3-dichlorobutane"), shown before the SMILES; null when none is known. */
+  name: string | null
+  hydrogens: number
+  carbonClass: string
+}
+
 /** A preview is the same computation, nothing stored. */
 export interface SubmissionPreview extends ResultView {
   kind: 'peak-table' | 'trace'
@@ -62,7 +81,10 @@ export interface SubmissionPreview extends ResultView {
   warnings: string[]
   predicted: Array<{ smiles: string, percent: number }>
   statistical: Array<{ smiles: string, percent: number }>
-  products: Array<{ smiles: string, label: string, hydrogens: number, carbonClass: string }>
+  products: ProductView[]
+  expected: ExpectationView
+  /** What the product mixture is made of, for the conversion's wording ("dichlorides"). */
+  productKind: string
   late: boolean
 }
 

@@ -63,6 +63,16 @@ export interface PracticalSummary {
   keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
   literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
   withoutOutliers: boolean
-  /** Mean mole % per product over the included results, for observed vs predicted charts. */
-  distribution: Array<{ smiles: string, label: string, observed: number | null, predicted: number, statistical: number }>
+  /** Mean mole % per product over the included results, for observed vs predicted charts; `reference` is null without a reference distribution. */
+  distribution: Array<{ smiles: string, label: string, name: string | null, observed: number | null, predicted: number, statistical: number, reference: number | null }>
+  /** What the class is compared with: the substrate's reference distribution for the reagent, or the class model. */
+  comparison: ComparisonView
+}
+
+export interface ComparisonView {
+  basis: 'reference' | 'class-model'
+  /** To follow "compared with": "the reference distribution from …", "the class model (1° : 2° : 3° per H) …". */
+  description: string
+  /** The key factor of that expectation. */
+  factors: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
 }

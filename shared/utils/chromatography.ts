@@ -1,6 +1,7 @@
 // GC results to mole fractions: peak tables and raw traces in, products' mole % and flags out.
 // Method: PRODUCT.md, "GC peak tables → mole fractions". Pure: no I/O, no clock.
 import { MAX_PEAK_AREA, MAX_RETENTION_MINUTES, type Peak, type RowError } from './lib/peak-table'
+import { DEFAULT_DRIFT_TOLERANCE, driftFlags, rescueDriftedPeaks, type DriftSlot, type DriftTolerance } from './lib/retention-drift'
 
 export { parsePeakTable, MAX_PEAK_ROWS, MAX_TABLE_BYTES, SECONDS_THRESHOLD, MAX_PEAK_AREA, MAX_RETENTION_MINUTES } from './lib/peak-table'
 export type { Peak, RowError, ParseErrorCode, ParsedPeakTable, PeakTableOptions, TableMeta } from './lib/peak-table'
@@ -8,9 +9,13 @@ export { parseTrace, sniffUpload, MIN_TRACE_POINTS, MAX_TRACE_POINTS } from './l
 export type { ParsedTrace, TraceOptions, UploadSniff } from './lib/trace-table'
 export { detectPeaks, TraceError } from './lib/peak-detection'
 export type { DetectedPeak, DetectPeaksOptions, DetectPeaksResult, Trace } from './lib/peak-detection'
+export { DEFAULT_DRIFT_TOLERANCE, driftReach } from './lib/retention-drift'
+export type { DriftTolerance } from './lib/retention-drift'
 
 export interface ProductWindow {
   productSmiles: string
+  /** The product's name for messages ("1,3-dichlorobutane"); the SMILES is shown beside it. */
+  name?: string | null
   rtMin: number
   rtMax: number
   /** Relative response factor; corrected area = area / responseFactor. Default 1. */
@@ -30,6 +35,8 @@ export interface AssignOptions {
   unassignedThresholdPercent?: number
   /** Share of a window's width at each edge where a peak counts as drifting. */
   edgeFraction?: number
+  /** How far outside an empty product window a lone peak is still taken as that product, drifted. */
+  driftTolerance?: Partial<DriftTolerance>
   /** Allowed deviation of the area % column's sum from 100. */
   areaPercentTolerance?: number
 }
@@ -57,6 +64,8 @@ export interface AssignedProduct {
   /** Retention time of the largest peak in the window, null when the window is empty. */
   retentionTime: number | null
   peaks: Peak[]
+  /** Minutes outside the window of a peak taken as drifted (+ later, − earlier); null when none was. */
+  driftMinutes: number | null
 }
 
 export interface ReferencePeakGroup {
@@ -73,7 +82,7 @@ export interface AssignmentResult {
   unassigned: (Peak & { percentOfTotal: number })[]
   /** Percent of all non-solvent area that fell in no window. */
   unassignedPercent: number
-  /** Percent of starting material converted to monohalides, when it has a window and response factor. */
+  /** Percent of starting material converted to products, when it has a window and response factor. */
   conversion: number | null
   flags: Flag[]
 }
@@ -97,31 +106,18 @@ function checkWindow(w: ReferenceWindow, what: string): void {
   }
 }
 
-interface Slot { key: string, name: string, window: ReferenceWindow, peaks: Peak[] }
+type Slot = DriftSlot
+
+/** "1,3-dichlorobutane (CC(Cl)CCCl)" when the window names its product, else the SMILES alone. */
+export function windowProductLabel(w: Pick<ProductWindow, 'productSmiles' | 'name'>): string {
+  return w.name ? `${w.name} (${w.productSmiles})` : w.productSmiles
+}
 
 function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: boolean } {
   const inside = slots.filter(s => rt >= s.window.rtMin && rt <= s.window.rtMax)
   if (inside.length === 0) return { slot: null, ambiguous: false }
   const centre = (s: Slot) => Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
   return { slot: inside.sort((a, b) => centre(a) - centre(b))[0]!, ambiguous: inside.length > 1 }
-}
-
-function driftFlags(slots: Slot[], unassigned: Peak[], edge: number): Flag[] {
-  const flags: Flag[] = []
-  for (const s of slots) {
-    const margin = edge * (s.window.rtMax - s.window.rtMin)
-    for (const p of s.peaks) {
-      if (p.retentionTime - s.window.rtMin < margin || s.window.rtMax - p.retentionTime < margin) {
-        flags.push({ code: 'retention-drift', severity: 'info', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min sits at the edge of the window for ${s.name} (${fmt(s.window.rtMin)}–${fmt(s.window.rtMax)} min); retention times may have drifted, so compare with the standard run.` })
-      }
-    }
-    for (const p of unassigned) {
-      if (p.retentionTime >= s.window.rtMin - margin && p.retentionTime <= s.window.rtMax + margin) {
-        flags.push({ code: 'retention-drift', severity: 'warning', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min lies just outside the window for ${s.name} (${fmt(s.window.rtMin)}–${fmt(s.window.rtMax)} min) and was not counted; if it is that compound, the retention times have drifted: ask your TA to check the windows.` })
-      }
-    }
-  }
-  return flags
 }
 
 function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
@@ -172,8 +168,11 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   validateWindows(windows, options)
   const flags: Flag[] = []
   const usable = validPeaks(Array.isArray(peaks) ? peaks : [], flags)
-  const { slots, unassigned } = distribute(usable, windows, options, flags)
+  const { slots, unassigned: outside } = distribute(usable, windows, options, flags)
+  const drift = rescueDriftedPeaks(slots, outside, { ...DEFAULT_DRIFT_TOLERANCE, ...options.driftTolerance })
+  const unassigned = drift.unassigned
   const products = productResults(slots.slice(0, windows.length), windows, flags)
+  for (const d of drift.drifted) products.find(p => p.smiles === d.slot.productSmiles)!.driftMinutes = d.minutes
   const productTotal = products.reduce((s, p) => s + p.correctedArea, 0)
   const group = (key: string, rf: number | undefined): ReferencePeakGroup | null => {
     const slot = slots.find(x => x.key === key)
@@ -188,11 +187,11 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   const unassignedPercent = nonSolvent > 0 ? (sumArea(unassigned) / nonSolvent) * 100 : 0
   const threshold = options.unassignedThresholdPercent ?? 5
   if (unassignedPercent > threshold) {
-    flags.push({ code: 'unassigned-area', severity: 'warning', retentionTimes: unassigned.map(p => p.retentionTime), message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); look for dichlorination products, impurities or drifted peaks.` })
+    flags.push({ code: 'unassigned-area', severity: 'warning', retentionTimes: unassigned.map(p => p.retentionTime), message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); look for products of a second halogenation, impurities or drifted peaks.` })
   }
   flags.push(...areaPercentFlags(usable, options.areaPercentTolerance ?? 0.5))
-  flags.push(...driftFlags(slots, unassigned, options.edgeFraction ?? 0.1))
-  // Mole-based: each monohalide came from one substrate molecule.
+  flags.push(...driftFlags(slots, drift, options.edgeFraction ?? 0.1))
+  // Mole-based: each product molecule came from one substrate molecule.
   const smCorrected = startingMaterial?.peaks.length ? startingMaterial.correctedArea : null
   const converted = smCorrected !== null && productTotal > 0 ? (productTotal / (productTotal + smCorrected)) * 100 : null
   const conversion = converted !== null && Number.isFinite(converted) ? converted : null
@@ -221,9 +220,9 @@ function validateWindows(windows: ProductWindow[], options: AssignOptions): void
 }
 
 function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOptions, flags: Flag[]) {
-  const slots: Slot[] = windows.map(w => ({ key: `p:${w.productSmiles}`, name: w.productSmiles, window: w, peaks: [] }))
-  if (options.solvent) slots.push({ key: 'solvent', name: 'the solvent', window: options.solvent, peaks: [] })
-  if (options.startingMaterial) slots.push({ key: 'sm', name: 'the starting material', window: options.startingMaterial, peaks: [] })
+  const slots: Slot[] = windows.map(w => ({ key: `p:${w.productSmiles}`, name: windowProductLabel(w), product: true, productSmiles: w.productSmiles, window: w, peaks: [] }))
+  if (options.solvent) slots.push({ key: 'solvent', name: 'the solvent', product: false, window: options.solvent, peaks: [] })
+  if (options.startingMaterial) slots.push({ key: 'sm', name: 'the starting material', product: false, window: options.startingMaterial, peaks: [] })
   const unassigned: Peak[] = []
   for (const p of peaks) {
     const { slot, ambiguous } = pickSlot(p.retentionTime, slots)
@@ -239,7 +238,7 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     const rf = windows[i]!.responseFactor ?? 1
     const area = sumArea(s.peaks)
     const largest = [...s.peaks].sort((a, b) => b.area - a.area)[0]
-    return { smiles: windows[i]!.productSmiles, percent: null, area, correctedArea: area / rf, responseFactor: rf, retentionTime: largest?.retentionTime ?? null, peaks: s.peaks }
+    return { smiles: windows[i]!.productSmiles, percent: null, area, correctedArea: area / rf, responseFactor: rf, retentionTime: largest?.retentionTime ?? null, peaks: s.peaks, driftMinutes: null }
   })
   const shares = sharesOf(products.map(p => p.correctedArea))
   products.forEach((p, i) => { p.percent = shares[i]! })
@@ -248,9 +247,9 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     const w = windows[i]!
     const range = `${fmt(w.rtMin)}–${fmt(w.rtMax)} min`
     if (s.peaks.length === 0) {
-      flags.push({ code: 'missing-product', severity: 'warning', productSmiles: w.productSmiles, message: `No peak was found for ${w.productSmiles} (${range}); it was counted as 0 %. If the product formed, check the integration or whether its peak has moved.` })
+      flags.push({ code: 'missing-product', severity: 'warning', productSmiles: w.productSmiles, message: `No peak was found for ${s.name} (${range}); it was counted as 0 %. If the product formed, check the integration or whether its peak has moved.` })
     } else if (s.peaks.length > 1) {
-      flags.push({ code: 'split-peak', severity: 'warning', productSmiles: w.productSmiles, retentionTimes: s.peaks.map(p => p.retentionTime), message: `${s.peaks.length} peaks fall in the window for ${w.productSmiles} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.` })
+      flags.push({ code: 'split-peak', severity: 'warning', productSmiles: w.productSmiles, retentionTimes: s.peaks.map(p => p.retentionTime), message: `${s.peaks.length} peaks fall in the window for ${s.name} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.` })
     }
   })
   if (total <= 0) flags.push({ code: 'no-product-peaks', severity: 'error', message: 'No product peak has any area, so no mole percentages can be given; check that the right file and windows were used.' })

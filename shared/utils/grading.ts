@@ -11,14 +11,19 @@ export interface GradingCriterion {
 export interface AccuracyInput {
   /** The run's key factor (2°:1° or 3°:1°). */
   observed: number | null
-  /** The method's literature value of the same factor. */
-  literature: number | null
-  /** The course's tolerance, in percent of the literature value. */
+  /**
+   * The expected value of the same factor: the one implied by the substrate's reference
+   * distribution for the method's reagent when there is one (see `Expectation` in
+   * submission.ts), else the method's literature value from the class model, which for a
+   * haloalkane ignores the halogen already on the chain.
+   */
+  expected: number | null
+  /** The course's tolerance, in percent of the expected value. */
   tolerancePercent: number
 }
 
 export interface AccuracySuggestion {
-  /** |observed − literature| / literature, in percent; null when it cannot be computed. */
+  /** |observed − expected| / expected, in percent; null when it cannot be computed. */
   deviationPercent: number | null
   /** Share of the criterion's points, 0…1; null when no suggestion can be made. */
   share: number | null
@@ -28,15 +33,15 @@ export interface AccuracySuggestion {
 const EPSILON = 1e-9
 
 /**
- * The course's accuracy rule: full points when the relative deviation from the literature value
+ * The course's accuracy rule: full points when the relative deviation from the expected value
  * is within the tolerance, falling in a straight line to nothing at three times the tolerance.
  */
 export function accuracyShare(input: AccuracyInput): AccuracySuggestion {
-  const { observed, literature, tolerancePercent } = input
-  if (observed === null || literature === null || !Number.isFinite(observed) || !(literature > 0) || !(tolerancePercent > 0)) {
+  const { observed, expected, tolerancePercent } = input
+  if (observed === null || expected === null || !Number.isFinite(observed) || !(expected > 0) || !(tolerancePercent > 0)) {
     return { deviationPercent: null, share: null }
   }
-  const deviation = Math.abs(observed - literature) / literature
+  const deviation = Math.abs(observed - expected) / expected
   const tolerance = tolerancePercent / 100
   let share: number
   if (deviation <= tolerance + EPSILON) share = 1

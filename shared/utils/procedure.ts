@@ -107,10 +107,11 @@ export interface WindowLike {
 /**
  * The monohalogenation products and their predicted percentages with the method's own per-H
  * reactivities (stored at the method's temperature, so no scaling), each with its
- * retention-time window (and its label as the name) when the substrate has one; listed in
+ * retention-time window when the substrate has one and its name (from `nameOf`, else a window
+ * label other than the letter); listed in
  * elution order where windows are set, the engine's order otherwise.
  */
-export function expectedProducts(substrateSmiles: string, method: MethodLike, windows: WindowLike[] = []): ExpectedProduct[] {
+export function expectedProducts(substrateSmiles: string, method: MethodLike, windows: WindowLike[] = [], nameOf: (smiles: string) => string | null = () => null): ExpectedProduct[] {
   const analysis = analyzeSubstrate(substrateSmiles, { halogen: method.halogen })
   const reactivity: Reactivity = { primary: method.rPrimary, secondary: method.rSecondary, tertiary: method.rTertiary }
   const byProduct = new Map(windows.filter((w) => w.productSmiles).map((w) => [w.productSmiles!, w]))
@@ -120,7 +121,7 @@ export function expectedProducts(substrateSmiles: string, method: MethodLike, wi
     return {
       smiles: p.smiles,
       position,
-      name: w?.label && w.label !== position ? w.label : null,
+      name: nameOf(p.smiles) ?? (w?.label && w.label !== position ? w.label : null),
       hydrogens: p.hydrogens,
       carbonClass: p.carbonClass,
       percent: p.percent,

@@ -18,6 +18,36 @@ export interface RunProduct {
   smiles: string
   hydrogens: number
   carbonClass: CarbonClass
+  /** Display name ("1,3-dichlorobutane"); messages show it first with the SMILES beside it. */
+  name?: string | null
+}
+
+export type ReferenceSourceKind = 'published' | 'from-memory' | 'course-results' | 'other'
+
+/** A measured product distribution for a substrate and reagent, with where it comes from. */
+export interface ReferenceDistribution {
+  percents: Array<{ smiles: string, percent: number }>
+  source: string
+  sourceKind: ReferenceSourceKind
+}
+
+/**
+ * What a run is judged against: the substrate's reference distribution for the reagent when
+ * there is one, else the class model (n·r per class), which for a haloalkane ignores what the
+ * halogen already on the chain does to its neighbours.
+ */
+export interface Expectation {
+  basis: 'reference' | 'class-model'
+  /** mol % per product, summing to 100. */
+  percents: Array<{ smiles: string, percent: number }>
+  /** The class factors of that distribution (reference) or of the method (class model). */
+  factors: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
+  /** "the reference distribution from …" or "the class model (1° : 2° : 3° per H) …", to follow "compared with". */
+  description: string
+  source: string | null
+  sourceKind: ReferenceSourceKind | null
+  /** The substrate carries a halogen already. */
+  substituted: boolean
 }
 
 export interface RunInput {
@@ -25,15 +55,19 @@ export interface RunInput {
   text?: string
   source?: RunSource
   products: RunProduct[]
-  windows: Array<{ productSmiles: string, rtMin: number, rtMax: number, responseFactor: number }>
+  windows: Array<{ productSmiles: string, rtMin: number, rtMax: number, responseFactor: number, name?: string | null }>
   solvent?: { rtMin: number, rtMax: number } | null
   startingMaterial?: { rtMin: number, rtMax: number, responseFactor?: number } | null
   /** Predicted mole % per product for the practical's method. */
   predicted: Array<{ smiles: string, percent: number }>
   /** The method's class factors (per-H reactivity relative to primary). */
   literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
-  /** A key factor further than this multiple from the literature value is flagged. Default 2. */
+  /** What the run is judged against; without it, the class model from `predicted` and `literature`. */
+  expected?: Expectation
+  /** Class model: a key factor further than this multiple from the expected value is flagged. Default 2. */
   farFactor?: number
+  /** Reference distribution: a mixture further than this many percentage points from it (half the sum of |observed − reference|) is flagged. Default 15. */
+  farPoints?: number
 }
 
 export interface RowProblem { row: number, message: string }
@@ -96,16 +130,40 @@ function readPeaks(source: RunSource, expectedMaxMinutes: number | undefined): {
   return { kind: 'peak-table', peaks: table.peaks, warnings: [...source.warnings ?? [], ...table.warnings], flags: [] }
 }
 
+/** "1,3-dichlorobutane (CC(Cl)CCCl)", or the SMILES alone when the product has no name. */
+export function productLabelOf(products: ReadonlyArray<Pick<RunProduct, 'smiles' | 'name'>>, smiles: string): string {
+  const name = products.find((p) => p.smiles === smiles)?.name
+  return name ? `${name} (${smiles})` : smiles
+}
+
+const CLASS_MODEL = 'the class model (1° : 2° : 3° per H)'
+
+/** The class model's expectation, for runs given no reference distribution. */
+export function classModelExpectation(input: Pick<RunInput, 'predicted' | 'literature'>, substituted: boolean): Expectation {
+  return {
+    basis: 'class-model',
+    percents: input.predicted,
+    factors: input.literature,
+    description: substituted ? `${CLASS_MODEL}, which ignores the substituent's effect` : CLASS_MODEL,
+    source: null,
+    sourceKind: null,
+    substituted,
+  }
+}
+
+const expectationOf = (input: RunInput): Expectation => input.expected ?? classModelExpectation(input, false)
+
 /**
  * Solvent or unreacted substrate integrated as a product leaves its own window empty and makes
- * one product far larger than the method predicts; both together are the signature.
+ * one product far larger than expected; both together are the signature.
  */
 function countedAsProduct(input: RunInput, assigned: ReturnType<typeof assignPeaks>, molePercents: RunResult['molePercents']): RunFlag[] {
   const flags: RunFlag[] = []
-  // Far above the prediction: more than half of the way from the predicted share to 100 %.
+  const expected = expectationOf(input).percents
+  // Far above the expectation: more than half of the way from the expected share to 100 %.
   const suspects = molePercents.filter((m) => {
-    const predicted = input.predicted.find((p) => p.smiles === m.smiles)?.percent ?? 0
-    return m.percent - predicted > 0.5 * (100 - predicted)
+    const share = expected.find((p) => p.smiles === m.smiles)?.percent ?? 0
+    return m.percent - share > 0.5 * (100 - share)
   })
   if (!suspects.length) return flags
   const emptySolvent = input.solvent && assigned.solvent && assigned.solvent.peaks.length === 0
@@ -115,24 +173,44 @@ function countedAsProduct(input: RunInput, assigned: ReturnType<typeof assignPea
     flags.push({
       code: emptySolvent ? 'solvent-counted' : 'starting-material-counted',
       severity: 'danger',
-      message: `The ${what} peak seems to be counted as a product: nothing came out in the ${what} window, and ${suspects.map((s) => `${s.smiles} (${s.percent.toFixed(1)} %)`).join(', ')} is far above the prediction. Check which peak is the ${what} and integrate again.`,
+      message: `The ${what} peak seems to be counted as a product: nothing came out in the ${what} window, and ${suspects.map((s) => `${productLabelOf(input.products, s.smiles)} at ${s.percent.toFixed(1)} %`).join(', ')} is far above the expected share. Check which peak is the ${what} and integrate again.`,
     })
   }
   return flags
 }
 
-function farFromPrediction(input: RunInput, factors: RunResult['factors']): RunFlag[] {
+const CHECK_ASSIGNMENT = 'Check the peak assignment against the retention windows before you confirm.'
+
+/**
+ * Against a reference distribution the whole mixture is compared (swapped peaks change it even
+ * when the pooled class factor stays put); against the class model, the key factor.
+ */
+function farFromPrediction(input: RunInput, factors: RunResult['factors'], molePercents: RunResult['molePercents']): RunFlag[] {
+  const expected = expectationOf(input)
+  if (expected.basis === 'reference') {
+    const gaps = expected.percents.map((e) => ({ smiles: e.smiles, expected: e.percent, observed: molePercents.find((m) => m.smiles === e.smiles)?.percent ?? 0 }))
+    const distance = gaps.reduce((sum, g) => sum + Math.abs(g.observed - g.expected), 0) / 2
+    const limit = input.farPoints ?? 15
+    if (!molePercents.some((m) => m.percent > 0) || distance <= limit) return []
+    const worst = [...gaps].sort((a, b) => Math.abs(b.observed - b.expected) - Math.abs(a.observed - a.expected))[0]!
+    return [{
+      code: 'far-from-prediction',
+      severity: 'warning',
+      message: `Your product mixture is ${distance.toFixed(1)} percentage points away from ${expected.description} (limit ${limit}); the largest gap is ${productLabelOf(input.products, worst.smiles)}: ${worst.observed.toFixed(1)} % against ${worst.expected.toFixed(1)} %. ${CHECK_ASSIGNMENT}`,
+    }]
+  }
   const key = keyFactorOf(input.products)
   const observed = factors[key]
-  const expected = input.literature[key]
+  const value = expected.factors[key]
   const limit = input.farFactor ?? 2
-  if (observed === null || expected === null || !(expected > 0)) return []
-  if (observed > 0 && Math.abs(Math.log(observed / expected)) <= Math.log(limit)) return []
+  if (observed === null || value === null || !(value > 0)) return []
+  if (observed > 0 && Math.abs(Math.log(observed / value)) <= Math.log(limit)) return []
   const name = key === 'tertiaryToPrimary' ? '3°:1°' : '2°:1°'
+  const caveat = expected.substituted ? ' That value comes from the class model, which ignores the effect of the halogen already on the substrate, so treat it as a rough guide.' : ''
   return [{
     code: 'far-from-prediction',
     severity: 'warning',
-    message: `Your ${name} selectivity of ${observed.toFixed(2)} is more than ${limit}× away from the expected ${expected.toFixed(2)}. Check the peak assignment against the retention windows before you confirm.`,
+    message: `Your ${name} selectivity of ${observed.toFixed(2)} is more than ${limit}× away from the expected ${value.toFixed(2)}.${caveat} ${CHECK_ASSIGNMENT}`,
   }]
 }
 
@@ -142,7 +220,8 @@ export function evaluateRun(input: RunInput): RunResult {
   const expectedMaxMinutes = input.windows.length ? Math.max(...ends) : undefined
   const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.source ?? { kind: 'text', text: input.text ?? '' }, expectedMaxMinutes)
   if (!peaks.length) throw new RunInputError('No peaks were found in the file')
-  const assigned = assignPeaks(peaks, input.windows, {
+  const named = input.windows.map((w) => ({ ...w, name: w.name ?? input.products.find((p) => p.smiles === w.productSmiles)?.name ?? null }))
+  const assigned = assignPeaks(peaks, named, {
     solvent: input.solvent ?? undefined,
     startingMaterial: input.startingMaterial ?? undefined,
   })
@@ -155,7 +234,7 @@ export function evaluateRun(input: RunInput): RunResult {
   const finiteFactor = (v: number | null | undefined) => (typeof v === 'number' && Number.isFinite(v) ? v : null)
   const factors = { secondaryToPrimary: finiteFactor(reactivity?.factors.secondaryToPrimary), tertiaryToPrimary: finiteFactor(reactivity?.factors.tertiaryToPrimary) }
   const engineFlags: RunFlag[] = assigned.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity], message: f.message }))
-  const flags = [...readFlags, ...engineFlags, ...countedAsProduct(input, assigned, molePercents), ...farFromPrediction(input, factors)]
+  const flags = [...readFlags, ...engineFlags, ...countedAsProduct(input, assigned, molePercents), ...farFromPrediction(input, factors, molePercents)]
   // Peaks are matched by value: the engine may hand back copies.
   const keyOf = (p: Peak) => `${p.retentionTime}|${p.area}`
   const owner = new Map<string, string>()
@@ -177,7 +256,7 @@ export function evaluateRun(input: RunInput): RunResult {
 
 
 export interface PracticalChemistry {
-  products: Array<RunProduct & { label: string }>
+  products: Array<RunProduct & { label: string, name: string | null }>
   windows: RunInput['windows']
   solvent: RunInput['solvent']
   startingMaterial: RunInput['startingMaterial']
@@ -185,6 +264,10 @@ export interface PracticalChemistry {
   statistical: Array<{ smiles: string, percent: number }>
   literature: RunInput['literature']
   keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
+  /** What runs are judged against: the reference distribution when there is one, else the class model. */
+  expected: Expectation
+  /** What the products are ("monochlorides", "dichlorides"), for wording the conversion. */
+  productKind: string
 }
 
 export interface WindowRow {
@@ -202,12 +285,55 @@ export interface MethodFactors {
   rTertiary: number
 }
 
+export interface PracticalExtras {
+  /** A product's display name by its canonical SMILES (the caller resolves stored and built-in names). */
+  nameOf?: (canonicalSmiles: string) => string | null
+  /** The substrate's reference distribution for the method's reagent, if it has one. */
+  reference?: ReferenceDistribution | null
+}
+
+const MULTIPLIER = ['', 'mono', 'di', 'tri', 'tetra']
+
+/**
+ * What one more halogen makes of the substrate: monochlorides from an alkane, dichlorides from a
+ * chloroalkane chlorinated, bromochloro compounds from one brominated.
+ */
+export function productKindWord(substrateSmiles: string, halogen: 'Cl' | 'Br'): string {
+  const count = (x: RegExp) => (substrateSmiles.match(x) ?? []).length
+  const cl = count(/Cl/g) + (halogen === 'Cl' ? 1 : 0)
+  const br = count(/Br/g) + (halogen === 'Br' ? 1 : 0)
+  const others = count(/F|I/g)
+  const total = cl + br + others
+  if (total === cl && total < MULTIPLIER.length) return `${MULTIPLIER[total]}chlorides`
+  if (total === br && total < MULTIPLIER.length) return `${MULTIPLIER[total]}bromides`
+  if (others === 0 && cl === 1 && br === 1) return 'bromochloro compounds'
+  return 'polyhalogenated products'
+}
+
+/** A halogen already on the substrate (a haloalkane): the class model does not see its effect. */
+export const isSubstituted = (smiles: string) => /Cl|Br|F|I/.test(smiles)
+
+/**
+ * The reference distribution over the substrate's products (missing ones at 0 %), normalised to
+ * 100, with the class factors it implies; null when it covers none of the products.
+ */
+export function referenceExpectation(analysis: { products: Array<RunProduct & { atoms?: number[] }> }, reference: ReferenceDistribution, substituted: boolean): Expectation | null {
+  const raw = analysis.products.map((p) => ({ smiles: p.smiles, percent: Math.max(0, reference.percents.find((r) => r.smiles === p.smiles)?.percent ?? 0) }))
+  const total = raw.reduce((sum, r) => sum + r.percent, 0)
+  if (!(total > 0) || !Number.isFinite(total)) return null
+  const percents = raw.map((r) => ({ smiles: r.smiles, percent: (r.percent / total) * 100 }))
+  const { factors } = relativeReactivities({ products: analysis.products.map((p) => ({ ...p, atoms: p.atoms ?? [] })) }, percents)
+  const memory = reference.sourceKind === 'from-memory' && !/from memory/i.test(reference.source) ? ' (from memory)' : ''
+  return { basis: 'reference', percents, factors, description: `the reference distribution from ${reference.source}${memory}`, source: reference.source, sourceKind: reference.sourceKind, substituted }
+}
+
 /**
  * What a practical's results are computed against: the substrate's products for the method's
- * halogen (lettered as in the depiction), the retention windows of those products, and the
- * method's prediction and class factors.
+ * halogen (lettered as in the depiction, named when a name is known), the retention windows of
+ * those products, the method's prediction and class factors, and the expectation runs are
+ * judged against.
  */
-export function practicalChemistryOf(substrateSmiles: string, method: MethodFactors, windowRows: WindowRow[]): PracticalChemistry {
+export function practicalChemistryOf(substrateSmiles: string, method: MethodFactors, windowRows: WindowRow[], extras: PracticalExtras = {}): PracticalChemistry {
   const analysis = analyzeSubstrate(substrateSmiles, { halogen: method.halogen })
   const predicted = predictDistribution(analysis, { primary: method.rPrimary, secondary: method.rSecondary, tertiary: method.rTertiary })
   const totalH = analysis.products.reduce((n, p) => n + p.hydrogens, 0)
@@ -217,18 +343,24 @@ export function practicalChemistryOf(substrateSmiles: string, method: MethodFact
     const w = windowRows.find((r) => r.kind === kind)
     return w ? { rtMin: w.rtMin, rtMax: w.rtMax, responseFactor: w.responseFactor } : null
   }
+  const nameOf = (smiles: string) => extras.nameOf?.(smiles) ?? null
+  const literature = {
+    secondaryToPrimary: has('secondary') ? method.rSecondary / method.rPrimary : null,
+    tertiaryToPrimary: has('tertiary') ? method.rTertiary / method.rPrimary : null,
+  }
+  const model = predicted.map((p) => ({ smiles: p.smiles, percent: p.percent }))
+  const substituted = isSubstituted(substrateSmiles)
   return {
-    products: analysis.products.map((p, i) => ({ smiles: p.smiles, label: positionLetter(i), hydrogens: p.hydrogens, carbonClass: p.carbonClass })),
+    products: analysis.products.map((p, i) => ({ smiles: p.smiles, label: positionLetter(i), name: nameOf(p.smiles), hydrogens: p.hydrogens, carbonClass: p.carbonClass })),
     windows: windowRows.filter((r) => r.kind === 'product' && r.productSmiles && productSet.has(r.productSmiles))
-      .map((r) => ({ productSmiles: r.productSmiles!, rtMin: r.rtMin, rtMax: r.rtMax, responseFactor: r.responseFactor })),
+      .map((r) => ({ productSmiles: r.productSmiles!, rtMin: r.rtMin, rtMax: r.rtMax, responseFactor: r.responseFactor, name: nameOf(r.productSmiles!) })),
     solvent: reference('solvent'),
     startingMaterial: reference('starting-material'),
-    predicted: predicted.map((p) => ({ smiles: p.smiles, percent: p.percent })),
+    predicted: model,
     statistical: analysis.products.map((p) => ({ smiles: p.smiles, percent: (p.hydrogens / totalH) * 100 })),
-    literature: {
-      secondaryToPrimary: has('secondary') ? method.rSecondary / method.rPrimary : null,
-      tertiaryToPrimary: has('tertiary') ? method.rTertiary / method.rPrimary : null,
-    },
+    literature,
     keyFactor: keyFactorOf(analysis.products),
+    expected: (extras.reference && referenceExpectation(analysis, extras.reference, substituted)) || classModelExpectation({ predicted: model, literature }, substituted),
+    productKind: productKindWord(substrateSmiles, method.halogen),
   }
 }

@@ -138,12 +138,14 @@ export interface WindowDraft extends WindowIdentity {
   position: string | null
   halogen: 'Cl' | 'Br' | null
   label: string
+  /** The product's name as the editor shows it (its own or the built-in one); '' for none. */
+  name: string
   rtMin: number | null
   rtMax: number | null
   responseFactor: number | null
 }
 
-interface DraftProduct { label: string, smiles: string, brominated: string }
+interface DraftProduct { label: string, smiles: string, brominated: string, name?: string | null, brominatedName?: string | null }
 interface DraftSaved { kind: WindowDraft['kind'], productSmiles: string | null, label: string, rtMin: number, rtMax: number, responseFactor: number }
 
 export const draftKeyOf = (kind: WindowDraft['kind'], halogen: 'Cl' | 'Br' | null, productSmiles: string | null) =>
@@ -151,20 +153,26 @@ export const draftKeyOf = (kind: WindowDraft['kind'], halogen: 'Cl' | 'Br' | nul
 
 /** Solvent, starting material, then each product for chlorination and for bromination. */
 export function windowDrafts(products: readonly DraftProduct[], saved: readonly DraftSaved[]): WindowDraft[] {
-  const row = (kind: WindowDraft['kind'], halogen: 'Cl' | 'Br' | null, productSmiles: string | null, position: string | null, fallback: string): WindowDraft => {
+  const row = (kind: WindowDraft['kind'], halogen: 'Cl' | 'Br' | null, productSmiles: string | null, position: string | null, fallback: string, name: string | null = null): WindowDraft => {
     const s = saved.find((w) => w.kind === kind && (kind !== 'product' || w.productSmiles === productSmiles))
     return {
       key: draftKeyOf(kind, halogen, productSmiles), kind, productSmiles, position, halogen,
-      label: s ? (kind === 'solvent' && s.label === 'solvent' ? '' : s.label) : fallback, rtMin: s?.rtMin ?? null, rtMax: s?.rtMax ?? null, responseFactor: s?.responseFactor ?? 1,
+      label: s ? (kind === 'solvent' && s.label === 'solvent' ? '' : s.label) : fallback, name: name ?? '',
+      rtMin: s?.rtMin ?? null, rtMax: s?.rtMax ?? null, responseFactor: s?.responseFactor ?? 1,
     }
   }
   return [
     // The solvent's name is typed by the instructor; empty means the plain word 'solvent'.
     row('solvent', null, null, null, ''),
     row('starting-material', null, null, null, 'starting material'),
-    ...products.map((p) => row('product', 'Cl', p.smiles, p.label, p.label)),
-    ...products.map((p) => row('product', 'Br', p.brominated, p.label, p.label)),
+    ...products.map((p) => row('product', 'Cl', p.smiles, p.label, p.label, p.name)),
+    ...products.map((p) => row('product', 'Br', p.brominated, p.label, p.label, p.brominatedName)),
   ]
+}
+
+/** The names the editor sends with the windows: one per product row, empty for "no name of its own". */
+export function draftProductNames(drafts: readonly WindowDraft[]): Array<{ productSmiles: string, name: string }> {
+  return drafts.filter((d) => d.kind === 'product' && d.productSmiles).map((d) => ({ productSmiles: d.productSmiles!, name: d.name.trim() }))
 }
 
 /** A row counts as a window once either end is filled in. */

@@ -76,7 +76,7 @@ describe('the library in Chromium', () => {
     await accessible(page, 'library-standard-run-mapping')
     await page.locator('[data-test="apply-mapping"]').click()
     await page.locator('[data-test="save-windows"]').click()
-    await page.getByText('Windows saved').first().waitFor()
+    await page.getByText('Windows and names saved').first().waitFor()
 
     const windows = await testDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', id).orderBy('rtMin').execute()
     expect(windows.map((w) => [w.kind, w.rtMin, w.rtMax])).toEqual([

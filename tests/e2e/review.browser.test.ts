@@ -13,8 +13,8 @@ beforeAll(async () => {
   browser = await launchBrowser()
   world = await makeReviewWorld({ sections: 1, studentsPerSection: 8 })
   const students = world.sections[0]!.students
-  // Station 1 counted the solvent as a product (in the window of 1,4-dichlorobutane, the smallest
-  // predicted share, so the flag blocks acceptance); station 2 lost a product peak (a warning);
+  // Station 1 counted the solvent as a product (in the window of 1,4-dichlorobutane, lifting it far
+  // above its expected share, so the flag blocks acceptance); station 2 lost a product peak (a warning);
   // stations 3 and 4 are good runs. Uploaded in that order, through the public route.
   const runs = [
     { by: students[0]!, text: reviewPeakTable(world, 21, { fault: 'solvent-as-product', faultSmiles: 'ClCCCCCl' }), name: 'station1.csv' },

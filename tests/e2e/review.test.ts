@@ -268,7 +268,7 @@ describe('the queue', () => {
     })
     expect(reply.status).toBe(200)
     expect(reply.body.accepted.map((a: any) => a.id)).toEqual([ids.oldest, ids.older])
-    // A factor of ~200 against the literature 3.09 is far beyond 3 × 15 %: no accuracy points.
+    // A factor of ~200 against the expected 2.78 (the seeded reference distribution) is far beyond 3 × 15 %: no accuracy points.
     expect(reply.body.accepted[0]).toMatchObject({ scores: { accuracy: 0, chromatogram: 6, analysis: 4 }, total: 10 })
     const skipped = Object.fromEntries(reply.body.skipped.map((s: any) => [s.id, s.reason]))
     expect(Object.keys(skipped).map(Number).sort()).toEqual([ids.danger, ids.outlier, ids.warning, ids.acceptedA, 999_999_999].sort())
@@ -328,7 +328,7 @@ describe('the detail and the original file', () => {
     v1 = await uploadAs(student, world.practicalId, reviewPeakTable(world, 11), 'first run.csv')
     expect(v1.status).toBe(201)
     // The resubmission: product d (1,4-dichlorobutane) integrated 40 % larger.
-    const d = world.predicted.find((p) => p.smiles === 'ClCCCCCl')!.smiles
+    const d = world.truth.find((p) => p.smiles === 'ClCCCCCl')!.smiles
     v2 = await uploadAs(student, world.practicalId, reviewPeakTable(world, 12, { scale: { [d]: 1.4 } }), 'second run.csv')
     expect(v2.status, JSON.stringify(v2.body)).toBe(201)
     expect(v2.body.version).toBe(2)
@@ -358,7 +358,12 @@ describe('the detail and the original file', () => {
     expect(d.diff.factors[0]).toMatchObject({ name: 'secondaryToPrimary', before: v1.body.result.factors.secondaryToPrimary, after: v2.body.result.factors.secondaryToPrimary })
     expect(d.rubric.map((c: any) => c.key)).toEqual(['accuracy', 'chromatogram', 'analysis'])
     expect(d.suggestion).toMatchObject({ tolerancePercent: 15, observed: d.keyFactor })
-    expect(d.suggestion.literature).toBeCloseTo(3.09, 6)
+    // The shared 1-chlorobutane has a reference distribution for sulfuryl chloride, 6 / 23 / 46 / 25 %
+    // (seeded, from memory): its pooled 2°:1° is ((23 + 46) / 4) / ((6 + 25) / 5) = 17.25 / 6.2.
+    expect(d.suggestion.expected).toBeCloseTo(17.25 / 6.2, 6)
+    expect(d.suggestion.comparedWith).toMatch(/^the reference distribution from /)
+    expect(d.distribution.map((r: any) => r.name).sort()).toEqual(['1,1-dichlorobutane', '1,2-dichlorobutane', '1,3-dichlorobutane', '1,4-dichlorobutane'])
+    expect(d.distribution.map((r: any) => r.reference).reduce((a: number, b: number) => a + b, 0)).toBeCloseTo(100, 6)
     expect(d.nextPendingId).toBeNull()
   })
 

@@ -28,8 +28,12 @@ export interface ReviewWorld {
   sections: ReviewSection[]
   /** Product SMILES → window (minutes) of the practical's substrate. */
   windows: Array<{ productSmiles: string, rtMin: number, rtMax: number, responseFactor: number }>
-  /** The method's predicted mole % (n·r per class). */
-  predicted: Array<{ smiles: string, percent: number }>
+  /**
+   * The mole % simulated runs are made from: the shared library's reference distribution for
+   * the substrate and reagent (a realistic haloalkane mixture, which a run is judged against),
+   * else the method's prediction (n·r per class).
+   */
+  truth: Array<{ smiles: string, percent: number }>
 }
 
 export interface ReviewWorldOptions {
@@ -86,10 +90,11 @@ export async function makeReviewWorld(options: ReviewWorldOptions = {}): Promise
     .where('substrateId', '=', substrate.id).where('kind', '=', 'product').execute()
   const analysis = analyzeSubstrate(substrate.smiles, { halogen: method.halogen })
   const predicted = predictDistribution(analysis, { primary: method.rPrimary, secondary: method.rSecondary, tertiary: method.rTertiary })
+  const reference = await db.selectFrom('substrateReferences').select('percents').where('substrateId', '=', substrate.id).where('reagent', '=', method.reagent).executeTakeFirst()
   return {
     owner, courseId: course.id, courseCode: course.code, practicalId: practical.id, sections,
     windows: windows.map((w) => ({ ...w, productSmiles: w.productSmiles! })),
-    predicted: predicted.map((p) => ({ smiles: p.smiles, percent: p.percent })),
+    truth: reference?.percents ?? predicted.map((p) => ({ smiles: p.smiles, percent: p.percent })),
   }
 }
 
@@ -105,7 +110,7 @@ export function reviewPeakTable(world: ReviewWorld, seed: number, options: { sca
     ...(faultProduct >= 0 ? { faultProduct } : {}),
     seed,
     windows: world.windows,
-    distribution: world.predicted.map((p) => ({ smiles: p.smiles, percent: p.percent * (options.scale?.[p.smiles] ?? 1) })),
+    distribution: world.truth.map((p) => ({ smiles: p.smiles, percent: p.percent * (options.scale?.[p.smiles] ?? 1) })),
     solvent: { retentionTime: 1.4, area: 400_000 },
     startingMaterial: { retentionTime: 2.3, area: 250_000 },
   }).text

@@ -14,47 +14,47 @@ const ten = { maxPoints: 10 }
 
 describe('suggested accuracy score', () => {
   it('gives full points within the tolerance, including exactly at it', () => {
-    expect(suggestAccuracyPoints(ten, { observed: 3.0, literature: 3.0, tolerancePercent: 15 })).toBe(10)
-    expect(suggestAccuracyPoints(ten, { observed: 3.3, literature: 3.0, tolerancePercent: 15 })).toBe(10)
+    expect(suggestAccuracyPoints(ten, { observed: 3.0, expected: 3.0, tolerancePercent: 15 })).toBe(10)
+    expect(suggestAccuracyPoints(ten, { observed: 3.3, expected: 3.0, tolerancePercent: 15 })).toBe(10)
     // 0.45 / 3 is 0.15000000000000002 in floating point: still "within 15 %".
-    expect(suggestAccuracyPoints(ten, { observed: 3.45, literature: 3.0, tolerancePercent: 15 })).toBe(10)
-    expect(suggestAccuracyPoints(ten, { observed: 2.55, literature: 3.0, tolerancePercent: 15 })).toBe(10)
+    expect(suggestAccuracyPoints(ten, { observed: 3.45, expected: 3.0, tolerancePercent: 15 })).toBe(10)
+    expect(suggestAccuracyPoints(ten, { observed: 2.55, expected: 3.0, tolerancePercent: 15 })).toBe(10)
   })
 
   it('falls linearly between the tolerance and three times it, on either side', () => {
     // 30 % off with a 15 % tolerance: halfway down the slope.
-    expect(suggestAccuracyPoints(ten, { observed: 3.9, literature: 3.0, tolerancePercent: 15 })).toBe(5)
-    expect(suggestAccuracyPoints(ten, { observed: 2.1, literature: 3.0, tolerancePercent: 15 })).toBe(5)
+    expect(suggestAccuracyPoints(ten, { observed: 3.9, expected: 3.0, tolerancePercent: 15 })).toBe(5)
+    expect(suggestAccuracyPoints(ten, { observed: 2.1, expected: 3.0, tolerancePercent: 15 })).toBe(5)
     // 20 % off: (45 − 20) / 30 of the points = 8.33… → 8.3.
-    expect(suggestAccuracyPoints(ten, { observed: 3.6, literature: 3.0, tolerancePercent: 15 })).toBe(8.3)
-    const share = accuracyShare({ observed: 3.6, literature: 3.0, tolerancePercent: 15 })
+    expect(suggestAccuracyPoints(ten, { observed: 3.6, expected: 3.0, tolerancePercent: 15 })).toBe(8.3)
+    const share = accuracyShare({ observed: 3.6, expected: 3.0, tolerancePercent: 15 })
     expect(share.deviationPercent).toBeCloseTo(20, 9)
     expect(share.share).toBeCloseTo(25 / 30, 9)
   })
 
   it('gives nothing at and beyond three times the tolerance', () => {
-    expect(suggestAccuracyPoints(ten, { observed: 4.35, literature: 3.0, tolerancePercent: 15 })).toBe(0)
-    expect(suggestAccuracyPoints(ten, { observed: 12, literature: 3.0, tolerancePercent: 15 })).toBe(0)
-    expect(suggestAccuracyPoints(ten, { observed: 0, literature: 3.0, tolerancePercent: 15 })).toBe(0)
+    expect(suggestAccuracyPoints(ten, { observed: 4.35, expected: 3.0, tolerancePercent: 15 })).toBe(0)
+    expect(suggestAccuracyPoints(ten, { observed: 12, expected: 3.0, tolerancePercent: 15 })).toBe(0)
+    expect(suggestAccuracyPoints(ten, { observed: 0, expected: 3.0, tolerancePercent: 15 })).toBe(0)
   })
 
   it('scales with the criterion and the course’s tolerance', () => {
-    expect(suggestAccuracyPoints({ maxPoints: 6 }, { observed: 3.9, literature: 3.0, tolerancePercent: 15 })).toBe(3)
+    expect(suggestAccuracyPoints({ maxPoints: 6 }, { observed: 3.9, expected: 3.0, tolerancePercent: 15 })).toBe(3)
     // A 10 % tolerance makes the same 30 % deviation worth nothing.
-    expect(suggestAccuracyPoints(ten, { observed: 3.9, literature: 3.0, tolerancePercent: 10 })).toBe(0)
+    expect(suggestAccuracyPoints(ten, { observed: 3.9, expected: 3.0, tolerancePercent: 10 })).toBe(0)
   })
 
   it('makes no suggestion without a key factor or a literature value', () => {
-    expect(suggestAccuracyPoints(ten, { observed: null, literature: 3.0, tolerancePercent: 15 })).toBeNull()
-    expect(suggestAccuracyPoints(ten, { observed: 3.0, literature: null, tolerancePercent: 15 })).toBeNull()
-    expect(suggestAccuracyPoints(ten, { observed: 3.0, literature: 0, tolerancePercent: 15 })).toBeNull()
-    expect(accuracyShare({ observed: Number.NaN, literature: 3, tolerancePercent: 15 })).toEqual({ deviationPercent: null, share: null })
+    expect(suggestAccuracyPoints(ten, { observed: null, expected: 3.0, tolerancePercent: 15 })).toBeNull()
+    expect(suggestAccuracyPoints(ten, { observed: 3.0, expected: null, tolerancePercent: 15 })).toBeNull()
+    expect(suggestAccuracyPoints(ten, { observed: 3.0, expected: 0, tolerancePercent: 15 })).toBeNull()
+    expect(accuracyShare({ observed: Number.NaN, expected: 3, tolerancePercent: 15 })).toEqual({ deviationPercent: null, share: null })
   })
 })
 
 describe('rubric scores', () => {
   it('starts from the suggestion and full marks, keeping what was given', () => {
-    const input = { observed: 3.9, literature: 3.0, tolerancePercent: 15 }
+    const input = { observed: 3.9, expected: 3.0, tolerancePercent: 15 }
     expect(startingScores(RUBRIC, input)).toEqual({ accuracy: 5, chromatogram: 6, analysis: 4 })
     expect(startingScores(RUBRIC, input, { analysis: 2 })).toEqual({ accuracy: 5, chromatogram: 6, analysis: 2 })
     expect(startingScores(RUBRIC, { ...input, observed: null })).toEqual({ chromatogram: 6, analysis: 4 })

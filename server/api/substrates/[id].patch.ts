@@ -20,7 +20,10 @@ export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
     const dropped = structureChanged
       ? await trx.deleteFrom('substrateWindows').where('substrateId', '=', id).where('kind', '=', 'product').returning(['productSmiles', 'rtMin', 'rtMax']).execute()
       : []
-    await audit(trx, event, { action: 'substrate.update', entity: 'substrate', entityId: id, before, after: { ...patch, ...(identity ?? {}), droppedWindows: dropped } })
+    // So do their names and reference distributions.
+    const droppedNames = structureChanged ? await trx.deleteFrom('substrateProductNames').where('substrateId', '=', id).returning(['productSmiles', 'name']).execute() : []
+    const droppedReferences = structureChanged ? await trx.deleteFrom('substrateReferences').where('substrateId', '=', id).returning(['reagent', 'percents', 'source']).execute() : []
+    await audit(trx, event, { action: 'substrate.update', entity: 'substrate', entityId: id, before, after: { ...patch, ...(identity ?? {}), droppedWindows: dropped, droppedNames, droppedReferences } })
     return updated
   })
   return substrateDetail(row, me)

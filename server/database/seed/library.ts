@@ -3,6 +3,7 @@ import type { MethodReagent } from '../schema'
 // Seed files run outside Nitro: engine code comes in by relative path.
 import { HALOGENATION_METHODS } from '../../../shared/data/halogenation-methods'
 import { TEACHING_SUBSTRATES } from '../../../shared/data/teaching-substrates'
+import { SEEDED_REFERENCES } from '../../../shared/data/reference-distributions'
 import { analyzeSubstrate, canonicalSmiles, molarMassOf } from '../../../shared/utils/halogenation'
 import { positionLetter } from '../../../shared/utils/depiction'
 
@@ -72,6 +73,7 @@ export async function seedLibrary(ctx: SeedContext): Promise<void> {
     }).returning('id').executeTakeFirstOrThrow()
     ctx.ids.substrates.set(substrate.name, row.id)
 
+    await seedReferences(ctx, substrate.id, row.id)
     const windows = DEMO_WINDOWS[substrate.name] ?? []
     const products = new Set(analysis.products.map((p) => p.smiles))
     const letters = new Map(analysis.products.map((p, i) => [p.smiles, positionLetter(i)]))
@@ -94,5 +96,20 @@ export async function seedLibrary(ctx: SeedContext): Promise<void> {
         }
       })).execute()
     }
+  }
+}
+
+/** The shared library's reference distributions, product SMILES stored canonical. */
+async function seedReferences(ctx: SeedContext, teachingId: string, substrateId: number) {
+  for (const ref of SEEDED_REFERENCES.filter((r) => r.substrate === teachingId)) {
+    const halogen = HALOGENATION_METHODS.find((m) => m.reagent === ref.reagent)!.halogen
+    const products = new Set(analyzeSubstrate(TEACHING_SUBSTRATES.find((s) => s.id === teachingId)!.smiles, { halogen }).products.map((p) => p.smiles))
+    const percents = ref.percents.map((p) => ({ smiles: canonicalSmiles(p.smiles), percent: p.percent }))
+    // A typo would silently count a product as 0 %: fail the seed instead.
+    const stray = percents.find((p) => !products.has(p.smiles))
+    if (stray || percents.length !== products.size) throw new Error(`seed: the reference for ${teachingId} does not cover its products exactly`)
+    await ctx.db.insertInto('substrateReferences').values({
+      substrateId, reagent: ref.reagent, percents: JSON.stringify(percents), source: ref.source, sourceKind: ref.sourceKind, updatedBy: null,
+    }).execute()
   }
 }

@@ -7,12 +7,15 @@ import { canonicalSmiles } from '../../../shared/utils/halogenation'
 import { mulberry32, normalRandom, simulatePeakTable, type BadRun, type ExportStyle } from '../../../shared/utils/simulation'
 import { attentionOf, evaluateRun, practicalChemistryOf, type PracticalChemistry } from '../../../shared/utils/submission'
 import { startingScores } from '../../../shared/utils/grading'
+import { substrateProductNamer, substrateReferenceFor } from '../../utils/substrate-extras'
 
 // Invented GC results for practical 1, which met four weeks before the seeding day: one upload
 // per pair, realistic pair-to-pair scatter, the classic bad runs, and reviews by the TAs.
-// The "true" per-H reactivities below are invented for the demo: the CH2Cl carbon is made less
-// reactive than a plain primary one, as chlorine's inductive pull suggests (common practice).
-const DEMO_TRUTH = { c1: 0.85, c2: 2.3, c3: 3.6, c4: 1.0 }
+// The "true" per-H reactivities below are invented for the demo, relative to the CH3 carbon: the
+// carbons near the chlorine are made less reactive, as its inductive pull suggests (common
+// practice), so the class lands near the library's reference distribution (6 / 23 / 46 / 25 %)
+// rather than the class model's 11.5 / 35.6 / 35.6 / 17.3 %.
+const DEMO_TRUTH = { c1: 0.4, c2: 1.5, c3: 2.7, c4: 1.0 }
 
 const BAD: Record<string, { fault: BadRun, note: string }> = {
   'M1:3': { fault: 'solvent-as-product', note: 'solvent integrated as a product' },
@@ -55,10 +58,13 @@ export async function seedSubmissions(ctx: SeedContext): Promise<void> {
   const db = ctx.db
   const practical = await db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
     .innerJoin('methods', 'methods.id', 'practicals.methodId').innerJoin('courses', 'courses.id', 'practicals.courseId')
-    .select(['substrates.id as substrateId', 'substrates.smiles', 'methods.halogen', 'methods.rPrimary', 'methods.rSecondary', 'methods.rTertiary', 'courses.rubric', 'courses.accuracyTolerancePercent'])
+    .select(['substrates.id as substrateId', 'substrates.smiles', 'methods.halogen', 'methods.reagent', 'methods.rPrimary', 'methods.rSecondary', 'methods.rTertiary', 'courses.rubric', 'courses.accuracyTolerancePercent'])
     .where('practicals.id', '=', practicalId).executeTakeFirstOrThrow()
   const windows = await db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor']).where('substrateId', '=', practical.substrateId).execute()
-  const chem = practicalChemistryOf(practical.smiles, practical, windows)
+  const chem = practicalChemistryOf(practical.smiles, practical, windows, {
+    nameOf: await substrateProductNamer(db, practical.substrateId),
+    reference: await substrateReferenceFor(db, practical.substrateId, practical.reagent),
+  })
   const sessions = new Map((await db.selectFrom('practicalSessions').select(['sectionId', 'meetingDate', 'dueAt']).where('practicalId', '=', practicalId).execute()).map((s) => [s.sectionId, s]))
   const tas = { M1: 'ta1', W1: 'ta1', T1: 'ta2', R1: 'ta2' } as Record<string, string>
 
@@ -94,7 +100,7 @@ export async function seedSubmissions(ctx: SeedContext): Promise<void> {
     }
     if (unit.section === 'R1' || first.attention > 0) continue
     // The TA takes the suggested accuracy score and docks a point here and there elsewhere.
-    const suggested = startingScores(practical.rubric, { observed: first.factor, literature: chem.literature[chem.keyFactor], tolerancePercent: practical.accuracyTolerancePercent })
+    const suggested = startingScores(practical.rubric, { observed: first.factor, expected: chem.expected.factors[chem.keyFactor], tolerancePercent: practical.accuracyTolerancePercent })
     const scores = Object.fromEntries(practical.rubric.map((c) => [c.key, c.kind === 'accuracy' ? suggested[c.key] ?? 0 : c.maxPoints - (seed % 2)]))
     await review(ctx, first, reviewer, reviewedAt, 'accept', null, scores, seed % 3 === 0 ? 'Clean baseline and well-resolved peaks.' : '')
   }

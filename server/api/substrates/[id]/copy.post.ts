@@ -1,6 +1,7 @@
 import { libraryIdParamsSchema, type SubstrateDetail } from '#shared/types/library'
 
-// A shared (or co-owner's) entry becomes the caller's own, windows and standard runs included.
+// A shared (or co-owner's) entry becomes the caller's own: windows, standard runs, product
+// names and reference distributions included.
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   const me = requireRole(event, 'instructor')
   const { id } = readParamsAs(event, libraryIdParamsSchema)
@@ -17,7 +18,14 @@ export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
       await trx.insertInto('standardRuns')
         .values(runs.map((r) => ({ ...r, peaks: JSON.stringify(r.peaks), substrateId: copy.id }))).execute()
     }
-    await audit(trx, event, { action: 'substrate.copy', entity: 'substrate', entityId: copy.id, after: { copiedFrom: id, name: copy.name, windows: windows.length, standardRuns: runs.length } })
+    const names = await trx.selectFrom('substrateProductNames').select(['productSmiles', 'name']).where('substrateId', '=', id).execute()
+    if (names.length) await trx.insertInto('substrateProductNames').values(names.map((n) => ({ ...n, substrateId: copy.id, updatedBy: me.id }))).execute()
+    const references = await trx.selectFrom('substrateReferences').select(['reagent', 'percents', 'source', 'sourceKind']).where('substrateId', '=', id).execute()
+    if (references.length) {
+      await trx.insertInto('substrateReferences')
+        .values(references.map((r) => ({ ...r, percents: JSON.stringify(r.percents), substrateId: copy.id, updatedBy: me.id }))).execute()
+    }
+    await audit(trx, event, { action: 'substrate.copy', entity: 'substrate', entityId: copy.id, after: { copiedFrom: id, name: copy.name, windows: windows.length, standardRuns: runs.length, names: names.length, references: references.length } })
     return copy
   })
   setResponseStatus(event, 201)
