@@ -48,6 +48,8 @@ async function expectReachable(target: Locator, what: string) {
 
 /** Every scroll box whose content is wider than the box shows a hint; returns their sizes. */
 async function scrollBoxes(page: Page) {
+  // Boxes measure themselves on the frame after a resize: let two frames pass first.
+  await page.evaluate(() => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))))
   const boxes = await page.evaluate(() => [...document.querySelectorAll('[role="region"]')]
     .filter((el) => (el as HTMLElement).offsetParent !== null)
     .map((el) => {

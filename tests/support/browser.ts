@@ -24,6 +24,14 @@ export interface Tab {
 export async function openTab(browser: Browser, viewport = { width: 1280, height: 860 }): Promise<Tab> {
   const context = await browser.newContext({ viewport, baseURL: inject('baseUrl'), reducedMotion: 'reduce' })
   const page = await context.newPage()
+  // Every full page load waits for the app to hydrate (plugins/hydrated.client.ts), so a test's
+  // first click reaches Vue's handler instead of a page still starting up.
+  const goto = page.goto.bind(page)
+  page.goto = async (url, options) => {
+    const response = await goto(url, options)
+    await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true' || !window.document.querySelector('#__nuxt'))
+    return response
+  }
   const problems: string[] = []
   page.on('console', (message) => {
     if (message.type() === 'error') problems.push(message.text())
