@@ -39,6 +39,9 @@ export default defineNuxtConfig({
     mail: { retryLimit: 8, retryDelaySeconds: 30, pollSeconds: 2 },
     // Only when a trusted proxy sets X-Forwarded-For; otherwise a client could pick its own address.
     trustProxy: false,
+    // Sign-in throttle (server/utils/throttle.ts): failed or unfinished attempts per account and
+    // per address in a sliding window; NUXT_SIGN_IN_ACCOUNT_LIMIT etc. at run time.
+    signIn: { windowMinutes: 15, accountLimit: 10, addressLimit: 100 },
     demoMailDir: '',
     session: {
       // __Host- pins the cookie to this exact origin over HTTPS (browsers also accept it on

@@ -2,7 +2,7 @@
 // npm run bench: each case is measured against a baseline run side by side in the same
 // process and reported as a ratio, so numbers compare across machines. Results are printed
 // and written to test-results/bench.json. Nothing here is a test: no pass or fail.
-// `npm run bench -- summary` runs one case (http, uploads, summary).
+// `npm run bench -- summary` runs one case (http, uploads, summary, signin).
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -25,6 +25,7 @@ async function main() {
       ['http', 'Request throughput against a bare node:http server', () => import('./bench/http.mjs').then((m) => m.benchHttp(world))],
       ['uploads', 'Uploads against papaparse alone', () => import('./bench/uploads.mjs').then((m) => m.benchUploads(world))],
       ['summary', 'Class summary against the raw SQL', () => import('./bench/summary.mjs').then((m) => m.benchSummary(world))],
+      ['signin', 'Sign-ins with argon2id against stored scrypt hashes', () => import('./bench/signin.mjs').then((m) => m.benchSignIn(world))],
     ]
     for (const [key, label, run] of cases) {
       if (only && only !== key) continue

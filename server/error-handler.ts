@@ -1,11 +1,13 @@
 import type { NitroErrorHandler } from 'nitropack'
-import { isBadRequestValue, isDatabaseUnavailable, statisticsFailureOf } from './utils/errors'
+import { setResponseHeader } from 'h3'
+import { isBadRequestValue, isDatabaseUnavailable, isPasswordQueueFull, statisticsFailureOf } from './utils/errors'
 
 // Runs before Nuxt's own error handler: "PostgreSQL is unreachable" becomes a plain 503, a
 // statistics engine refusing its numbers a 422 with its reason (never a 500), and a value
-// PostgreSQL cannot hold (an id past 2^31, 31 February) a 400; Nuxt renders them. Everything
-// else passes through untouched.
-const handler: NitroErrorHandler = (error) => {
+// PostgreSQL cannot hold (an id past 2^31, 31 February) a 400, a full password-hashing queue
+// (a flood of sign-ins) a 503 to retry shortly; Nuxt renders them. Everything else passes
+// through untouched.
+const handler: NitroErrorHandler = (error, event) => {
   const statistics = statisticsFailureOf(error)
   if (isDatabaseUnavailable(error)) {
     error.statusCode = 503
@@ -18,6 +20,12 @@ const handler: NitroErrorHandler = (error) => {
     error.message = error.statusMessage
     error.data = { reason: statistics.message }
     error.unhandled = false
+  } else if (isPasswordQueueFull(error)) {
+    error.statusCode = 503
+    error.statusMessage = 'Too many sign-ins at once; try again in a moment'
+    error.message = error.statusMessage
+    error.unhandled = false
+    setResponseHeader(event, 'Retry-After', 2)
   } else if (isBadRequestValue(error)) {
     error.statusCode = 400
     error.statusMessage = 'A number or date in the request is out of range'

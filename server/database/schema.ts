@@ -27,7 +27,8 @@ export interface LoginAttemptsTable {
   id: Generated<number>
   email: string
   ip: string
-  succeeded: boolean
+  /** null while the password is being checked (the attempt already counts). */
+  succeeded: boolean | null
   createdAt: CreatedAt
 }
 

@@ -45,3 +45,10 @@ export function isBadRequestValue(error: unknown, depth = 0): boolean {
   if (typeof e.code === 'string' && BAD_VALUE_CODES.has(e.code)) return true
   return isBadRequestValue(e.cause, depth + 1)
 }
+
+/** server/utils/password.ts refusing more work than its queue holds. */
+export function isPasswordQueueFull(error: unknown, depth = 0): boolean {
+  if (!error || typeof error !== 'object' || depth > 5) return false
+  const e = error as { name?: unknown, cause?: unknown }
+  return e.name === 'PasswordQueueFullError' || isPasswordQueueFull(e.cause, depth + 1)
+}

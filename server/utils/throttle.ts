@@ -1,64 +1,93 @@
-import { sql } from 'kysely'
+import { type Kysely, sql, type Transaction } from 'kysely'
+import type { Database } from '../database/schema'
 
 // Kept in PostgreSQL so the limits hold across every Node process behind a load balancer.
-const WINDOW_MINUTES = 15
-export const ACCOUNT_FAILURE_LIMIT = 10
-// A whole teaching lab can sit behind one address, so the address limit is generous.
-export const ADDRESS_FAILURE_LIMIT = 100
-
-export interface Throttled {
-  retryAfterSeconds: number
+// An attempt counts from the moment it is reserved, before its password is checked: a burst of
+// simultaneous guesses sees its own members and stops at the limit.
+export interface SignInLimits {
+  windowMinutes: number
+  /** Failures per account; a successful sign-in clears them. */
+  accountLimit: number
+  /** Failures per address. A whole teaching lab can sit behind one address: keep it generous. */
+  addressLimit: number
 }
 
-async function retryAfter(column: 'email' | 'ip', value: string, count: number, limit: number, since: Date) {
-  // The attempt that must age out of the window before one more try is allowed.
-  const row = await useDb()
-    .selectFrom('loginAttempts')
-    .select('createdAt')
-    .where(column, '=', value)
-    .where('succeeded', '=', false)
-    .where('createdAt', '>', since)
-    .orderBy('createdAt', 'asc')
-    .offset(count - limit)
-    .limit(1)
-    .executeTakeFirst()
-  const freeAt = (row?.createdAt.getTime() ?? Date.now()) + WINDOW_MINUTES * 60_000
-  return Math.max(1, Math.ceil((freeAt - Date.now()) / 1000))
-}
+const DEFAULT_LIMITS: SignInLimits = { windowMinutes: 15, accountLimit: 10, addressLimit: 100 }
 
-export async function checkLoginThrottle(email: string, ip: string): Promise<Throttled | null> {
-  const since = new Date(Date.now() - WINDOW_MINUTES * 60_000)
-  const db = useDb()
-  // Failures before the account's latest success do not count against it.
-  const lastSuccess = await db
-    .selectFrom('loginAttempts')
-    .select((eb) => eb.fn.max('createdAt').as('at'))
-    .where('email', '=', email)
-    .where('succeeded', '=', true)
-    .where('createdAt', '>', since)
-    .executeTakeFirst()
-  const accountSince = lastSuccess?.at ? new Date(lastSuccess.at as unknown as string) : since
-
-  const counts = await db
-    .selectFrom('loginAttempts')
-    .select([
-      sql<number>`count(*) filter (where email = ${email} and created_at > ${accountSince})`.as('byAccount'),
-      sql<number>`count(*) filter (where ip = ${ip})`.as('byAddress'),
-    ])
-    .where('succeeded', '=', false)
-    .where('createdAt', '>', since)
-    .where((eb) => eb.or([eb('email', '=', email), eb('ip', '=', ip)]))
-    .executeTakeFirstOrThrow()
-
-  if (counts.byAccount >= ACCOUNT_FAILURE_LIMIT) {
-    return { retryAfterSeconds: await retryAfter('email', email, counts.byAccount, ACCOUNT_FAILURE_LIMIT, accountSince) }
+let limits: SignInLimits | undefined
+/** From runtime config (NUXT_SIGN_IN_ACCOUNT_LIMIT and friends), read once per process. */
+export function signInLimits(): SignInLimits {
+  if (!limits) {
+    const set = (useRuntimeConfig().signIn ?? {}) as Partial<Record<keyof SignInLimits, unknown>>
+    const pick = (key: keyof SignInLimits) => {
+      const n = Number(set[key])
+      return Number.isInteger(n) && n > 0 ? n : DEFAULT_LIMITS[key]
+    }
+    limits = { windowMinutes: pick('windowMinutes'), accountLimit: pick('accountLimit'), addressLimit: pick('addressLimit') }
   }
-  if (counts.byAddress >= ADDRESS_FAILURE_LIMIT) {
-    return { retryAfterSeconds: await retryAfter('ip', ip, counts.byAddress, ADDRESS_FAILURE_LIMIT, since) }
-  }
-  return null
+  return limits
 }
 
-export async function recordLoginAttempt(email: string, ip: string, succeeded: boolean) {
-  await useDb().insertInto('loginAttempts').values({ email, ip, succeeded }).execute()
+export type Reservation = { attemptId: number } | { retryAfterSeconds: number }
+
+// Two-key advisory locks in spaces of their own (other code locks single 64-bit keys). Every
+// reservation takes both in one and the same statement, so always in the same order: no two
+// sign-ins can wait on each other in a circle.
+const ACCOUNT_LOCK = 1
+const ADDRESS_LOCK = 2
+
+/**
+ * Counts this attempt before the password is checked: under a lock per account and per address,
+ * reads the failures and unfinished attempts in the window and, if both are under their limits,
+ * inserts a pending attempt. Otherwise says how long until the oldest counted attempt ages out.
+ */
+export async function reserveLoginAttempt(email: string, ip: string): Promise<Reservation> {
+  const { windowMinutes, accountLimit, addressLimit } = signInLimits()
+  return useDb().transaction().execute(async (trx) => {
+    await sql`select pg_advisory_xact_lock(${ACCOUNT_LOCK}, hashtext(${email})), pg_advisory_xact_lock(${ADDRESS_LOCK}, hashtext(${ip}))`.execute(trx)
+    // A statement of its own after the locks, so its snapshot sees every reservation before ours.
+    const { rows: [counts] } = await sql<{ byAccount: number, byAddress: number, accountSince: Date, attemptId: number | null }>`
+      with recent as (
+        select email, ip, succeeded, created_at from login_attempts
+        where created_at > now() - make_interval(mins => ${windowMinutes}) and (email = ${email} or ip = ${ip})
+      ), cleared as (
+        select coalesce(max(created_at), now() - make_interval(mins => ${windowMinutes})) as since
+        from recent where email = ${email} and succeeded
+      ), counts as (
+        select
+          count(*) filter (where email = ${email} and succeeded is not true and created_at > cleared.since)::int as by_account,
+          count(*) filter (where ip = ${ip} and succeeded is not true)::int as by_address,
+          cleared.since as account_since
+        from cleared left join recent on true
+        group by cleared.since
+      ), reserved as (
+        insert into login_attempts (email, ip, succeeded)
+        select ${email}, ${ip}, null from counts where by_account < ${accountLimit} and by_address < ${addressLimit}
+        returning id
+      )
+      select counts.*, (select id from reserved) as attempt_id from counts`.execute(trx)
+    const { byAccount, byAddress, accountSince, attemptId } = counts!
+    if (attemptId !== null) return { attemptId }
+    if (byAccount >= accountLimit) {
+      return { retryAfterSeconds: await secondsUntilFree(trx, 'email', email, accountSince, byAccount - accountLimit) }
+    }
+    return { retryAfterSeconds: await secondsUntilFree(trx, 'ip', ip, null, byAddress - addressLimit) }
+  })
+}
+
+// When the counted attempt at `offset` (oldest first) leaves the window, one more try is allowed.
+async function secondsUntilFree(trx: Transaction<Database>, column: 'email' | 'ip', value: string, since: Date | null, offset: number) {
+  const { windowMinutes } = signInLimits()
+  const { rows: [row] } = await sql<{ seconds: number }>`
+    select ceil(extract(epoch from created_at + make_interval(mins => ${windowMinutes}) - now()))::int as seconds
+    from login_attempts
+    where ${sql.ref(column)} = ${value} and succeeded is not true
+      and created_at > greatest(now() - make_interval(mins => ${windowMinutes}), ${since ?? sql`'-infinity'::timestamptz`})
+    order by created_at asc offset ${offset} limit 1`.execute(trx)
+  return Math.max(1, row?.seconds ?? 1)
+}
+
+/** Marks a reserved attempt as failed or succeeded; a success clears the account's count. */
+export async function settleLoginAttempt(db: Kysely<Database> | Transaction<Database>, attemptId: number, succeeded: boolean) {
+  await db.updateTable('loginAttempts').set({ succeeded }).where('id', '=', attemptId).execute()
 }

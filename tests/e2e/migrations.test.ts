@@ -45,6 +45,14 @@ describe('migrations', () => {
       await expect(sql`insert into courses (code, title, term, outlier_test) values ('X', 'X', 'X', 'gesd')`.execute(db)).rejects.toThrow(/check/)
       await gesd.up(db)
       expect(await outlierDefault()).toMatch(/'gesd'/)
+      // A sign-in attempt is written before its password is checked (succeeded null meanwhile);
+      // the down step counts unfinished attempts as failures and restores NOT NULL.
+      const pending = migrations['2026_12_03_1000_login_attempts_pending']!
+      await sql`insert into login_attempts (email, ip, succeeded) values ('someone@test.example', '127.0.0.1', null)`.execute(db)
+      await pending.down!(db)
+      expect((await sql`select succeeded from login_attempts`.execute(db)).rows).toEqual([{ succeeded: false }])
+      await expect(sql`insert into login_attempts (email, ip, succeeded) values ('someone@test.example', '127.0.0.1', null)`.execute(db)).rejects.toThrow(/null/)
+      await pending.up(db)
     } finally {
       await db.destroy()
       await sql.raw(`drop database if exists ${name}`).execute(testDb())

@@ -9,14 +9,12 @@ export default defineEventHandler(async (event) => {
 
   const db = useDb()
   const user = await db.selectFrom('users').select(['email', 'passwordHash']).where('id', '=', me.id).executeTakeFirstOrThrow()
-  const ip = clientAddress(event)
-  const throttled = await checkLoginThrottle(user.email, ip)
-  if (throttled) {
-    setResponseHeader(event, 'Retry-After', throttled.retryAfterSeconds)
+  const attempt = await attemptPassword(event, user.email, { id: me.id, passwordHash: user.passwordHash }, currentPassword)
+  if (attempt.outcome === 'throttled') {
+    setResponseHeader(event, 'Retry-After', attempt.retryAfterSeconds)
     throw createError({ statusCode: 429, statusMessage: 'Too many wrong passwords. Try again later.' })
   }
-  if (!user.passwordHash || !(await verifyUserPassword(user.passwordHash, currentPassword))) {
-    await recordLoginAttempt(user.email, ip, false)
+  if (attempt.outcome !== 'right') {
     invalid([{ field: 'currentPassword', message: 'Current password is incorrect' }], 422)
   }
 

@@ -43,11 +43,11 @@ export function demoPeople(): DemoPerson[] {
   return [...staff, ...students]
 }
 
-/** Inserts the demo people; returns their ids by e-mail. */
-export async function seedPeople(db: Kysely<Database>, passwordHash: string): Promise<Map<string, number>> {
+/** Inserts the demo people (from `demoPeople()`, each with its password hash); returns their ids by e-mail. */
+export async function seedPeople(db: Kysely<Database>, people: Array<DemoPerson & { passwordHash: string }>): Promise<Map<string, number>> {
   const rows = await db
     .insertInto('users')
-    .values(demoPeople().map((p) => ({ ...p, passwordHash })))
+    .values(people)
     .returning(['id', 'email'])
     .execute()
   return new Map(rows.map((r) => [r.email, r.id]))
