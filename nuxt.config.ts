@@ -36,7 +36,24 @@ export default defineNuxtConfig({
       pass: '',
       from: 'Halocline <no-reply@halocline.local>',
     },
-    mail: { retryLimit: 8, retryDelaySeconds: 30, pollSeconds: 2 },
+    mail: {
+      retryLimit: 8,
+      retryDelaySeconds: 30,
+      pollSeconds: 2,
+      // Messages fetched and sent side by side; the job's expiry covers one delivery, not a queue.
+      batchSize: 5,
+      // How long the write that records a delivery is retried through a database blip.
+      recordRetrySeconds: 15,
+      // How often a server looks for messages left by a server process that died (and how long
+      // its own presence must have lasted before it judges others): after a kill -9 and a
+      // restart, held messages go out about this long after the new process is up.
+      sweepSeconds: 5,
+      // pg-boss maintenance: jobs past their expiry go back to the queue.
+      maintenanceSeconds: 30,
+    },
+    // How long a process trusts its copy of an account's session version; a logout or password
+    // change made through another process takes effect here within this time.
+    sessionVersionCacheSeconds: 3,
     // Only when a trusted proxy sets X-Forwarded-For; otherwise a client could pick its own address.
     trustProxy: false,
     // Sign-in throttle (server/utils/throttle.ts): failed or unfinished attempts per account and

@@ -1,8 +1,10 @@
 #!/usr/bin/env node
 // npm start: everything Halocline needs, on 127.0.0.1, from a fresh checkout. Each step prints
-// one line; a failing step says what to do. Ctrl-C stops what this script started.
+// one line; a failing step says what to do. The server is supervised: if it dies it is started
+// again (back-off 1 s, 2 s, 4 s … 30 s), while PostgreSQL and the SMTP fake keep running.
+// Ctrl-C (SIGINT) or SIGTERM stops what this script started.
 import { mkdirSync } from 'node:fs'
-import { dirname, join, resolve } from 'node:path'
+import { dirname, join, relative, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { step } from './lib/steps.mjs'
 import { checkNodeVersion, ensurePostgres } from './lib/system.mjs'
@@ -11,27 +13,32 @@ import { ensureEnvFile } from './lib/env.mjs'
 import { clusterPaths, databaseUrl, ensureDatabase, initCluster, startCluster, stopCluster } from './lib/postgres.mjs'
 import { ensureBuild } from './lib/build.mjs'
 import { startServer, startSmtpFake } from './lib/processes.mjs'
+import { supervise } from './lib/supervise.mjs'
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
-const dataDir = join(root, '.data')
+// HALOCLINE_DATA_DIR moves the cluster and the mail folder elsewhere (a throwaway run, a test).
+const dataDir = resolve(process.env.HALOCLINE_DATA_DIR ?? join(root, '.data'))
 const pgPort = Number(process.env.HALOCLINE_PG_PORT ?? 54329)
 const smtpPort = Number(process.env.HALOCLINE_SMTP_PORT ?? 2525)
 const port = Number(process.env.PORT ?? 3000)
 const appUrl = `http://127.0.0.1:${port}`
+const shown = (path) => relative(root, path) || '.'
 
 const started = { cluster: null, smtp: null, server: null }
 const serverLog = []
+let shuttingDown = false
 
 async function shutdown(code = 0) {
-  started.server?.kill('SIGTERM')
-  started.smtp?.kill('SIGTERM')
+  if (shuttingDown) return
+  shuttingDown = true
+  await Promise.all([started.server?.stop(), started.smtp?.stop()].map((p) => p?.catch(() => {})))
   if (started.cluster) {
     try { stopCluster(started.cluster) } catch { /* already down */ }
   }
   process.exit(code)
 }
-process.on('SIGINT', () => { console.log('\nStopping…'); shutdown(0) })
-process.on('SIGTERM', () => shutdown(0))
+process.on('SIGINT', () => { console.log('\nStopping…'); void shutdown(0) })
+process.on('SIGTERM', () => void shutdown(0))
 
 async function main() {
   console.log('Halocline: preparing everything on 127.0.0.1\n')
@@ -50,7 +57,7 @@ async function main() {
   } else {
     const paths = clusterPaths(dataDir)
     const password = secrets.HALOCLINE_PG_PASSWORD
-    await step('Creating the PostgreSQL cluster in .data/postgres', () => (initCluster(paths, password) ? 'created' : 'exists'))
+    await step(`Creating the PostgreSQL cluster in ${shown(paths.data)}`, () => (initCluster(paths, password) ? 'created' : 'exists'))
     await step(`Starting PostgreSQL on 127.0.0.1:${pgPort}`, () => {
       const didStart = startCluster(paths, pgPort)
       if (didStart) started.cluster = paths
@@ -69,34 +76,41 @@ async function main() {
 
   const mailDir = join(dataDir, 'mail')
   await step(`Starting the local SMTP fake on 127.0.0.1:${smtpPort}`, async () => {
-    started.smtp = await startSmtpFake({ root, port: smtpPort, dir: mailDir })
-    return 'saving to .data/mail'
+    started.smtp = supervise({
+      name: 'The SMTP fake',
+      log: (line) => console.error(`[start] ${line}`),
+      start: () => startSmtpFake({ root, port: smtpPort, dir: mailDir }),
+    })
+    await started.smtp.first
+    return `saving to ${shown(mailDir)}`
   })
   await step('Building the app', () => ensureBuild(root))
+  const serverEnv = {
+    NUXT_DATABASE_URL: url,
+    NUXT_SESSION_PASSWORD: secrets.NUXT_SESSION_PASSWORD,
+    NUXT_SMTP_HOST: '127.0.0.1',
+    NUXT_SMTP_PORT: String(smtpPort),
+    NUXT_DEMO_MAIL_DIR: mailDir,
+    NUXT_PUBLIC_DEMO: 'true',
+    NUXT_PUBLIC_APP_URL: appUrl,
+    ...pickNuxtOverrides(secrets),
+  }
+  let announced = false
   await step(`Serving on ${appUrl}`, async () => {
-    started.server = await startServer({
-      root,
-      port,
-      env: {
-        NUXT_DATABASE_URL: url,
-        NUXT_SESSION_PASSWORD: secrets.NUXT_SESSION_PASSWORD,
-        NUXT_SMTP_HOST: '127.0.0.1',
-        NUXT_SMTP_PORT: String(smtpPort),
-        NUXT_DEMO_MAIL_DIR: mailDir,
-        NUXT_PUBLIC_DEMO: 'true',
-        NUXT_PUBLIC_APP_URL: appUrl,
-        ...pickNuxtOverrides(secrets),
+    started.server = supervise({
+      name: 'The server',
+      log: (line) => console.error(`[start] ${line}`),
+      start: async () => {
+        const child = await startServer({ root, port, env: serverEnv })
+        // The first server's log waits until our progress lines are done; later ones go straight out.
+        if (announced) child.stdout?.pipe(process.stdout)
+        else child.stdout?.on('data', (chunk) => serverLog.push(chunk))
+        return child
       },
     })
-    // The server's own log starts after our progress lines, not in the middle of one.
-    started.server.stdout?.on('data', (chunk) => serverLog.push(chunk))
-    started.server.once('exit', (code) => {
-      console.error(`The server stopped (exit code ${code}).`)
-      shutdown(code ?? 1)
-    })
+    await started.server.first
     return 'up'
   })
-
   console.log(`
 Halocline is running at ${appUrl}
 
@@ -107,12 +121,15 @@ Demo accounts (password: halocline-demo)
   coordinator@larkspur.example   lab coordinator (stockroom)
   student01@larkspur.example     student (… through student64@)
 
-E-mail goes to the local SMTP fake; read it at ${appUrl}/mailbox or in .data/mail/.
-Press Ctrl-C to stop.
+E-mail goes to the local SMTP fake; read it at ${appUrl}/mailbox or in ${shown(mailDir)}/.
+If the server stops, it is started again; PostgreSQL and the SMTP fake keep running.
+Press Ctrl-C to stop everything.
 `)
+  announced = true
   for (const chunk of serverLog.splice(0)) process.stdout.write(chunk)
-  started.server.stdout?.removeAllListeners('data')
-  started.server.stdout?.pipe(process.stdout)
+  const first = started.server.current()
+  first?.stdout?.removeAllListeners('data')
+  first?.stdout?.pipe(process.stdout)
 }
 
 // Anything the operator put in .env as NUXT_* (SMTP provider, proxy trust) wins over defaults.

@@ -5,9 +5,13 @@ import { isPortOpen, waitFor } from './ports.mjs'
 import { fail } from './steps.mjs'
 import { outputDir } from './build.mjs'
 
-export async function startSmtpFake({ root, port, dir, pidFile, stdio = 'ignore' }) {
+/**
+ * @param {{ root: string, port: number, dir: string, pidFile?: string, holdFile?: string, stdio?: any }} options
+ */
+export async function startSmtpFake({ root, port, dir, pidFile, holdFile, stdio = 'ignore' }) {
   if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set HALOCLINE_SMTP_PORT to a free port, or stop what uses it')
-  const child = spawn(process.execPath, [join(root, 'scripts', 'smtp-fake.mjs'), '--port', String(port), '--dir', dir, ...(pidFile ? ['--pid-file', pidFile] : [])], {
+  const extra = [...(pidFile ? ['--pid-file', pidFile] : []), ...(holdFile ? ['--hold-file', holdFile] : [])]
+  const child = spawn(process.execPath, [join(root, 'scripts', 'smtp-fake.mjs'), '--port', String(port), '--dir', dir, ...extra], {
     cwd: root, stdio, detached: false,
   })
   if (!(await waitFor(() => isPortOpen(port), { timeoutMs: 10_000 }))) {

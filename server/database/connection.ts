@@ -26,8 +26,16 @@ export function createPool(connectionString: string, options: ConnectionOptions 
     idleTimeoutMillis: 30_000,
     application_name: options.applicationName ?? 'halocline',
   })
-  // Without a listener, an idle client's error (server restart) would crash the process.
-  pool.on('error', (error) => options.onError?.(error))
+  // A client whose socket dies (PostgreSQL restarted: "terminating connection due to
+  // administrator command", "Connection terminated unexpectedly", ECONNRESET) emits 'error'.
+  // pg-pool listens only while a client is idle; one checked out by a transaction between two
+  // queries had no listener, and the unheard event would crash the process. The query in flight
+  // still rejects (and becomes a 503); the pool drops the broken client when it is released.
+  pool.on('connect', (client) => {
+    client.on('error', (error) => options.onError?.(error))
+  })
+  // Idle clients report through the pool too; the listener above has already told onError.
+  pool.on('error', () => {})
   return pool
 }
 

@@ -70,6 +70,11 @@ export interface MailMessagesTable {
   scheduledAt: Timestamp | null
   sentAt: Timestamp | null
   courseId: number | null
+  /** The presence key of the server process sending it (status 'sending'), else null. */
+  claimedBy: number | null
+  claimedAt: Timestamp | null
+  /** Attempts whose outcome was never known; each was followed by one with the same Message-ID. */
+  unknownOutcomes: Generated<number>
   createdAt: CreatedAt
   updatedAt: UpdatedAt
 }

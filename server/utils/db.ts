@@ -8,7 +8,7 @@ let instance: Kysely<Database> | undefined
 export function useDb(): Kysely<Database> {
   if (!instance) {
     instance = createDatabase(useRuntimeConfig().databaseUrl, {
-      onError: (error) => console.warn(`[db] idle connection lost: ${error.message}`),
+      onError: (error) => console.warn(`[db] connection lost: ${error.message}`),
     })
   }
   return instance

@@ -1,15 +1,22 @@
 // Errors that mean "PostgreSQL is not reachable right now" rather than "this query is wrong".
+// The shapes a restart produces (each seen from pg 8 against a stopped, restarting or
+// immediately shut down cluster): a server notice with a SQLSTATE, a socket errno, or one of
+// pg's and pg-pool's own messages without a code.
 const UNAVAILABLE_CODES = new Set([
-  'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'ENOTFOUND', 'EHOSTUNREACH',
-  '57P01', // admin_shutdown
+  'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'ENOTFOUND', 'EHOSTUNREACH', 'ECONNABORTED', 'EAI_AGAIN',
+  '57P01', // admin_shutdown: "terminating connection due to administrator command"
   '57P02', // crash_shutdown
-  '57P03', // cannot_connect_now (starting up)
+  '57P03', // cannot_connect_now: "the database system is starting up / shutting down"
+  '53300', // too_many_connections, while clients reconnect after a restart
   '08000', '08001', '08003', '08004', '08006',
 ])
 const UNAVAILABLE_MESSAGES = [
-  'Connection terminated',
+  'Connection terminated', // "… unexpectedly", "… due to connection timeout"
   'connection timeout',
-  'Client has encountered a connection error',
+  'timeout exceeded when trying to connect', // pg-pool waiting for a free or new client
+  'timeout expired', // pg's connectionTimeoutMillis: the server took the socket but never answered
+  'Client has encountered a connection error', // a checked-out client that lost its socket
+  'Client was closed and is not queryable',
   'terminating connection',
 ]
 

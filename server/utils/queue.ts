@@ -8,6 +8,7 @@ export const MAIL_QUEUE = 'mail-send'
 
 let ready: Promise<PgBoss> | undefined
 let boss: PgBoss | undefined
+let stopWorkers: (() => Promise<void>) | undefined
 
 async function boot(): Promise<PgBoss> {
   await migrateToLatest(useDb())
@@ -15,11 +16,20 @@ async function boot(): Promise<PgBoss> {
     connectionString: useRuntimeConfig().databaseUrl,
     max: 4,
     application_name: 'halocline-queue',
+    // Maintenance moves jobs past their expiry back to 'retry' (a worker that stalled or died);
+    // pg-boss's default is every 2 minutes. One process does it per interval, whichever asks first.
+    supervise: true,
+    maintenanceIntervalSeconds: mailSettings().maintenanceSeconds,
   })
   // pg-boss reports lost connections as events; unheard, they would crash the process.
   instance.on('error', (error) => console.warn(`[queue] ${error.message}`))
   await instance.start()
-  await registerWorkers(instance)
+  try {
+    stopWorkers = await registerWorkers(instance, usePresence())
+  } catch (error) {
+    await instance.stop({ graceful: false }).catch(() => {})
+    throw error
+  }
   boss = instance
   return instance
 }
@@ -38,9 +48,13 @@ export function useQueue(): Promise<PgBoss> {
 
 export async function stopQueue() {
   const instance = boss
+  const workers = stopWorkers
   boss = undefined
+  stopWorkers = undefined
   ready = undefined
+  await workers?.().catch(() => {})
   await instance?.stop({ graceful: true, timeout: 5000 }).catch(() => {})
+  await stopPresence()
 }
 
 /** Lets pg-boss insert its job inside our transaction: the job exists only if the row commits. */

@@ -3,7 +3,9 @@ import { createHash } from 'node:crypto'
 // Unsealing nuxt-auth-utils' cookie costs far more than the route behind it, and every
 // request needs the account's session version too. Both are cached briefly per process.
 const SESSION_TTL_MS = 60_000
-const ACCOUNT_TTL_MS = 3_000
+// runtimeConfig.sessionVersionCacheSeconds (NUXT_SESSION_VERSION_CACHE_SECONDS), read once.
+let accountTtlMs: number | undefined
+const accountTtl = () => (accountTtlMs ??= Number(useRuntimeConfig().sessionVersionCacheSeconds ?? 3) * 1000)
 const MAX_ENTRIES = 10_000
 
 export interface CachedSession {
@@ -48,7 +50,7 @@ export async function getAccountState(userId: number, load: () => Promise<Accoun
   const hit = accounts.get(userId)
   if (hit && hit.expires >= Date.now()) return hit.value
   const value = await load()
-  if (value) boundedSet(accounts, userId, { value, expires: Date.now() + ACCOUNT_TTL_MS })
+  if (value) boundedSet(accounts, userId, { value, expires: Date.now() + accountTtl() })
   return value
 }
 

@@ -15,6 +15,8 @@ export interface OutboxMessage {
   subject: string
   status: MailStatus
   attempts: number
+  /** Attempts interrupted before their outcome was known; the next one reused the Message-ID. */
+  unknownOutcomes: number
   lastError: string | null
   scheduledAt: string | null
   sentAt: string | null

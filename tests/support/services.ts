@@ -5,9 +5,11 @@ import { simpleParser, type ParsedMail } from 'mailparser'
 import { clusterPaths, startCluster, stopCluster } from '../../scripts/lib/postgres.mjs'
 import { killPidFile, startSmtpFake } from '../../scripts/lib/processes.mjs'
 
-// Stop and start the real services behind the test server, to see how it copes.
-export function stopDatabase() {
-  stopCluster(clusterPaths(inject('pgRoot')), 'fast')
+// Stop and start the real services behind the test server, to see how it copes. 'fast' ends
+// every session with "terminating connection due to administrator command"; 'immediate'
+// drops them without a word, as a crash would (recovery runs at the next start).
+export function stopDatabase(mode: 'fast' | 'immediate' = 'fast') {
+  stopCluster(clusterPaths(inject('pgRoot')), mode)
 }
 
 export function startDatabase() {

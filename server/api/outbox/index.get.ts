@@ -11,7 +11,7 @@ export default defineEventHandler(async (event): Promise<OutboxMessage[]> => {
   const { status, limit } = readQueryAs(event, querySchema)
   let query = useDb()
     .selectFrom('mailMessages')
-    .select(['id', 'kind', 'toAddresses', 'subject', 'status', 'attempts', 'lastError', 'scheduledAt', 'sentAt', 'createdAt'])
+    .select(['id', 'kind', 'toAddresses', 'subject', 'status', 'attempts', 'unknownOutcomes', 'lastError', 'scheduledAt', 'sentAt', 'createdAt'])
     .where(mailVisibleTo(me))
     .orderBy('createdAt', 'desc')
     .limit(limit)
@@ -24,6 +24,7 @@ export default defineEventHandler(async (event): Promise<OutboxMessage[]> => {
     subject: r.subject,
     status: r.status,
     attempts: r.attempts,
+    unknownOutcomes: r.unknownOutcomes,
     lastError: r.lastError,
     scheduledAt: r.scheduledAt?.toISOString() ?? null,
     sentAt: r.sentAt?.toISOString() ?? null,

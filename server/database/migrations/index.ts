@@ -8,6 +8,7 @@ import * as createStockroom from './2026_12_01_1500_create_stockroom'
 import * as outlierTestGesd from './2026_12_03_0930_outlier_test_gesd'
 import * as substrateReferences from './2026_12_03_0940_substrate_references'
 import * as loginAttemptsPending from './2026_12_03_1000_login_attempts_pending'
+import * as mailClaims from './2026_12_03_1200_mail_claims'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -21,4 +22,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_0930_outlier_test_gesd': outlierTestGesd,
   '2026_12_03_0940_substrate_references': substrateReferences,
   '2026_12_03_1000_login_attempts_pending': loginAttemptsPending,
+  '2026_12_03_1200_mail_claims': mailClaims,
 }
