@@ -7,6 +7,7 @@ import * as createDigests from './2026_12_01_1400_create_digests'
 import * as createStockroom from './2026_12_01_1500_create_stockroom'
 import * as outlierTestGesd from './2026_12_03_0930_outlier_test_gesd'
 import * as substrateReferences from './2026_12_03_0940_substrate_references'
+import * as calendarFeedHashes from './2026_12_03_1200_calendar_feed_hashes'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -19,4 +20,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_01_1500_create_stockroom': createStockroom,
   '2026_12_03_0930_outlier_test_gesd': outlierTestGesd,
   '2026_12_03_0940_substrate_references': substrateReferences,
+  '2026_12_03_1200_calendar_feed_hashes': calendarFeedHashes,
 }
