@@ -1,9 +1,12 @@
 import { z } from 'zod'
+import { calendarDateProblem, daysBetween, dateField, MAX_TERM_DAYS } from '#shared/types/fields'
 import type { ScheduleEntry } from '#shared/types/section'
 
-const date = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD')
-  .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'Not a calendar date')
-const querySchema = z.object({ from: date, to: date }).refine((q) => q.to >= q.from, { message: 'to: on or after from', path: ['to'] })
+const querySchema = z.object({ from: dateField(), to: dateField() }).superRefine((q, ctx) => {
+  if (calendarDateProblem(q.from) || calendarDateProblem(q.to)) return
+  if (q.to < q.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'Must be on or after from' })
+  else if (daysBetween(q.from, q.to) > MAX_TERM_DAYS) ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${MAX_TERM_DAYS} days after from` })
+})
 
 // Every meeting the caller may see between two dates (inclusive), with what it runs.
 export default defineEventHandler(async (event): Promise<ScheduleEntry[]> => {

@@ -278,8 +278,18 @@ export interface PracticalSessionsTable {
 
 export interface CalendarFeedsTable {
   userId: number
-  token: string
+  /** SHA-256 (hex) of the feed's token; the token itself is never stored. */
+  tokenHash: string
+  /** The token is HMAC(key from the server secret, seed); null for a token from before seeds. */
+  tokenSeed: Buffer | null
   createdAt: CreatedAt
+}
+
+/** Tokens of feeds that were reset: their URLs answer 410 Gone. */
+export interface CalendarFeedRevocationsTable {
+  tokenHash: string
+  userId: number
+  revokedAt: CreatedAt
 }
 
 export type SubmissionStatus = 'pending' | 'accepted' | 'returned'
@@ -357,6 +367,7 @@ export interface Database extends StockroomTables, DigestTables, LibraryDataTabl
   practicalItems: PracticalItemsTable
   practicalSessions: PracticalSessionsTable
   calendarFeeds: CalendarFeedsTable
+  calendarFeedRevocations: CalendarFeedRevocationsTable
 }
 
 export type User = Selectable<UsersTable>

@@ -1,38 +1,77 @@
-import { randomBytes } from 'node:crypto'
+import { createHash, createHmac, randomBytes } from 'node:crypto'
 import ical from 'ical-generator'
-import type { Transaction } from 'kysely'
+import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../database/schema'
 import type { Role } from '#shared/types/auth'
 
-// Personal iCalendar feeds of lab meetings. The feed URL carries a secret token (one per user,
-// 32 random bytes) instead of a session, so calendar programs can subscribe; resetting the token
-// kills the old URL at once.
+// Personal iCalendar feeds of lab meetings. The feed URL carries a secret token (one per user)
+// instead of a session, so calendar programs can subscribe; resetting it kills the old URL at
+// once (410 Gone from then on).
+//
+// The database never holds the token: a feed is found by the token's SHA-256, and the owner can
+// see the URL again because the token is an HMAC of a stored random seed under a key drawn from
+// the server's secret (NUXT_SESSION_PASSWORD). A copy of the database alone cannot open feeds.
 
-const newToken = () => randomBytes(32).toString('base64url')
+export const hashCalendarToken = (token: string) => createHash('sha256').update(token, 'utf8').digest('hex')
+
+let feedKey: { secret: string, key: Buffer } | undefined
+function calendarTokenOf(seed: Buffer): string {
+  const secret = useRuntimeConfig().session.password as string
+  if (feedKey?.secret !== secret) feedKey = { secret, key: createHmac('sha256', secret).update('halocline calendar feed token').digest() }
+  return createHmac('sha256', feedKey.key).update(seed).digest('base64url')
+}
 
 export function calendarFeedUrl(token: string): string {
   return `${useRuntimeConfig().public.appUrl.replace(/\/$/, '')}/calendar/${token}.ics`
 }
 
-/** The caller's token, created on first use. */
-export async function calendarToken(userId: number): Promise<string> {
-  const db = useDb()
-  await db.insertInto('calendarFeeds').values({ userId, token: newToken() }).onConflict((oc) => oc.column('userId').doNothing()).execute()
-  const row = await db.selectFrom('calendarFeeds').select('token').where('userId', '=', userId).executeTakeFirstOrThrow()
-  return row.token
-}
-
+/** A new seed for the user's feed (the old token, if any, is kept as revoked); returns the token. */
 export async function resetCalendarToken(trx: Transaction<Database>, userId: number): Promise<string> {
-  const token = newToken()
-  await trx.insertInto('calendarFeeds').values({ userId, token })
-    .onConflict((oc) => oc.column('userId').doUpdateSet({ token })).execute()
+  const seed = randomBytes(32)
+  const token = calendarTokenOf(seed)
+  const old = await trx.selectFrom('calendarFeeds').select('tokenHash').where('userId', '=', userId).forUpdate().executeTakeFirst()
+  if (old) await trx.insertInto('calendarFeedRevocations').values({ tokenHash: old.tokenHash, userId }).onConflict((oc) => oc.doNothing()).execute()
+  await trx.insertInto('calendarFeeds').values({ userId, tokenHash: hashCalendarToken(token), tokenSeed: seed })
+    .onConflict((oc) => oc.column('userId').doUpdateSet({ tokenHash: hashCalendarToken(token), tokenSeed: seed })).execute()
   return token
 }
 
+/** The token behind a stored feed, or null when it cannot be worked out (no seed, another secret). */
+function storedCalendarToken(row: { tokenHash: string, tokenSeed: Buffer | null }): string | null {
+  if (!row.tokenSeed) return null
+  const token = calendarTokenOf(row.tokenSeed)
+  return hashCalendarToken(token) === row.tokenHash ? token : null
+}
+
+/**
+ * The caller's token, created on first use. A feed whose token cannot be shown again (stored
+ * before seeds, or made under another server secret) gets a new one; the old URL then answers 410.
+ */
+export async function calendarToken(userId: number): Promise<string> {
+  const stored = (db: Kysely<Database>) => db.selectFrom('calendarFeeds').select(['tokenHash', 'tokenSeed']).where('userId', '=', userId)
+  const row = await stored(useDb()).executeTakeFirst()
+  const token = row && storedCalendarToken(row)
+  if (token) return token
+  return useDb().transaction().execute(async (trx) => {
+    // Two first calls at once: the second keeps the seed the first one wrote.
+    const seed = randomBytes(32)
+    await trx.insertInto('calendarFeeds').values({ userId, tokenHash: hashCalendarToken(calendarTokenOf(seed)), tokenSeed: seed })
+      .onConflict((oc) => oc.column('userId').doNothing()).execute()
+    const again = await stored(trx).forUpdate().executeTakeFirstOrThrow()
+    return storedCalendarToken(again) ?? resetCalendarToken(trx, userId)
+  })
+}
+
+/** Whose feed a token opens; `revoked` when it opened one before a reset. */
 export async function calendarOwner(token: string) {
-  return useDb().selectFrom('calendarFeeds').innerJoin('users', 'users.id', 'calendarFeeds.userId')
+  const db = useDb()
+  const tokenHash = hashCalendarToken(token)
+  const owner = await db.selectFrom('calendarFeeds').innerJoin('users', 'users.id', 'calendarFeeds.userId')
     .select(['users.id', 'users.name', 'users.role', 'users.disabledAt'])
-    .where('calendarFeeds.token', '=', token).executeTakeFirst()
+    .where('calendarFeeds.tokenHash', '=', tokenHash).executeTakeFirst()
+  if (owner) return { owner, revoked: false }
+  const revoked = await db.selectFrom('calendarFeedRevocations').select('userId').where('tokenHash', '=', tokenHash).executeTakeFirst()
+  return { owner: undefined, revoked: Boolean(revoked) }
 }
 
 /** The sections whose meetings belong in someone's calendar, by role; the scope is the where. */

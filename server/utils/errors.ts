@@ -47,10 +47,25 @@ export function statisticsFailureOf(error: unknown, depth = 0): Error | null {
 }
 
 export function isBadRequestValue(error: unknown, depth = 0): boolean {
+  return hasPostgresCode(error, BAD_VALUE_CODES, depth)
+}
+
+// Text PostgreSQL cannot store: NUL (22021) or, in a jsonb value, "\u0000" (22P05). The body
+// readers refuse both first, naming the field; this is the second line for any path they miss.
+const UNSTORABLE_TEXT_CODES = new Set([
+  '22021', // character_not_in_repertoire
+  '22P05', // untranslatable_character
+])
+
+export function isUnstorableText(error: unknown): boolean {
+  return hasPostgresCode(error, UNSTORABLE_TEXT_CODES)
+}
+
+function hasPostgresCode(error: unknown, codes: Set<string>, depth = 0): boolean {
   if (!error || typeof error !== 'object' || depth > 5) return false
   const e = error as { code?: unknown, cause?: unknown }
-  if (typeof e.code === 'string' && BAD_VALUE_CODES.has(e.code)) return true
-  return isBadRequestValue(e.cause, depth + 1)
+  if (typeof e.code === 'string' && codes.has(e.code)) return true
+  return hasPostgresCode(e.cause, codes, depth + 1)
 }
 
 /** server/utils/password.ts refusing more work than its queue holds. */

@@ -4,6 +4,7 @@ import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../database/schema'
 import { MAX_UPLOAD_BYTES } from '#shared/utils/limits'
 import { decodeTextBytes } from '#shared/utils/lib/text-encoding'
+import { codePointLabel, unfitCharacter } from '#shared/utils/text-input'
 import { byteFormatOf, nonTextFormatProblem, readUploadContent, UploadFormatError, type UploadContent } from '#shared/utils/lib/upload-content'
 
 export interface UploadedFile {
@@ -42,6 +43,10 @@ export async function readUpload(event: H3Event, { maxBytes = MAX_UPLOAD_BYTES, 
   if (bytes.length > maxBytes) throw tooLarge(maxBytes)
   const fields: Record<string, string> = {}
   for (const [key, value] of form) if (key !== field && typeof value === 'string') fields[key] = value
+  // The same character rule as JSON bodies; the name is kept and shown, so it is one line too.
+  refuseControlCharacters(fields)
+  const unfit = unfitCharacter(entry.name ?? '', { singleLine: true })
+  if (unfit) throw createError({ statusCode: 400, statusMessage: `${field}: Rename the file: its name holds the control character ${codePointLabel(unfit)}`, data: { field } })
   return {
     file: {
       name: (entry.name || 'upload').slice(0, 200),

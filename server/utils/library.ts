@@ -10,6 +10,7 @@ import { builtInProductName } from '#shared/data/product-names'
 import { analyzeSubstrate, canonicalSmiles } from '#shared/utils/halogenation'
 import { depictSubstrate, positionLetter } from '#shared/utils/depiction'
 import { describeOverlap, findWindowOverlaps, windowDisplayName, type NamedTimeWindow } from '#shared/utils/windows'
+import { messageExcerpt } from '#shared/utils/text-input'
 
 // The substrate library and the halogenation methods. Who sees what:
 //   shared entries (owner null)  every staff member reads them; nobody edits them (copy instead)
@@ -113,7 +114,7 @@ export function canonicalOrInvalid(smiles: string, field: string): string {
   try {
     return canonicalSmiles(smiles)
   } catch {
-    invalid([{ field, message: `“${smiles}” is not a readable SMILES` }])
+    invalid([{ field, message: `“${messageExcerpt(smiles, 60)}” is not a readable SMILES` }])
   }
 }
 
@@ -133,7 +134,7 @@ export function resolveProductNames(names: ProductNameInput[], products: Library
   names.forEach((n, i) => {
     const field = `names.${i}.productSmiles`
     const canonical = canonicalOrInvalid(n.productSmiles, field)
-    if (!index.has(canonical)) invalid([{ field, message: `“${n.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
+    if (!index.has(canonical)) invalid([{ field, message: `“${messageExcerpt(n.productSmiles, 60)}” is not a monohalogenation product of ${substrateName}` }])
     if (seen.has(canonical)) invalid([{ field, message: `${canonical} is named twice` }])
     seen.add(canonical)
     const name = n.name.trim()
@@ -190,7 +191,7 @@ export function resolveWindows(windows: Array<WindowInput & { responseFactor: nu
     if (w.kind === 'product') {
       const canonical = canonicalOrInvalid(w.productSmiles!, field)
       ref = index.get(canonical)
-      if (!ref) invalid([{ field, message: `“${w.productSmiles}” is not a monohalogenation product of ${substrateName}` }])
+      if (!ref) invalid([{ field, message: `“${messageExcerpt(w.productSmiles ?? '', 60)}” is not a monohalogenation product of ${substrateName}` }])
       if (seen.has(ref.smiles)) invalid([{ field, message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])
       seen.set(ref.smiles, i)
     }

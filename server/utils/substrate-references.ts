@@ -3,6 +3,7 @@ import type { SessionUser } from '#shared/types/auth'
 import type { Substrate } from '../database/schema'
 import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput, type ReferenceView } from '#shared/types/library'
 import { analyzeSubstrate } from '#shared/utils/halogenation'
+import { messageExcerpt } from '#shared/utils/text-input'
 
 // Reference distributions of a substrate: what its product mixture really looks like with one
 // reagent family, read by the library page, written by its owner, and filled from the course's
@@ -29,7 +30,7 @@ export function resolveReferencePercents(input: Pick<ReferenceInput, 'percents'>
   const rows = input.percents.map((p, i) => {
     const field = `percents.${i}.productSmiles`
     const smiles = canonicalOrInvalid(p.productSmiles, field)
-    if (!products.includes(smiles)) invalid([{ field, message: `“${p.productSmiles}” is not a product of ${substrate.name} with this reagent` }])
+    if (!products.includes(smiles)) invalid([{ field, message: `“${messageExcerpt(p.productSmiles, 60)}” is not a product of ${substrate.name} with this reagent` }])
     if (seen.has(smiles)) invalid([{ field, message: `${smiles} is listed twice (rows ${seen.get(smiles)! + 1} and ${i + 1})` }])
     seen.set(smiles, i)
     return { smiles, percent: p.percent }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { lineText } from './fields'
 
 // The generalized ESD test comes first: it is the default for new courses (it finds several
 // outliers at once, where repeated Grubbs' tests let two bad runs hide each other).
@@ -30,7 +31,7 @@ export const RELEASE_POLICY_LABELS: Record<ReleasePolicyName, string> = {
 
 export const rubricCriterionSchema = z.object({
   key: z.string().trim().regex(/^[a-z0-9-]{1,40}$/, 'Use lower-case letters, digits and dashes'),
-  label: z.string().trim().min(1, 'Name the criterion').max(80),
+  label: lineText(80, 'Name the criterion'),
   maxPoints: z.number().int('Whole points only').min(1, 'At least 1 point').max(100, 'At most 100 points'),
   kind: z.enum(['accuracy', 'manual']).default('manual'),
 })
@@ -46,9 +47,9 @@ const rubricSchema = z.array(rubricCriterionSchema).min(1, 'Add at least one cri
   .refine((items) => new Set(items.map((i) => i.key)).size === items.length, 'Each criterion needs its own key')
 
 export const courseInputSchema = z.object({
-  code: z.string().trim().min(1, 'Enter the course code').max(30),
-  title: z.string().trim().min(1, 'Enter the course title').max(120),
-  term: z.string().trim().min(1, 'Enter the term, e.g. Spring 2027').max(40),
+  code: lineText(30, 'Enter the course code'),
+  title: lineText(120, 'Enter the course title'),
+  term: lineText(40, 'Enter the term, e.g. Spring 2027'),
   timezone: z.string().trim().min(1).max(64).refine(isTimeZone, 'Not a known time zone (e.g. America/Chicago)').default('America/Chicago'),
 })
 export type CourseInput = z.input<typeof courseInputSchema>
@@ -63,7 +64,14 @@ export const courseSettingsSchema = z.object({
 })
 export type CourseSettings = z.infer<typeof courseSettingsSchema>
 
-export const coOwnerSchema = z.object({ email: z.string().trim().toLowerCase().email('Enter an e-mail address') })
+export const coOwnerSchema = z.object({ email: z.string().trim().toLowerCase().max(254, 'Use at most 254 characters').email('Enter an e-mail address') })
+
+/** Points per rubric criterion, keyed by the criterion's key (a course has at most 12). */
+export const rubricScoresSchema = z.record(
+  z.string().regex(/^[a-z0-9-]{1,40}$/),
+  z.number({ error: 'Enter the points as a number' }).min(0, 'Scores are zero or more').max(1000, 'At most 1000 points'),
+  { error: (issue) => (issue.code === 'invalid_key' ? 'Not a criterion key' : 'Send the scores as an object of points') },
+).refine((scores) => Object.keys(scores).length <= 12, 'At most 12 scores')
 
 function isTimeZone(value: string): boolean {
   try {

@@ -3,12 +3,13 @@
 import { z } from 'zod'
 import type { HazardKey } from '../data/cautions'
 import { cautionsForMethod } from '../data/cautions'
+import { blockText, lineText, recordIdParam } from './fields'
 
-export const libraryIdParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+export const libraryIdParamsSchema = z.object({ id: recordIdParam() })
 
 const SMILES_MAX = 400
 const smiles = z.string().trim().min(1, 'Enter a SMILES string').max(SMILES_MAX, `Use at most ${SMILES_MAX} characters`)
-const notes = z.string().trim().max(4000, 'At most 4000 characters')
+const notes = blockText(4000)
 
 // ── Substrates ────────────────────────────────────────────────────────────────────────────
 
@@ -17,13 +18,13 @@ export type SubstratePreviewInput = z.infer<typeof substratePreviewSchema>
 
 // Plain fields without defaults: a PATCH must not reset what it does not mention.
 const substrateShape = {
-  name: z.string().trim().min(1, 'Name the substrate').max(120, 'At most 120 characters'),
+  name: lineText(120, 'Name the substrate'),
   smiles,
   density: z.number({ error: 'Enter the density as a number' }).finite().gt(0, 'The density must be above 0 g/mL').max(25, 'At most 25 g/mL').nullable(),
   boilingPointC: z.number({ error: 'Enter the boiling point as a number' }).finite().min(-273.15, 'Below absolute zero').max(1000, 'At most 1000 °C').nullable(),
   notes,
   /** Where the density and boiling point come from. */
-  source: z.string().trim().max(300, 'At most 300 characters'),
+  source: lineText(300),
 }
 
 type PhysicalData = { density?: number | null, boilingPointC?: number | null, source?: string }
@@ -64,7 +65,7 @@ export const windowInputSchema = z.object({
   kind: z.enum(WINDOW_KINDS),
   productSmiles: smiles.optional(),
   /** A name for a solvent or starting-material window ("dichloromethane"); products are lettered. */
-  label: z.string().trim().max(60, 'At most 60 characters').optional(),
+  label: lineText(60).optional(),
   rtMin: minutes('window start'),
   rtMax: minutes('window end'),
   responseFactor: z.number({ error: 'Enter the response factor as a number' }).finite().gt(0, 'Must be above 0').max(100, 'At most 100').default(1),
@@ -78,7 +79,7 @@ export type WindowInput = z.input<typeof windowInputSchema>
 /** A product's name as the instructor types it; empty means "use the built-in name, if any". */
 export const productNameSchema = z.object({
   productSmiles: smiles,
-  name: z.string().trim().max(120, 'At most 120 characters'),
+  name: lineText(120),
 })
 export type ProductNameInput = z.input<typeof productNameSchema>
 
@@ -228,7 +229,7 @@ const reactivity = (cls: string, min: 'positive' | 'zero') => {
 }
 
 const methodShape = {
-  name: z.string().trim().min(1, 'Name the method').max(120, 'At most 120 characters'),
+  name: lineText(120, 'Name the method'),
   reagent: z.enum(METHOD_REAGENTS, { error: 'Choose a reagent' }),
   /** Follows from the reagent; sent for clarity and checked against it. */
   halogen: z.enum(['Cl', 'Br']).optional(),
@@ -238,7 +239,7 @@ const methodShape = {
     secondary: reactivity('secondary', 'zero'),
     tertiary: reactivity('tertiary', 'zero'),
   }),
-  source: z.string().trim().min(1, 'Say where the reactivities come from (a paper, handbook, your own standard runs, or “from memory”)').max(500, 'At most 500 characters'),
+  source: blockText(500, 'Say where the reactivities come from (a paper, handbook, your own standard runs, or “from memory”)'),
   notes,
 }
 
@@ -288,7 +289,7 @@ export const REFERENCE_SOURCE_KIND_LABELS: Record<ReferenceSourceKindName, strin
 }
 
 export const referenceParamsSchema = z.object({
-  id: z.coerce.number().int().positive(),
+  id: recordIdParam(),
   reagent: z.enum(METHOD_REAGENTS, { error: 'Not a reagent family' }),
 })
 
@@ -300,7 +301,7 @@ export const referenceInputSchema = z.object({
     productSmiles: smiles,
     percent: z.number({ error: 'Enter the mol % as a number' }).finite().min(0, 'Must be 0 % or more').max(100, 'At most 100 %'),
   })).min(1, 'Give the mol % of each product').max(40, 'At most 40 products'),
-  source: z.string().trim().min(1, 'Say where the distribution comes from (a paper, the course’s earlier results, or “from memory”)').max(500, 'At most 500 characters'),
+  source: lineText(500, 'Say where the distribution comes from (a paper, the course’s earlier results, or “from memory”)'),
   sourceKind: z.enum(REFERENCE_SOURCE_KINDS, { error: 'Choose what kind of source it is' }),
 }).superRefine((value, ctx) => {
   const sum = value.percents.reduce((s, p) => s + p.percent, 0)

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import type { HazardKey } from '../data/cautions'
+import { blockText, dateField, instantField, lineText, recordId, recordIdParam } from './fields'
 
 // Practicals: which substrate and method, which sections run it at which meeting, and what one
 // work unit (a pair at a hood station, or one student) uses. Forms and routes share these schemas.
@@ -35,8 +36,8 @@ export const ITEM_BASIS_LABELS: Record<ItemBasisName, string> = {
 /** Bases that count moles relative to the substrate's mmol. */
 export const RELATIVE_BASES: readonly ItemBasisName[] = ['equivalents', 'mol-percent']
 
-const text = (max: number, message: string) => z.string().trim().min(1, message).max(max, `Use at most ${max} characters`)
-const id = (message: string) => z.number({ error: message }).int(message).positive(message)
+const text = (max: number, message: string) => lineText(max, message)
+const id = (message: string) => recordId(message)
 const optionalPositive = (what: string) => z.number().finite().positive(`${what} must be above zero`).max(100_000).nullable().default(null)
 
 export const practicalInputSchema = z.object({
@@ -44,7 +45,7 @@ export const practicalInputSchema = z.object({
   substrateId: id('Pick a substrate'),
   methodId: id('Pick a method'),
   workUnit: z.enum(WORK_UNITS).default('pair'),
-  notes: z.string().trim().max(4000, 'Use at most 4000 characters').default(''),
+  notes: blockText(4000).default(''),
 })
 export type PracticalInput = z.input<typeof practicalInputSchema>
 
@@ -53,17 +54,15 @@ export const practicalPatchSchema = z.object({
   substrateId: id('Pick a substrate').optional(),
   methodId: id('Pick a method').optional(),
   workUnit: z.enum(WORK_UNITS).optional(),
-  notes: z.string().trim().max(4000, 'Use at most 4000 characters').optional(),
+  notes: blockText(4000).optional(),
 })
 export type PracticalPatch = z.input<typeof practicalPatchSchema>
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD')
-
 export const sessionInputSchema = z.object({
   sectionId: id('Pick a section'),
-  meetingDate: isoDate,
+  meetingDate: dateField(),
   /** An instant (ISO 8601 with offset); default: 7 days after the meeting, 23:59 course time. */
-  dueAt: z.iso.datetime({ offset: true, error: 'Use an ISO 8601 date and time' }).nullable().optional(),
+  dueAt: instantField('Use an ISO 8601 date and time').nullable().optional(),
 })
 export const sessionsInputSchema = z.object({
   sessions: z.array(sessionInputSchema).max(100, 'At most 100 sessions'),
@@ -279,7 +278,7 @@ function trimmed(value: number): string {
 }
 
 /** `:id` in a route path. */
-export const practicalParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+export const practicalParamsSchema = z.object({ id: recordIdParam() })
 
 /** An instant as the course's wall clock: { date: 'YYYY-MM-DD', time: 'HH:MM' }. */
 export function wallClock(iso: string, timezone: string): { date: string, time: string } {

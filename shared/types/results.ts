@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import type { OutlierTestName as OutlierTest } from './course'
 import type { ClassHeadline } from '../utils/headline'
+import { instantField, recordIdList, recordIdParam } from './fields'
 
 // Class results pages, section digests and the cross-term comparison: API types and the
 // schemas shared by the forms and the routes.
@@ -58,7 +59,7 @@ export interface ResultsPracticalDetail {
 }
 
 export const crossTermQuerySchema = z.object({
-  practicalId: z.coerce.number({ error: 'Pick a practical' }).int('Pick a practical').positive('Pick a practical'),
+  practicalId: recordIdParam('Pick a practical'),
 })
 
 export interface CrossTermStats {
@@ -101,15 +102,15 @@ export const DIGEST_AUDIENCES = ['student', 'staff'] as const
 export type DigestAudience = (typeof DIGEST_AUDIENCES)[number]
 
 export const digestPreviewQuerySchema = z.object({
-  sectionId: z.coerce.number({ error: 'Pick a section' }).int('Pick a section').positive('Pick a section'),
+  sectionId: recordIdParam('Pick a section'),
   audience: z.enum(DIGEST_AUDIENCES, { error: 'Choose students or staff' }),
-  userId: z.coerce.number().int().positive('Pick a recipient').optional(),
+  userId: recordIdParam('Pick a recipient').optional(),
 })
 
 export const digestSendSchema = z.object({
-  sectionIds: z.array(z.number().int().positive(), { error: 'Pick at least one section' }).min(1, 'Pick at least one section').max(50),
+  sectionIds: recordIdList(200, 'section'),
   /** ISO instant; absent or null sends now. */
-  sendAt: z.iso.datetime({ offset: true, error: 'Enter a date and time' }).nullish(),
+  sendAt: instantField('Enter a date and time').nullish(),
 })
 export type DigestSendInput = z.input<typeof digestSendSchema>
 

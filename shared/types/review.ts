@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import type { FlagView, PeakView, StoredResult, SubmissionStatusName } from './submission'
-import type { OutlierTestName } from './course'
+import { rubricScoresSchema, type OutlierTestName } from './course'
+import { recordId, recordIdParam } from './fields'
 
 // The TA review side: queue, detail, bulk acceptance, grade export. The review and exclusion
 // bodies themselves are `reviewInputSchema` and `exclusionInputSchema` in ./submission.
@@ -11,23 +12,23 @@ export const KEY_FACTOR_LABELS: Record<ReviewFactorKey, string> = {
   tertiaryToPrimary: '3°:1°',
 }
 
-export const reviewIdParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+export const reviewIdParamsSchema = z.object({ id: recordIdParam() })
 
 export const queueQuerySchema = z.object({
-  section: z.coerce.number().int().positive().optional(),
+  section: recordIdParam().optional(),
   status: z.enum(['pending', 'accepted', 'returned']).optional(),
   flag: z.string().trim().regex(/^[a-z0-9-]{1,60}$/, 'Not a flag code').optional(),
 })
 export type QueueQuery = z.input<typeof queueQuerySchema>
 
 export const detailQuerySchema = z.object({
-  compare: z.coerce.number().int().positive().optional(),
+  compare: recordIdParam().optional(),
 })
 
 export const bulkAcceptSchema = z.object({
-  submissionIds: z.array(z.number().int().positive()).min(1, 'Choose at least one submission').max(500, 'At most 500 at a time'),
+  submissionIds: z.array(recordId('Pick submissions from the list')).min(1, 'Choose at least one submission').max(500, 'At most 500 at a time'),
   /** Points for criteria other than accuracy; missing ones get full marks. */
-  scores: z.record(z.string(), z.number().min(0, 'Scores are zero or more').max(1000)).default({}),
+  scores: rubricScoresSchema.default({}),
 })
 export type BulkAcceptInput = z.input<typeof bulkAcceptSchema>
 

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { newPasswordSchema } from './auth'
+import { lineText, recordId, recordIdParam } from './fields'
 
 // Rosters, invitations and hood stations: the schemas the forms and the routes share, and the
 // shapes the routes answer with.
@@ -20,7 +21,7 @@ export const ROSTER_FIELD_LABELS: Record<RosterField, string> = {
 export type RosterMapping = Record<RosterField, string | null>
 
 // A key left out keeps the suggested column; null unmaps the field.
-const column = z.string().trim().min(1).max(200).nullable().optional()
+const column = lineText(200, 'Choose a column').nullable().optional()
 export const rosterMappingSchema = z.object({
   email: column,
   name: column,
@@ -101,10 +102,10 @@ export const rosterUploadFieldsSchema = z.object({
   confirmConflicts: z.enum(['true', 'false']).default('false'),
 })
 
-export const idParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+export const idParamsSchema = z.object({ id: recordIdParam() })
 
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254, 'At most 254 characters')
-const personName = z.string().trim().min(1, 'Enter the student’s name').max(120, 'At most 120 characters')
+const personName = lineText(120, 'Enter the student’s name')
 
 export const enrollmentAddSchema = z.object({
   email,
@@ -114,9 +115,9 @@ export const enrollmentAddSchema = z.object({
 export type EnrollmentAdd = z.input<typeof enrollmentAddSchema>
 
 export const enrollmentPatchSchema = z.object({
-  sectionId: z.number().int().positive().optional(),
-  station: z.number().int('Whole stations only').min(1, 'Stations start at 1').nullable().optional(),
-  seat: z.number().int('Whole seats only').min(1, 'Seats start at 1').nullable().optional(),
+  sectionId: recordId('Pick a section from the list').optional(),
+  station: z.number().int('Whole stations only').min(1, 'Stations start at 1').max(200, 'At most 200 stations').nullable().optional(),
+  seat: z.number().int('Whole seats only').min(1, 'Seats start at 1').max(4, 'At most 4 seats a station').nullable().optional(),
   confirmConflicts: z.boolean().default(false),
 }).superRefine((p, ctx) => {
   if ((p.station === undefined) !== (p.seat === undefined)) {

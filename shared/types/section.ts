@@ -1,27 +1,32 @@
 import { z } from 'zod'
+import { calendarDateProblem, dateField, daysBetween, lineText, MAX_TERM_DAYS, recordId } from './fields'
 
-const date = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD')
 const time = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d(:[0-5]\d)?$/, 'Use HH:MM (24-hour)')
 
 export const WEEKDAYS = ['Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday', 'Sunday'] as const
 
 export const sectionInputSchema = z.object({
-  code: z.string().trim().min(1, 'Enter a section code').max(20),
+  code: lineText(20, 'Enter a section code'),
   weekday: z.number().int().min(1, 'Pick a weekday').max(7),
   startTime: time,
   endTime: time,
-  room: z.string().trim().min(1, 'Enter the room').max(80),
+  room: lineText(80, 'Enter the room'),
   hoodStations: z.number().int('Whole stations only').min(1, 'At least one station').max(200),
   studentsPerStation: z.number().int().min(1).max(4).default(2),
-  firstDate: date,
-  lastDate: date,
-  skippedDates: z.array(date).max(60).default([]),
-  taIds: z.array(z.number().int().positive()).max(10).default([]),
+  firstDate: dateField(),
+  lastDate: dateField(),
+  skippedDates: z.array(dateField()).max(60, 'At most 60 skipped dates').default([]),
+  taIds: z.array(recordId('Pick teaching assistants from the list')).max(10, 'At most 10 teaching assistants').default([]),
   /** Save despite conflicts the instructor has seen. */
   confirmConflicts: z.boolean().default(false),
 }).superRefine((s, ctx) => {
   if (s.endTime.slice(0, 5) <= s.startTime.slice(0, 5)) ctx.addIssue({ code: 'custom', path: ['endTime'], message: 'End after the start' })
+  if (calendarDateProblem(s.firstDate) || calendarDateProblem(s.lastDate)) return
   if (s.lastDate < s.firstDate) ctx.addIssue({ code: 'custom', path: ['lastDate'], message: 'On or after the first date' })
+  else if (daysBetween(s.firstDate, s.lastDate) > MAX_TERM_DAYS) ctx.addIssue({ code: 'custom', path: ['lastDate'], message: `At most ${MAX_TERM_DAYS} days after the first date` })
+  s.skippedDates.forEach((d, i) => {
+    if (!calendarDateProblem(d) && (d < s.firstDate || d > s.lastDate)) ctx.addIssue({ code: 'custom', path: ['skippedDates', i], message: 'Between the first and the last date' })
+  })
 })
 export type SectionInput = z.input<typeof sectionInputSchema>
 

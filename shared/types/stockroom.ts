@@ -2,6 +2,7 @@
 // by the forms and the routes, and the API types. No openchemlib here: pages import this file.
 import { z } from 'zod'
 import type { HazardKey } from '../data/cautions'
+import { blockText, calendarDateProblem, dateField, daysBetween, lineText, recordId, recordIdParam } from './fields'
 
 export const PHYSICAL_STATES = ['solid', 'liquid', 'gas', 'solution'] as const
 export type PhysicalStateName = (typeof PHYSICAL_STATES)[number]
@@ -53,18 +54,17 @@ export function parseHazardCodes(text: string): string[] {
   return text.split(/[\s,;]+/).map((c) => c.trim().toUpperCase()).filter(Boolean)
 }
 
-const isoDate = (message = 'Use YYYY-MM-DD') => z.string().regex(/^\d{4}-\d{2}-\d{2}$/, message)
-  .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'Not a calendar date')
-const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters`)
+const isoDate = () => dateField()
+const text = (max: number) => lineText(max)
 const positive = (what: string, max: number) => z.number({ error: `Enter ${what} as a number` }).finite().gt(0, `${what[0]!.toUpperCase()}${what.slice(1)} must be above zero`).max(max, `At most ${max}`)
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254)
 
-export const stockroomIdParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+export const stockroomIdParamsSchema = z.object({ id: recordIdParam() })
 
 // ── Reagents ────────────────────────────────────────────────────────────────────────────
 
 const reagentShape = {
-  name: z.string().trim().min(1, 'Name the reagent').max(120, 'Use at most 120 characters'),
+  name: lineText(120, 'Name the reagent'),
   /** When given, the formula and molar mass are worked out from it (IUPAC standard atomic weights). */
   smiles: text(400).nullable().transform((v) => (v ? v : null)),
   formula: text(60),
@@ -77,10 +77,10 @@ const reagentShape = {
   supplierEmail: email.nullable().or(z.literal('').transform(() => null)),
   catalogNumber: text(60),
   signalWord: z.enum(SIGNAL_WORDS).nullable(),
-  hazardCodes: z.array(z.string().trim().toUpperCase().regex(HAZARD_CODE, 'Hazard statements look like H225 or H301+H311')).max(30, 'At most 30 hazard statements')
+  hazardCodes: z.array(z.string().trim().toUpperCase().max(60, 'Use at most 60 characters').regex(HAZARD_CODE, 'Hazard statements look like H225 or H301+H311')).max(30, 'At most 30 hazard statements')
     .transform((codes) => [...new Set(codes)]),
   hazards: z.array(z.enum(REAGENT_HAZARDS)).max(REAGENT_HAZARDS.length).transform((keys) => [...new Set(keys)]),
-  storageNotes: text(1000),
+  storageNotes: blockText(1000),
   shelfLifeMonths: z.number({ error: 'Enter the shelf life in whole months' }).int('Whole months').min(1, 'At least 1 month').max(240, 'At most 240 months').nullable(),
   overagePercent: z.number({ error: 'Enter the overage as a number' }).finite().min(0, 'At least 0 %').max(200, 'At most 200 %'),
   lowStockLevel: z.number({ error: 'Enter the level as a number' }).finite().min(0, 'Zero or more').max(1_000_000, 'At most 1 000 000').nullable(),
@@ -151,14 +151,14 @@ export const usageInputSchema = z.object({
   usedOn: isoDate(),
   amount: positive('the amount', 10_000_000),
   note: text(300).default(''),
-  practicalId: z.number().int().positive().nullable().default(null),
+  practicalId: recordId('Pick a practical from the list').nullable().default(null),
 })
 export type UsageInput = z.input<typeof usageInputSchema>
 
 // ── Links from practical items ──────────────────────────────────────────────────────────
 
 export const itemLinkInputSchema = z.object({
-  reagentId: z.number().int().positive().nullable(),
+  reagentId: recordId('Pick a reagent from the list').nullable(),
   /** g of the reagent per mL of the item, when the item is a solution of a stocked solid. */
   gramsPerMl: positive('the concentration', 10).nullable().default(null),
 })
@@ -169,13 +169,17 @@ export type ItemLinkInput = z.input<typeof itemLinkInputSchema>
 export const FORECAST_MAX_DAYS = 366
 
 export const forecastQuerySchema = z.object({
-  from: isoDate('from: use YYYY-MM-DD'),
-  to: isoDate('to: use YYYY-MM-DD'),
-  courseId: z.coerce.number().int().positive().optional(),
-}).superRefine((q, ctx) => {
-  if (q.to < q.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'The range must end on or after its start' })
-  else if ((Date.parse(q.to) - Date.parse(q.from)) / 86_400_000 > FORECAST_MAX_DAYS) ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${FORECAST_MAX_DAYS} days at a time` })
-})
+  from: isoDate(),
+  to: isoDate(),
+  courseId: recordIdParam().optional(),
+}).superRefine((q, ctx) => forecastRangeIssue(q, ctx))
+
+/** The end of a forecast range: on or after its start, at most FORECAST_MAX_DAYS later. */
+function forecastRangeIssue(q: { from?: string, to?: string }, ctx: z.RefinementCtx) {
+  if (!q.from || !q.to || calendarDateProblem(q.from) || calendarDateProblem(q.to)) return
+  if (q.to < q.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'Must be on or after from' })
+  else if (daysBetween(q.from, q.to) > FORECAST_MAX_DAYS) ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${FORECAST_MAX_DAYS} days after from` })
+}
 export type ForecastQuery = z.input<typeof forecastQuerySchema>
 
 export interface ForecastWeekAmount {
@@ -281,13 +285,13 @@ export const orderCreateSchema = z.object({
   to: isoDate().optional(),
 }).superRefine((v, ctx) => {
   if (Boolean(v.from) !== Boolean(v.to)) ctx.addIssue({ code: 'custom', path: [v.from ? 'to' : 'from'], message: 'Give both ends of the range, or neither' })
-  else if (v.from && v.to && v.to < v.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'The range must end on or after its start' })
+  else forecastRangeIssue(v, ctx)
 })
 export type OrderCreateInput = z.input<typeof orderCreateSchema>
 
 export const orderLineInputSchema = z.object({
-  reagentId: z.number().int().positive().nullable().default(null),
-  name: z.string().trim().min(1, 'Name what to order').max(160, 'Use at most 160 characters'),
+  reagentId: recordId('Pick a reagent from the list').nullable().default(null),
+  name: lineText(160, 'Name what to order'),
   supplierName: text(120).default(''),
   supplierEmail: email.nullable().or(z.literal('').transform(() => null)).default(null),
   catalogNumber: text(60).default(''),
@@ -299,14 +303,14 @@ export const orderLineInputSchema = z.object({
 export type OrderLineInput = z.input<typeof orderLineInputSchema>
 
 export const orderPatchSchema = z.object({
-  title: z.string().trim().min(1, 'Give the sheet a title').max(160, 'Use at most 160 characters').optional(),
-  notes: text(2000).optional(),
+  title: lineText(160, 'Give the sheet a title').optional(),
+  notes: blockText(2000).optional(),
   lines: z.array(orderLineInputSchema).max(200, 'At most 200 lines').optional(),
 }).refine((v) => Object.keys(v).length > 0, 'Change at least one field')
 export type OrderPatch = z.input<typeof orderPatchSchema>
 
 export const receiveLineSchema = z.object({
-  lineId: z.number().int().positive(),
+  lineId: recordId('Not a line of this sheet'),
   /** How many containers came; 0: none of this line. */
   containers: z.number({ error: 'Enter how many came' }).int('Whole containers').min(0, 'Zero or more').max(10_000),
   lotCode: text(60).default(''),
@@ -315,13 +319,13 @@ export const receiveLineSchema = z.object({
 })
 export const receiveInputSchema = z.object({
   receivedOn: isoDate(),
-  lines: z.array(receiveLineSchema).max(200),
+  lines: z.array(receiveLineSchema).max(200, 'At most 200 lines'),
 })
 export type ReceiveInput = z.input<typeof receiveInputSchema>
 
 export const settingsInputSchema = z.object({
   rinseMlPerUnit: z.number({ error: 'Enter the allowance in mL' }).finite().min(0, 'Zero or more').max(1000, 'At most 1000 mL'),
-  deliverTo: text(300),
+  deliverTo: blockText(300),
 }).partial()
 export type SettingsInput = z.input<typeof settingsInputSchema>
 

@@ -1,4 +1,6 @@
 import { z } from 'zod'
+import { rubricScoresSchema } from './course'
+import { blockText } from './fields'
 
 export type SubmissionStatusName = 'pending' | 'accepted' | 'returned'
 export type FlagSeverity = 'info' | 'warning' | 'danger'
@@ -90,14 +92,14 @@ export interface SubmissionPreview extends ResultView {
 
 export const reviewInputSchema = z.object({
   decision: z.enum(['accept', 'return']),
-  reason: z.string().trim().max(2000).optional(),
-  comment: z.string().trim().max(5000).default(''),
-  scores: z.record(z.string(), z.number().min(0, 'Scores are zero or more').max(1000)).default({}),
+  reason: blockText(2000).optional(),
+  comment: blockText(5000).default(''),
+  scores: rubricScoresSchema.default({}),
 }).superRefine((r, ctx) => {
   if (r.decision === 'return' && !r.reason) ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Say why it is returned, so the student can fix it' })
 })
 export type ReviewInput = z.input<typeof reviewInputSchema>
 
 export const exclusionInputSchema = z.object({
-  reason: z.string().trim().min(3, 'Give the reason for excluding this run').max(2000),
+  reason: blockText(2000).min(3, 'Give the reason for excluding this run'),
 })

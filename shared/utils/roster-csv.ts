@@ -4,6 +4,7 @@
 import Papa from 'papaparse'
 import { z } from 'zod'
 import { findConflicts } from './schedule'
+import { messageExcerpt, textInputProblem } from './text-input'
 import type { RosterField, RosterMapping, RosterPreviewRow, RosterRowIssue, RosterSummary } from '../types/roster'
 
 export const MAX_ROSTER_ROWS = 2000
@@ -81,7 +82,7 @@ export function suggestRosterMapping(columns: string[]): RosterMapping {
 export function rosterMappingProblems(mapping: RosterMapping, columns: string[]): Array<{ field: RosterField, message: string }> {
   const problems: Array<{ field: RosterField, message: string }> = []
   for (const [field, column] of Object.entries(mapping) as Array<[RosterField, string | null]>) {
-    if (column && !columns.includes(column)) problems.push({ field, message: `The file has no column “${column}”` })
+    if (column && !columns.includes(column)) problems.push({ field, message: `The file has no column “${messageExcerpt(column, 60)}”` })
   }
   if (!mapping.email) problems.push({ field: 'email', message: 'Choose the column with the e-mail addresses' })
   if (!mapping.name && !mapping.firstName && !mapping.lastName) problems.push({ field: 'name', message: 'Choose the column with the names (or first and last name)' })
@@ -129,7 +130,6 @@ export interface CheckedRosterRow extends RosterPreviewRow {
 
 const emailSchema = z.email().max(254)
 const sectionKey = (code: string) => code.trim().toLowerCase()
-const shown = (text: string) => (text.length > 40 ? `${text.slice(0, 40)}…` : text)
 
 /** Every row's outcome, or every reason it cannot be imported. */
 export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckContext): CheckedRosterRow[] {
@@ -138,6 +138,12 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
   const firstRowOf = new Map<string, number>()
   return rows.map((r) => {
     const errors: RosterRowIssue[] = []
+    // A cell becomes an account's e-mail or name: one line, no control characters.
+    const unfit = (['email', 'name', 'section'] as const).flatMap((field) => {
+      const problem = textInputProblem(field === 'section' ? r.sectionCode : r[field], { singleLine: true })
+      return problem ? [{ field, message: problem }] : []
+    })
+    if (unfit.length) return { ...r, outcome: 'error' as const, errors: unfit, sectionId: null, userId: null }
     if (!r.email) errors.push({ field: 'email', message: 'No e-mail address' })
     else if (!emailSchema.safeParse(r.email).success) errors.push({ field: 'email', message: 'Not an e-mail address' })
     else if (firstRowOf.has(r.email)) errors.push({ field: 'email', message: `Same e-mail as row ${firstRowOf.get(r.email)}` })
@@ -146,7 +152,7 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
     else if (r.name.length > MAX_NAME_LENGTH) errors.push({ field: 'name', message: `Name longer than ${MAX_NAME_LENGTH} characters` })
     const section = r.sectionCode ? sections.get(sectionKey(r.sectionCode)) : undefined
     if (!r.sectionCode) errors.push({ field: 'section', message: 'No section code' })
-    else if (!section) errors.push({ field: 'section', message: `No section “${shown(r.sectionCode)}” in this course` })
+    else if (!section) errors.push({ field: 'section', message: `No section “${messageExcerpt(r.sectionCode)}” in this course` })
     const account = r.email ? context.accounts.get(r.email) : undefined
     if (account && account.role !== 'student') errors.push({ field: 'email', message: 'This e-mail belongs to a staff account, not a student' })
 

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, DEMO, signedIn } from '../support/http'
 import { closeTestDb, testDb } from '../support/db'
@@ -8,6 +9,8 @@ const lines = (text: string) => unfold(text).split('\r\n')
 const events = (text: string) => unfold(text).split('BEGIN:VEVENT').slice(1).map((e) => e.split('END:VEVENT')[0]!)
 const prop = (event: string, name: string) => event.split('\r\n').find((l) => l.startsWith(`${name}:`) || l.startsWith(`${name};`))?.replace(/^[^:]*:/, '')
 const pathOf = (url: string) => new URL(url).pathname
+// What a calendar program sends: no session, no HTML.
+const CALENDAR_PROGRAM = { 'accept': 'text/calendar, */*', 'user-agent': 'CalendarAgent/1.0' }
 
 let sections: Record<string, { id: number, firstDate: string, lastDate: string, weekday: number, skippedDates: string[] }>
 
@@ -69,23 +72,66 @@ describe('calendar feed', () => {
     expect(prop(withPractical[0]!, 'SUMMARY')).toContain('CHEM 2240 section R1')
   })
 
-  it('reset kills the old address at once and the new one works', async () => {
+  it('reset kills the old address at once (410 Gone, plain text) and the new one works', async () => {
     const student = await signedIn(DEMO.student(50))
     const old = (await student.get('/api/calendar')).body.url
     expect((await new Client().get(pathOf(old))).status).toBe(200)
     const reset = await student.post('/api/calendar/reset')
     expect(reset.status).toBe(200)
     expect(reset.body.url).not.toBe(old)
-    expect((await new Client().get(pathOf(old))).status).toBe(404)
+    const gone = await new Client().get(pathOf(old), { headers: CALENDAR_PROGRAM })
+    expect(gone.status).toBe(410)
+    expect(gone.headers.get('location')).toBeNull()
+    expect(gone.headers.get('content-type')).toBe('text/plain; charset=utf-8')
+    expect(gone.body).toMatch(/^This calendar address was replaced\./)
     expect((await new Client().get(pathOf(reset.body.url))).status).toBe(200)
     expect((await student.get('/api/calendar')).body.url).toBe(reset.body.url)
+    // Some programs check an address with HEAD first: the same answers, no redirect.
+    const head = (path: string) => new Client().request(path, { method: 'HEAD', headers: CALENDAR_PROGRAM })
+    expect((await head(pathOf(reset.body.url))).status).toBe(200)
+    const oldHead = await head(pathOf(old))
+    expect([oldHead.status, oldHead.headers.get('location')]).toEqual([410, null])
+    expect((await head(`/calendar/${'B'.repeat(43)}.ics`)).status).toBe(404)
   })
 
-  it('answers 404 to a wrong token and 401 to the API without a session', async () => {
-    expect((await new Client().get(`/calendar/${'A'.repeat(43)}.ics`)).status).toBe(404)
-    expect((await new Client().get('/calendar/short.ics')).status).toBe(404)
+  it('answers a wrong token with a short plain 404, never a redirect to the sign-in page; the API wants a session', async () => {
+    for (const headers of [CALENDAR_PROGRAM, { 'accept': 'text/html,application/xhtml+xml', 'user-agent': 'Mozilla/5.0' }, {}]) {
+      for (const path of [`/calendar/${'A'.repeat(43)}.ics`, '/calendar/short.ics']) {
+        const reply = await new Client().get(path, { headers })
+        expect(reply.status, path).toBe(404)
+        expect(reply.headers.get('location')).toBeNull()
+        expect(reply.headers.get('content-type')).toBe('text/plain; charset=utf-8')
+        expect(reply.body).toBe('No calendar at this address.\n')
+      }
+    }
     expect((await new Client().get('/api/calendar')).status).toBe(401)
     expect((await new Client().post('/api/calendar/reset')).status).toBe(401)
+  })
+
+  it('keeps only a hash of the token: the URL still shows again, and a database copy alone opens nothing', async () => {
+    const student = await signedIn(DEMO.student(51))
+    const url = (await student.get('/api/calendar')).body.url as string
+    const token = /\/calendar\/([\w-]{43})\.ics$/.exec(url)![1]!
+    const row = await testDb().selectFrom('calendarFeeds').innerJoin('users', 'users.id', 'calendarFeeds.userId')
+      .selectAll('calendarFeeds').where('users.email', '=', DEMO.student(51)).executeTakeFirstOrThrow()
+    expect(row.tokenHash).toBe(createHash('sha256').update(token).digest('hex'))
+    expect(JSON.stringify(row)).not.toContain(token)
+    // The seed is not the token: fetching the feed by it finds nothing.
+    expect((await new Client().get(`/calendar/${row.tokenSeed!.toString('base64url')}.ics`)).status).toBe(404)
+    expect((await student.get('/api/calendar')).body.url).toBe(url)
+  })
+
+  it('a token stored before seeds keeps its subscription until its owner asks for the URL again', async () => {
+    const student = await signedIn(DEMO.student(52))
+    const { id } = await testDb().selectFrom('users').select('id').where('email', '=', DEMO.student(52)).executeTakeFirstOrThrow()
+    const legacy = 'L'.repeat(43)
+    await testDb().deleteFrom('calendarFeeds').where('userId', '=', id).execute()
+    await testDb().insertInto('calendarFeeds').values({ userId: id, tokenHash: createHash('sha256').update(legacy).digest('hex'), tokenSeed: null }).execute()
+    expect((await new Client().get(`/calendar/${legacy}.ics`)).status).toBe(200)
+    const fresh = (await student.get('/api/calendar')).body.url
+    expect(fresh).not.toContain(legacy)
+    expect((await new Client().get(`/calendar/${legacy}.ics`)).status).toBe(410)
+    expect((await new Client().get(pathOf(fresh))).status).toBe(200)
   })
 
   it('gives a TA their sections, and the coordinator every section', async () => {

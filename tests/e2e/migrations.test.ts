@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto'
 import { afterAll, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
 import { sql } from 'kysely'
@@ -53,6 +54,18 @@ describe('migrations', () => {
       expect((await sql`select succeeded from login_attempts`.execute(db)).rows).toEqual([{ succeeded: false }])
       await expect(sql`insert into login_attempts (email, ip, succeeded) values ('someone@test.example', '127.0.0.1', null)`.execute(db)).rejects.toThrow(/null/)
       await pending.up(db)
+      // Calendar tokens stored in plain text become their SHA-256; the text itself is dropped.
+      const feeds = migrations['2026_12_03_1200_calendar_feed_hashes']!
+      const plain = db.withoutPlugins()
+      await feeds.down!(plain)
+      const { id } = (await sql<{ id: number }>`insert into users (email, name, role) values ('feed@test.example', 'Feed', 'student') returning id`.execute(db)).rows[0]!
+      await sql`insert into calendar_feeds (user_id, token) values (${id}, ${'T'.repeat(43)})`.execute(db)
+      await feeds.up(plain)
+      const feed = (await sql<Record<string, unknown>>`select * from calendar_feeds where user_id = ${id}`.execute(plain)).rows[0]!
+      expect(feed.token_hash).toBe(createHash('sha256').update('T'.repeat(43)).digest('hex'))
+      expect(feed.token_seed).toBeNull()
+      expect(Object.keys(feed)).not.toContain('token')
+      expect(await schemaSnapshot(url)).toEqual(snapshot)
     } finally {
       await db.destroy()
       await sql.raw(`drop database if exists ${name}`).execute(testDb())

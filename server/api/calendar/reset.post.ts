@@ -1,4 +1,4 @@
-// A new secret for the feed URL: calendars subscribed with the old one get 404 from now on.
+// A new secret for the feed URL: calendars subscribed with the old one get 410 Gone from now on.
 export default defineEventHandler(async (event): Promise<{ url: string }> => {
   const me = requireUser(event)
   const token = await useDb().transaction().execute(async (trx) => {

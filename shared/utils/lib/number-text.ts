@@ -2,6 +2,7 @@
 // one, a space, a no-break space or an apostrophe may group thousands; times may be m:ss. A cell
 // like "45,769" reads two ways, so each column gets one decimal mark from evidence in the file
 // (never from the delimiter's habit), and what stays ambiguous is refused with both readings.
+import { messageExcerpt } from '../text-input'
 
 export type Mark = '.' | ','
 
@@ -306,10 +307,9 @@ export function ungroupedWitness(reads: CellRead[]): number {
   return widestDigits >= 5 || (widestDigits === 4 && groupedFour) ? widest : -1
 }
 
-/** At most `max` characters of a cell for a message, with "…" when cut. */
+/** At most `max` characters of a cell for a message, with "…" when cut, and no markup or controls. */
 export function excerpt(text: string, max = 40): string {
-  const s = text.trim()
-  return s.length <= max ? s : `${s.slice(0, max - 1).trimEnd()}…`
+  return messageExcerpt(text, max)
 }
 
 /** A cheap test for "this cell is meant as a number" (used to tell data rows from text). */

@@ -1,0 +1,84 @@
+import { z } from 'zod'
+import { textInputProblem } from '../utils/text-input'
+
+// The pieces every schema is built from, so each text has a length and a character rule, each
+// date a plausible range, each id a PostgreSQL integer and each list a size. Every helper gives
+// one message per problem, without the field name: the server puts "field: " in front.
+
+/** Teaching dates: anything outside is a typing slip (1000-01-01, 9999-12-31), not a term. */
+export const EARLIEST_DATE = '2000-01-01'
+export const LATEST_DATE = '2100-12-31'
+/** A section's meetings span at most this many days (a long academic year). */
+export const MAX_TERM_DAYS = 366
+/** PostgreSQL's integer: ids beyond it name nothing. */
+export const MAX_RECORD_ID = 2_147_483_647
+
+/** One line of text (a name, a code, a room): trimmed, at most `max` characters, no breaks. */
+export function lineText(max: number, required?: string) {
+  const base = z.string().trim()
+  return (required ? base.min(1, required) : base).max(max, `Use at most ${max} characters`)
+    .superRefine((value, ctx) => {
+      const problem = textInputProblem(value, { singleLine: true })
+      if (problem) ctx.addIssue({ code: 'custom', message: problem })
+    })
+}
+
+/** Text that may run over several lines (notes, comments, reasons, an address). */
+export function blockText(max: number, required?: string) {
+  const base = z.string().trim()
+  return (required ? base.min(1, required) : base).max(max, `Use at most ${max} characters`)
+    .superRefine((value, ctx) => {
+      const problem = textInputProblem(value)
+      if (problem) ctx.addIssue({ code: 'custom', message: problem })
+    })
+}
+
+const DATE_SHAPE = /^\d{4}-\d{2}-\d{2}$/
+
+/** What is wrong with a YYYY-MM-DD date, or null: one sentence, whichever check fails first. */
+export function calendarDateProblem(value: string): string | null {
+  if (!DATE_SHAPE.test(value)) return 'Use YYYY-MM-DD'
+  const time = Date.parse(`${value}T00:00:00Z`)
+  if (Number.isNaN(time) || new Date(time).toISOString().slice(0, 10) !== value) return 'Not a calendar date'
+  if (value < EARLIEST_DATE || value > LATEST_DATE) return `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}`
+  return null
+}
+
+/** A calendar date, 'YYYY-MM-DD', between EARLIEST_DATE and LATEST_DATE. */
+export function dateField(format = 'Use YYYY-MM-DD') {
+  return z.string({ error: format }).superRefine((value, ctx) => {
+    const problem = calendarDateProblem(value)
+    if (problem) ctx.addIssue({ code: 'custom', message: problem === 'Use YYYY-MM-DD' ? format : problem })
+  })
+}
+
+/** An instant with its offset (ISO 8601), in the same range of years as the dates. */
+export function instantField(format = 'Use an ISO 8601 date and time with its offset') {
+  return z.string({ error: format }).superRefine((value, ctx) => {
+    if (!z.iso.datetime({ offset: true }).safeParse(value).success) return void ctx.addIssue({ code: 'custom', message: format })
+    const day = new Date(value).toISOString().slice(0, 10)
+    if (day < EARLIEST_DATE || day > LATEST_DATE) ctx.addIssue({ code: 'custom', message: `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}` })
+  })
+}
+
+/** Whole days from one YYYY-MM-DD to another. */
+export function daysBetween(from: string, to: string): number {
+  return Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000)
+}
+
+/** The id of a stored row, in a JSON body. */
+export function recordId(message = 'Pick an item from the list') {
+  return z.number({ error: message }).int(message).min(1, message).max(MAX_RECORD_ID, message)
+}
+
+/** `:id` in a path or `?id=` in a query: digits only. */
+export function recordIdParam(message = 'Not an id') {
+  return z.coerce.number({ error: message }).int(message).min(1, message).max(MAX_RECORD_ID, message)
+}
+
+/** A list of ids: at least one, at most `max`, e.g. recordIdList(200, 'section', 'sections'). */
+export function recordIdList(max: number, noun: string, plural = `${noun}s`) {
+  return z.array(recordId(`Pick a ${noun} from the list`), { error: `Send a list of ${plural}` })
+    .min(1, `Pick at least one ${noun}`)
+    .max(max, `At most ${max} ${plural}`)
+}
