@@ -1,11 +1,15 @@
 import type { NitroErrorHandler } from 'nitropack'
+import { setResponseHeader } from 'h3'
 import { isBadRequestValue, isDatabaseUnavailable, statisticsFailureOf } from './utils/errors'
 
 // Runs before Nuxt's own error handler: "PostgreSQL is unreachable" becomes a plain 503, a
 // statistics engine refusing its numbers a 422 with its reason (never a 500), and a value
 // PostgreSQL cannot hold (an id past 2^31, 31 February) a 400; Nuxt renders them. Everything
 // else passes through untouched.
-const handler: NitroErrorHandler = (error) => {
+const handler: NitroErrorHandler = (error, event) => {
+  // A busy engine pool (server/utils/engines.ts) says when to try again.
+  const retryAfter = (error.data as { retryAfterSeconds?: unknown } | undefined)?.retryAfterSeconds
+  if (typeof retryAfter === 'number') setResponseHeader(event, 'retry-after', retryAfter)
   const statistics = statisticsFailureOf(error)
   if (isDatabaseUnavailable(error)) {
     error.statusCode = 503

@@ -1,6 +1,7 @@
 // The stockroom: reagent catalog, lots and usage, the forecast, order sheets. Zod schemas shared
 // by the forms and the routes, and the API types. No openchemlib here: pages import this file.
 import { z } from 'zod'
+import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
 
 export const PHYSICAL_STATES = ['solid', 'liquid', 'gas', 'solution'] as const
@@ -66,7 +67,7 @@ export const stockroomIdParamsSchema = z.object({ id: z.coerce.number().int().po
 const reagentShape = {
   name: z.string().trim().min(1, 'Name the reagent').max(120, 'Use at most 120 characters'),
   /** When given, the formula and molar mass are worked out from it (IUPAC standard atomic weights). */
-  smiles: text(400).nullable().transform((v) => (v ? v : null)),
+  smiles: smilesField('reagent', { optional: true }).nullable().transform((v) => (v ? v : null)),
   formula: text(60),
   molarMass: positive('the molar mass', 100_000).nullable(),
   physicalState: z.enum(PHYSICAL_STATES, { error: 'Pick a physical state' }),
