@@ -12,7 +12,7 @@ export interface EnginePoolOptions {
   /** The worker module (server/engines/worker.ts, or the file the build made of it). */
   filename: string | URL
   threads: number
-  /** Tasks that may wait for a thread; one more is refused. */
+  /** Tasks that may wait for a thread beside the `threads` running; one more is refused. */
   maxQueue: number
   /** Running time allowed per task, ms. */
   taskTimeoutMs: number
@@ -41,7 +41,6 @@ export class EngineTimeoutError extends Error {
 export interface EnginePool {
   run<K extends EngineTaskName>(task: K, payload: EngineTaskInput<K>, transfer?: ArrayBuffer[]): Promise<EngineTaskOutput<K>>
   close(): Promise<void>
-  readonly queued: number
 }
 
 export function createEnginePool(options: EnginePoolOptions): EnginePool {
@@ -49,7 +48,8 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
     filename: options.filename instanceof URL ? options.filename.href : options.filename,
     minThreads: options.threads,
     maxThreads: options.threads,
-    maxQueue: options.maxQueue,
+    // The bound is kept below (tinypool's own counts a starting worker's place as free).
+    maxQueue: Infinity,
     // Kept warm: a new worker pays for loading and priming openchemlib.
     idleTimeout: 0,
     execArgv: options.execArgv,
@@ -57,9 +57,12 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
   // A worker that dies with no task on it is reported here; unhandled, it would end the process.
   pool.on('error', (error: unknown) => options.onError?.(error))
   const retryAfterSeconds = Math.max(1, Math.ceil(options.taskTimeoutMs / 1000 / 3))
+  // Tasks accepted and not yet settled: running ones and waiting ones.
+  let accepted = 0
 
   async function run<K extends EngineTaskName>(task: K, payload: EngineTaskInput<K>, transfer: ArrayBuffer[] = []): Promise<EngineTaskOutput<K>> {
-    if (pool.queueSize >= options.maxQueue) throw new EngineBusyError(retryAfterSeconds)
+    if (accepted >= options.threads + options.maxQueue) throw new EngineBusyError(retryAfterSeconds)
+    accepted++
     const controller = new AbortController()
     const { port1, port2 } = new MessageChannel()
     let stoppedFor: 'queue' | 'budget' | null = null
@@ -79,9 +82,9 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
     } catch (error) {
       if (stoppedFor === 'budget') throw new EngineTimeoutError(options.taskTimeoutMs)
       if (stoppedFor === 'queue') throw new EngineBusyError(retryAfterSeconds)
-      if (error instanceof Error && /queue is at limit|no task queue/i.test(error.message)) throw new EngineBusyError(retryAfterSeconds)
       throw error
     } finally {
+      accepted--
       clearTimeout(timer)
       port1.close()
     }
@@ -90,6 +93,5 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
   return {
     run,
     close: () => pool.destroy(),
-    get queued() { return pool.queueSize },
   }
 }

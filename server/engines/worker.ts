@@ -23,8 +23,8 @@ analyzeSubstrate('CC(C)C(C)C')
 depictSubstrate('CC(C)C(C)C')
 
 export default async function runInWorker(message: EngineMessage): Promise<EngineReply> {
+  // The pool closes the channel when the task settles.
   message.started?.postMessage('started')
-  message.started?.close()
   try {
     return { ok: true, value: await runEngineTask(message.task, message.payload as never) }
   } catch (error) {
