@@ -1,3 +1,30 @@
+import { resolve, sep } from 'node:path'
+import type { Nitro } from 'nitropack'
+import type { GetManualChunk, OutputOptions, RollupOptions } from 'rollup'
+
+// The engine worker (server/engines/worker.ts) is a second entry of the server bundle, written to
+// .output/server/workers/engines.mjs, so that server/utils/engines.ts finds it next to index.mjs.
+// The code it shares with the server (shared/, server/engines/) goes into a chunk of its own:
+// left to Rollup it would land in Nitro's runtime chunk, and importing that in a worker would
+// start a second server. Nitro's dev server bundles into one file; there the engines run inline.
+function addEngineWorker(nitro: Nitro) {
+  if (nitro.options.dev) return
+  const root = nitro.options.rootDir
+  const engineCode = [resolve(root, 'shared') + sep, resolve(root, 'server/engines') + sep]
+  const isEngineCode = (id: string) => engineCode.some((dir) => id.startsWith(dir)) && !id.endsWith(`${sep}pool.ts`)
+  nitro.hooks.hook('rollup:before', (_nitro, config: RollupOptions) => {
+    const output = config.output as OutputOptions
+    const nitroChunks = output.manualChunks as GetManualChunk | undefined
+    output.manualChunks = (id, meta) => (isEngineCode(id) ? 'engines' : nitroChunks?.(id, meta))
+    config.plugins = [...(Array.isArray(config.plugins) ? config.plugins : [config.plugins]), {
+      name: 'halocline-engine-worker',
+      buildStart() {
+        this.emitFile({ type: 'chunk', id: resolve(root, 'server/engines/worker.ts'), fileName: 'workers/engines.mjs' })
+      },
+    }]
+  })
+}
+
 // Several builds can live side by side (parallel work, benchmarks): HALOCLINE_BUILD_TAG=x
 // builds into .nuxt-x and .output-x instead of .nuxt and .output.
 const tag = process.env.HALOCLINE_BUILD_TAG?.replace(/[^\w-]/g, '')
@@ -70,6 +97,9 @@ export default defineNuxtConfig({
       maxAge: 60 * 60 * 12,
       cookie: { sameSite: 'lax', secure: true, httpOnly: true },
     },
+    // Worker threads for the engines (server/utils/engines.ts): threads 0 means one per core but
+    // one; times in ms.
+    engines: { threads: 0, maxQueue: 32, taskTimeoutMs: 15_000, queueTimeoutMs: 30_000 },
     public: {
       demo: false,
       appUrl: 'http://127.0.0.1:3000',
@@ -82,5 +112,6 @@ export default defineNuxtConfig({
       const nuxtHandler = config.errorHandler
       config.errorHandler = ['~~/server/error-handler', ...(Array.isArray(nuxtHandler) ? nuxtHandler : nuxtHandler ? [nuxtHandler] : [])]
     },
+    'nitro:init': addEngineWorker,
   },
 })

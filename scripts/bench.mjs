@@ -2,10 +2,10 @@
 // npm run bench: each case is measured against a baseline run side by side in the same
 // process and reported as a ratio, so numbers compare across machines. Results are printed
 // and written to test-results/bench.json. Nothing here is a test: no pass or fail.
-// `npm run bench -- summary` runs one case (http, uploads, summary, signin).
-import { mkdirSync, writeFileSync } from 'node:fs'
+// `npm run bench -- summary` runs one case (http, uploads, summary, signin, loop).
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
-import { fileURLToPath } from 'node:url'
+import { fileURLToPath, pathToFileURL } from 'node:url'
 import { step } from './lib/steps.mjs'
 import { checkNodeVersion, ensurePostgres } from './lib/system.mjs'
 import { ensureNodeModules } from './lib/deps.mjs'
@@ -17,7 +17,10 @@ async function main() {
   await step('Checking PostgreSQL server binaries', ensurePostgres)
   await step('Checking npm packages', () => ensureNodeModules(root))
   const { startWorld } = await import('./lib/world.mjs')
-  const world = await step('Starting a throwaway Halocline', async () => ({ note: 'up', ...(await startWorld(root, { name: 'bench' })) }))
+  // The server measures its own event loop for the "loop" case (bench/loop-probe.mjs).
+  const loopProbeFile = join(root, '.data', `bench-loop-${process.pid}.json`)
+  const serverEnv = { NODE_OPTIONS: `--import ${pathToFileURL(join(root, 'scripts', 'bench', 'loop-probe.mjs')).href}`, HALOCLINE_LOOP_PROBE_FILE: loopProbeFile }
+  const world = await step('Starting a throwaway Halocline', async () => ({ note: 'up', loopProbeFile, ...(await startWorld(root, { name: 'bench', serverEnv })) }))
   const results = {}
   try {
     const only = process.argv[2]
@@ -26,6 +29,7 @@ async function main() {
       ['uploads', 'Uploads against papaparse alone', () => import('./bench/uploads.mjs').then((m) => m.benchUploads(world))],
       ['summary', 'Class summary against the raw SQL', () => import('./bench/summary.mjs').then((m) => m.benchSummary(world))],
       ['signin', 'Sign-ins with argon2id against stored scrypt hashes', () => import('./bench/signin.mjs').then((m) => m.benchSignIn(world))],
+      ['loop', 'Event-loop delay under uploads, chemistry and summaries', () => import('./bench/loop.mjs').then((m) => m.benchLoop(world))],
     ]
     for (const [key, label, run] of cases) {
       if (only && only !== key) continue
@@ -33,6 +37,7 @@ async function main() {
     }
   } finally {
     await world.stop()
+    rmSync(loopProbeFile, { force: true })
   }
   for (const [name, rows] of Object.entries(results)) {
     console.log(`\n${name}`)

@@ -8,6 +8,9 @@ import { errorMessageText, statusLineText } from './utils/status-line'
 // PostgreSQL cannot hold (an id past 2^31, 31 February, a NUL in a text) a 400, a full
 // password-hashing queue (a flood of sign-ins) a 503 to retry shortly; Nuxt renders them. Then every error's words are made safe to send (see `shortenErrorText`).
 const handler: NitroErrorHandler = (error, event, { defaultHandler }) => {
+  // A busy engine pool (server/utils/engines.ts) says when to try again.
+  const retryAfter = (error.data as { retryAfterSeconds?: unknown } | undefined)?.retryAfterSeconds
+  if (typeof retryAfter === 'number') setResponseHeader(event, 'retry-after', retryAfter)
   const statistics = statisticsFailureOf(error)
   if (isDatabaseUnavailable(error)) {
     error.statusCode = 503

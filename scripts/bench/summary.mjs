@@ -11,7 +11,7 @@ const RAW = `select distinct on (s.unit_key) s.id, s.section_id, s.unit_key, s.f
   order by s.unit_key, s.version desc`
 
 /** A practical of its own with n units' results (and a superseded version for a tenth of them). */
-async function fill(client, n) {
+export async function fill(client, n) {
   const { rows: [base] } = await client.query(`select p.course_id, p.substrate_id, p.method_id, (select id from files limit 1) as file_id,
     (select id from users where role = 'student' limit 1) as user_id from practicals p where p.title like 'Chlorination%' limit 1`)
   const { rows: sections } = await client.query('select id from sections where course_id = $1 order by id', [base.course_id])

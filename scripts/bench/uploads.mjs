@@ -6,13 +6,13 @@ import { signIn } from '../lib/world.mjs'
 
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
 
-function peakTable(rows, variant) {
+export function peakTable(rows, variant) {
   const lines = ['Peak,Ret. Time (min),Area,Area %']
   for (let i = 0; i < rows; i++) lines.push(`${i + 1},${(0.5 + i * 0.0019).toFixed(4)},${(1000 + ((i * 7919 + variant) % 5000)).toFixed(1)},`)
   return `${lines.join('\n')}\n`
 }
 
-function trace(points, variant) {
+export function trace(points, variant) {
   const lines = ['Time (min),Signal (pA)']
   const peaks = [1.4, 1.9, 3.12, 3.62]
   for (let i = 0; i < points; i++) {

@@ -63,7 +63,7 @@ export async function startWorld(root, { name = 'world', database = 'halocline',
       server.once('exit', resolve)
       server.kill('SIGTERM')
     }))
-    return { baseUrl: `http://127.0.0.1:${port}`, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop }
+    return { baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop }
   } catch (error) {
     await stop()
     throw error

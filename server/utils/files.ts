@@ -5,7 +5,7 @@ import type { Database } from '../database/schema'
 import { MAX_UPLOAD_BYTES } from '#shared/utils/limits'
 import { decodeTextBytes } from '#shared/utils/lib/text-encoding'
 import { codePointLabel, unfitCharacter } from '#shared/utils/text-input'
-import { byteFormatOf, nonTextFormatProblem, readUploadContent, UploadFormatError, type UploadContent } from '#shared/utils/lib/upload-content'
+import { byteFormatOf, nonTextFormatProblem, UploadFormatError } from '#shared/utils/lib/upload-content'
 
 export interface UploadedFile {
   name: string
@@ -77,19 +77,14 @@ export function uploadAsText(file: UploadedFile): string {
 }
 
 /**
- * What a GC upload holds (text, the first sheet of an .xlsx, or an ANDI/AIA netCDF trace or
- * peak table), by its bytes; a 415 or 422 with the reason (and the stored peaks at fault) when
- * it cannot be read.
+ * An unreadable GC upload (text, .xlsx or ANDI/AIA netCDF) as its 415 or 422, with the reason and
+ * the stored peaks at fault; any other error unchanged.
  */
-export async function uploadContent(file: UploadedFile): Promise<UploadContent> {
-  try {
-    return await readUploadContent(file.bytes)
-  } catch (error) {
-    if (error instanceof UploadFormatError) {
-      throw createError({ statusCode: error.status, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
-    }
-    throw error
+export function asUploadFormatError(error: unknown): unknown {
+  if (error instanceof UploadFormatError) {
+    return createError({ statusCode: error.status, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
   }
+  return error
 }
 
 /** Keeps the original bytes forever (uploads are never lost); returns the file row id. */

@@ -7,8 +7,7 @@ import type {
 } from '#shared/types/library'
 import { REAGENT_HALOGEN } from '#shared/types/library'
 import { builtInProductName } from '#shared/data/product-names'
-import { analyzeSubstrate, canonicalSmiles } from '#shared/utils/halogenation'
-import { depictSubstrate, positionLetter } from '#shared/utils/depiction'
+import { positionLetter } from '#shared/utils/depiction'
 import { describeOverlap, findWindowOverlaps, windowDisplayName, type NamedTimeWindow } from '#shared/utils/windows'
 import { messageExcerpt } from '#shared/utils/text-input'
 
@@ -92,9 +91,8 @@ export function copyName(name: string): string {
 // ── Substrates ──────────────────────────────────────────────────────────────────────────────
 
 /** Chlorination products, lettered as the depiction letters them, each with its bromo twin and their names. */
-export function libraryProducts(smiles: string, nameOf: (smiles: string) => string | null = builtInProductName): LibraryProduct[] {
-  const cl = analyzeSubstrate(smiles, { halogen: 'Cl' })
-  const br = analyzeSubstrate(smiles, { halogen: 'Br' })
+export async function libraryProducts(smiles: string, nameOf: (smiles: string) => string | null = builtInProductName): Promise<LibraryProduct[]> {
+  const [cl, br] = await Promise.all([substrateAnalysis(smiles, 'Cl'), substrateAnalysis(smiles, 'Br')])
   return cl.products.map((p, i) => {
     const brominated = (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles
     return {
@@ -109,13 +107,13 @@ export function libraryProducts(smiles: string, nameOf: (smiles: string) => stri
   })
 }
 
-/** A client's SMILES for a product in canonical form, or a 400 naming the field. */
-export function canonicalOrInvalid(smiles: string, field: string): string {
-  try {
-    return canonicalSmiles(smiles)
-  } catch {
-    invalid([{ field, message: `“${messageExcerpt(smiles, 60)}” is not a readable SMILES` }])
-  }
+/**
+ * A client's SMILES for products in canonical form (read in one engine task), or a 400 naming
+ * the field of the first that cannot be read.
+ */
+export async function canonicalOrInvalid(items: Array<{ smiles: string, field: string }>): Promise<string[]> {
+  const forms = await canonicalForms(items.map((i) => i.smiles))
+  return items.map((item, i) => forms[i] ?? invalid([{ field: item.field, message: `“${messageExcerpt(item.smiles, 60)}” is not a readable SMILES` }]))
 }
 
 /** The same products with names from another source (after the instructor renamed some). */
@@ -127,13 +125,14 @@ export function renameLibraryProducts(products: LibraryProduct[], nameOf: (smile
  * The names to store for a substrate's products: each SMILES matched to one of its products
  * (any spelling), no product twice; a name equal to the built-in one, or empty, stores nothing.
  */
-export function resolveProductNames(names: ProductNameInput[], products: LibraryProduct[], substrateName: string): Array<{ productSmiles: string, name: string }> {
+export async function resolveProductNames(names: ProductNameInput[], products: LibraryProduct[], substrateName: string): Promise<Array<{ productSmiles: string, name: string }>> {
   const index = productIndex(products)
   const seen = new Set<string>()
   const rows: Array<{ productSmiles: string, name: string }> = []
+  const forms = await canonicalOrInvalid(names.map((n, i) => ({ smiles: n.productSmiles, field: `names.${i}.productSmiles` })))
   names.forEach((n, i) => {
     const field = `names.${i}.productSmiles`
-    const canonical = canonicalOrInvalid(n.productSmiles, field)
+    const canonical = forms[i]!
     if (!index.has(canonical)) invalid([{ field, message: `“${messageExcerpt(n.productSmiles, 60)}” is not a monohalogenation product of ${substrateName}` }])
     if (seen.has(canonical)) invalid([{ field, message: `${canonical} is named twice` }])
     seen.add(canonical)
@@ -182,14 +181,16 @@ export interface WindowRowValues {
  * Matches each product window to the substrate's products (any SMILES spelling), then refuses
  * duplicates and overlapping windows, naming the rows. Returns the rows to store.
  */
-export function resolveWindows(windows: Array<WindowInput & { responseFactor: number }>, products: LibraryProduct[], substrateName: string): WindowRowValues[] {
+export async function resolveWindows(windows: Array<WindowInput & { responseFactor: number }>, products: LibraryProduct[], substrateName: string): Promise<WindowRowValues[]> {
   const index = productIndex(products)
   const seen = new Map<string, number>()
+  const named = windows.flatMap((w, i) => (w.kind === 'product' ? [{ smiles: w.productSmiles!, field: `windows.${i}.productSmiles`, i }] : []))
+  const forms = new Map((await canonicalOrInvalid(named)).map((form, k) => [named[k]!.i, form]))
   const rows = windows.map((w, i): WindowRowValues & NamedTimeWindow => {
     const field = `windows.${i}.productSmiles`
     let ref: ProductRef | undefined
     if (w.kind === 'product') {
-      const canonical = canonicalOrInvalid(w.productSmiles!, field)
+      const canonical = forms.get(i)!
       ref = index.get(canonical)
       if (!ref) invalid([{ field, message: `“${messageExcerpt(w.productSmiles ?? '', 60)}” is not a monohalogenation product of ${substrateName}` }])
       if (seen.has(ref.smiles)) invalid([{ field, message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])
@@ -242,7 +243,7 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
     libraryUsage('substrates', [row.id]),
   ])
   const [nameOf, references] = await Promise.all([substrateProductNamer(db, row.id), substrateReferenceViews(row.id)])
-  const products = libraryProducts(row.smiles, nameOf)
+  const [products, depictionSvg] = await Promise.all([libraryProducts(row.smiles, nameOf), substrateDepiction(row.smiles, { idPrefix: `substrate-${row.id}` })])
   return {
     ...toSubstrateListItem(row, me, { windowCount: windows.length, usedBy: usage.get(row.id) ?? 0 }),
     notes: row.notes,
@@ -250,7 +251,7 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
     products,
     references,
     windows: windows.map((w) => windowView(w, products)),
-    depictionSvg: depictSubstrate(row.smiles, { idPrefix: `substrate-${row.id}` }),
+    depictionSvg,
     standardRuns: runs.map((r) => ({
       id: r.id,
       fileName: r.originalName,
@@ -265,9 +266,9 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
   }
 }
 
-/** Canonical SMILES, formula and molar mass of a substrate, always computed here. */
-export function substrateIdentity(smiles: string) {
-  const analysis = asBadRequest(() => analyzeSubstrate(smiles))
+/** Canonical SMILES, formula and molar mass of a substrate, always computed here (a 400 when it cannot be analysed). */
+export async function substrateIdentity(smiles: string) {
+  const analysis = await asBadRequest(() => substrateAnalysis(smiles))
   return { smiles: analysis.canonicalSmiles, formula: analysis.formula, molarMass: analysis.molarMass }
 }
 

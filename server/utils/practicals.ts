@@ -3,8 +3,6 @@ import type { Database, Method, Substrate } from '../database/schema'
 import type { PracticalScope } from './access'
 import type { SessionUser } from '#shared/types/auth'
 import { PLANNING_NOTE, type ItemInput, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView, type SessionView, type WindowView } from '#shared/types/practical'
-import { ChemistryInputError, analyzeSubstrate, canonicalSmiles, molarMassOf } from '#shared/utils/halogenation'
-import { depictSubstrate } from '#shared/utils/depiction'
 import { computeQuantities, defaultItems, expectedProducts, hazardsForReagent, type ItemSpec } from '#shared/utils/procedure'
 
 // Reading and writing practicals for the routes under server/api/practicals. Every reader takes
@@ -53,7 +51,7 @@ export async function practicalItemViews(practicalId: number): Promise<ItemView[
  */
 export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[], referenceWindows: ReferenceWindowView[] }> {
   const rows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).orderBy('rtMin').execute()
-  const products = new Set(analyzeSubstrate(substrate.smiles, { halogen }).products.map((p) => p.smiles))
+  const products = new Set((await substrateAnalysis(substrate.smiles, halogen)).products.map((p) => p.smiles))
   return {
     windows: rows.filter((w) => w.kind === 'product' && w.productSmiles && products.has(w.productSmiles))
       .map((w) => ({ productSmiles: w.productSmiles!, rtMin: w.rtMin, rtMax: w.rtMax, responseFactor: w.responseFactor })),
@@ -120,19 +118,17 @@ export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reage
 
 /**
  * Items as they will be stored: a SMILES must parse (it is stored as typed), and a missing
- * molar mass comes from it (IUPAC standard atomic weights via openchemlib).
+ * molar mass comes from it (IUPAC standard atomic weights via openchemlib, in the engine worker).
  */
-export function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null, density: number | null }>): ItemSpec[] {
+export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null, density: number | null }>): Promise<ItemSpec[]> {
+  const forms = await reagentForms(items.flatMap((item) => (item.smiles ? [item.smiles] : [])))
+  let next = 0
   return items.map((item, i) => {
     let molarMass = item.molarMass
     if (item.smiles) {
-      try {
-        canonicalSmiles(item.smiles)
-        molarMass ??= Number(molarMassOf(item.smiles).molarMass.toFixed(3))
-      } catch (error) {
-        if (!(error instanceof ChemistryInputError)) throw error
-        invalid([{ field: `items.${i}.smiles`, message: 'Not a readable SMILES' }])
-      }
+      const form = forms[next++]
+      if (!form) invalid([{ field: `items.${i}.smiles`, message: 'Not a readable SMILES' }])
+      molarMass ??= Number(form.molarMass.toFixed(3))
     }
     return { role: item.role, name: item.name, smiles: item.smiles, molarMass, density: item.density, basis: item.basis, amount: item.amount }
   })
@@ -169,6 +165,10 @@ export async function procedureCard(scope: PracticalScope): Promise<ProcedureCar
   const method = await db.selectFrom('methods').selectAll().where('id', '=', practical.methodId).executeTakeFirstOrThrow()
   let sessions = (await practicalSessionViews([practical.id], scope.sectionIds)).get(practical.id) ?? []
   const windowRows = await db.selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).execute()
+  const [analysis, depictionSvg] = await Promise.all([
+    substrateAnalysis(substrate.smiles, method.halogen),
+    substrateDepiction(substrate.smiles, { idPrefix: `card-${practical.id}` }),
+  ])
   const { referenceWindows } = await practicalWindows(substrate, method.halogen)
   const items = (await practicalItemViews(practical.id)).map(({ id: _id, position: _p, ...item }) => item)
 
@@ -194,11 +194,11 @@ export async function procedureCard(scope: PracticalScope): Promise<ProcedureCar
     substrate: { name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density },
     method: methodSummary(method),
     quantities: computeQuantities(items),
-    products: expectedProducts(substrate.smiles, method, windowRows, await substrateProductNamer(db, substrate.id)),
+    products: expectedProducts(substrate.smiles, method, windowRows, await substrateProductNamer(db, substrate.id), analysis),
     referenceWindows,
     dueAt: dueAtFor(scope, sessions),
     hazards: hazardsForReagent(method.reagent),
     planningNote: PLANNING_NOTE,
-    depictionSvg: depictSubstrate(substrate.smiles, { idPrefix: `card-${practical.id}` }),
+    depictionSvg,
   }
 }

@@ -4,7 +4,7 @@ import type { ReviewerScope } from './review-scope'
 import type { SessionUser } from '#shared/types/auth'
 import type { StoredFlag, SubmissionStatus } from '../database/schema'
 import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView } from '#shared/types/review'
-import { findOutliers, type OutlierFinding } from '#shared/utils/outliers'
+import type { OutlierFinding } from '#shared/utils/outliers'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -23,7 +23,7 @@ export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFa
     return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
   })
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
-  const report = findOutliers(values, settings)
+  const report = await classOutlierReport(values, settings)
   return {
     run: { test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit, maxOutliers: report.maxOutliers, note: report.note },
     findings: new Map(report.outliers.map((o) => [o.submissionId, o])),

@@ -7,7 +7,6 @@ import {
   type ForecastAnswer, type LotView, type ReagentDetail, type ReagentFields, type ReagentListItem, type StockroomSettings, type UnlinkedItem,
 } from '#shared/types/stockroom'
 import { buildForecast, workUnitsOf, type ForecastItem, type ForecastLot, type ForecastPractical, type ForecastReagent, type ForecastSessionInput } from '#shared/utils/forecast'
-import { ChemistryInputError, canonicalSmiles, molarMassOf } from '#shared/utils/halogenation'
 import type { Reagent } from '../database/schema-stockroom'
 
 // The stockroom: who may use it, and the reads behind its routes. Coordinators manage all of
@@ -48,15 +47,11 @@ export function reagentFields(r: Reagent): ReagentFields {
  * A SMILES, when given, decides the formula and molar mass (IUPAC standard atomic weights) and
  * is stored canonical; without one the typed formula and molar mass stand.
  */
-export function reagentIdentity(input: { smiles?: string | null, formula?: string, molarMass?: number | null }) {
+export async function reagentIdentity(input: { smiles?: string | null, formula?: string, molarMass?: number | null }) {
   if (!input.smiles) return { smiles: null, formula: input.formula ?? '', molarMass: input.molarMass ?? null }
-  try {
-    const { formula, molarMass } = molarMassOf(input.smiles)
-    return { smiles: canonicalSmiles(input.smiles), formula, molarMass: Number(molarMass.toFixed(3)) }
-  } catch (error) {
-    if (!(error instanceof ChemistryInputError)) throw error
-    invalid([{ field: 'smiles', message: 'Not a readable SMILES' }])
-  }
+  const [form] = await reagentForms([input.smiles])
+  if (!form) invalid([{ field: 'smiles', message: 'Not a readable SMILES' }])
+  return { smiles: form.smiles, formula: form.formula, molarMass: Number(form.molarMass.toFixed(3)) }
 }
 
 /** Lots with what is left of each (received quantity less the usage recorded against it). */
@@ -122,18 +117,8 @@ async function forecastCourseIds(me: SessionUser, courseId?: number): Promise<nu
 
 const normalName = (name: string) => name.trim().toLowerCase().replace(/^(anhydrous|aqueous)\s+/, '').replace(/\s*\(.*\)$/, '')
 
-function tryCanonical(smiles: string | null): string | null {
-  if (!smiles) return null
-  try {
-    return canonicalSmiles(smiles)
-  } catch {
-    return null
-  }
-}
-
-/** A catalog reagent an unlinked item probably means: the same structure, else the same name. */
-function suggestReagent(item: { smiles: string | null, name: string }, reagents: Reagent[]): Reagent | null {
-  const canonical = tryCanonical(item.smiles)
+/** A catalog reagent an unlinked item probably means: the same structure (`canonical`, null when none), else the same name. */
+function suggestReagent(item: { name: string }, canonical: string | null, reagents: Reagent[]): Reagent | null {
   return (canonical ? reagents.find((r) => r.smiles === canonical) : undefined)
     ?? reagents.find((r) => normalName(r.name) === normalName(item.name))
     ?? null
@@ -203,13 +188,16 @@ export async function loadForecast(me: SessionUser, request: ForecastRequest): P
 
   const result = buildForecast({ today, from: request.from, to: request.to, reagents: forecastReagents, practicals, sessions, lots, rinseMlPerUnit: settings.rinseMlPerUnit })
   const inRange = new Set(result.sessions.map((s) => s.practicalId))
-  const unlinkedItems: UnlinkedItem[] = practicals.filter((p) => inRange.has(p.id)).flatMap((p) => p.items.filter((i) => i.reagentId === null).map((i) => {
-    const suggestion = suggestReagent(i, reagents)
+  const unlinked = practicals.filter((p) => inRange.has(p.id)).flatMap((p) => p.items.filter((i) => i.reagentId === null).map((i) => ({ p, i })))
+  const structures = await canonicalForms(unlinked.flatMap(({ i }) => (i.smiles ? [i.smiles] : [])))
+  let next = 0
+  const unlinkedItems: UnlinkedItem[] = unlinked.map(({ p, i }) => {
+    const suggestion = suggestReagent(i, i.smiles ? structures[next++] ?? null : null, reagents)
     return {
       practicalItemId: i.id, practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, role: i.role, name: i.name,
       suggestedReagentId: suggestion?.id ?? null, suggestedReagentName: suggestion?.name ?? null,
     }
-  }))
+  })
   return {
     ...result,
     from: request.from,

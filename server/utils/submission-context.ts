@@ -9,12 +9,13 @@ export async function practicalChemistry(practical: { substrateId: number, metho
   const db = useDb()
   const substrate = await db.selectFrom('substrates').select(['id', 'smiles']).where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
   const method = await db.selectFrom('methods').select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary']).where('id', '=', practical.methodId).executeTakeFirstOrThrow()
-  const [windows, nameOf, reference] = await Promise.all([
+  const [windows, nameOf, reference, analysis] = await Promise.all([
     db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor']).where('substrateId', '=', substrate.id).execute(),
     substrateProductNamer(db, substrate.id),
     substrateReferenceFor(db, substrate.id, method.reagent),
+    substrateAnalysis(substrate.smiles, method.halogen),
   ])
-  return practicalChemistryOf(substrate.smiles, method, windows, { nameOf, reference })
+  return practicalChemistryOf(substrate.smiles, method, windows, { nameOf, reference, analysis })
 }
 
 /** A product's share in the reference distribution, or null when the practical has none. */

@@ -4,7 +4,7 @@ import type { PracticalScope } from './access'
 import type { UploadedFile } from './files'
 import type { Submission } from '../database/schema'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
-import { attentionOf, evaluateRun, RunInputError, type RunResult } from '#shared/utils/submission'
+import { attentionOf, RunInputError, type RunResult } from '#shared/utils/submission'
 
 export interface StudentWorkUnit {
   sectionId: number
@@ -42,23 +42,24 @@ export async function studentUnit(event: H3Event, scope: PracticalScope): Promis
 }
 
 /**
- * Runs the engines on an uploaded file (text, .xlsx or ANDI/AIA netCDF, judged by its bytes);
- * an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what the original is kept as.
+ * Runs the engines on an uploaded file (text, .xlsx or ANDI/AIA netCDF, judged by its bytes) in
+ * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
+ * the original is kept as.
  */
 export async function computeRun(scope: PracticalScope, file: UploadedFile): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, mediaType: string }> {
-  const content = await uploadContent(file)
   const chemistry = await practicalChemistry(scope.practical)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
   }
   try {
-    const run = evaluateRun({ source: content.source, ...chemistry })
-    return { run, chemistry, mediaType: content.mediaType ?? (run.kind === 'trace' ? 'text/csv; profile=trace' : 'text/csv; profile=peak-table') }
+    const bytes = new Uint8Array(file.bytes)
+    const { run, mediaType } = await runEngine('evaluateUpload', { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer] })
+    return { run, chemistry, mediaType }
   } catch (error) {
     if (error instanceof RunInputError) {
       throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
     }
-    throw error
+    throw asUploadFormatError(error)
   }
 }
 

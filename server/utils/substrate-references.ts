@@ -2,7 +2,6 @@ import { sql } from 'kysely'
 import type { SessionUser } from '#shared/types/auth'
 import type { Substrate } from '../database/schema'
 import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput, type ReferenceView } from '#shared/types/library'
-import { analyzeSubstrate } from '#shared/utils/halogenation'
 import { messageExcerpt } from '#shared/utils/text-input'
 
 // Reference distributions of a substrate: what its product mixture really looks like with one
@@ -24,12 +23,13 @@ export async function substrateReferenceViews(substrateId: number): Promise<Refe
  * The percentages to store: each product of the reagent's halogen exactly once (any SMILES
  * spelling, stored canonical), naming the row of anything else.
  */
-export function resolveReferencePercents(input: Pick<ReferenceInput, 'percents'>, substrate: Pick<Substrate, 'smiles' | 'name'>, reagent: LibraryReagent): Array<{ smiles: string, percent: number }> {
-  const products = analyzeSubstrate(substrate.smiles, { halogen: REAGENT_HALOGEN[reagent] }).products.map((p) => p.smiles)
+export async function resolveReferencePercents(input: Pick<ReferenceInput, 'percents'>, substrate: Pick<Substrate, 'smiles' | 'name'>, reagent: LibraryReagent): Promise<Array<{ smiles: string, percent: number }>> {
+  const products = (await substrateAnalysis(substrate.smiles, REAGENT_HALOGEN[reagent])).products.map((p) => p.smiles)
+  const forms = await canonicalOrInvalid(input.percents.map((p, i) => ({ smiles: p.productSmiles, field: `percents.${i}.productSmiles` })))
   const seen = new Map<string, number>()
   const rows = input.percents.map((p, i) => {
     const field = `percents.${i}.productSmiles`
-    const smiles = canonicalOrInvalid(p.productSmiles, field)
+    const smiles = forms[i]!
     if (!products.includes(smiles)) invalid([{ field, message: `“${messageExcerpt(p.productSmiles, 60)}” is not a product of ${substrate.name} with this reagent` }])
     if (seen.has(smiles)) invalid([{ field, message: `${smiles} is listed twice (rows ${seen.get(smiles)! + 1} and ${i + 1})` }])
     seen.set(smiles, i)
@@ -67,7 +67,7 @@ export async function referenceCandidates(me: SessionUser, substrate: Pick<Subst
   for (const p of practicals) {
     const runs = rows.filter((r) => r.practicalId === p.id)
     if (!runs.length) continue
-    const products = analyzeSubstrate(substrate.smiles, { halogen: REAGENT_HALOGEN[p.reagent] }).products.map((x) => x.smiles)
+    const products = (await substrateAnalysis(substrate.smiles, REAGENT_HALOGEN[p.reagent])).products.map((x) => x.smiles)
     const percents = products.map((smiles) => ({
       smiles,
       percent: runs.reduce((sum, r) => sum + (r.molePercents.find((m) => m.smiles === smiles)?.percent ?? 0), 0) / runs.length,

@@ -1,20 +1,27 @@
 import type { PracticalScope } from './access'
 import type { FactorSet, PracticalSummary } from '#shared/types/summary'
-import { factorStats, type FactorValue } from '#shared/utils/class-summary'
+import type { FactorValue } from '#shared/utils/class-summary'
 import type { OutlierSettings } from '#shared/utils/outliers'
 import type { OutlierTestName } from '#shared/types/course'
 import type { ClassRow } from './class-results'
+import type { FactorStatsJob } from '../engines/statistics'
 
-function factorSet(rows: ClassRow[], settings: OutlierSettings, has: { secondary: boolean, tertiary: boolean }, withoutOutliers: boolean): FactorSet {
-  const values = (pick: (r: ClassRow) => number | null): FactorValue[] =>
-    rows.flatMap((r) => { const v = pick(r); return v === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: v }] })
-  // A flagged run no reviewer has accepted yet is what "pulls the mean" in the headline.
-  const unreviewed = new Set(rows.filter((r) => r.status === 'pending').map((r) => r.submissionId))
-  const options = { withoutOutliers, unreviewed }
-  return {
-    secondaryToPrimary: has.secondary ? factorStats(values((r) => r.secondary), settings, options) : null,
-    tertiaryToPrimary: has.tertiary ? factorStats(values((r) => r.tertiary), settings, options) : null,
-  }
+/** The class figures of each group of rows (the whole class, then each section), computed together. */
+async function factorSets(groups: ClassRow[][], settings: OutlierSettings, has: { secondary: boolean, tertiary: boolean }, withoutOutliers: boolean): Promise<FactorSet[]> {
+  const keys = (['secondary', 'tertiary'] as const).filter((k) => has[k])
+  const jobs: FactorStatsJob[] = groups.flatMap((rows) => {
+    // A flagged run no reviewer has accepted yet is what "pulls the mean" in the headline.
+    const unreviewed = rows.filter((r) => r.status === 'pending').map((r) => r.submissionId)
+    return keys.map((key) => ({
+      values: rows.flatMap((r): FactorValue[] => { const v = r[key]; return v === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: v }] }),
+      settings, withoutOutliers, unreviewed,
+    }))
+  })
+  const stats = await classFactorStats(jobs)
+  return groups.map((_, g) => {
+    const of = (key: 'secondary' | 'tertiary') => (has[key] ? stats[g * keys.length + keys.indexOf(key)]! : null)
+    return { secondaryToPrimary: of('secondary'), tertiaryToPrimary: of('tertiary') }
+  })
 }
 
 /**
@@ -62,17 +69,15 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
       reference: referenceShare(chemistry, p.smiles),
     }
   })
-  const factors = factorSet(included, settings, has, withoutOutliers)
-  const key = factors[chemistry.keyFactor]
+  const bySectionRows = sections.map((s) => included.filter((r) => r.sectionId === s.id))
+  const [factors, ...sectionFactors] = await factorSets([included, ...bySectionRows], settings, has, withoutOutliers)
+  const key = factors![chemistry.keyFactor]
   return {
     n: included.length,
     headline: key ? { factor: chemistry.keyFactor, ...key.headline } : null,
-    factors,
+    factors: factors!,
     excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
-    bySection: sections.map((s) => {
-      const mine = included.filter((r) => r.sectionId === s.id)
-      return { sectionId: s.id, code: s.code, n: mine.length, factors: factorSet(mine, settings, has, withoutOutliers) }
-    }),
+    bySection: sections.map((s, i) => ({ sectionId: s.id, code: s.code, n: bySectionRows[i]!.length, factors: sectionFactors[i]! })),
     keyFactor: chemistry.keyFactor,
     literature: chemistry.literature,
     withoutOutliers,

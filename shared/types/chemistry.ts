@@ -1,8 +1,6 @@
 import { z } from 'zod'
+import { productSmilesSchema, substrateSmilesSchema } from './smiles'
 
-export const SMILES_MAX_LENGTH = 1000
-
-const smiles = z.string().trim().min(1, 'Enter a SMILES string').max(SMILES_MAX_LENGTH, `Use at most ${SMILES_MAX_LENGTH} characters`)
 // Relative reactivities per H run from 1 to a few thousand (bromination's 3° is about 1600); a
 // million leaves room and keeps every sum a finite number.
 const positive = z.number().finite().min(0, 'Must be zero or more').max(1_000_000, 'At most 1,000,000')
@@ -14,7 +12,7 @@ export const reactivitySchema = z.object({
 }).refine((r) => r.primary + r.secondary + r.tertiary > 0, { message: 'At least one class must react (above zero)', path: ['primary'] })
 
 export const analyzeInputSchema = z.object({
-  smiles,
+  smiles: substrateSmilesSchema,
   halogen: z.enum(['Cl', 'Br']).default('Cl'),
   temperatureC: z.number().finite().min(-100).max(400).optional(),
   reactivity: reactivitySchema.optional(),
@@ -26,9 +24,9 @@ export const analyzeInputSchema = z.object({
 export type AnalyzeInput = z.input<typeof analyzeInputSchema>
 
 export const reactivityInputSchema = z.object({
-  smiles,
-  observed: z.array(z.object({ smiles, percent: z.number().finite().min(0, 'Must be zero or more').max(100_000) })).min(1, 'Enter at least one observed product').max(60),
-  reference: smiles.optional(),
+  smiles: substrateSmilesSchema,
+  observed: z.array(z.object({ smiles: productSmilesSchema, percent: z.number().finite().min(0, 'Must be zero or more').max(100_000) })).min(1, 'Enter at least one observed product').max(60),
+  reference: productSmilesSchema.optional(),
   /** Which halogenation; read from the observed products when absent. */
   halogen: z.enum(['Cl', 'Br']).optional(),
 })

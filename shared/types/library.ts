@@ -4,22 +4,21 @@ import { z } from 'zod'
 import type { HazardKey } from '../data/cautions'
 import { cautionsForMethod } from '../data/cautions'
 import { blockText, lineText, recordIdParam } from './fields'
+import { productSmilesSchema, substrateSmilesSchema } from './smiles'
 
 export const libraryIdParamsSchema = z.object({ id: recordIdParam() })
 
-const SMILES_MAX = 400
-const smiles = z.string().trim().min(1, 'Enter a SMILES string').max(SMILES_MAX, `Use at most ${SMILES_MAX} characters`)
 const notes = blockText(4000)
 
 // ── Substrates ────────────────────────────────────────────────────────────────────────────
 
-export const substratePreviewSchema = z.object({ smiles })
+export const substratePreviewSchema = z.object({ smiles: substrateSmilesSchema })
 export type SubstratePreviewInput = z.infer<typeof substratePreviewSchema>
 
 // Plain fields without defaults: a PATCH must not reset what it does not mention.
 const substrateShape = {
   name: lineText(120, 'Name the substrate'),
-  smiles,
+  smiles: substrateSmilesSchema,
   density: z.number({ error: 'Enter the density as a number' }).finite().gt(0, 'The density must be above 0 g/mL').max(25, 'At most 25 g/mL').nullable(),
   boilingPointC: z.number({ error: 'Enter the boiling point as a number' }).finite().min(-273.15, 'Below absolute zero').max(1000, 'At most 1000 °C').nullable(),
   notes,
@@ -63,7 +62,7 @@ const minutes = (what: string) => z.number({ error: `Enter the ${what} in minute
 
 export const windowInputSchema = z.object({
   kind: z.enum(WINDOW_KINDS),
-  productSmiles: smiles.optional(),
+  productSmiles: productSmilesSchema.optional(),
   /** A name for a solvent or starting-material window ("dichloromethane"); products are lettered. */
   label: lineText(60).optional(),
   rtMin: minutes('window start'),
@@ -78,7 +77,7 @@ export type WindowInput = z.input<typeof windowInputSchema>
 
 /** A product's name as the instructor types it; empty means "use the built-in name, if any". */
 export const productNameSchema = z.object({
-  productSmiles: smiles,
+  productSmiles: productSmilesSchema,
   name: lineText(120),
 })
 export type ProductNameInput = z.input<typeof productNameSchema>
@@ -298,7 +297,7 @@ export const REFERENCE_SUM_TOLERANCE = 1
 
 export const referenceInputSchema = z.object({
   percents: z.array(z.object({
-    productSmiles: smiles,
+    productSmiles: productSmilesSchema,
     percent: z.number({ error: 'Enter the mol % as a number' }).finite().min(0, 'Must be 0 % or more').max(100, 'At most 100 %'),
   })).min(1, 'Give the mol % of each product').max(40, 'At most 40 products'),
   source: lineText(500, 'Say where the distribution comes from (a paper, the course’s earlier results, or “from memory”)'),

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
 import { blockText, dateField, instantField, lineText, recordId, recordIdParam } from './fields'
 
@@ -78,7 +79,7 @@ export type SessionsInput = z.input<typeof sessionsInputSchema>
 export const itemInputSchema = z.object({
   role: z.enum(ITEM_ROLES),
   name: text(120, 'Name the item'),
-  smiles: z.string().trim().max(400, 'Use at most 400 characters').nullable().default(null)
+  smiles: smilesField('reagent', { optional: true }).nullable().default(null)
     .transform((v) => (v ? v : null)),
   molarMass: optionalPositive('The molar mass'),
   density: optionalPositive('The density'),

@@ -1,6 +1,7 @@
 // The stockroom: reagent catalog, lots and usage, the forecast, order sheets. Zod schemas shared
 // by the forms and the routes, and the API types. No openchemlib here: pages import this file.
 import { z } from 'zod'
+import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
 import { blockText, calendarDateProblem, dateField, daysBetween, lineText, recordId, recordIdParam } from './fields'
 
@@ -66,7 +67,7 @@ export const stockroomIdParamsSchema = z.object({ id: recordIdParam() })
 const reagentShape = {
   name: lineText(120, 'Name the reagent'),
   /** When given, the formula and molar mass are worked out from it (IUPAC standard atomic weights). */
-  smiles: text(400).nullable().transform((v) => (v ? v : null)),
+  smiles: smilesField('reagent', { optional: true }).nullable().transform((v) => (v ? v : null)),
   formula: text(60),
   molarMass: positive('the molar mass', 100_000).nullable(),
   physicalState: z.enum(PHYSICAL_STATES, { error: 'Pick a physical state' }),

@@ -3,6 +3,7 @@
 // attributes so the result is safe to inline: no script, no handlers, no external references.
 import { analyzeSubstrate } from './halogenation'
 import { parseSubstrateMolecule } from './lib/molecule'
+import { SMILES_LIMITS } from './lib/smiles-size'
 
 export interface PositionLabel {
   atoms: number[]
@@ -18,6 +19,8 @@ export interface DepictOptions {
   title?: string
   /** Prefix for element ids, so several drawings can share a page. */
   idPrefix?: string
+  /** A product is one atom larger than the largest substrate; default 'substrate'. */
+  kind?: 'substrate' | 'product'
 }
 
 /** a … z, then aa, ab …: enough for any 40-atom substrate. */
@@ -101,7 +104,7 @@ function placeTags(atomPos: Point[], bonds: [number, number][], labels: Position
 }
 
 export function depictSubstrate(smiles: string, options: DepictOptions = {}): string {
-  const mol = parseSubstrateMolecule(smiles)
+  const mol = parseSubstrateMolecule(smiles, SMILES_LIMITS[options.kind ?? 'substrate'])
   const analysis = options.labels === undefined || options.labels === true ? analyzeSubstrate(smiles) : null
   const labels: PositionLabel[] = Array.isArray(options.labels)
     ? options.labels

@@ -1,7 +1,7 @@
 // What one work unit of a practical uses, and what it should expect to make. Pure: plain data
 // in, plain data out; no database, no Nuxt, no clock. The seed imports it by relative path, so
 // everything here is imported relatively too.
-import { analyzeSubstrate, convertAmount, molarMassOf, predictDistribution, type Reactivity } from './halogenation'
+import { analyzeSubstrate, convertAmount, molarMassOf, predictDistribution, type Reactivity, type SubstrateAnalysis } from './halogenation'
 import { zonedInstant } from './schedule'
 import { positionLetter } from './depiction'
 import { methodForReagent } from '../data/halogenation-methods'
@@ -111,8 +111,11 @@ export interface WindowLike {
  * label other than the letter); listed in
  * elution order where windows are set, the engine's order otherwise.
  */
-export function expectedProducts(substrateSmiles: string, method: MethodLike, windows: WindowLike[] = [], nameOf: (smiles: string) => string | null = () => null): ExpectedProduct[] {
-  const analysis = analyzeSubstrate(substrateSmiles, { halogen: method.halogen })
+export function expectedProducts(
+  substrateSmiles: string, method: MethodLike, windows: WindowLike[] = [], nameOf: (smiles: string) => string | null = () => null,
+  /** The substrate's analysis for the method's halogen, when the caller has it already. */
+  analysis: Pick<SubstrateAnalysis, 'products'> = analyzeSubstrate(substrateSmiles, { halogen: method.halogen }),
+): ExpectedProduct[] {
   const reactivity: Reactivity = { primary: method.rPrimary, secondary: method.rSecondary, tertiary: method.rTertiary }
   const byProduct = new Map(windows.filter((w) => w.productSmiles).map((w) => [w.productSmiles!, w]))
   const products = predictDistribution(analysis, reactivity).map((p, i) => {

@@ -2,7 +2,7 @@
 // products, turn areas into mole %, compute per-H reactivities and class factors, and flag
 // what a student or TA should look at. Pure: the server runs it on the stored original file.
 import { assignPeaks, detectPeaks, parsePeakTable, parseTrace, sniffUpload, type Flag, type Peak } from './chromatography'
-import { analyzeSubstrate, predictDistribution, relativeReactivities, type CarbonClass } from './halogenation'
+import { analyzeSubstrate, predictDistribution, relativeReactivities, type CarbonClass, type SubstrateAnalysis } from './halogenation'
 import { positionLetter } from './depiction'
 import type { RunSource } from './lib/upload-content'
 
@@ -290,6 +290,8 @@ export interface PracticalExtras {
   nameOf?: (canonicalSmiles: string) => string | null
   /** The substrate's reference distribution for the method's reagent, if it has one. */
   reference?: ReferenceDistribution | null
+  /** The substrate's analysis for the method's halogen, when the caller has it already. */
+  analysis?: Pick<SubstrateAnalysis, 'products'>
 }
 
 const MULTIPLIER = ['', 'mono', 'di', 'tri', 'tetra']
@@ -334,7 +336,7 @@ export function referenceExpectation(analysis: { products: Array<RunProduct & { 
  * judged against.
  */
 export function practicalChemistryOf(substrateSmiles: string, method: MethodFactors, windowRows: WindowRow[], extras: PracticalExtras = {}): PracticalChemistry {
-  const analysis = analyzeSubstrate(substrateSmiles, { halogen: method.halogen })
+  const analysis = extras.analysis ?? analyzeSubstrate(substrateSmiles, { halogen: method.halogen })
   const predicted = predictDistribution(analysis, { primary: method.rPrimary, secondary: method.rSecondary, tertiary: method.rTertiary })
   const totalH = analysis.products.reduce((n, p) => n + p.hydrogens, 0)
   const productSet = new Set(analysis.products.map((p) => p.smiles))

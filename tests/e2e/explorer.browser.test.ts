@@ -45,4 +45,16 @@ describe('substrate explorer in Chromium', () => {
     await expect.poll(async () => field.getAttribute('aria-invalid')).toBe('true')
     await tab.context.close()
   })
+
+  it('says plainly when a SMILES is too large to analyse', async () => {
+    const tab = await openTab(browser)
+    await signInThroughPage(tab.page, DEMO.ta1)
+    await tab.page.goto('/explorer')
+    await tab.page.getByLabel(/^SMILES/).fill('C'.repeat(41))
+    await tab.page.getByRole('button', { name: 'Analyse' }).click()
+    await tab.page.getByText(/Too large: at most 40 heavy atoms \(this one has 41\)/).first().waitFor()
+    await screenshot(tab.page, 'explorer-too-large')
+    expect(tab.problems.filter((p) => !/400/.test(p))).toEqual([])
+    await tab.context.close()
+  })
 })

@@ -1,6 +1,6 @@
 import { sql } from 'kysely'
+import type { FactorStats } from '#shared/types/summary'
 import type { ResultsListItem } from '#shared/types/results'
-import { factorStats } from '#shared/utils/class-summary'
 
 // The practicals whose class results the caller may read (instructors: their courses; TAs:
 // practicals run in their sections), each with n and its headline factor over the whole class.
@@ -38,9 +38,10 @@ export default defineEventHandler(async (event): Promise<ResultsListItem[]> => {
     const mine = rows.filter((r) => r.practicalId === p.id)
     const values = mine.flatMap((r) => (r[pick] === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: Number(r[pick]) }]))
     // The course's own test, so the list leads with the same figure as the class page.
-    const s = factorStats(values, { test: p.outlierTest, alpha: p.outlierAlpha, zscoreLimit: p.zscoreLimit }, {
-      unreviewed: new Set(mine.filter((r) => r.status === 'pending').map((r) => r.submissionId)),
-    })
+    const [s] = await classFactorStats([{
+      values, settings: { test: p.outlierTest, alpha: p.outlierAlpha, zscoreLimit: p.zscoreLimit },
+      unreviewed: mine.filter((r) => r.status === 'pending').map((r) => r.submissionId),
+    }]) as [FactorStats]
     return {
       practicalId: p.id, title: p.title, courseId: p.courseId, courseCode: p.code, term: p.term,
       substrateName: p.substrateName, methodName: p.methodName, keyFactor: chemistry.keyFactor,

@@ -7,7 +7,7 @@ export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   const patch = await readBodyAs(event, substratePatchSchema)
   const sourceIssue = substrateSourceIssue({ ...before, ...patch })
   if (sourceIssue) invalid([{ field: 'source', message: sourceIssue }])
-  const identity = patch.smiles === undefined ? null : substrateIdentity(patch.smiles)
+  const identity = patch.smiles === undefined ? null : await substrateIdentity(patch.smiles)
   const structureChanged = identity !== null && identity.smiles !== before.smiles
   // Students' results were read against this structure's products.
   if (structureChanged) await refuseWhileInUse('substrates', id, 'given another structure')

@@ -3,7 +3,7 @@ import { substrateInputSchema, type SubstrateDetail } from '#shared/types/librar
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   const me = requireRole(event, 'instructor')
   const input = await readBodyAs(event, substrateInputSchema)
-  const identity = substrateIdentity(input.smiles)
+  const identity = await substrateIdentity(input.smiles)
   const row = await useDb().transaction().execute(async (trx) => {
     const created = await trx.insertInto('substrates')
       .values({ ...input, ...identity, ownerId: me.id })

@@ -1,20 +1,14 @@
 import { substratePreviewSchema, type SubstratePreview } from '#shared/types/library'
-import { analyzeSubstrate } from '#shared/utils/halogenation'
-import { depictSubstrate } from '#shared/utils/depiction'
 
 // What the new-substrate form shows while the instructor types: nothing is stored. Positions
-// are lettered on the canonical SMILES, as they will be once the substrate is saved.
+// are lettered on the canonical SMILES, as they will be once the substrate is saved. The
+// analyses and the drawing come from the engine worker (and are kept for the save that follows).
 export default defineEventHandler(async (event): Promise<SubstratePreview> => {
   requireRole(event, 'instructor')
   const { smiles } = await readBodyAs(event, substratePreviewSchema)
-  return asBadRequest(() => {
-    const { canonicalSmiles, formula, molarMass } = analyzeSubstrate(smiles)
-    return {
-      canonicalSmiles,
-      formula,
-      molarMass,
-      products: libraryProducts(canonicalSmiles),
-      depictionSvg: depictSubstrate(canonicalSmiles, { idPrefix: 'preview' }),
-    }
+  return asBadRequest(async () => {
+    const { canonicalSmiles, formula, molarMass } = await substrateAnalysis(smiles)
+    const [products, depictionSvg] = await Promise.all([libraryProducts(canonicalSmiles), substrateDepiction(canonicalSmiles, { idPrefix: 'preview' })])
+    return { canonicalSmiles, formula, molarMass, products, depictionSvg }
   })
 })

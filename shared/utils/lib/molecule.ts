@@ -3,6 +3,7 @@
 // (unbalanced parentheses, pentavalent carbon) is refused here so that a typo never turns
 // into a silently different substrate.
 import { Molecule } from 'openchemlib'
+import { countHeavyAtoms, SMILES_LIMITS, type SmilesLimit } from './smiles-size'
 
 export type SubstrateErrorCode =
   | 'empty'
@@ -36,9 +37,7 @@ export class SubstrateError extends ChemistryInputError {
   }
 }
 
-export const MAX_HEAVY_ATOMS = 40
-// 40 heavy atoms written with every hydrogen explicit stays well below this.
-const MAX_SMILES_LENGTH = 1000
+export const MAX_HEAVY_ATOMS = SMILES_LIMITS.substrate.heavyAtoms
 const SUBSTRATE_ELEMENTS = new Set([1, 6, 9, 17, 35, 53])
 
 /**
@@ -94,12 +93,19 @@ export function smilesSyntaxProblem(smiles: string): string | null {
   return null
 }
 
-function readMolecule(input: string): Molecule {
+// The routes refuse oversized SMILES in their schemas already; this is the engines' own
+// backstop, checked on the text before openchemlib spends time on it. Any SMILES the engines
+// read (reagents included) stays within the reagent limit.
+function readMolecule(input: string, limit: SmilesLimit = SMILES_LIMITS.reagent): Molecule {
   if (typeof input !== 'string') throw new SubstrateError('empty', 'Enter a SMILES string for the substrate.')
   const smiles = input.trim()
   if (smiles === '') throw new SubstrateError('empty', 'Enter a SMILES string for the substrate.')
-  if (smiles.length > MAX_SMILES_LENGTH) {
-    throw new SubstrateError('too-large', `That SMILES is too long: substrates are limited to ${MAX_HEAVY_ATOMS} heavy atoms.`)
+  if (smiles.length > limit.characters) {
+    throw new SubstrateError('too-large', `That SMILES is too large: at most ${limit.characters} characters.`)
+  }
+  const atoms = countHeavyAtoms(smiles)
+  if (atoms > limit.heavyAtoms) {
+    throw new SubstrateError('too-large', `The SMILES is too large: it has ${atoms} heavy atoms; the limit is ${limit.heavyAtoms}.`)
   }
   const problem = smilesSyntaxProblem(smiles)
   if (problem) throw new SubstrateError('unparsable', `That SMILES could not be read: ${problem}`)
@@ -173,16 +179,16 @@ function assertValencesAndBonds(mol: Molecule): void {
  * Parses and validates a substrate. Heavy-atom indexes of the result are the ones reported in
  * `atoms` by the analysis and used by the depiction, so both must go through this function.
  */
-export function parseSubstrateMolecule(smiles: string): Molecule {
-  const mol = readMolecule(smiles)
+export function parseSubstrateMolecule(smiles: string, limit: SmilesLimit = SMILES_LIMITS.substrate): Molecule {
+  const mol = readMolecule(smiles, limit)
   if (mol.getFragments().length > 1) {
     throw new SubstrateError('multiple-molecules', 'The SMILES contains more than one molecule (a "."): enter one substrate.')
   }
   assertSubstrateAtoms(mol)
   mol.removeExplicitHydrogens()
   mol.ensureHelperArrays(Molecule.cHelperSymmetrySimple)
-  if (mol.getAtoms() > MAX_HEAVY_ATOMS) {
-    throw new SubstrateError('too-large', `The substrate has ${mol.getAtoms()} heavy atoms; the limit is ${MAX_HEAVY_ATOMS}.`)
+  if (mol.getAtoms() > limit.heavyAtoms) {
+    throw new SubstrateError('too-large', `The substrate is too large: it has ${mol.getAtoms()} heavy atoms; the limit is ${limit.heavyAtoms}.`)
   }
   let hasCarbon = false
   for (let a = 0; a < mol.getAtoms(); a++) if (mol.getAtomicNo(a) === 6) hasCarbon = true

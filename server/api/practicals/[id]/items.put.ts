@@ -7,7 +7,7 @@ export default defineEventHandler(async (event): Promise<{ items: ItemView[], qu
   const { id } = readParamsAs(event, practicalParamsSchema)
   await requirePracticalAccess(event, id, 'manage')
   const input = await readBodyAs(event, itemsInputSchema)
-  const items = checkedItems(input.items)
+  const items = await checkedItems(input.items)
   const quantities = asBadRequest(() => computeQuantities(items))
 
   await useDb().transaction().execute(async (trx) => {

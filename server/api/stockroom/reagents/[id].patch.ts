@@ -8,7 +8,7 @@ export default defineEventHandler(async (event): Promise<ReagentDetail> => {
   const merged = { ...reagentFields(before), ...input }
   const issues = reagentRuleIssues(merged)
   if (issues.length) invalid(issues)
-  const identity = 'smiles' in input || 'formula' in input || 'molarMass' in input ? reagentIdentity(merged) : {}
+  const identity = 'smiles' in input || 'formula' in input || 'molarMass' in input ? await reagentIdentity(merged) : {}
   if (input.name !== undefined && input.name.toLowerCase() !== before.name.toLowerCase()) await refuseDuplicateReagentName(input.name)
   const row = await useDb().transaction().execute(async (trx) => {
     if (input.unit && input.unit !== before.unit) {

@@ -3,7 +3,7 @@ import { reagentInputSchema, type ReagentDetail } from '#shared/types/stockroom'
 export default defineEventHandler(async (event): Promise<ReagentDetail> => {
   const me = requireStockroomManager(event)
   const input = await readBodyAs(event, reagentInputSchema)
-  const values = { ...input, ...reagentIdentity(input) }
+  const values = { ...input, ...(await reagentIdentity(input)) }
   await refuseDuplicateReagentName(values.name)
   const row = await useDb().transaction().execute(async (trx) => {
     const created = await trx.insertInto('reagents').values(values).returningAll().executeTakeFirstOrThrow()

@@ -1,10 +1,6 @@
-import { libraryIdParamsSchema, type StandardPeak, type StandardRunUploadResponse } from '#shared/types/library'
-import { detectPeaks, parsePeakTable, parseTrace, sniffUpload } from '#shared/utils/chromatography'
-import type { RunSource } from '#shared/utils/lib/upload-content'
+import { libraryIdParamsSchema, type StandardRunUploadResponse } from '#shared/types/library'
+import { RunInputError } from '#shared/utils/submission'
 import { suggestionsForRun } from '#shared/utils/windows'
-
-// A standard run lists a handful of peaks (solvent, starting material, each product).
-const MAX_STANDARD_PEAKS = 200
 
 export default defineEventHandler(async (event): Promise<StandardRunUploadResponse> => {
   requireRole(event, 'instructor')
@@ -14,11 +10,9 @@ export default defineEventHandler(async (event): Promise<StandardRunUploadRespon
   const windows = await useDb().selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax'])
     .where('substrateId', '=', id).execute()
   const latest = Math.max(0, ...windows.map((w) => w.rtMax))
-  const content = await uploadContent(file)
-  const { peaks, warnings } = standardRunPeaks(content.source, latest > 0 ? latest : undefined)
-  peaks.sort((a, b) => a.retentionTime - b.retentionTime)
+  const { peaks, warnings, mediaType } = await standardRunPeaksOf(file.bytes, latest > 0 ? latest : undefined)
   const runId = await useDb().transaction().execute(async (trx) => {
-    const fileId = await storeFile(trx, file, me.id, content.mediaType ?? 'text/plain')
+    const fileId = await storeFile(trx, file, me.id, mediaType)
     const run = await trx.insertInto('standardRuns').values({ substrateId: id, fileId, peaks: JSON.stringify(peaks), createdBy: me.id })
       .returning('id').executeTakeFirstOrThrow()
     await audit(trx, event, { action: 'substrate.standard-run', entity: 'substrate', entityId: id, after: { standardRunId: run.id, fileId, sha256: file.sha256, peaks: peaks.length } })
@@ -28,29 +22,13 @@ export default defineEventHandler(async (event): Promise<StandardRunUploadRespon
   return { id: runId, fileName: file.name, sha256: file.sha256, peaks, suggestions: suggestionsForRun(peaks, windows), warnings }
 })
 
-/** The run's peaks: a peak table as read, or a trace (text or netCDF) integrated; 422 with the rows otherwise. */
-function standardRunPeaks(source: RunSource, expectedMaxMinutes: number | undefined): { peaks: StandardPeak[], warnings: string[] } {
-  const refuse = (errors: Array<{ row: number, message: string }>) => createError({ statusCode: 422, statusMessage: `file: ${errors[0]!.message}`, data: { errors } })
-  const tooMany = (n: number) => {
-    if (n > MAX_STANDARD_PEAKS) throw refuse([{ row: 0, message: `The run has more than ${MAX_STANDARD_PEAKS} peaks; a standard run has a handful.` }])
+/** The run's peaks, read in the engine worker (server/engines/uploads.ts); 415 or 422 with the rows otherwise. */
+async function standardRunPeaksOf(fileBytes: Buffer, expectedMaxMinutes: number | undefined) {
+  const bytes = new Uint8Array(fileBytes)
+  try {
+    return await runEngine('standardRunPeaks', { bytes, expectedMaxMinutes }, { field: 'file', transfer: [bytes.buffer] })
+  } catch (error) {
+    if (error instanceof RunInputError) throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`, data: { errors: error.rows } })
+    throw asUploadFormatError(error)
   }
-  const integrated = (time: ArrayLike<number>, signal: ArrayLike<number>, warnings: string[]) => {
-    const detected = detectPeaks({ time, signal })
-    tooMany(detected.peaks.length)
-    return { peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })), warnings: [...warnings, ...detected.flags.map((f) => f.message)] }
-  }
-  if (source.kind === 'peaks') {
-    tooMany(source.peaks.length)
-    return { peaks: source.peaks, warnings: source.warnings ?? [] }
-  }
-  if (source.kind === 'trace') return integrated(source.time, source.signal, source.warnings ?? [])
-  const options = { maxRows: MAX_STANDARD_PEAKS, ...(expectedMaxMinutes ? { expectedMaxMinutes } : {}) }
-  if (sniffUpload(source.text).kind === 'trace') {
-    const trace = parseTrace(source.text, options)
-    if (trace.errors.length) throw refuse(trace.errors)
-    return integrated(trace.time, trace.signal, [...source.warnings ?? [], ...trace.warnings])
-  }
-  const parsed = parsePeakTable(source.text, options)
-  if (parsed.errors.length) throw refuse(parsed.errors)
-  return { peaks: parsed.peaks, warnings: [...source.warnings ?? [], ...parsed.warnings] }
 }

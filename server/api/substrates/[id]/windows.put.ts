@@ -7,9 +7,9 @@ export default defineEventHandler(async (event): Promise<{ windows: SubstrateWin
   const { id } = readParamsAs(event, libraryIdParamsSchema)
   const { me, row: substrate } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const input = await readBodyAs(event, windowsInputSchema)
-  const products = libraryProducts(substrate.smiles)
-  const values = resolveWindows(input.windows, products, substrate.name)
-  const names = input.names ? resolveProductNames(input.names, products, substrate.name) : null
+  const products = await libraryProducts(substrate.smiles)
+  const values = await resolveWindows(input.windows, products, substrate.name)
+  const names = input.names ? await resolveProductNames(input.names, products, substrate.name) : null
   const saved = await useDb().transaction().execute(async (trx) => {
     const before = await trx.deleteFrom('substrateWindows').where('substrateId', '=', id)
       .returning(['kind', 'productSmiles', 'label', 'rtMin', 'rtMax', 'responseFactor']).execute()

@@ -8,5 +8,6 @@ export default defineEventHandler(async (event): Promise<QuantitiesView> => {
   const { id } = readParamsAs(event, practicalParamsSchema)
   await requirePracticalAccess(event, id, 'manage')
   const input = await readBodyAs(event, itemsInputSchema)
-  return asBadRequest(() => computeQuantities(checkedItems(input.items)))
+  const items = await checkedItems(input.items)
+  return asBadRequest(() => computeQuantities(items))
 })

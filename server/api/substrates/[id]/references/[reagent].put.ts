@@ -7,7 +7,7 @@ export default defineEventHandler(async (event): Promise<{ references: Reference
   const { id, reagent } = readParamsAs(event, referenceParamsSchema)
   const { me, row: substrate } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const input = await readBodyAs(event, referenceInputSchema)
-  const percents = resolveReferencePercents(input, substrate, reagent)
+  const percents = await resolveReferencePercents(input, substrate, reagent)
   await useDb().transaction().execute(async (trx) => {
     const before = await trx.selectFrom('substrateReferences').select(['percents', 'source', 'sourceKind'])
       .where('substrateId', '=', id).where('reagent', '=', reagent).executeTakeFirst()
