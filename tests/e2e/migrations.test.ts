@@ -55,7 +55,7 @@ describe('migrations', () => {
       await expect(sql`insert into login_attempts (email, ip, succeeded) values ('someone@test.example', '127.0.0.1', null)`.execute(db)).rejects.toThrow(/null/)
       await pending.up(db)
       // Calendar tokens stored in plain text become their SHA-256; the text itself is dropped.
-      const feeds = migrations['2026_12_03_1200_calendar_feed_hashes']!
+      const feeds = migrations['2026_12_03_1210_calendar_feed_hashes']!
       const plain = db.withoutPlugins()
       await feeds.down!(plain)
       const { id } = (await sql<{ id: number }>`insert into users (email, name, role) values ('feed@test.example', 'Feed', 'student') returning id`.execute(db)).rows[0]!
