@@ -3,7 +3,7 @@
 // r times and then decides how many of them are outliers all at once, so two far-off results
 // cannot hide each other as they do from repeated Grubbs' tests (masking). Pure.
 import { StatisticsError, tCritical } from './statistics'
-import { meanOf, requireFiniteList, sampleSdOf, tameScale } from './lib/moments'
+import { medianOf, requireFiniteList, tameScale } from './lib/moments'
 
 export interface GesdStep {
   /** i = 1…r */
@@ -65,22 +65,84 @@ export function gesdTest(values: readonly number[], options: { alpha?: number, m
   if (asked !== null && asked > n - 2) notes.push(`At most ${n - 2} outliers can be tested among ${n} results (each step needs a degree of freedom), so r was lowered from ${asked} to ${r}.`)
   if (n < GESD_ACCURATE_N) notes.push(`With fewer than ${GESD_ACCURATE_N} results the critical values are approximate.`)
 
-  // R is a ratio: tamed values give the same R without overflowing (lib/moments.ts).
-  let remaining = tameScale(xs).values.map((value, index) => ({ value, index }))
-  const steps: GesdStep[] = []
-  for (let i = 1; i <= r; i++) {
-    const vals = remaining.map((v) => v.value)
-    const m = meanOf(vals)
-    const s = sampleSdOf(vals)
-    if (!(s > 0)) {
-      notes.push(i === 1 ? 'All values are equal, so none can be an outlier.' : `After ${i - 1} removal(s) the remaining values are all equal, so the test stops there.`)
-      break
-    }
-    const suspect = remaining.reduce((best, v) => (Math.abs(v.value - m) > Math.abs(best.value - m) ? v : best))
-    steps.push({ step: i, size: remaining.length, index: suspect.index, value: xs[suspect.index]!, R: Math.abs(suspect.value - m) / s, lambda: gesdCritical(n, i, alpha) })
-    remaining = remaining.filter((v) => v !== suspect)
-  }
+  const steps = extremeSteps(xs, r, alpha, n, notes)
   const count = steps.reduce((k, st) => (st.R > st.lambda ? st.step : k), 0)
   if (count > 0) notes.push(`Step ${count} is the last whose R exceeds its critical value, so the ${count} most extreme result(s) are outliers (up to ${r} tested).`)
   return { outliers: steps.slice(0, count).map((st) => st.index), steps, count, maxOutliers: r, alpha, note: notes.length ? notes.join(' ') : null }
+}
+
+/**
+ * The r removal steps in O(n log n + r): the value furthest from the mean is always the lowest or
+ * the highest left, so the values are sorted once and the remaining ones stay a contiguous run
+ * whose sums are kept as values leave it. Sums are taken about the median (tamed values, so
+ * nothing overflows) and summed afresh whenever what is left has fallen far below what was
+ * summed, or the mean has moved far from the shift, so no cancellation creeps in. Among equal deviations the value earliest in the input goes first,
+ * as a plain scan of the remaining values would choose.
+ */
+function extremeSteps(xs: number[], r: number, alpha: number, n: number, notes: string[]): GesdStep[] {
+  const tamed = tameScale(xs).values
+  const centre = medianOf(tamed)
+  const w = tamed.map((v) => v - centre)
+  const ord = w.map((_, i) => i).sort((a, b) => w[a]! - w[b]! || a - b)
+  const at = (p: number) => w[ord[p]!]!
+  let lo = 0
+  let hi = n - 1
+  let s1 = 0
+  let s2 = 0
+  // Sums are of (w − shift); the shift moves to the mean when the values left sit far from it.
+  let shift = 0
+  // The sum of squares when last summed afresh: its rounding stays in s2 as values leave.
+  let peak = 0
+  const resum = (recentre = false) => {
+    if (recentre) {
+      let total = 0
+      for (let p = lo; p <= hi; p++) total += at(p)
+      shift = total / (hi - lo + 1)
+    }
+    s1 = 0
+    s2 = 0
+    for (let p = lo; p <= hi; p++) { const d = at(p) - shift; s1 += d; s2 += d * d }
+    peak = s2
+  }
+  resum()
+  // Equal values at the top leave lowest input index first: they are taken from the group's start.
+  let groupStart = hi
+  let groupTaken = 0
+  const findGroup = () => {
+    groupStart = hi
+    while (groupStart > lo && at(groupStart - 1) === at(hi)) groupStart--
+    groupTaken = 0
+  }
+  findGroup()
+  const steps: GesdStep[] = []
+  for (let i = 1; i <= r; i++) {
+    if (at(lo) === at(hi)) {
+      notes.push(i === 1 ? 'All values are equal, so none can be an outlier.' : `After ${i - 1} removal(s) the remaining values are all equal, so the test stops there.`)
+      break
+    }
+    const k = hi - lo + 1
+    let variance = (s2 - (s1 * s1) / k) / (k - 1)
+    // A mean far from the shift (in SDs) leaves the difference above to rounding: sum afresh.
+    if (!(variance > 0) || s1 * s1 > 1e3 * k * k * variance) { resum(true); variance = (s2 - (s1 * s1) / k) / (k - 1) }
+    const sd = Math.sqrt(Math.max(variance, 0))
+    const m = s1 / k + shift
+    const low = ord[lo]!
+    const high = ord[groupStart + groupTaken]!
+    const dLow = m - w[low]!
+    const dHigh = w[high]! - m
+    const takeHigh = dHigh > dLow || (dHigh === dLow && high < low)
+    const index = takeHigh ? high : low
+    const removed = w[index]!
+    steps.push({ step: i, size: k, index, value: xs[index]!, R: (takeHigh ? dHigh : dLow) / sd, lambda: gesdCritical(n, i, alpha) })
+    if (takeHigh) {
+      groupTaken++
+      hi--
+      if (hi < groupStart) findGroup()
+    } else lo++
+    const d = removed - shift
+    s1 -= d
+    s2 -= d * d
+    if (peak > 1e3 * s2) resum()
+  }
+  return steps
 }

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest'
+import fc from 'fast-check'
 import { gesdCritical, gesdDefaultMaxOutliers, gesdTest } from '../../shared/utils/gesd'
 import { grubbsTest, StatisticsError } from '../../shared/utils/statistics'
 
@@ -95,5 +96,54 @@ describe('gesdTest', () => {
     expect(result.outliers.sort()).toEqual([6, 7])
     result.steps.forEach((st, i) => expect(st.R).toBeCloseTo(gesdTest(MASKED).steps[i]!.R, 9))
     expect(result.steps.every((st) => Number.isFinite(st.R) && Number.isFinite(st.lambda))).toBe(true)
+  })
+})
+
+// The definition itself (NIST e-Handbook §1.3.5.17.3): at each step take the value furthest from
+// the mean of those left, R = |x − mean| / s, then remove it. The engine's sorted fast path must
+// choose the same values, in the same order, with the same R.
+function plainSteps(xs: number[], r: number): Array<{ index: number, R: number }> {
+  let left = xs.map((value, index) => ({ value, index }))
+  const steps: Array<{ index: number, R: number }> = []
+  for (let i = 0; i < r; i++) {
+    const mean = left.reduce((s, v) => s + v.value, 0) / left.length
+    const sd = Math.sqrt(left.reduce((s, v) => s + (v.value - mean) ** 2, 0) / (left.length - 1))
+    if (!(sd > 0)) break
+    const far = left.reduce((best, v) => (Math.abs(v.value - mean) > Math.abs(best.value - mean) ? v : best))
+    steps.push({ index: far.index, R: Math.abs(far.value - mean) / sd })
+    left = left.filter((v) => v !== far)
+  }
+  return steps
+}
+
+describe('gesdTest against the plain definition', () => {
+  it('removes the same values in the same order with the same R, ties and far-off values included', () => {
+    fc.assert(fc.property(
+      fc.array(fc.oneof(
+        fc.integer({ min: -6, max: 6 }),
+        // Ordinary magnitudes: the plain scan has no scaling, so subnormal squares would underflow in it.
+        fc.double({ min: -10, max: 10, noNaN: true }).map((v) => Math.round(v * 1e6) / 1e6),
+        fc.double({ min: 1e3, max: 1e7, noNaN: true }),
+      ), { minLength: 3, maxLength: 60 }),
+      (xs) => {
+        const fast = gesdTest(xs)
+        const plain = plainSteps(xs, fast.maxOutliers)
+        expect(fast.steps).toHaveLength(plain.length)
+        fast.steps.forEach((s, i) => {
+          // Two values a rounding apart are one tie: either may go first.
+          const chosen = xs[plain[i]!.index]!
+          if (Math.abs(s.value - chosen) > 1e-12 * Math.abs(chosen)) expect(s.index).toBe(plain[i]!.index)
+          expect(Math.abs(s.R - plain[i]!.R)).toBeLessThanOrEqual(1e-9 * plain[i]!.R)
+        })
+      },
+    ), { numRuns: 2000 })
+  })
+
+  it('handles a class of 20,000 results with 4,000 steps (the sorted path, not a scan per step)', () => {
+    const xs = Array.from({ length: 20000 }, (_, i) => 3 + Math.sin(i) + (i % 997 === 0 ? 50 : 0))
+    const result = gesdTest(xs)
+    expect(result.maxOutliers).toBe(4000)
+    // The 21 runs at +50 stand far out; the sine values around 3 do not.
+    expect(result.outliers.map((i) => i % 997)).toEqual(Array(21).fill(0))
   })
 })
