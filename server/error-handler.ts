@@ -1,4 +1,4 @@
-import type { H3Event } from 'h3'
+import { getRequestHeader, send, setResponseHeader, setResponseHeaders, setResponseStatus, type H3Event } from 'h3'
 import type { NitroErrorHandler } from 'nitropack'
 import { isBadRequestValue, isDatabaseUnavailable, isPasswordQueueFull, isUnstorableText, statisticsFailureOf } from './utils/errors'
 import { errorMessageText, statusLineText } from './utils/status-line'

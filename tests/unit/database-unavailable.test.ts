@@ -90,7 +90,8 @@ describe('errors that mean "PostgreSQL is unavailable", as pg makes them', () =>
     expect(isDatabaseUnavailable(error)).toBe(true)
     // The route throws it; h3 wraps it; our handler runs first and makes it a 503.
     const wrapped = Object.assign(new Error('wrapped', { cause: error }), { statusCode: 500 }) as unknown as H3Error
-    errorHandler(wrapped, {} as never, {} as never)
+    // An event already answered: the handler only rewrites the error's words, sends nothing.
+    await errorHandler(wrapped, { handled: true } as never, {} as never)
     expect(wrapped.statusCode).toBe(503)
     expect(wrapped.statusMessage).toMatch(/database is unavailable/)
   })
