@@ -1,5 +1,5 @@
 import { resolve, sep } from 'node:path'
-import type { Nitro } from 'nitropack'
+import type { Nitro, NitroConfig } from 'nitropack'
 import type { GetManualChunk, OutputOptions, RollupOptions } from 'rollup'
 
 // The engine worker (server/engines/worker.ts) is a second entry of the server bundle, written to
@@ -23,6 +23,16 @@ function addEngineWorker(nitro: Nitro) {
       },
     }]
   })
+}
+
+// The server auto-imports only server/utils (Nitro adds it itself), the small cross-cutting
+// helpers every route uses. Nuxt would also scan shared/utils and shared/types for the server, a
+// few hundred names in one namespace: server code imports those, and the domain services under
+// server/services, explicitly. The app keeps auto-importing shared/.
+function serverUtilsOnly(config: NitroConfig) {
+  if (!config.imports) return
+  const shared = resolve(config.rootDir ?? '.', 'shared') + sep
+  config.imports.dirs = (config.imports.dirs ?? []).filter((dir) => typeof dir !== 'string' || !resolve(dir).startsWith(shared))
 }
 
 // Several builds can live side by side (parallel work, benchmarks): HALOCLINE_BUILD_TAG=x
@@ -111,6 +121,7 @@ export default defineNuxtConfig({
     'nitro:config'(config) {
       const nuxtHandler = config.errorHandler
       config.errorHandler = ['~~/server/error-handler', ...(Array.isArray(nuxtHandler) ? nuxtHandler : nuxtHandler ? [nuxtHandler] : [])]
+      serverUtilsOnly(config)
     },
     'nitro:init': addEngineWorker,
   },

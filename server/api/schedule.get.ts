@@ -1,5 +1,6 @@
 import { z } from 'zod'
-import { calendarDateProblem, daysBetween, dateField, MAX_TERM_DAYS } from '#shared/types/fields'
+import { calendarDateProblem, dateField, MAX_TERM_DAYS } from '#shared/types/fields'
+import { daysBetween } from '#shared/utils/dates'
 import type { ScheduleEntry } from '#shared/types/section'
 
 const querySchema = z.object({ from: dateField(), to: dateField() }).superRefine((q, ctx) => {

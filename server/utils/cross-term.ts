@@ -1,13 +1,13 @@
-import { sql } from 'kysely'
 import type { PracticalScope } from './access'
 import type { CrossTermComparison, CrossTermRow, CrossTermStats } from '#shared/types/results'
 import { summarize } from '#shared/utils/statistics'
 import { chooseHeadline } from '#shared/utils/headline'
+import { keyFactorValue } from '#shared/utils/key-factor'
 
 interface CrossTermResultRow {
   practicalId: number
   sectionCode: string
-  value: number | null
+  value: number
 }
 
 function crossTermStats(stored: number[]): CrossTermStats {
@@ -44,17 +44,14 @@ export async function crossTermComparison(scope: PracticalScope): Promise<CrossT
   const ids = practicals.map((p) => p.id)
   const sections = await db.selectFrom('practicalSessions').innerJoin('sections', 'sections.id', 'practicalSessions.sectionId')
     .select(['practicalSessions.practicalId', 'sections.code']).where('practicalSessions.practicalId', 'in', ids).orderBy('sections.code').execute()
-  const column = chemistry.keyFactor === 'tertiaryToPrimary' ? sql.ref('s.factor_tertiary') : sql.ref('s.factor_secondary')
   // One pass over every matching practical: each unit's newest accepted-or-pending version.
-  const { rows } = await sql<CrossTermResultRow>`
-    select l.practical_id as "practicalId", sec.code as "sectionCode", l.value
-    from (
-      select distinct on (s.practical_id, s.unit_key) s.practical_id, s.section_id, s.excluded_at, ${column} as value
-      from submissions s
-      where s.practical_id in (${sql.join(ids)}) and s.status in ('pending', 'accepted')
-      order by s.practical_id, s.unit_key, s.version desc
-    ) l join sections sec on sec.id = l.section_id
-    where l.excluded_at is null and l.value is not null`.execute(db.withoutPlugins())
+  const latest = await latestUnitVersions(db, ids).innerJoin('sections as sec', 'sec.id', 's.sectionId')
+    .select(['s.practicalId', 'sec.code as sectionCode', 's.excludedAt', 's.factorSecondary', 's.factorTertiary'])
+    .execute()
+  const rows: CrossTermResultRow[] = latest.flatMap((r) => {
+    const value = keyFactorValue(r, chemistry.keyFactor)
+    return r.excludedAt === null && value !== null ? [{ practicalId: r.practicalId, sectionCode: r.sectionCode, value }] : []
+  })
 
   const result: CrossTermRow[] = practicals.map((p) => {
     const mine = rows.filter((r) => r.practicalId === p.id)

@@ -2,6 +2,8 @@ import type { PracticalScope } from './access'
 import type { StoredFlag, SubmissionStatus } from '../database/schema'
 import type { DigestRecipient, ResultsKeyFactor } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
+import { stationOfUnitKey, unitKeyOf } from '../services/submissions/work-units'
+import { keyFactorValue } from '#shared/utils/key-factor'
 
 
 export interface DigestPerson { id: number, name: string, email: string }
@@ -50,8 +52,6 @@ export interface DigestContext {
   recipients: DigestRecipient[]
 }
 
-const STATION_UNIT = /^station:\d+:(\d+)$/
-
 /** Names and station of the people behind some submissions (for staff views only). */
 export async function digestUnitMembers(submissionIds: number[]): Promise<Map<number, DigestPerson[]>> {
   const map = new Map<number, DigestPerson[]>()
@@ -63,11 +63,6 @@ export async function digestUnitMembers(submissionIds: number[]): Promise<Map<nu
   return map
 }
 
-export function digestStationOf(unitKey: string): number | null {
-  const match = STATION_UNIT.exec(unitKey)
-  return match ? Number(match[1]) : null
-}
-
 async function digestVersions(ids: number[], keyFactor: ResultsKeyFactor): Promise<Map<number, DigestVersion>> {
   if (!ids.length) return new Map()
   const rows = await useDb().selectFrom('submissions')
@@ -77,7 +72,7 @@ async function digestVersions(ids: number[], keyFactor: ResultsKeyFactor): Promi
     submissionId: s.id,
     version: s.version,
     status: s.status,
-    factor: keyFactor === 'tertiaryToPrimary' ? s.factorTertiary : s.factorSecondary,
+    factor: keyFactorValue(s, keyFactor),
     molePercents: (s.result as { molePercents?: DigestVersion['molePercents'] }).molePercents ?? [],
     flags: s.flags,
     late: s.late,
@@ -122,11 +117,11 @@ async function digestUnits(scope: PracticalScope, sectionId: number, stats: Fact
     return unit
   }
   for (const e of enrolled) {
-    const key = scope.practical.workUnit === 'pair' && e.station !== null ? `station:${sectionId}:${e.station}` : `user:${e.id}`
+    const key = unitKeyOf(scope.practical.workUnit, { userId: e.id, sectionId, station: e.station })
     unitOf(key, e.station).members.push({ id: e.id, name: e.name, email: e.email })
   }
   for (const s of newest) {
-    const unit = unitOf(s.unitKey, digestStationOf(s.unitKey))
+    const unit = unitOf(s.unitKey, stationOfUnitKey(s.unitKey))
     if (!unit.members.length) unit.members = members.get(s.id) ?? []
     unit.latest = versions.get(s.id) ?? null
   }

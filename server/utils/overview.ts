@@ -3,9 +3,10 @@ import type { OverviewCard } from '#shared/types/overview'
 import type { ScheduleEntry } from '#shared/types/section'
 import type { SessionUser } from '#shared/types/auth'
 import { HEADLINE_LABELS } from '#shared/utils/headline'
+import { KEY_FACTOR_LABELS } from '#shared/types/review'
+import { addDays, todayIn } from '#shared/utils/dates'
 
-const DAY_MS = 86_400_000
-const isoDay = (offset = 0) => new Date(Date.now() + offset * DAY_MS).toISOString().slice(0, 10)
+const isoDay = (offset = 0) => addDays(todayIn('UTC'), offset)
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
 
 /** The review queue summed over every practical the caller reviews. */
@@ -93,7 +94,7 @@ export async function classResultCard(event: H3Event, me: SessionUser): Promise<
   const stats = summary.factors[summary.keyFactor]
   const headline = summary.headline
   if (!stats || !headline || headline.value === null || !headline.statistic) return null
-  const name = summary.keyFactor === 'tertiaryToPrimary' ? '3°:1°' : '2°:1°'
+  const name = KEY_FACTOR_LABELS[summary.keyFactor]
   const literature = summary.literature[summary.keyFactor]
   // The same figure the results page and the digests lead with (shared/utils/headline.ts).
   const ci = headline.ci95 ? ` (95 % CI ${headline.ci95[0].toFixed(2)} to ${headline.ci95[1].toFixed(2)})` : ''

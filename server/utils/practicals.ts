@@ -178,11 +178,9 @@ export async function procedureCard(scope: PracticalScope): Promise<ProcedureCar
       .select(['enrollments.sectionId', 'enrollments.station', 'enrollments.seat', 'sections.code'])
       .where('enrollments.userId', '=', me.id).where('enrollments.courseId', '=', course.id).where('enrollments.status', '=', 'active')
       .where('enrollments.sectionId', 'in', scope.sessionSectionIds).executeTakeFirstOrThrow()
-    const partners = enrollment.station === null ? [] : await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
-      .select('users.name').where('enrollments.sectionId', '=', enrollment.sectionId).where('enrollments.station', '=', enrollment.station)
-      .where('enrollments.status', '=', 'active').where('enrollments.userId', '<>', me.id).orderBy('enrollments.seat').execute()
+    const partners = await partnerNames(db, { userId: me.id, sectionId: enrollment.sectionId, station: enrollment.station })
     sessions = sessions.filter((s) => s.sectionId === enrollment.sectionId)
-    student = { name: me.name, sectionCode: enrollment.code, station: enrollment.station, seat: enrollment.seat, partners: partners.map((p) => p.name) }
+    student = { name: me.name, sectionCode: enrollment.code, station: enrollment.station, seat: enrollment.seat, partners }
   }
 
   return {

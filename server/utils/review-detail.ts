@@ -3,13 +3,11 @@ import type { StoredFlag, Submission } from '../database/schema'
 import type { PeakView, StoredResult } from '#shared/types/submission'
 import type { AccuracySuggestionView, ReviewFactorKey, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
+import { keyFactorValue } from '#shared/utils/key-factor'
 
 // Everything a reviewer looks at for one submission: the peaks and result, flags (with the
 // class outlier test), the three distributions, every version of the work unit and a diff,
 // the reviews so far, the rubric with the suggested accuracy score, and where the queue goes next.
-
-const factorOf = (row: { factorSecondary: number | null, factorTertiary: number | null }, key: ReviewFactorKey) =>
-  key === 'tertiaryToPrimary' ? row.factorTertiary : row.factorSecondary
 
 async function unitVersions(scope: ReviewerScope, submission: Submission) {
   const sections = reviewSectionIds(scope)
@@ -85,7 +83,7 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
   const people = await db.selectFrom('users').select(['id', 'name'])
     .where('id', 'in', [submission.submittedBy, submission.excludedBy ?? submission.submittedBy]).execute()
   const nameOf = (id: number | null) => people.find((p) => p.id === id)?.name ?? null
-  const observed = factorOf(submission, key)
+  const observed = keyFactorValue(submission, key)
   return {
     id: submission.id,
     version: submission.version,
@@ -124,7 +122,7 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     ],
     versions: versions.map((v) => ({
       id: v.id, version: v.version, submittedAt: v.createdAt.toISOString(), fileName: v.originalName, status: v.status,
-      keyFactor: factorOf(v, key), late: v.late, excluded: v.excludedAt !== null,
+      keyFactor: keyFactorValue(v, key), late: v.late, excluded: v.excludedAt !== null,
     })),
     diff: chosenDiff(versions, current, compareId, labels),
     reviews: await unitReviews(versions.map((v) => v.id)),

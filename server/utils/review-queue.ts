@@ -5,6 +5,8 @@ import type { SessionUser } from '#shared/types/auth'
 import type { StoredFlag, SubmissionStatus } from '../database/schema'
 import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView } from '#shared/types/review'
 import type { OutlierFinding } from '#shared/utils/outliers'
+import { stationOfUnitKey } from '../services/submissions/work-units'
+import { keyFactorValue } from '#shared/utils/key-factor'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -19,7 +21,7 @@ export interface ClassOutliers {
 export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<ClassOutliers> {
   const rows = await latestClassResults(scope.practical.id)
   const values = rows.filter((r) => r.excludedAt === null).flatMap((r) => {
-    const value = keyFactor === 'tertiaryToPrimary' ? r.tertiary : r.secondary
+    const value = keyFactorValue(r, keyFactor)
     return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
   })
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
@@ -69,8 +71,6 @@ export function compareQueueRows(a: QueueRow, b: QueueRow): number {
   return queueBucket(a) - queueBucket(b) || a.submittedAt.localeCompare(b.submittedAt) || a.id - b.id
 }
 
-const STATION_KEY = /^station:\d+:(\d+)$/
-
 /** Names, e-mails and station of the people behind some submissions. */
 export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>): Promise<Map<number, UnitView>> {
   const result = new Map<number, UnitView>()
@@ -85,12 +85,12 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
   for (const row of rows) {
     const mine = members.filter((m) => m.submissionId === row.id)
     const people: UnitMember[] = [...new Map(mine.map((m) => [m.id, { id: m.id, name: m.name, email: m.email }])).values()]
-    const keyed = STATION_KEY.exec(row.unitKey)
+    const keyed = stationOfUnitKey(row.unitKey)
     result.set(row.id, {
       key: row.unitKey,
       label: people.map((p) => p.name).join(' & ') || row.unitKey,
       members: people,
-      station: keyed ? Number(keyed[1]) : (mine.find((m) => m.station !== null)?.station ?? null),
+      station: keyed ?? mine.find((m) => m.station !== null)?.station ?? null,
     })
   }
   return result
@@ -120,7 +120,7 @@ export async function buildReviewQueue(scope: ReviewerScope, keyFactor: ReviewFa
       submittedAt: s.createdAt.toISOString(),
       late: s.late,
       status: s.status,
-      keyFactor: keyFactor === 'tertiaryToPrimary' ? s.factorTertiary : s.factorSecondary,
+      keyFactor: keyFactorValue(s, keyFactor),
       flags,
       attention,
       excluded,

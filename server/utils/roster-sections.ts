@@ -72,6 +72,21 @@ export function rosterStationPlaces(count: number, section: Pick<Section, 'hoodS
   }))
 }
 
+/** Everyone active at one hood station of a section, in seat order: a student and their partners. */
+export function stationMates(db: Db, sectionId: number, station: number) {
+  return db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
+    .select(['enrollments.userId', 'users.name', 'enrollments.seat'])
+    .where('enrollments.sectionId', '=', sectionId).where('enrollments.station', '=', station)
+    .where('enrollments.status', '=', 'active').orderBy('enrollments.seat').execute()
+}
+
+/** A student's partners by name: the others at their station, in seat order. */
+export async function partnerNames(db: Db, student: { userId: number, sectionId: number, station: number | null }): Promise<string[]> {
+  if (student.station === null) return []
+  const mates = await stationMates(db, student.sectionId, student.station)
+  return mates.filter((m) => m.userId !== student.userId).map((m) => m.name)
+}
+
 /** Active students of a section in name order, with where they sit now. */
 export async function rosterActiveStudents(db: Db, sectionId: number) {
   const rows = await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')

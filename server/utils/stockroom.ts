@@ -8,6 +8,7 @@ import {
 } from '#shared/types/stockroom'
 import { buildForecast, workUnitsOf, type ForecastItem, type ForecastLot, type ForecastPractical, type ForecastReagent, type ForecastSessionInput } from '#shared/utils/forecast'
 import type { Reagent } from '../database/schema-stockroom'
+import { todayIn } from '#shared/utils/dates'
 
 // The stockroom: who may use it, and the reads behind its routes. Coordinators manage all of
 // it; instructors read the catalog and the forecast of their own courses; TAs and students
@@ -23,15 +24,7 @@ export function requireStockroomReader(event: H3Event) {
 
 /** The stockroom's calendar day (UTC): lots expire and meetings fall on calendar dates. */
 export function stockroomToday(now = new Date()): string {
-  return now.toISOString().slice(0, 10)
-}
-
-export function addMonths(date: string, months: number): string {
-  const d = new Date(`${date}T00:00:00Z`)
-  const target = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + months, 1))
-  const lastDay = new Date(Date.UTC(target.getUTCFullYear(), target.getUTCMonth() + 1, 0)).getUTCDate()
-  target.setUTCDate(Math.min(d.getUTCDate(), lastDay))
-  return target.toISOString().slice(0, 10)
+  return todayIn('UTC', now)
 }
 
 export function reagentFields(r: Reagent): ReagentFields {

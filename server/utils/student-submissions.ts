@@ -1,6 +1,8 @@
 import type { H3Event } from 'h3'
 import type { PracticalScope } from './access'
 import type { ReleasePolicy, RubricCriterion } from '../database/schema'
+import { todayIn } from '#shared/utils/dates'
+import type { KeyFactor } from '#shared/utils/key-factor'
 import type { ExpectationView, FlagView, PeakView, ProductView, StoredResult, SubmissionStatusName } from '#shared/types/submission'
 
 // A student's own GC results for one practical: every version of their work unit (the pair's,
@@ -67,7 +69,7 @@ export interface MySubmissionsView {
     predicted: Array<{ smiles: string, percent: number }>
     statistical: Array<{ smiles: string, percent: number }>
     windows: Array<{ productSmiles: string, rtMin: number, rtMax: number, responseFactor: number }>
-    keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
+    keyFactor: KeyFactor
     literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
     expected: ExpectationView
     /** "dichlorides", "monobromides": what the products are, for the conversion's wording. */
@@ -153,7 +155,7 @@ export async function mySubmissionsOf(event: H3Event, scope: PracticalScope): Pr
     dueAt: unit.dueAt?.toISOString() ?? null,
     pastDue: unit.dueAt !== null && Date.now() > unit.dueAt.getTime(),
     meetingDate: unit.meetingDate,
-    beforeMeeting: unit.meetingDate !== null && unit.meetingDate > new Intl.DateTimeFormat('en-CA', { timeZone: course.timezone }).format(new Date()),
+    beforeMeeting: unit.meetingDate !== null && unit.meetingDate > todayIn(course.timezone),
     uploadsOpen: chemistry.windows.length > 0,
     closedReason: chemistry.windows.length > 0 ? null : 'This practical has no retention windows yet; ask your instructor to set them.',
     releasePolicy: course.releasePolicy,

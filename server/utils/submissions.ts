@@ -5,6 +5,7 @@ import type { UploadedFile } from './files'
 import type { Submission } from '../database/schema'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
 import { attentionOf, RunInputError, type RunResult } from '#shared/utils/submission'
+import { stationOfUnitKey, unitKeyOf } from '../services/submissions/work-units'
 
 export interface StudentWorkUnit {
   sectionId: number
@@ -27,18 +28,16 @@ export async function studentUnit(event: H3Event, scope: PracticalScope): Promis
   if (!enrollment) throw createError({ statusCode: 404, statusMessage: 'Practical not found' })
   const session = await db.selectFrom('practicalSessions').select(['dueAt', 'meetingDate'])
     .where('practicalId', '=', scope.practical.id).where('sectionId', '=', enrollment.sectionId).executeTakeFirst()
-  if (scope.practical.workUnit === 'pair' && enrollment.station !== null) {
-    const partners = await db.selectFrom('enrollments').select('userId')
-      .where('sectionId', '=', enrollment.sectionId).where('station', '=', enrollment.station).where('status', '=', 'active').execute()
-    return {
-      sectionId: enrollment.sectionId,
-      unitKey: `station:${enrollment.sectionId}:${enrollment.station}`,
-      memberIds: [...new Set([scope.me.id, ...partners.map((p) => p.userId)])],
-      dueAt: session?.dueAt ?? null,
-      meetingDate: session?.meetingDate ?? null,
-    }
+  const student = { userId: scope.me.id, sectionId: enrollment.sectionId, station: enrollment.station }
+  const unitKey = unitKeyOf(scope.practical.workUnit, student)
+  const partners = stationOfUnitKey(unitKey) === null ? [] : await stationMates(db, enrollment.sectionId, enrollment.station!)
+  return {
+    sectionId: enrollment.sectionId,
+    unitKey,
+    memberIds: [...new Set([scope.me.id, ...partners.map((p) => p.userId)])],
+    dueAt: session?.dueAt ?? null,
+    meetingDate: session?.meetingDate ?? null,
   }
-  return { sectionId: enrollment.sectionId, unitKey: `user:${scope.me.id}`, memberIds: [scope.me.id], dueAt: session?.dueAt ?? null, meetingDate: session?.meetingDate ?? null }
 }
 
 /**

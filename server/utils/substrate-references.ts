@@ -1,4 +1,3 @@
-import { sql } from 'kysely'
 import type { SessionUser } from '#shared/types/auth'
 import type { Substrate } from '../database/schema'
 import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput, type ReferenceView } from '#shared/types/library'
@@ -40,8 +39,6 @@ export async function resolveReferencePercents(input: Pick<ReferenceInput, 'perc
   return rows
 }
 
-interface AcceptedRow { practicalId: number, molePercents: Array<{ smiles: string, percent: number }> }
-
 /**
  * Practicals of the caller's own courses that ran this substrate (by structure: a copy counts)
  * and have accepted results, with the mean mol % per product over each work unit's latest
@@ -58,11 +55,8 @@ export async function referenceCandidates(me: SessionUser, substrate: Pick<Subst
     .where('courseOwners.userId', '=', me.id).where('substrates.smiles', '=', substrate.smiles)
     .orderBy('practicals.id', 'desc').execute()
   if (!practicals.length) return []
-  const { rows } = await sql<AcceptedRow>`
-    select distinct on (s.practical_id, s.unit_key) s.practical_id as "practicalId", s.result -> 'molePercents' as "molePercents"
-    from submissions s
-    where s.practical_id in (${sql.join(practicals.map((p) => p.id))}) and s.status = 'accepted' and s.excluded_at is null
-    order by s.practical_id, s.unit_key, s.version desc`.execute(db.withoutPlugins())
+  const rows = await latestUnitVersions(db, practicals.map((p) => p.id), { statuses: ['accepted'], skipExcluded: true })
+    .select(['s.practicalId', storedMolePercents.as('molePercents')]).execute()
   const candidates: ReferenceCandidate[] = []
   for (const p of practicals) {
     const runs = rows.filter((r) => r.practicalId === p.id)

@@ -5,22 +5,26 @@ import type { OutlierSettings } from '#shared/utils/outliers'
 import type { OutlierTestName } from '#shared/types/course'
 import type { ClassRow } from './class-results'
 import type { FactorStatsJob } from '../engines/statistics'
+import { keyFactorValue, type KeyFactor } from '#shared/utils/key-factor'
 
 /** The class figures of each group of rows (the whole class, then each section), computed together. */
-async function factorSets(groups: ClassRow[][], settings: OutlierSettings, has: { secondary: boolean, tertiary: boolean }, withoutOutliers: boolean): Promise<FactorSet[]> {
-  const keys = (['secondary', 'tertiary'] as const).filter((k) => has[k])
+async function factorSets(groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean): Promise<FactorSet[]> {
+  const keys = (['secondaryToPrimary', 'tertiaryToPrimary'] as const).filter((k) => has[k])
   const jobs: FactorStatsJob[] = groups.flatMap((rows) => {
     // A flagged run no reviewer has accepted yet is what "pulls the mean" in the headline.
     const unreviewed = rows.filter((r) => r.status === 'pending').map((r) => r.submissionId)
     return keys.map((key) => ({
-      values: rows.flatMap((r): FactorValue[] => { const v = r[key]; return v === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: v }] }),
+      values: rows.flatMap((r): FactorValue[] => {
+        const value = keyFactorValue(r, key)
+        return value === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value }]
+      }),
       settings, withoutOutliers, unreviewed,
     }))
   })
   const stats = await classFactorStats(jobs)
   return groups.map((_, g) => {
-    const of = (key: 'secondary' | 'tertiary') => (has[key] ? stats[g * keys.length + keys.indexOf(key)]! : null)
-    return { secondaryToPrimary: of('secondary'), tertiaryToPrimary: of('tertiary') }
+    const of = (key: KeyFactor) => (has[key] ? stats[g * keys.length + keys.indexOf(key)]! : null)
+    return { secondaryToPrimary: of('secondaryToPrimary'), tertiaryToPrimary: of('tertiaryToPrimary') }
   })
 }
 
@@ -49,8 +53,8 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
     maxOutliers: options.maxOutliers ?? null,
   }
   const has = {
-    secondary: chemistry.products.some((p) => p.carbonClass === 'secondary'),
-    tertiary: chemistry.products.some((p) => p.carbonClass === 'tertiary'),
+    secondaryToPrimary: chemistry.products.some((p) => p.carbonClass === 'secondary'),
+    tertiaryToPrimary: chemistry.products.some((p) => p.carbonClass === 'tertiary'),
   }
   const withoutOutliers = options.withoutOutliers ?? false
   const sections = await useDb().selectFrom('practicalSessions').innerJoin('sections', 'sections.id', 'practicalSessions.sectionId')

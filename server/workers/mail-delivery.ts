@@ -1,4 +1,4 @@
-import { useRuntimeConfig } from '#imports'
+import { useRuntimeConfig } from 'nitropack/runtime'
 import { sql, type Selectable } from 'kysely'
 import type { MailMessagesTable } from '../database/schema'
 import { useDb } from '../utils/db'

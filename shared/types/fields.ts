@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { isCalendarDate, isoDateOf } from '../utils/dates'
 import { textInputProblem } from '../utils/text-input'
 
 // The pieces every schema is built from, so each text has a length and a character rule, each
@@ -38,8 +39,7 @@ const DATE_SHAPE = /^\d{4}-\d{2}-\d{2}$/
 /** What is wrong with a YYYY-MM-DD date, or null: one sentence, whichever check fails first. */
 export function calendarDateProblem(value: string): string | null {
   if (!DATE_SHAPE.test(value)) return 'Use YYYY-MM-DD'
-  const time = Date.parse(`${value}T00:00:00Z`)
-  if (Number.isNaN(time) || new Date(time).toISOString().slice(0, 10) !== value) return 'Not a calendar date'
+  if (!isCalendarDate(value)) return 'Not a calendar date'
   if (value < EARLIEST_DATE || value > LATEST_DATE) return `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}`
   return null
 }
@@ -56,14 +56,9 @@ export function dateField(format = 'Use YYYY-MM-DD') {
 export function instantField(format = 'Use an ISO 8601 date and time with its offset') {
   return z.string({ error: format }).superRefine((value, ctx) => {
     if (!z.iso.datetime({ offset: true }).safeParse(value).success) return void ctx.addIssue({ code: 'custom', message: format })
-    const day = new Date(value).toISOString().slice(0, 10)
+    const day = isoDateOf(value)
     if (day < EARLIEST_DATE || day > LATEST_DATE) ctx.addIssue({ code: 'custom', message: `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}` })
   })
-}
-
-/** Whole days from one YYYY-MM-DD to another. */
-export function daysBetween(from: string, to: string): number {
-  return Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000)
 }
 
 /** The id of a stored row, in a JSON body. */
@@ -75,6 +70,9 @@ export function recordId(message = 'Pick an item from the list') {
 export function recordIdParam(message = 'Not an id') {
   return z.coerce.number({ error: message }).int(message).min(1, message).max(MAX_RECORD_ID, message)
 }
+
+/** The `:id` of every route that names a stored row in its path. */
+export const idParamsSchema = z.object({ id: recordIdParam() })
 
 /** A list of ids: at least one, at most `max`, e.g. recordIdList(200, 'section', 'sections'). */
 export function recordIdList(max: number, noun: string, plural = `${noun}s`) {

@@ -6,7 +6,6 @@ import { cautionsForMethod } from '../data/cautions'
 import { blockText, lineText, recordIdParam } from './fields'
 import { productSmilesSchema, substrateSmilesSchema } from './smiles'
 
-export const libraryIdParamsSchema = z.object({ id: recordIdParam() })
 
 const notes = blockText(4000)
 

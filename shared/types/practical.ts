@@ -279,7 +279,6 @@ function trimmed(value: number): string {
 }
 
 /** `:id` in a route path. */
-export const practicalParamsSchema = z.object({ id: recordIdParam() })
 
 /** An instant as the course's wall clock: { date: 'YYYY-MM-DD', time: 'HH:MM' }. */
 export function wallClock(iso: string, timezone: string): { date: string, time: string } {

@@ -2,16 +2,15 @@ import { z } from 'zod'
 import type { OutlierTestName as OutlierTest } from './course'
 import type { ClassHeadline } from '../utils/headline'
 import { instantField, recordIdList, recordIdParam } from './fields'
+import type { KeyFactor } from '../utils/key-factor'
+import { KEY_FACTOR_LABELS } from './review'
 
 // Class results pages, section digests and the cross-term comparison: API types and the
 // schemas shared by the forms and the routes.
 
-export type ResultsKeyFactor = 'secondaryToPrimary' | 'tertiaryToPrimary'
+export type ResultsKeyFactor = KeyFactor
 
-export const RESULTS_FACTOR_LABELS: Record<ResultsKeyFactor, string> = {
-  secondaryToPrimary: '2°:1°',
-  tertiaryToPrimary: '3°:1°',
-}
+export const RESULTS_FACTOR_LABELS = KEY_FACTOR_LABELS
 
 /** One line of GET /api/results: a practical the caller may see, with its headline factor. */
 export interface ResultsListItem {

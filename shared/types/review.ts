@@ -2,17 +2,17 @@ import { z } from 'zod'
 import type { FlagView, PeakView, StoredResult, SubmissionStatusName } from './submission'
 import { rubricScoresSchema, type OutlierTestName } from './course'
 import { recordId, recordIdParam } from './fields'
+import type { KeyFactor } from '../utils/key-factor'
 
 // The TA review side: queue, detail, bulk acceptance, grade export. The review and exclusion
 // bodies themselves are `reviewInputSchema` and `exclusionInputSchema` in ./submission.
 
-export type ReviewFactorKey = 'secondaryToPrimary' | 'tertiaryToPrimary'
-export const KEY_FACTOR_LABELS: Record<ReviewFactorKey, string> = {
+export type ReviewFactorKey = KeyFactor
+export const KEY_FACTOR_LABELS: Record<KeyFactor, string> = {
   secondaryToPrimary: '2°:1°',
   tertiaryToPrimary: '3°:1°',
 }
 
-export const reviewIdParamsSchema = z.object({ id: recordIdParam() })
 
 export const queueQuerySchema = z.object({
   section: recordIdParam().optional(),

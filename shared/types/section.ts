@@ -1,5 +1,6 @@
 import { z } from 'zod'
-import { calendarDateProblem, dateField, daysBetween, lineText, MAX_TERM_DAYS, recordId } from './fields'
+import { daysBetween } from '../utils/dates'
+import { calendarDateProblem, dateField, lineText, MAX_TERM_DAYS, recordId } from './fields'
 
 const time = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d(:[0-5]\d)?$/, 'Use HH:MM (24-hour)')
 

@@ -3,7 +3,8 @@
 import { z } from 'zod'
 import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
-import { blockText, calendarDateProblem, dateField, daysBetween, lineText, recordId, recordIdParam } from './fields'
+import { daysBetween } from '../utils/dates'
+import { blockText, calendarDateProblem, dateField, lineText, recordId, recordIdParam } from './fields'
 
 export const PHYSICAL_STATES = ['solid', 'liquid', 'gas', 'solution'] as const
 export type PhysicalStateName = (typeof PHYSICAL_STATES)[number]
@@ -60,7 +61,6 @@ const text = (max: number) => lineText(max)
 const positive = (what: string, max: number) => z.number({ error: `Enter ${what} as a number` }).finite().gt(0, `${what[0]!.toUpperCase()}${what.slice(1)} must be above zero`).max(max, `At most ${max}`)
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254)
 
-export const stockroomIdParamsSchema = z.object({ id: recordIdParam() })
 
 // ── Reagents ────────────────────────────────────────────────────────────────────────────
 

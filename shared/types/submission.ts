@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { rubricScoresSchema } from './course'
 import { blockText } from './fields'
+import type { KeyFactor } from '../utils/key-factor'
 
 export type SubmissionStatusName = 'pending' | 'accepted' | 'returned'
 export type FlagSeverity = 'info' | 'warning' | 'danger'
@@ -50,7 +51,7 @@ export interface StoredResult extends ResultView {
   conversion: number | null
   unassignedPercent: number
   warnings: string[]
-  keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
+  keyFactor: KeyFactor
 }
 
 /** What a run is judged against, as pages show it (see `Expectation` in shared/utils/submission.ts). */

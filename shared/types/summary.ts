@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { OUTLIER_TESTS, type OutlierTestName } from './course'
 import type { ClassHeadline } from '../utils/headline'
+import type { KeyFactor } from '../utils/key-factor'
 
 export const summaryQuerySchema = z.object({
   method: z.enum(OUTLIER_TESTS).optional(),
@@ -52,7 +53,7 @@ export interface FactorSet {
 }
 
 /** The key factor's headline, the one figure a page, e-mail or card leads with. */
-export type SummaryHeadline = ClassHeadline & { factor: 'secondaryToPrimary' | 'tertiaryToPrimary' }
+export type SummaryHeadline = ClassHeadline & { factor: KeyFactor }
 
 export interface PracticalSummary {
   n: number
@@ -60,7 +61,7 @@ export interface PracticalSummary {
   factors: FactorSet
   excluded: Array<{ submissionId: number, reason: string }>
   bySection: Array<{ sectionId: number, code: string, n: number, factors: FactorSet }>
-  keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
+  keyFactor: KeyFactor
   literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
   withoutOutliers: boolean
   /** Mean mole % per product over the included results, for observed vs predicted charts; `reference` is null without a reference distribution. */

@@ -3,7 +3,7 @@
 import { MAX_PEAK_AREA, MAX_RETENTION_MINUTES, type Peak, type RowError } from './lib/peak-table'
 import { DEFAULT_DRIFT_TOLERANCE, driftFlags, rescueDriftedPeaks, type DriftSlot, type DriftTolerance } from './lib/retention-drift'
 
-export { parsePeakTable, MAX_PEAK_ROWS, MAX_TABLE_BYTES, SECONDS_THRESHOLD, MAX_PEAK_AREA, MAX_RETENTION_MINUTES } from './lib/peak-table'
+export { parsePeakTable, MAX_PEAK_ROWS, SECONDS_THRESHOLD, MAX_PEAK_AREA, MAX_RETENTION_MINUTES } from './lib/peak-table'
 export type { Peak, RowError, ParseErrorCode, ParsedPeakTable, PeakTableOptions, TableMeta } from './lib/peak-table'
 export { parseTrace, sniffUpload, MIN_TRACE_POINTS, MAX_TRACE_POINTS } from './lib/trace-table'
 export type { ParsedTrace, TraceOptions, UploadSniff } from './lib/trace-table'

@@ -5,12 +5,12 @@
 //               reagent's stock unit) × (1 + overage)
 //   onHand    = stock that will still be in date when it is used (first-expiring lots first)
 //   shortfall = required − onHand (never below zero), ordered in whole containers
+import { addDays, isoWeekLabel, weekStart } from './dates'
 import { computeQuantities, isGas, type ItemSpec } from './procedure'
 import type { QuantityView } from '../types/practical'
 import type { ForecastLine, ForecastSession, ForecastWeek, SkippedSession, StockUnitName } from '../types/stockroom'
 import type { HazardKey } from '../data/cautions'
 
-const DAY_MS = 86_400_000
 /** Float noise (0.1 + 0.2) must not buy a whole extra container. */
 const EPSILON = 1e-9
 
@@ -83,30 +83,6 @@ export interface ForecastResult {
   skippedSessions: SkippedSession[]
   /** Linked items whose amount could not be put in the reagent's unit, one sentence each. */
   problems: string[]
-}
-
-// ── Dates ─────────────────────────────────────────────────────────────────────────────
-
-const dayNumber = (date: string) => Date.parse(`${date}T00:00:00Z`) / DAY_MS
-const dateOf = (day: number) => new Date(day * DAY_MS).toISOString().slice(0, 10)
-
-export function addDays(date: string, days: number): string {
-  return dateOf(dayNumber(date) + days)
-}
-
-/** Monday of the ISO week holding the date. */
-export function weekStart(date: string): string {
-  const day = dayNumber(date)
-  const weekday = new Date(day * DAY_MS).getUTCDay() || 7
-  return dateOf(day - weekday + 1)
-}
-
-/** ISO 8601 week label: the week belongs to the year of its Thursday ('2026-W53', '2027-W01'). */
-export function isoWeekLabel(date: string): string {
-  const thursday = dayNumber(weekStart(date)) + 3
-  const year = new Date(thursday * DAY_MS).getUTCFullYear()
-  const week = Math.floor((thursday - dayNumber(`${year}-01-01`)) / 7) + 1
-  return `${year}-W${String(week).padStart(2, '0')}`
 }
 
 // ── Work units and per-unit amounts ───────────────────────────────────────────────────
@@ -292,8 +268,7 @@ export function buildForecast(input: ForecastInput): ForecastResult {
   lines.sort((a, b) => a.name.localeCompare(b.name))
 
   const weeks = new Map<string, ForecastWeek>()
-  for (let day = dayNumber(weekStart(input.from)); day <= dayNumber(input.to); day += 7) {
-    const week = dateOf(day)
+  for (let week = weekStart(input.from); week <= input.to; week = addDays(week, 7)) {
     weeks.set(week, { week, isoWeek: isoWeekLabel(week), sessions: 0, halogenatedWasteMl: 0 })
   }
   for (const s of sessions) {

@@ -2,7 +2,7 @@
 // in, plain data out; no database, no Nuxt, no clock. The seed imports it by relative path, so
 // everything here is imported relatively too.
 import { analyzeSubstrate, convertAmount, molarMassOf, predictDistribution, type Reactivity, type SubstrateAnalysis } from './halogenation'
-import { zonedInstant } from './schedule'
+import { addDays, zonedInstant } from './dates'
 import { positionLetter } from './depiction'
 import { methodForReagent } from '../data/halogenation-methods'
 import { cautionsForMethod, type HazardKey } from '../data/cautions'
@@ -176,10 +176,7 @@ export function defaultItems(substrate: SubstrateLike, reagent: string): ItemSpe
   return items
 }
 
-const DAY_MS = 86_400_000
-
 /** Results are due seven days after the meeting at 23:59, course-local time. */
 export function defaultDueAt(meetingDate: string, timezone: string): Date {
-  const due = new Date(Date.parse(`${meetingDate}T00:00:00Z`) + 7 * DAY_MS).toISOString().slice(0, 10)
-  return zonedInstant(due, '23:59', timezone)
+  return zonedInstant(addDays(meetingDate, 7), '23:59', timezone)
 }

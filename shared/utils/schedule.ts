@@ -1,7 +1,7 @@
 // Meetings of a lab section and the conflicts between sections. Pure: wall-clock times in a
 // named time zone become UTC instants (so a term that crosses a daylight-saving change keeps
 // its 08:30 start), and conflicts are found on those instants.
-import { TZDate } from '@date-fns/tz'
+import { addDays, isoWeekday, zonedInstant } from './dates'
 
 export interface SectionTimetable {
   /** ISO weekday: 1 = Monday … 7 = Sunday. */
@@ -27,39 +27,12 @@ export interface Meeting {
 const DAY_MS = 86_400_000
 const MAX_MEETINGS = 400
 
-function parseDate(value: string): [number, number, number] {
-  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(value)
-  if (!m) throw new RangeError(`Not a date (YYYY-MM-DD): ${value}`)
-  return [Number(m[1]), Number(m[2]), Number(m[3])]
-}
-
-function parseTime(value: string): [number, number] {
-  const m = /^(\d{2}):(\d{2})(?::\d{2})?$/.exec(value)
-  if (!m || Number(m[1]) > 23 || Number(m[2]) > 59) throw new RangeError(`Not a time (HH:MM): ${value}`)
-  return [Number(m[1]), Number(m[2])]
-}
-
-const dayNumber = (value: string) => { const [y, m, d] = parseDate(value); return Date.UTC(y, m - 1, d) / DAY_MS }
-const dateOf = (day: number) => new Date(day * DAY_MS).toISOString().slice(0, 10)
-/** ISO weekday of a day number (1970-01-01 was a Thursday). */
-const isoWeekday = (day: number) => ((((day + 3) % 7) + 7) % 7) + 1
-
-/** The UTC instant of a wall-clock date and time in a zone. */
-export function zonedInstant(date: string, time: string, timezone: string): Date {
-  const [y, m, d] = parseDate(date)
-  const [hh, mm] = parseTime(time)
-  return new Date(new TZDate(y, m - 1, d, hh, mm, 0, timezone).getTime())
-}
-
 /** Every meeting from the first to the last date on the section's weekday, minus skipped dates. */
 export function sectionMeetings(t: SectionTimetable): Meeting[] {
-  const first = dayNumber(t.firstDate)
-  const last = dayNumber(t.lastDate)
   const skipped = new Set(t.skippedDates)
   const meetings: Meeting[] = []
-  let day = first + ((t.weekday - isoWeekday(first) + 7) % 7)
-  for (; day <= last && meetings.length < MAX_MEETINGS; day += 7) {
-    const date = dateOf(day)
+  let date = addDays(t.firstDate, (t.weekday - isoWeekday(t.firstDate) + 7) % 7)
+  for (; date <= t.lastDate && meetings.length < MAX_MEETINGS; date = addDays(date, 7)) {
     if (skipped.has(date)) continue
     meetings.push({
       date,

@@ -5,6 +5,8 @@ import { assignPeaks, detectPeaks, parsePeakTable, parseTrace, sniffUpload, type
 import { analyzeSubstrate, predictDistribution, relativeReactivities, type CarbonClass, type SubstrateAnalysis } from './halogenation'
 import { positionLetter } from './depiction'
 import type { RunSource } from './lib/upload-content'
+import { keyFactorOf, type KeyFactor } from './key-factor'
+import { KEY_FACTOR_LABELS } from '../types/review'
 
 export type Severity = 'info' | 'warning' | 'danger'
 
@@ -99,11 +101,6 @@ const RANK: Record<Severity, number> = { info: 0, warning: 1, danger: 2 }
 /** 2 when a flag should stop acceptance, 1 for a warning, 0 when clean (info only). */
 export function attentionOf(flags: RunFlag[]): number {
   return flags.reduce((max, f) => Math.max(max, RANK[f.severity]), 0)
-}
-
-/** The factor a practical is about: 3°:1° when the substrate has a tertiary C–H, else 2°:1°. */
-export function keyFactorOf(products: RunProduct[]): 'tertiaryToPrimary' | 'secondaryToPrimary' {
-  return products.some((p) => p.carbonClass === 'tertiary') ? 'tertiaryToPrimary' : 'secondaryToPrimary'
 }
 
 function readPeaks(source: RunSource, expectedMaxMinutes: number | undefined): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
@@ -205,7 +202,7 @@ function farFromPrediction(input: RunInput, factors: RunResult['factors'], moleP
   const limit = input.farFactor ?? 2
   if (observed === null || value === null || !(value > 0)) return []
   if (observed > 0 && Math.abs(Math.log(observed / value)) <= Math.log(limit)) return []
-  const name = key === 'tertiaryToPrimary' ? '3°:1°' : '2°:1°'
+  const name = KEY_FACTOR_LABELS[key]
   const caveat = expected.substituted ? ' That value comes from the class model, which ignores the effect of the halogen already on the substrate, so treat it as a rough guide.' : ''
   return [{
     code: 'far-from-prediction',
@@ -263,7 +260,7 @@ export interface PracticalChemistry {
   predicted: Array<{ smiles: string, percent: number }>
   statistical: Array<{ smiles: string, percent: number }>
   literature: RunInput['literature']
-  keyFactor: 'secondaryToPrimary' | 'tertiaryToPrimary'
+  keyFactor: KeyFactor
   /** What runs are judged against: the reference distribution when there is one, else the class model. */
   expected: Expectation
   /** What the products are ("monochlorides", "dichlorides"), for wording the conversion. */

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest'
 import {
-  allocateStock, buildForecast, isoWeekLabel, perUnitAmount, wastePerUnit, weekStart, workUnitsOf,
+  allocateStock, buildForecast, perUnitAmount, wastePerUnit, workUnitsOf,
   type ForecastInput, type ForecastItem, type ForecastReagent,
 } from '../../shared/utils/forecast'
+import { isoWeekLabel, weekStart } from '../../shared/utils/dates'
 import { computeQuantities } from '../../shared/utils/procedure'
 import { HAZARD_CODE, parseHazardCodes, reagentInputSchema } from '../../shared/types/stockroom'
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { findConflicts, sectionMeetings, zonedInstant, type ScheduledSection, type SectionTimetable } from '../../shared/utils/schedule'
+import { findConflicts, sectionMeetings, type ScheduledSection, type SectionTimetable } from '../../shared/utils/schedule'
+import { zonedInstant } from '../../shared/utils/dates'
 
 const base: SectionTimetable = {
   weekday: 1, startTime: '08:30', endTime: '11:20', firstDate: '2026-10-19', lastDate: '2026-11-16', skippedDates: [], timezone: 'America/Chicago',

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { analyzeSubstrate, predictDistribution } from '../../shared/utils/halogenation'
 import { simulatePeakTable, simulateTrace, formatTrace } from '../../shared/utils/simulation'
-import { attentionOf, evaluateRun, keyFactorOf, RunInputError, type RunInput } from '../../shared/utils/submission'
+import { attentionOf, evaluateRun, RunInputError, type RunInput } from '../../shared/utils/submission'
+import { keyFactorOf } from '../../shared/utils/key-factor'
 
 // 1-chlorobutane with the demo windows (invented demo column) and Cl2/light reactivities
 // 1 : 3.8 : 5.0 per H at 25 °C (NCERT Chemistry class XI worked example).

@@ -1,11 +1,9 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import type { CourseDetail } from '#shared/types/course'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 export default defineEventHandler(async (event): Promise<CourseDetail> => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { course, role } = await requireCourseAccess(event, id)
   const owners = await useDb().selectFrom('courseOwners').innerJoin('users', 'users.id', 'courseOwners.userId')
     .select(['users.id', 'users.name', 'users.email']).where('courseOwners.courseId', '=', id).orderBy('users.name').execute()

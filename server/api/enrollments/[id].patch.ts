@@ -1,4 +1,5 @@
-import { enrollmentPatchSchema, idParamsSchema } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { enrollmentPatchSchema } from '#shared/types/roster'
 
 // Move a student to another section of the same course, or to a station and seat in theirs
 // (swapping with whoever sits there). One transaction, one audit row with before and after.

@@ -19,15 +19,13 @@ export default defineEventHandler(async (event): Promise<MyLab> => {
 
   const enrollments = await Promise.all(mine.map(async (e) => {
     const view = views.find((v) => v.id === e.sectionId)!
-    const partners = e.station === null ? [] : await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
-      .select('users.name').where('enrollments.sectionId', '=', e.sectionId).where('enrollments.station', '=', e.station)
-      .where('enrollments.status', '=', 'active').where('enrollments.userId', '<>', me.id).orderBy('enrollments.seat').execute()
+    const partners = await partnerNames(db, { userId: me.id, sectionId: e.sectionId, station: e.station })
     return {
       course: courses.get(view.courseId)!,
       section: { id: view.id, code: view.code, weekday: view.weekday, startTime: view.startTime, endTime: view.endTime, room: view.room, tas: view.tas.map((t) => t.name) },
       station: e.station,
       seat: e.seat,
-      partners: partners.map((p) => p.name),
+      partners,
       meetings: view.meetings,
       practicals: practicals.filter((p) => p.sectionId === e.sectionId)
         .map((p) => ({ id: p.id, title: p.title, meetingDate: p.meetingDate, dueAt: p.dueAt.toISOString(), substrate: p.substrate, method: p.method })),

@@ -1,8 +1,7 @@
-import { libraryIdParamsSchema } from '#shared/types/library'
-
+import { idParamsSchema } from '#shared/types/fields'
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { row } = await requireLibraryEntry(event, 'methods', id, 'edit')
   await deleteLibraryEntry(event, 'methods', id, row)
   setResponseStatus(event, 204)

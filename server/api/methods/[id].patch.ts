@@ -1,8 +1,9 @@
-import { halogenMismatch, libraryIdParamsSchema, methodPatchSchema, type MethodView } from '#shared/types/library'
+import { idParamsSchema } from '#shared/types/fields'
+import { halogenMismatch, methodPatchSchema, type MethodView } from '#shared/types/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { me, row: before } = await requireLibraryEntry(event, 'methods', id, 'edit')
   const patch = await readBodyAs(event, methodPatchSchema)
   const mismatch = halogenMismatch(patch.reagent ?? before.reagent, patch.halogen)

@@ -1,10 +1,9 @@
-import { practicalParamsSchema } from '#shared/types/practical'
-
+import { idParamsSchema } from '#shared/types/fields'
 // Deleting takes its sessions and scale with it (ON DELETE CASCADE). Once results exist it must
 // be refused: released results, or any submission at all (uploads are never lost).
 export default defineEventHandler(async (event) => {
   requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { practical } = await requirePracticalAccess(event, id, 'manage')
   if (practical.resultsReleasedAt) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has released results; it can no longer be deleted' })

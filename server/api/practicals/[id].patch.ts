@@ -1,11 +1,12 @@
-import { practicalParamsSchema, practicalPatchSchema, type PracticalDetail } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
+import { practicalPatchSchema, type PracticalDetail } from '#shared/types/practical'
 import type { ItemSpec } from '#shared/utils/procedure'
 
 // Another substrate takes over the substrate row of the scale (the amount stays); another method
 // replaces the reagent rows with that method's own, since the old reagents no longer apply.
 export default defineEventHandler(async (event): Promise<PracticalDetail> => {
   const me = requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { practical } = await requirePracticalAccess(event, id, 'manage')
   const input = await readBodyAs(event, practicalPatchSchema)
   const substrateChanged = input.substrateId !== undefined && input.substrateId !== practical.substrateId

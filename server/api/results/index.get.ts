@@ -1,6 +1,6 @@
-import { sql } from 'kysely'
 import type { FactorStats } from '#shared/types/summary'
 import type { ResultsListItem } from '#shared/types/results'
+import { keyFactorValue } from '#shared/utils/key-factor'
 
 // The practicals whose class results the caller may read (instructors: their courses; TAs:
 // practicals run in their sections), each with n and its headline factor over the whole class.
@@ -26,17 +26,17 @@ export default defineEventHandler(async (event): Promise<ResultsListItem[]> => {
   const practicals = await query.orderBy('lastMeeting', 'desc').orderBy('practicals.id').execute()
   if (!practicals.length) return []
   // Each unit's newest accepted-or-pending version, in one pass over every listed practical.
-  const { rows } = await sql<{ submissionId: number, sectionId: number, status: string, practicalId: number, secondary: number | null, tertiary: number | null }>`
-    select id as "submissionId", section_id as "sectionId", status, practical_id as "practicalId", factor_secondary as secondary, factor_tertiary as tertiary from (
-      select distinct on (practical_id, unit_key) id, section_id, status, practical_id, factor_secondary, factor_tertiary, excluded_at
-      from submissions where practical_id in (${sql.join(practicals.map((p) => p.id))}) and status in ('pending', 'accepted')
-      order by practical_id, unit_key, version desc) l
-    where excluded_at is null`.execute(db.withoutPlugins())
+  const latest = await latestUnitVersions(db, practicals.map((p) => p.id))
+    .select(['s.id as submissionId', 's.sectionId', 's.status', 's.practicalId', 's.factorSecondary', 's.factorTertiary', 's.excludedAt'])
+    .execute()
+  const rows = latest.filter((r) => r.excludedAt === null)
   return Promise.all(practicals.map(async (p): Promise<ResultsListItem> => {
     const chemistry = await practicalChemistry(p)
-    const pick = chemistry.keyFactor === 'tertiaryToPrimary' ? 'tertiary' : 'secondary'
     const mine = rows.filter((r) => r.practicalId === p.id)
-    const values = mine.flatMap((r) => (r[pick] === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: Number(r[pick]) }]))
+    const values = mine.flatMap((r) => {
+      const value = keyFactorValue(r, chemistry.keyFactor)
+      return value === null ? [] : [{ submissionId: r.submissionId, sectionId: r.sectionId, value: Number(value) }]
+    })
     // The course's own test, so the list leads with the same figure as the class page.
     const [s] = await classFactorStats([{
       values, settings: { test: p.outlierTest, alpha: p.outlierAlpha, zscoreLimit: p.zscoreLimit },

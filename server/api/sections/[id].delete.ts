@@ -1,10 +1,7 @@
-import { z } from 'zod'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
-
+import { idParamsSchema } from '#shared/types/fields'
 export default defineEventHandler(async (event) => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { section } = await requireSectionAccess(event, id, 'manage')
   const db = useDb()
   const students = await db.selectFrom('enrollments').select('id').where('sectionId', '=', id).limit(1).execute()

@@ -1,11 +1,9 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import type { SectionView } from '#shared/types/section'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 export default defineEventHandler(async (event): Promise<SectionView & { course: { id: number, code: string, title: string, term: string, timezone: string }, role: string }> => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { course, role } = await requireSectionAccess(event, id, 'view')
   const [view] = await sectionViews({ ids: [id] })
   return { ...view!, course: { id: course.id, code: course.code, title: course.title, term: course.term, timezone: course.timezone }, role }

@@ -1,11 +1,9 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import { sectionInputSchema } from '#shared/types/section'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 export default defineEventHandler(async (event) => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { course, section } = await requireSectionAccess(event, id, 'manage')
   const input = await readBodyAs(event, sectionInputSchema)
   await checkTaIds(input.taIds)

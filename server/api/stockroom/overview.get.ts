@@ -1,5 +1,5 @@
 import type { StockroomOverview } from '#shared/types/stockroom'
-import { addDays } from '#shared/utils/forecast'
+import { addDays } from '#shared/utils/dates'
 
 // The coordinator's first screen: what is short in the next four weeks, what runs low or
 // expires, and the order sheets in play.

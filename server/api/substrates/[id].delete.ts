@@ -1,9 +1,8 @@
-import { libraryIdParamsSchema } from '#shared/types/library'
-
+import { idParamsSchema } from '#shared/types/fields'
 // Windows and standard-run rows go with the substrate; the uploaded files themselves are kept.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { row } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const windows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', id).execute()
   await deleteLibraryEntry(event, 'substrates', id, { ...row, windows })

@@ -1,8 +1,9 @@
-import { libraryIdParamsSchema, substratePatchSchema, substrateSourceIssue, type SubstrateDetail } from '#shared/types/library'
+import { idParamsSchema } from '#shared/types/fields'
+import { substratePatchSchema, substrateSourceIssue, type SubstrateDetail } from '#shared/types/library'
 
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { me, row: before } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const patch = await readBodyAs(event, substratePatchSchema)
   const sourceIssue = substrateSourceIssue({ ...before, ...patch })

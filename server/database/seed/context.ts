@@ -21,16 +21,3 @@ export interface SeedContext {
     practicals: Map<string, number>
   }
 }
-
-const DAY_MS = 86_400_000
-
-/** 'YYYY-MM-DD' shifted by whole days. */
-export function addDays(date: string, days: number): string {
-  return new Date(Date.parse(`${date}T00:00:00Z`) + days * DAY_MS).toISOString().slice(0, 10)
-}
-
-/** The Monday on or before a date (ISO weeks start on Monday). */
-export function mondayOf(date: string): string {
-  const weekday = new Date(`${date}T00:00:00Z`).getUTCDay() || 7
-  return addDays(date, 1 - weekday)
-}

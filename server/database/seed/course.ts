@@ -1,5 +1,6 @@
 import { DEFAULT_RUBRIC, DEFAULT_OUTLIER_TEST } from '../../../shared/types/course'
-import { addDays, mondayOf, type SeedContext } from './context'
+import { addDays, weekStart } from '../../../shared/utils/dates'
+import type { SeedContext } from './context'
 import { DEMO_DOMAIN } from './people'
 
 // CHEM 2240 at the fictional Larkspur State University: four sections, two TAs, 64 students
@@ -34,7 +35,7 @@ export async function seedCourse(ctx: SeedContext): Promise<void> {
   ctx.ids.courseId = course.id
   await db.insertInto('courseOwners').values({ courseId: course.id, userId: instructorId }).execute()
 
-  const week0 = mondayOf(ctx.today)
+  const week0 = weekStart(ctx.today)
   const firstDate = addDays(week0, -8 * 7)
   // The term ends the week after practical 2, as a term ends before the winter break.
   const lastDate = addDays(week0, 2 * 7 + 4)

@@ -1,6 +1,7 @@
 import type { Kysely } from 'kysely'
 import type { Database } from '../schema'
 import { hashUserPassword } from '../../utils/password'
+import { isoDateOf } from '../../../shared/utils/dates'
 import type { SeedContext } from './context'
 import { DEMO_PASSWORD, demoPeople, seedPeople } from './people'
 import { seedLibrary } from './library'
@@ -25,7 +26,7 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}) 
   await db.transaction().execute(async (trx) => {
     const ctx: SeedContext = {
       db: trx,
-      today: (options.today ?? new Date()).toISOString().slice(0, 10),
+      today: isoDateOf(options.today ?? new Date()),
       users: await seedPeople(trx, people.map((p, i) => ({ ...p, passwordHash: hashes[i]! }))),
       ids: { sections: new Map(), substrates: new Map(), methods: new Map(), practicals: new Map() },
     }

@@ -2,7 +2,8 @@ import { sectionMeetings } from '../../../shared/utils/schedule'
 import { defaultDueAt, type ItemSpec } from '../../../shared/utils/procedure'
 import { molarMassOf } from '../../../shared/utils/halogenation'
 import { findMethod } from '../../../shared/data/halogenation-methods'
-import { addDays, mondayOf, type SeedContext } from './context'
+import { addDays, weekStart } from '../../../shared/utils/dates'
+import type { SeedContext } from './context'
 
 // The two demo practicals of CHEM 2240: practical 1 met four weeks before the seeding week
 // (results are in), practical 2 meets the week after next (the stockroom prepares for it).
@@ -29,7 +30,7 @@ function reagentItem(methodKey: string, smiles: string, role: ItemSpec['role'], 
 }
 
 function demoPracticals(today: string): DemoPractical[] {
-  const week0 = mondayOf(today)
+  const week0 = weekStart(today)
   return [
     {
       key: 'p1',

@@ -2,7 +2,8 @@ import type { Insertable } from 'kysely'
 import type { ReagentsTable } from '../schema-stockroom'
 // Seed files run outside Nitro: engine code comes in by relative path.
 import { canonicalSmiles, molarMassOf } from '../../../shared/utils/halogenation'
-import { addDays, mondayOf, type SeedContext } from './context'
+import { addDays, addMonths, weekStart } from '../../../shared/utils/dates'
+import type { SeedContext } from './context'
 import { DEMO_DOMAIN } from './people'
 
 // The stockroom of the demo: a catalog for the two CHEM 2240 practicals, linked to their items,
@@ -109,15 +110,9 @@ const LOTS: DemoLot[] = [
     usage: [[-300, 430, 'Spring term practicals'], [P1, 40, 'Practical 1', 'p1']] },
 ]
 
-function addMonthsTo(date: string, months: number): string {
-  const d = new Date(`${date}T00:00:00Z`)
-  const target = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + months, Math.min(d.getUTCDate(), 28)))
-  return target.toISOString().slice(0, 10)
-}
-
 export async function seedStockroom(ctx: SeedContext): Promise<void> {
   const { db } = ctx
-  const week0 = mondayOf(ctx.today)
+  const week0 = weekStart(ctx.today)
   const day = (offset: number) => addDays(week0, offset)
   const coordinatorId = ctx.users.get(`coordinator@${DEMO_DOMAIN}`) ?? null
 
@@ -170,7 +165,7 @@ export async function seedStockroom(ctx: SeedContext): Promise<void> {
     const row = await db.insertInto('reagentLots').values({
       reagentId: reagent.id, lotCode: lot.lotCode, quantity: lot.quantity, unit: reagent.unit, containers: lot.containers ?? 1, location: lot.location,
       receivedOn, openedOn: lot.opened === undefined ? null : day(lot.opened),
-      expiresOn: lot.expires === undefined ? (reagent.shelfLifeMonths ? addMonthsTo(receivedOn, reagent.shelfLifeMonths) : null) : lot.expires === null ? null : day(lot.expires),
+      expiresOn: lot.expires === undefined ? (reagent.shelfLifeMonths ? addMonths(receivedOn, reagent.shelfLifeMonths) : null) : lot.expires === null ? null : day(lot.expires),
       orderLineId: lot.order === 'restock' ? restockLine.id : null, createdBy: coordinatorId,
     }).returning('id').executeTakeFirstOrThrow()
     if (lot.usage.length) {

@@ -8,6 +8,7 @@ import { mulberry32, normalRandom, simulatePeakTable, type BadRun, type ExportSt
 import { attentionOf, evaluateRun, practicalChemistryOf, type PracticalChemistry } from '../../../shared/utils/submission'
 import { startingScores } from '../../../shared/utils/grading'
 import { substrateProductNamer, substrateReferenceFor } from '../../utils/substrate-extras'
+import { stationUnitKey } from '../../services/submissions/work-units'
 
 // Invented GC results for practical 1, which met four weeks before the seeding day: one upload
 // per pair, realistic pair-to-pair scatter, the classic bad runs, and reviews by the TAs.
@@ -119,7 +120,7 @@ async function storeVersion(ctx: SeedContext, v: { practicalId: number, unit: Un
   const row = await ctx.db.insertInto('submissions').values({
     practicalId: v.practicalId,
     sectionId: v.unit.sectionId,
-    unitKey: `station:${v.unit.sectionId}:${v.unit.station}`,
+    unitKey: stationUnitKey(v.unit.sectionId, v.unit.station),
     version: v.version,
     fileId: file.id,
     inputKind: run.kind,

@@ -3,6 +3,7 @@ import type { TimeUnit } from './header-names'
 import { type Mark, type CellRead, type ColumnStyle, type ReadProblem, analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness } from './number-text'
 import { type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
 import { type Delimiter, splitLines, utf8Length } from './table-text'
+import { MAX_UPLOAD_BYTES } from '../limits'
 
 export type { HeaderCandidate } from './table-layout'
 export { findHeader } from './table-layout'
@@ -60,7 +61,6 @@ export interface ParsedPeakTable {
 }
 
 export const MAX_PEAK_ROWS = 5000
-export const MAX_TABLE_BYTES = 2_000_000
 const MAX_ERRORS = 100
 /** Undeclared times above this are read as seconds: a teaching GC run does not last 90 min (common practice). */
 export const SECONDS_THRESHOLD = 90
@@ -166,7 +166,7 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   const warnings: string[] = []
   const errors: RowError[] = []
   const refuse = (row: number, code: ParseErrorCode, message: string): ParsedPeakTable => ({ peaks: [], warnings, errors: [...errors, { row, code, message }], meta: null })
-  const maxBytes = options.maxBytes ?? MAX_TABLE_BYTES
+  const maxBytes = options.maxBytes ?? MAX_UPLOAD_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
   if (text.length > maxBytes || utf8Length(text) > maxBytes) return refuse(0, 'too-large', `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`)
   const lines = splitLines(text)

@@ -1,12 +1,10 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import type { ConflictView } from '#shared/types/section'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 // The whole course at once: the same check every save runs, for the course page's overview.
 export default defineEventHandler(async (event): Promise<ConflictView[]> => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requireCourseAccess(event, id)
   if (scope.role === 'student') throw createError({ statusCode: 403, statusMessage: 'Conflicts are for course staff' })
   const sections = await useDb().selectFrom('sections').select('id').where('courseId', '=', id).execute()

@@ -1,12 +1,10 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import { coOwnerSchema } from '#shared/types/course'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 // Instructors may co-own a course: every owner has the same rights.
 export default defineEventHandler(async (event) => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requireCourseAccess(event, id, 'manage')
   const { email } = await readBodyAs(event, coOwnerSchema)
   const user = await useDb().selectFrom('users').select(['id', 'name', 'role']).where('email', '=', email).executeTakeFirst()

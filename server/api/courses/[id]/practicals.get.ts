@@ -1,10 +1,11 @@
-import { practicalParamsSchema, type PracticalListItem } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
+import { type PracticalListItem } from '#shared/types/practical'
 
 // A course's practicals. TAs and students see only practicals that run in their sections, and
 // only those sections' ids and dates; the section filter is part of the query.
 export default defineEventHandler(async (event): Promise<PracticalListItem[]> => {
   requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requireCourseAccess(event, id)
   let query = useDb().selectFrom('practicals')
     .innerJoin('substrates', 'substrates.id', 'practicals.substrateId')

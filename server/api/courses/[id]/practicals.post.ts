@@ -1,10 +1,11 @@
-import { practicalInputSchema, practicalParamsSchema, type PracticalDetail } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
+import { practicalInputSchema, type PracticalDetail } from '#shared/types/practical'
 
 // A new practical starts with the method's reagents and the substrate at a teaching-lab scale
 // (shared/utils/procedure.ts, defaultItems); the instructor then edits the amounts.
 export default defineEventHandler(async (event): Promise<PracticalDetail> => {
   const me = requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requireCourseAccess(event, id, 'manage')
   const input = await readBodyAs(event, practicalInputSchema)
   const { substrate, method } = await requireLibraryChoice(me, input)

@@ -1,11 +1,9 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import type { SectionView } from '#shared/types/section'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 export default defineEventHandler(async (event): Promise<SectionView[]> => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requireCourseAccess(event, id)
   return sectionViews({ courseId: id, ids: scope.sectionIds ?? undefined })
 })

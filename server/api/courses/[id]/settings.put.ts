@@ -1,11 +1,9 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import { courseSettingsSchema } from '#shared/types/course'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 export default defineEventHandler(async (event) => {
   requireUser(event)
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { course } = await requireCourseAccess(event, id, 'manage')
   const input = await readBodyAs(event, courseSettingsSchema)
   await useDb().transaction().execute(async (trx) => {

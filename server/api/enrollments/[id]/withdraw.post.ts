@@ -1,5 +1,4 @@
-import { idParamsSchema } from '#shared/types/roster'
-
+import { idParamsSchema } from '#shared/types/fields'
 // Withdrawn, not deleted: the enrolment stays for the record, without a station.
 export default defineEventHandler(async (event) => {
   requireUser(event)

@@ -1,8 +1,9 @@
-import { libraryIdParamsSchema, type MethodView } from '#shared/types/library'
+import { idParamsSchema } from '#shared/types/fields'
+import { type MethodView } from '#shared/types/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {
   const me = requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { row: original } = await requireLibraryEntry(event, 'methods', id, 'read')
   const row = await useDb().transaction().execute(async (trx) => {
     const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = original

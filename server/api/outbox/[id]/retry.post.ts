@@ -1,10 +1,7 @@
-import { z } from 'zod'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
-
+import { idParamsSchema } from '#shared/types/fields'
 export default defineEventHandler(async (event) => {
   const me = requireRole(event, 'instructor', 'coordinator')
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const row = await useDb().selectFrom('mailMessages').select(['id', 'status'])
     .where('id', '=', id).where('createdBy', '=', me.id).executeTakeFirst()
   if (!row) throw createError({ statusCode: 404, statusMessage: 'Message not found' })

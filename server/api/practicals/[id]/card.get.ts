@@ -1,8 +1,9 @@
-import { practicalParamsSchema, type ProcedureCardView } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
+import { type ProcedureCardView } from '#shared/types/practical'
 
 // The printable procedure card: quantities per work unit, expected products, windows, cautions.
 export default defineEventHandler(async (event): Promise<ProcedureCardView> => {
   requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   return procedureCard(await requirePracticalAccess(event, id))
 })

@@ -1,11 +1,11 @@
-import { practicalParamsSchema } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
 import { digestSendSchema, type DigestSent } from '#shared/types/results'
 
 // Sends (now, or at sendAt) one digest per section: students get the class figures and their
 // own result, the section's TAs and the course's instructors the section table. Owners only.
 export default defineEventHandler(async (event): Promise<DigestSent> => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id, 'manage')
   const body = await readBodyAs(event, digestSendSchema)
   const stranger = body.sectionIds.find((s) => !scope.sessionSectionIds.includes(s))

@@ -1,10 +1,11 @@
-import { itemsInputSchema, practicalParamsSchema, type ItemView, type QuantitiesView } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
+import { itemsInputSchema, type ItemView, type QuantitiesView } from '#shared/types/practical'
 import { computeQuantities } from '#shared/utils/procedure'
 
 // The per-unit scale: the list replaces the stored one, in the order given.
 export default defineEventHandler(async (event): Promise<{ items: ItemView[], quantities: QuantitiesView }> => {
   requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requirePracticalAccess(event, id, 'manage')
   const input = await readBodyAs(event, itemsInputSchema)
   const items = await checkedItems(input.items)

@@ -1,4 +1,4 @@
-import { practicalParamsSchema } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
 import type { MySubmissionsView } from '../../../utils/student-submissions'
 
 // A student's own GC results for a practical: every version of their work unit, newest first,
@@ -6,6 +6,6 @@ import type { MySubmissionsView } from '../../../utils/student-submissions'
 // Staff read submissions through the review routes, so any other role gets 403 here.
 export default defineEventHandler(async (event): Promise<MySubmissionsView> => {
   requireRole(event, 'student')
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   return mySubmissionsOf(event, await requirePracticalAccess(event, id))
 })

@@ -1,10 +1,11 @@
-import { queueQuerySchema, reviewIdParamsSchema, type QueueResponse } from '#shared/types/review'
+import { idParamsSchema } from '#shared/types/fields'
+import { queueQuerySchema, type QueueResponse } from '#shared/types/review'
 
 // The review queue of one practical: each work unit's latest version in the caller's sections,
 // what needs attention first. Filters: ?section=, ?status=, ?flag= (a flag code, "outlier", or "any" for every run that needs attention).
 export default defineEventHandler(async (event): Promise<QueueResponse> => {
   requireRole(event, 'instructor', 'ta')
-  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requireReviewerOf(event, id)
   const query = readQueryAs(event, queueQuerySchema)
   const chemistry = await practicalChemistry(scope.practical)

@@ -1,4 +1,5 @@
-import { practicalParamsSchema, sessionsInputSchema, type SessionView } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
+import { sessionsInputSchema, type SessionView } from '#shared/types/practical'
 import { defaultDueAt } from '#shared/utils/procedure'
 
 // Which sections run the practical at which of their meetings, and when results are due. The
@@ -6,7 +7,7 @@ import { defaultDueAt } from '#shared/utils/procedure'
 // meetings (skipped dates are not meetings).
 export default defineEventHandler(async (event): Promise<SessionView[]> => {
   requireUser(event)
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { practical, course } = await requirePracticalAccess(event, id, 'manage')
   const { sessions } = await readBodyAs(event, sessionsInputSchema)
   const sections = new Map((await sectionRows().where('sections.courseId', '=', course.id).execute()).map((row) => [row.id, row]))

@@ -1,13 +1,11 @@
-import { z } from 'zod'
+import { idParamsSchema } from '#shared/types/fields'
 import { summaryQuerySchema } from '#shared/types/summary'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 // Public contract: the class-wide factors with their spread, the outliers by the course's test
 // (or ?method=), the exclusions, and the caller's sections one by one.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor', 'ta', 'student')
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id)
   const query = readQueryAs(event, summaryQuerySchema)
   return practicalSummary(scope, { method: query.method, withoutOutliers: query.withoutOutliers, maxOutliers: query.maxOutliers })

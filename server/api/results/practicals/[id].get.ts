@@ -1,11 +1,12 @@
-import { practicalParamsSchema } from '#shared/types/practical'
+import { idParamsSchema } from '#shared/types/fields'
 import type { ResultsPracticalDetail } from '#shared/types/results'
+import { stationOfUnitKey } from '~~/server/services/submissions/work-units'
 
 // What the class results page shows beside the summary: the practical, the course's outlier
 // settings, the caller's sections, and who is behind each result in those sections only.
 export default defineEventHandler(async (event): Promise<ResultsPracticalDetail> => {
   requireRole(event, 'instructor', 'ta')
-  const { id } = readParamsAs(event, practicalParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id)
   const db = useDb()
   const facts = await db.selectFrom('substrates').innerJoin('methods', (j) => j.on('methods.id', '=', scope.practical.methodId))
@@ -32,7 +33,7 @@ export default defineEventHandler(async (event): Promise<ResultsPracticalDetail>
     outlier: { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit },
     sections: sections.map((s) => ({ id: s.id, code: s.code, meetingDate: s.meetingDate })),
     units: submissions.map((s) => ({
-      submissionId: s.id, sectionCode: s.code, station: digestStationOf(s.unitKey),
+      submissionId: s.id, sectionCode: s.code, station: stationOfUnitKey(s.unitKey),
       label: (members.get(s.id) ?? []).map((m) => m.name).join(' & ') || s.unitKey,
     })),
     canSendDigests: scope.role === 'owner',

@@ -1,4 +1,5 @@
-import { enrollmentAddSchema, idParamsSchema, type EnrollmentAdded } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { enrollmentAddSchema, type EnrollmentAdded } from '#shared/types/roster'
 
 // One student into one section: an existing account is reused, a new person is invited.
 export default defineEventHandler(async (event): Promise<EnrollmentAdded> => {

@@ -1,4 +1,5 @@
-import { idParamsSchema, type SectionRosterView } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { type SectionRosterView } from '#shared/types/roster'
 
 // Who is in a section and where they sit: the course's instructors and this section's TAs only.
 export default defineEventHandler(async (event): Promise<SectionRosterView> => {

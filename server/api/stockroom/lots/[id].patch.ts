@@ -1,8 +1,9 @@
-import { lotPatchSchema, stockroomIdParamsSchema, type LotView } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { lotPatchSchema, type LotView } from '#shared/types/stockroom'
 
 export default defineEventHandler(async (event): Promise<LotView> => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { row } = await requireLot(id)
   const input = await readBodyAs(event, lotPatchSchema)
   const openedOn = input.openedOn === undefined ? row.openedOn : input.openedOn

@@ -1,9 +1,8 @@
-import { stockroomIdParamsSchema } from '#shared/types/stockroom'
-
+import { idParamsSchema } from '#shared/types/fields'
 // A sheet still being prepared can be thrown away; a requested one is a record of what was asked.
 export default defineEventHandler(async (event) => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requireOrderSheet(id, 'draft')
   await useDb().transaction().execute(async (trx) => {
     const sheet = await requireOrderSheet(id, 'draft', trx)

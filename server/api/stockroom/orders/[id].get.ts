@@ -1,7 +1,8 @@
-import { stockroomIdParamsSchema, type OrderDetail } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { type OrderDetail } from '#shared/types/stockroom'
 
 export default defineEventHandler(async (event): Promise<OrderDetail> => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   return orderSheetDetail(id)
 })

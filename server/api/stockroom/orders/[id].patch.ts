@@ -1,9 +1,10 @@
-import { orderPatchSchema, stockroomIdParamsSchema, type OrderDetail } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { orderPatchSchema, type OrderDetail } from '#shared/types/stockroom'
 
 // A sheet being prepared: its title, notes and lines (the list replaces the stored one).
 export default defineEventHandler(async (event): Promise<OrderDetail> => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requireOrderSheet(id, 'draft')
   const input = await readBodyAs(event, orderPatchSchema)
   const lines = input.lines ? await checkedOrderLines(input.lines) : undefined

@@ -1,9 +1,8 @@
-import { stockroomIdParamsSchema } from '#shared/types/stockroom'
-
+import { idParamsSchema } from '#shared/types/fields'
 // Only a reagent nothing refers to: stock and practicals keep their history otherwise.
 export default defineEventHandler(async (event) => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const reagent = await requireReagent(id)
   await useDb().transaction().execute(async (trx) => {
     const lots = await trx.selectFrom('reagentLots').select('id').where('reagentId', '=', id).limit(1).execute()

@@ -1,7 +1,8 @@
-import { stockroomIdParamsSchema, type ReagentDetail } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { type ReagentDetail } from '#shared/types/stockroom'
 
 export default defineEventHandler(async (event): Promise<ReagentDetail> => {
   const me = requireStockroomReader(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   return reagentDetailView(await requireReagent(id), me)
 })

@@ -1,8 +1,9 @@
-import { reagentPatchSchema, reagentRuleIssues, stockroomIdParamsSchema, type ReagentDetail } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { reagentPatchSchema, reagentRuleIssues, type ReagentDetail } from '#shared/types/stockroom'
 
 export default defineEventHandler(async (event): Promise<ReagentDetail> => {
   const me = requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const before = await requireReagent(id)
   const input = await readBodyAs(event, reagentPatchSchema)
   const merged = { ...reagentFields(before), ...input }

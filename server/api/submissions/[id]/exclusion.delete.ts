@@ -1,9 +1,8 @@
-import { reviewIdParamsSchema } from '#shared/types/review'
-
+import { idParamsSchema } from '#shared/types/fields'
 // Count an excluded run in the class statistics again.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor', 'ta')
-  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { submission } = await requireReviewableSubmission(event, id)
   return setSubmissionExclusion(event, submission, null)
 })

@@ -1,10 +1,11 @@
+import { idParamsSchema } from '#shared/types/fields'
 import { reviewInputSchema } from '#shared/types/submission'
-import { reviewIdParamsSchema, type ReviewSaved } from '#shared/types/review'
+import { type ReviewSaved } from '#shared/types/review'
 
 // Accept with rubric scores (total computed here) or return for resubmission with a reason.
 export default defineEventHandler(async (event): Promise<ReviewSaved> => {
   requireRole(event, 'instructor', 'ta')
-  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { scope, submission } = await requireReviewableSubmission(event, id)
   const input = await readBodyAs(event, reviewInputSchema)
   return saveSubmissionReview(event, scope, submission, input)

@@ -1,10 +1,11 @@
-import { libraryIdParamsSchema, type SubstrateDetail } from '#shared/types/library'
+import { idParamsSchema } from '#shared/types/fields'
+import { type SubstrateDetail } from '#shared/types/library'
 
 // A shared (or co-owner's) entry becomes the caller's own: windows, standard runs, product
 // names and reference distributions included.
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   const me = requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { row: original } = await requireLibraryEntry(event, 'substrates', id, 'read')
   const row = await useDb().transaction().execute(async (trx) => {
     const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = original

@@ -1,10 +1,11 @@
-import { libraryIdParamsSchema, type StandardRunUploadResponse } from '#shared/types/library'
+import { idParamsSchema } from '#shared/types/fields'
+import { type StandardRunUploadResponse } from '#shared/types/library'
 import { RunInputError } from '#shared/utils/submission'
 import { suggestionsForRun } from '#shared/utils/windows'
 
 export default defineEventHandler(async (event): Promise<StandardRunUploadResponse> => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { me } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const { file } = await readUpload(event)
   const windows = await useDb().selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax'])

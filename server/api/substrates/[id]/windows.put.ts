@@ -1,10 +1,11 @@
-import { libraryIdParamsSchema, windowsInputSchema, type LibraryProduct, type SubstrateWindowView } from '#shared/types/library'
+import { idParamsSchema } from '#shared/types/fields'
+import { windowsInputSchema, type LibraryProduct, type SubstrateWindowView } from '#shared/types/library'
 
 // Replaces every window of the substrate at once: overlaps are judged over the whole set. The
 // products' names, when sent, are replaced with them in the same transaction.
 export default defineEventHandler(async (event): Promise<{ windows: SubstrateWindowView[], products: LibraryProduct[] }> => {
   requireRole(event, 'instructor')
-  const { id } = readParamsAs(event, libraryIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const { me, row: substrate } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const input = await readBodyAs(event, windowsInputSchema)
   const products = await libraryProducts(substrate.smiles)

@@ -1,5 +1,4 @@
-import { idParamsSchema } from '#shared/types/roster'
-
+import { idParamsSchema } from '#shared/types/fields'
 // A fresh link for a student who has not set a password; their older links stop working.
 // Only an instructor who owns a course the student is (or was) enrolled in may send it.
 export default defineEventHandler(async (event) => {

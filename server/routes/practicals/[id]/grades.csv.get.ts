@@ -1,10 +1,9 @@
-import { reviewIdParamsSchema } from '#shared/types/review'
-
+import { idParamsSchema } from '#shared/types/fields'
 // The grade sheet as CSV, one row per student, safe to open in a spreadsheet (no cell can start
 // a formula; numbers stay numbers). A TA gets their own sections' students only.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor', 'ta')
-  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requireReviewerOf(event, id)
   const { fileName, csv } = await buildGradeSheet(scope)
   setReviewDownloadHeaders(event, fileName, 'text/csv; charset=utf-8')

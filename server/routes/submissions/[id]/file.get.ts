@@ -1,4 +1,4 @@
-import { reviewIdParamsSchema } from '#shared/types/review'
+import { idParamsSchema } from '#shared/types/fields'
 import { NETCDF_MEDIA_TYPE, XLSX_MEDIA_TYPE } from '#shared/utils/lib/upload-content'
 
 // What a download is served as, by what the upload was read as: text stays text/plain (its bytes,
@@ -12,7 +12,7 @@ const DOWNLOAD_TYPES = [
 // submission and for the members of its work unit. Never rendered inline.
 export default defineEventHandler(async (event) => {
   const me = requireUser(event)
-  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   if (me.role === 'coordinator') throw createError({ statusCode: 403, statusMessage: 'Submissions are for the course’s instructors, TAs and students' })
   if (me.role === 'student') {
     if (!(await isReviewUnitMember(me.id, id))) throw createError({ statusCode: 403, statusMessage: 'Students may download only their own work unit’s files' })

@@ -1,4 +1,5 @@
-import { idParamsSchema, rosterUploadFieldsSchema, type RosterImportResult } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { rosterUploadFieldsSchema, type RosterImportResult } from '#shared/types/roster'
 
 // The whole file or nothing: accounts, enrolments, moves, invitations and their e-mails, the
 // original file and the import record land in one transaction. Every row is checked again here.

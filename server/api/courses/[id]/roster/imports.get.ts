@@ -1,4 +1,5 @@
-import { idParamsSchema, type RosterImportHistoryItem, type RosterSummary } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { type RosterImportHistoryItem, type RosterSummary } from '#shared/types/roster'
 
 export default defineEventHandler(async (event): Promise<RosterImportHistoryItem[]> => {
   requireUser(event)

@@ -1,4 +1,5 @@
-import { idParamsSchema, type RosterPreview } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { type RosterPreview } from '#shared/types/roster'
 
 // What an import of this file would do, row by row, before anything is written.
 export default defineEventHandler(async (event): Promise<RosterPreview> => {

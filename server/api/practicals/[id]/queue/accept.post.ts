@@ -1,10 +1,11 @@
-import { bulkAcceptSchema, reviewIdParamsSchema, type BulkAcceptResult } from '#shared/types/review'
+import { idParamsSchema } from '#shared/types/fields'
+import { bulkAcceptSchema, type BulkAcceptResult } from '#shared/types/review'
 
 // Accept several clean submissions at once; the answer says which were accepted and why the
 // others were skipped.
 export default defineEventHandler(async (event): Promise<BulkAcceptResult> => {
   requireRole(event, 'instructor', 'ta')
-  const { id } = readParamsAs(event, reviewIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requireReviewerOf(event, id)
   const { submissionIds, scores } = await readBodyAs(event, bulkAcceptSchema)
   return acceptCleanInBulk(event, scope, submissionIds, scores)

@@ -1,12 +1,12 @@
+import { idParamsSchema } from '#shared/types/fields'
 import { z } from 'zod'
 
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
 const keySchema = z.string().trim().min(1).max(200).nullable()
 
 // Public contract: multipart `file` (peak table or raw trace), optional Idempotency-Key.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'student')
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id)
   const key = validate(keySchema, getRequestHeader(event, 'idempotency-key') ?? null)
   const { file } = await readUpload(event)

@@ -1,11 +1,8 @@
-import { z } from 'zod'
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() })
-
+import { idParamsSchema } from '#shared/types/fields'
 // The same computation as an upload, shown before the student confirms; nothing is stored.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'student')
-  const { id } = readParamsAs(event, paramsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id)
   const unit = await studentUnit(event, scope)
   const { file } = await readUpload(event)

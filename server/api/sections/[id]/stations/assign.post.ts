@@ -1,4 +1,5 @@
-import { idParamsSchema, type SectionRosterView } from '#shared/types/roster'
+import { idParamsSchema } from '#shared/types/fields'
+import { type SectionRosterView } from '#shared/types/roster'
 
 // Everyone active, in name order, onto stations 1, 2, … with seats 1..students per station.
 export default defineEventHandler(async (event): Promise<SectionRosterView> => {

@@ -1,9 +1,10 @@
-import { itemLinkInputSchema, stockroomIdParamsSchema } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { itemLinkInputSchema } from '#shared/types/stockroom'
 
 // Which catalog reagent a practical's item draws on (the stockroom's side of the procedure).
 export default defineEventHandler(async (event) => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const item = await useDb().selectFrom('practicalItems').select(['id', 'practicalId', 'name', 'basis', 'reagentId', 'reagentGramsPerMl']).where('id', '=', id).executeTakeFirst()
   if (!item) throw createError({ statusCode: 404, statusMessage: 'Practical item not found' })
   const input = await readBodyAs(event, itemLinkInputSchema)

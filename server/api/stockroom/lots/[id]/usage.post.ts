@@ -1,10 +1,11 @@
-import { stockroomIdParamsSchema, usageInputSchema, type LotView } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { usageInputSchema, type LotView } from '#shared/types/stockroom'
 
 // What was taken from a lot. The lot row is locked so two entries cannot both take the last of it;
 // the first use also marks the lot opened.
 export default defineEventHandler(async (event): Promise<LotView> => {
   const me = requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requireLot(id)
   const input = await readBodyAs(event, usageInputSchema)
   if (input.practicalId !== null) {

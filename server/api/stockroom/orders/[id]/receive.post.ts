@@ -1,10 +1,12 @@
-import { receiveInputSchema, stockroomIdParamsSchema, type OrderDetail } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { receiveInputSchema, type OrderDetail } from '#shared/types/stockroom'
+import { addMonths, isoDateOf } from '#shared/utils/dates'
 
 // The delivery came: one lot per catalog line that arrived (containers × size, the catalog's
 // shelf life unless an expiry is given), and the sheet is closed. One transaction, audited.
 export default defineEventHandler(async (event): Promise<OrderDetail> => {
   const me = requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const sheet = await requireOrderSheet(id, 'sent')
   const input = await readBodyAs(event, receiveInputSchema)
   const lines = await useDb().selectFrom('orderLines').selectAll().where('orderId', '=', id).execute()
@@ -13,7 +15,7 @@ export default defineEventHandler(async (event): Promise<OrderDetail> => {
     if (!byId.has(r.lineId)) invalid([{ field: `lines.${i}.lineId`, message: 'Not a line of this sheet' }])
     if (r.expiresOn && r.expiresOn < input.receivedOn) invalid([{ field: `lines.${i}.expiresOn`, message: 'The expiry is before the received date' }])
   })
-  if (sheet.sentAt && input.receivedOn < sheet.sentAt.toISOString().slice(0, 10)) invalid([{ field: 'receivedOn', message: 'Before the order was sent' }])
+  if (sheet.sentAt && input.receivedOn < isoDateOf(sheet.sentAt)) invalid([{ field: 'receivedOn', message: 'Before the order was sent' }])
   const reagentIds = [...new Set(lines.map((l) => l.reagentId).filter((r): r is number => r !== null))]
   const reagents = new Map((reagentIds.length ? await useDb().selectFrom('reagents').selectAll().where('id', 'in', reagentIds).execute() : []).map((r) => [r.id, r]))
 

@@ -1,10 +1,11 @@
-import { stockroomIdParamsSchema, type OrderDetail } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { type OrderDetail } from '#shared/types/stockroom'
 
 // One purchase request per supplier, queued in the same transaction that marks the sheet sent:
 // both or neither. The dedupe key (order and supplier) means a retry never mails twice.
 export default defineEventHandler(async (event): Promise<OrderDetail & { requests: Array<{ supplierEmail: string, messageId: number }> }> => {
   const me = requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   await requireOrderSheet(id, 'draft')
   const detail = await orderSheetDetail(id)
   const requests = purchaseRequests(detail)

@@ -1,10 +1,12 @@
-import { lotInputSchema, stockroomIdParamsSchema, type LotView } from '#shared/types/stockroom'
+import { idParamsSchema } from '#shared/types/fields'
+import { lotInputSchema, type LotView } from '#shared/types/stockroom'
+import { addMonths } from '#shared/utils/dates'
 
 // Stock that arrives outside an order sheet (a stocktake, a transfer). Quantities are kept in the
 // reagent's unit; a lot given in the other one is converted through the reagent's density.
 export default defineEventHandler(async (event): Promise<LotView> => {
   const me = requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const reagent = await requireReagent(id)
   const input = await readBodyAs(event, lotInputSchema)
   const quantity = stockQuantityIn(reagent, input.quantity, input.unit)

@@ -1,11 +1,10 @@
-import { stockroomIdParamsSchema } from '#shared/types/stockroom'
-
+import { idParamsSchema } from '#shared/types/fields'
 // The order sheet for a spreadsheet: every text cell that could start a formula is neutralised.
 // It lives at /stockroom/orders/:id/sheet.csv, not /stockroom/orders/:id.csv: the router reads
 // ":id.csv" as a parameter for the whole segment, which would swallow the sheet's own page.
 export default defineEventHandler(async (event) => {
   requireStockroomManager(event)
-  const { id } = readParamsAs(event, stockroomIdParamsSchema)
+  const { id } = readParamsAs(event, idParamsSchema)
   const detail = await orderSheetDetail(id)
   setResponseHeaders(event, {
     'Content-Type': 'text/csv; charset=utf-8',

@@ -1,0 +1,85 @@
+// Calendar arithmetic for server and browser, in one place, on date-fns and @date-fns/tz.
+//
+// A date is a calendar day written 'YYYY-MM-DD' (what PostgreSQL's DATE columns hold), not an
+// instant: every step below is done at midnight UTC, so neither the machine's zone nor a
+// daylight-saving change can move a day. Instants cross into dates only through a named zone
+// (`isoDateOf`), and wall-clock times become instants only through one (`zonedInstant`).
+// Formatting dates for people is not done here.
+import {
+  addDays as addDaysTo, addMonths as addMonthsTo, differenceInCalendarDays, format, getISODay, getISOWeek, getISOWeekYear,
+  isValid, parseISO, startOfISOWeek,
+} from 'date-fns'
+import { TZDate, tz } from '@date-fns/tz'
+
+const IN_UTC = { in: tz('UTC') }
+const DATE_FORMAT = 'yyyy-MM-dd'
+
+const DATE_SHAPE = /^\d{4}-\d{2}-\d{2}$/
+
+const textOf = (day: Date) => format(day, DATE_FORMAT, IN_UTC)
+
+/** Whether a 'YYYY-MM-DD' text names a day that exists (no 31 February). */
+export function isCalendarDate(value: string): boolean {
+  const day = parseISO(value, IN_UTC)
+  return DATE_SHAPE.test(value) && isValid(day) && textOf(day) === value
+}
+
+function dayOf(date: string): Date {
+  if (!isCalendarDate(date)) throw new RangeError(`Not a date (YYYY-MM-DD): ${date}`)
+  return parseISO(date, IN_UTC)
+}
+
+/** The calendar day an instant falls on in a zone (UTC unless named). */
+export function isoDateOf(instant: Date | number | string, timezone = 'UTC'): string {
+  return format(new Date(instant), DATE_FORMAT, { in: tz(timezone) })
+}
+
+/** Today in a zone (UTC unless named). */
+export function todayIn(timezone = 'UTC', now: Date = new Date()): string {
+  return isoDateOf(now, timezone)
+}
+
+/** A date moved by whole days (negative: earlier). */
+export function addDays(date: string, days: number): string {
+  return textOf(addDaysTo(dayOf(date), days, IN_UTC))
+}
+
+/** A date moved by whole months; a day the target month lacks becomes its last (31 Jan + 1 = 28/29 Feb). */
+export function addMonths(date: string, months: number): string {
+  return textOf(addMonthsTo(dayOf(date), months, IN_UTC))
+}
+
+/** Whole days from one date to another (negative when `to` is earlier). */
+export function daysBetween(from: string, to: string): number {
+  return differenceInCalendarDays(dayOf(to), dayOf(from), IN_UTC)
+}
+
+/** ISO weekday: 1 = Monday … 7 = Sunday. */
+export function isoWeekday(date: string): number {
+  return getISODay(dayOf(date), IN_UTC)
+}
+
+/** Monday of the ISO week holding the date. */
+export function weekStart(date: string): string {
+  return textOf(startOfISOWeek(dayOf(date), IN_UTC))
+}
+
+/** ISO 8601 week label: the week belongs to the year of its Thursday ('2026-W53', '2027-W01'). */
+export function isoWeekLabel(date: string): string {
+  const day = dayOf(date)
+  return `${getISOWeekYear(day, IN_UTC)}-W${String(getISOWeek(day, IN_UTC)).padStart(2, '0')}`
+}
+
+function parseTime(value: string): [number, number] {
+  const m = /^(\d{2}):(\d{2})(?::\d{2})?$/.exec(value)
+  if (!m || Number(m[1]) > 23 || Number(m[2]) > 59) throw new RangeError(`Not a time (HH:MM): ${value}`)
+  return [Number(m[1]), Number(m[2])]
+}
+
+/** The UTC instant of a wall-clock date and time ('HH:MM' or 'HH:MM:SS') in an IANA zone. */
+export function zonedInstant(date: string, time: string, timezone: string): Date {
+  if (!isCalendarDate(date)) throw new RangeError(`Not a date (YYYY-MM-DD): ${date}`)
+  const [year, month, day] = date.split('-').map(Number) as [number, number, number]
+  const [hh, mm] = parseTime(time)
+  return new Date(new TZDate(year, month - 1, day, hh, mm, 0, timezone).getTime())
+}
