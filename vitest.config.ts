@@ -20,6 +20,18 @@ export default defineConfig({
       }),
       {
         test: {
+          name: 'services',
+          include: ['tests/services/**/*.test.ts'],
+          environment: 'node',
+          // Domain commands against a database of their own, without HTTP (tests/support/db.ts).
+          globalSetup: ['tests/support/services-setup.ts'],
+          fileParallelism: false,
+          testTimeout: 30_000,
+          hookTimeout: 120_000,
+        },
+      },
+      {
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',

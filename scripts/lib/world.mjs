@@ -15,7 +15,7 @@ import { randomSecret } from './env.mjs'
  * @param {string} root
  * @param {{ name?: string, database?: string, seed?: boolean, serverEnv?: Record<string, string>, stdio?: any, tasks?: any }} [options]
  */
-export async function startWorld(root, { name = 'world', database = 'halocline', seed = true, serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], tasks = null } = {}) {
+export async function startWorld(root, { name = 'world', database = 'halocline', seed = true, server: withServer = true, serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], tasks = null } = {}) {
   const runRoot = join(root, '.data', `${name}-${process.pid}`)
   rmSync(runRoot, { recursive: true, force: true })
   mkdirSync(runRoot, { recursive: true })
@@ -38,6 +38,8 @@ export async function startWorld(root, { name = 'world', database = 'halocline',
     const db = tasks ?? await loadTasks()
     await db.migrate(url)
     if (seed) await db.seedDemoIfEmpty(url)
+    // The service tests need the database only: no mail server, no build, no HTTP.
+    if (!withServer) return { databaseUrl: url, runRoot, pgPort, stop }
 
     const smtpPort = await freePort()
     const smtpPidFile = join(runRoot, 'smtp.pid')
