@@ -1,3 +1,4 @@
+import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 
@@ -23,6 +24,8 @@ export default defineConfig({
           name: 'services',
           include: ['tests/services/**/*.test.ts'],
           environment: 'node',
+          // Service files import shared code as the server does; Nitro is not there to resolve it.
+          alias: { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) },
           // Domain commands against a database of their own, without HTTP (tests/support/db.ts).
           globalSetup: ['tests/support/services-setup.ts'],
           fileParallelism: false,

@@ -2,6 +2,7 @@ import { z } from 'zod'
 import { calendarDateProblem, dateField, MAX_TERM_DAYS } from '#shared/types/fields'
 import { daysBetween } from '#shared/utils/dates'
 import type { ScheduleEntry } from '#shared/types/section'
+import { scheduleEntries } from '~~/server/services/sections'
 
 const querySchema = z.object({ from: dateField(), to: dateField() }).superRefine((q, ctx) => {
   if (calendarDateProblem(q.from) || calendarDateProblem(q.to)) return

@@ -1,3 +1,6 @@
+import { createError } from 'h3'
+import { ChemistryInputError } from '../../shared/utils/lib/molecule'
+
 // Errors that mean "PostgreSQL is not reachable right now" rather than "this query is wrong".
 // The shapes a restart produces (each seen from pg 8 against a stopped, restarting or
 // immediately shut down cluster): a server notice with a SQLSTATE, a socket errno, or one of
@@ -73,4 +76,21 @@ export function isPasswordQueueFull(error: unknown, depth = 0): boolean {
   if (!error || typeof error !== 'object' || depth > 5) return false
   const e = error as { name?: unknown, cause?: unknown }
   return e.name === 'PasswordQueueFullError' || isPasswordQueueFull(e.cause, depth + 1)
+}
+
+function rethrowAsBadRequest(error: unknown): never {
+  if (error instanceof ChemistryInputError) {
+    throw createError({ statusCode: 400, statusMessage: error.message, data: { code: error.code } })
+  }
+  throw error
+}
+
+/** Engine input errors are the caller's mistake: 400 with the engine's own sentence. Works for a promise too. */
+export function asBadRequest<T>(work: () => T): T {
+  try {
+    const result = work()
+    return (result instanceof Promise ? result.catch(rethrowAsBadRequest) : result) as T
+  } catch (error) {
+    rethrowAsBadRequest(error)
+  }
 }

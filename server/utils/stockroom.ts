@@ -9,6 +9,8 @@ import {
 import { buildForecast, workUnitsOf, type ForecastItem, type ForecastLot, type ForecastPractical, type ForecastReagent, type ForecastSessionInput } from '#shared/utils/forecast'
 import type { Reagent } from '../database/schema-stockroom'
 import { todayIn } from '#shared/utils/dates'
+import { canonicalForms, reagentForms } from '../services/library'
+import { meetingsOf, sectionRows } from '../services/sections'
 
 // The stockroom: who may use it, and the reads behind its routes. Coordinators manage all of
 // it; instructors read the catalog and the forecast of their own courses; TAs and students

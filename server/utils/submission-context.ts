@@ -1,5 +1,6 @@
 import type { ExpectationView } from '#shared/types/submission'
 import { practicalChemistryOf, type PracticalChemistry } from '#shared/utils/submission'
+import { substrateAnalysis, substrateProductNamer, substrateReferenceFor } from '../services/library'
 
 /**
  * A practical's products (named), windows, prediction, literature factors and what runs are

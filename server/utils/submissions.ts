@@ -6,6 +6,7 @@ import type { Submission } from '../database/schema'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
 import { attentionOf, RunInputError, type RunResult } from '#shared/utils/submission'
 import { stationOfUnitKey, unitKeyOf } from '../services/submissions/work-units'
+import { stationMates } from '../services/roster'
 
 export interface StudentWorkUnit {
   sectionId: number

@@ -1,3 +1,4 @@
+import { calendarFeedUrl, resetCalendarToken } from '~~/server/services/sections'
 // A new secret for the feed URL: calendars subscribed with the old one get 410 Gone from now on.
 export default defineEventHandler(async (event): Promise<{ url: string }> => {
   const me = requireUser(event)

@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { enrollmentPatchSchema } from '#shared/types/roster'
+import { refuseOverCapacity, requireEnrollmentAccess, rosterActiveCount, rosterCapacityFor, rosterPlaceStudent, withRosterRace } from '~~/server/services/roster'
 
 // Move a student to another section of the same course, or to a station and seat in theirs
 // (swapping with whoever sits there). One transaction, one audit row with before and after.

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { invitationTokenSchema, type InvitationView } from '#shared/types/roster'
+import { findInvitation, invitationGone } from '~~/server/services/roster'
 
 const paramsSchema = z.object({ token: z.string() })
 

@@ -1,5 +1,6 @@
 import { invitationAcceptSchema } from '#shared/types/roster'
 import type { PublicUser } from '#shared/types/auth'
+import { findInvitation, invitationGone } from '~~/server/services/roster'
 
 // Public: the link's token and a new password. The invitation is spent atomically (a second
 // use, even at the same moment, gets 410), the person's other open links die with it, and

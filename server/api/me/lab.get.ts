@@ -1,4 +1,6 @@
 import type { MyLab } from '#shared/types/section'
+import { partnerNames } from '~~/server/services/roster'
+import { sectionViews } from '~~/server/services/sections'
 
 // A student's own lab: section, station, partner, meetings and practicals. Nothing about others
 // beyond their partner's name.

@@ -1,4 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
+import { deleteLibraryEntry, requireLibraryEntry } from '~~/server/services/library'
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor')
   const { id } = readParamsAs(event, idParamsSchema)

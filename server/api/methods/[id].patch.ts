@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { halogenMismatch, methodPatchSchema, type MethodView } from '#shared/types/library'
+import { libraryUsage, methodColumns, requireLibraryEntry, toMethodView } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {
   requireRole(event, 'instructor')

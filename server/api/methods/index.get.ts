@@ -1,4 +1,5 @@
 import type { MethodView } from '#shared/types/library'
+import { libraryScope, libraryUsage, requireLibraryReader, toMethodView } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<MethodView[]> => {
   const me = requireLibraryReader(event)

@@ -1,4 +1,5 @@
 import { methodInputSchema, type MethodView } from '#shared/types/library'
+import { newMethodRow, toMethodView } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {
   const me = requireRole(event, 'instructor')

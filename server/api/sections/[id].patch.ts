@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { sectionInputSchema } from '#shared/types/section'
+import { candidateRow, checkTaIds, refuseUnconfirmedConflicts, sectionValues, sectionViews } from '~~/server/services/sections'
 
 export default defineEventHandler(async (event) => {
   requireUser(event)

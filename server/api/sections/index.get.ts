@@ -1,4 +1,5 @@
 import type { SectionListItem } from '#shared/types/section'
+import { sectionViews } from '~~/server/services/sections'
 
 // "My sections": a TA's across every course, an instructor's owned courses', everything for the
 // coordinator's schedule, a student's own.

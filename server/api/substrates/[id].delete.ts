@@ -1,4 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
+import { deleteLibraryEntry, requireLibraryEntry } from '~~/server/services/library'
 // Windows and standard-run rows go with the substrate; the uploaded files themselves are kept.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor')

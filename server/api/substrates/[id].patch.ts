@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { substratePatchSchema, substrateSourceIssue, type SubstrateDetail } from '#shared/types/library'
+import { refuseWhileInUse, requireLibraryEntry, substrateDetail, substrateIdentity } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   requireRole(event, 'instructor')

@@ -1,4 +1,5 @@
 import type { SubstrateListItem } from '#shared/types/library'
+import { libraryScope, libraryUsage, requireLibraryReader, toSubstrateListItem } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<SubstrateListItem[]> => {
   const me = requireLibraryReader(event)

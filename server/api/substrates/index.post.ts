@@ -1,4 +1,5 @@
 import { substrateInputSchema, type SubstrateDetail } from '#shared/types/library'
+import { substrateDetail, substrateIdentity } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {
   const me = requireRole(event, 'instructor')

@@ -1,4 +1,5 @@
 import { substratePreviewSchema, type SubstratePreview } from '#shared/types/library'
+import { libraryProducts, substrateAnalysis, substrateDepiction } from '~~/server/services/library'
 
 // What the new-substrate form shows while the instructor types: nothing is stored. Positions
 // are lettered on the canonical SMILES, as they will be once the substrate is saved. The

@@ -7,7 +7,7 @@ import { canonicalSmiles } from '../../../shared/utils/halogenation'
 import { mulberry32, normalRandom, simulatePeakTable, type BadRun, type ExportStyle } from '../../../shared/utils/simulation'
 import { attentionOf, evaluateRun, practicalChemistryOf, type PracticalChemistry } from '../../../shared/utils/submission'
 import { startingScores } from '../../../shared/utils/grading'
-import { substrateProductNamer, substrateReferenceFor } from '../../utils/substrate-extras'
+import { substrateProductNamer, substrateReferenceFor } from '../../services/library/product-names'
 import { stationUnitKey } from '../../services/submissions/work-units'
 
 // Invented GC results for practical 1, which met four weeks before the seeding day: one upload

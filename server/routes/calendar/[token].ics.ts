@@ -1,4 +1,5 @@
 import type { H3Event } from 'h3'
+import { calendarFeed, calendarOwner } from '~~/server/services/sections'
 
 // A calendar program fetches this without a session: the token in the path is the credential.
 // The router hands over the whole last segment ("<token>.ics") whatever it names the parameter.

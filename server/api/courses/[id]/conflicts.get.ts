@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import type { ConflictView } from '#shared/types/section'
+import { conflictsFor } from '~~/server/services/sections'
 
 // The whole course at once: the same check every save runs, for the course page's overview.
 export default defineEventHandler(async (event): Promise<ConflictView[]> => {

@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { type PracticalListItem } from '#shared/types/practical'
+import { practicalSessionViews } from '~~/server/services/practicals'
 
 // A course's practicals. TAs and students see only practicals that run in their sections, and
 // only those sections' ids and dates; the section filter is part of the query.

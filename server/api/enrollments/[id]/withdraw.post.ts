@@ -1,4 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
+import { requireEnrollmentAccess } from '~~/server/services/roster'
 // Withdrawn, not deleted: the enrolment stays for the record, without a station.
 export default defineEventHandler(async (event) => {
   requireUser(event)

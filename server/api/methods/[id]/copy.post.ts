@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { type MethodView } from '#shared/types/library'
+import { copyName, requireLibraryEntry, toMethodView } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {
   const me = requireRole(event, 'instructor')

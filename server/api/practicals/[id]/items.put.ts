@@ -1,6 +1,7 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { itemsInputSchema, type ItemView, type QuantitiesView } from '#shared/types/practical'
 import { computeQuantities } from '#shared/utils/procedure'
+import { checkedItems, practicalItemViews, savePracticalItems } from '~~/server/services/practicals'
 
 // The per-unit scale: the list replaces the stored one, in the order given.
 export default defineEventHandler(async (event): Promise<{ items: ItemView[], quantities: QuantitiesView }> => {
@@ -10,13 +11,6 @@ export default defineEventHandler(async (event): Promise<{ items: ItemView[], qu
   const input = await readBodyAs(event, itemsInputSchema)
   const items = await checkedItems(input.items)
   const quantities = asBadRequest(() => computeQuantities(items))
-
-  await useDb().transaction().execute(async (trx) => {
-    const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'smiles', 'molarMass', 'density', 'basis', 'amount'])
-      .where('practicalId', '=', id).orderBy('position').execute()
-    await replacePracticalItems(trx, id, items)
-    await touchPractical(trx, id)
-    await audit(trx, event, { action: 'practical.items', entity: 'practical', entityId: id, before, after: items })
-  })
+  await savePracticalItems(useDb(), actorOf(event), id, items)
   return { items: await practicalItemViews(id), quantities }
 })

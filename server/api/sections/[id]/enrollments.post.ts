@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { enrollmentAddSchema, type EnrollmentAdded } from '#shared/types/roster'
+import { inviteToCourse, refuseOverCapacity, rosterActiveCount, rosterCapacityFor, withRosterRace } from '~~/server/services/roster'
 
 // One student into one section: an existing account is reused, a new person is invited.
 export default defineEventHandler(async (event): Promise<EnrollmentAdded> => {

@@ -2,6 +2,7 @@ import { idParamsSchema } from '#shared/types/fields'
 import { type StandardRunUploadResponse } from '#shared/types/library'
 import { RunInputError } from '#shared/utils/submission'
 import { suggestionsForRun } from '#shared/utils/windows'
+import { requireLibraryEntry } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<StandardRunUploadResponse> => {
   requireRole(event, 'instructor')

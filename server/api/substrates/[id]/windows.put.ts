@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { windowsInputSchema, type LibraryProduct, type SubstrateWindowView } from '#shared/types/library'
+import { libraryProducts, renameLibraryProducts, requireLibraryEntry, resolveProductNames, resolveWindows, substrateProductNamer, windowView } from '~~/server/services/library'
 
 // Replaces every window of the substrate at once: overlaps are judged over the whole set. The
 // products' names, when sent, are replaced with them in the same transaction.

@@ -1,4 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
+import { inviteToCourse } from '~~/server/services/roster'
 // A fresh link for a student who has not set a password; their older links stop working.
 // Only an instructor who owns a course the student is (or was) enrolled in may send it.
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { rosterUploadFieldsSchema, type RosterImportResult } from '#shared/types/roster'
+import { planRosterImport, refuseOverCapacity, withRosterRace, writeRosterRows } from '~~/server/services/roster'
 
 // The whole file or nothing: accounts, enrolments, moves, invitations and their e-mails, the
 // original file and the import record land in one transaction. Every row is checked again here.

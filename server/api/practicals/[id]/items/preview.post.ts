@@ -1,6 +1,7 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { itemsInputSchema, type QuantitiesView } from '#shared/types/practical'
 import { computeQuantities } from '#shared/utils/procedure'
+import { checkedItems } from '~~/server/services/practicals'
 
 // The scale editor's live conversion, before anything is saved. It runs here rather than in the
 // page so the page does not load openchemlib (molar masses from SMILES).

@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { type SectionRosterView } from '#shared/types/roster'
+import { loadSectionRoster, rosterActiveStudents, rosterStationPlaces, withRosterRace } from '~~/server/services/roster'
 
 // Everyone active, in name order, onto stations 1, 2, … with seats 1..students per station.
 export default defineEventHandler(async (event): Promise<SectionRosterView> => {

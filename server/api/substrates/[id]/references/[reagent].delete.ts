@@ -1,4 +1,5 @@
 import { referenceParamsSchema } from '#shared/types/library'
+import { requireLibraryEntry } from '~~/server/services/library'
 
 // Removes a reference distribution: runs go back to being judged against the class model.
 export default defineEventHandler(async (event) => {

@@ -1,4 +1,5 @@
 import { referenceInputSchema, referenceParamsSchema, type ReferenceView } from '#shared/types/library'
+import { requireLibraryEntry, resolveReferencePercents, substrateReferenceViews } from '~~/server/services/library'
 
 // Sets the substrate's reference distribution for one reagent family (owner of the entry only):
 // runs of practicals with that substrate and reagent are then judged against it.

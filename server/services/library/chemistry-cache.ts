@@ -1,24 +1,8 @@
-import { ChemistryInputError, type Halogen, type SubstrateAnalysis } from '#shared/utils/halogenation'
+import type { Halogen, SubstrateAnalysis } from '#shared/utils/halogenation'
 import type { DepictOptions } from '#shared/utils/depiction'
-import { memoizeAsync } from '../engines/memo'
-import type { ReagentForm } from '../engines/tasks'
-
-function rethrowAsBadRequest(error: unknown): never {
-  if (error instanceof ChemistryInputError) {
-    throw createError({ statusCode: 400, statusMessage: error.message, data: { code: error.code } })
-  }
-  throw error
-}
-
-/** Engine input errors are the caller's mistake: 400 with the engine's own sentence. Works for a promise too. */
-export function asBadRequest<T>(work: () => T): T {
-  try {
-    const result = work()
-    return (result instanceof Promise ? result.catch(rethrowAsBadRequest) : result) as T
-  } catch (error) {
-    rethrowAsBadRequest(error)
-  }
-}
+import { memoizeAsync } from '../../engines/memo'
+import type { ReagentForm } from '../../engines/tasks'
+import { runEngine } from '../../utils/engines'
 
 // Stored substrates are analysed and drawn again on many pages; the answers never change for a
 // SMILES, so each is computed once in the engine worker and kept (a few hundred, least recently

@@ -1,7 +1,8 @@
-import { sql } from 'kysely'
+import { sql, type Kysely, type Transaction } from 'kysely'
 import { findConflicts, sectionMeetings, type Conflict, type ScheduledSection } from '#shared/utils/schedule'
 import type { SectionView } from '#shared/types/section'
-import type { Section } from '../database/schema'
+import type { Database, Section } from '../../database/schema'
+import { useDb } from '../../utils/db'
 
 interface SectionRow extends Section {
   courseCode: string
@@ -11,8 +12,8 @@ interface SectionRow extends Section {
 }
 
 /** Sections with their course's code and zone, TA ids and active enrolment, in one query. */
-export function sectionRows() {
-  return useDb()
+export function sectionRows(db: Kysely<Database> | Transaction<Database> = useDb()) {
+  return db
     .selectFrom('sections')
     .innerJoin('courses', 'courses.id', 'sections.courseId')
     .selectAll('sections')

@@ -1,5 +1,8 @@
 import type { ScheduleEntry } from '#shared/types/section'
 import type { SessionUser } from '#shared/types/auth'
+import { visibleCourseIds } from '../../utils/access'
+import { useDb } from '../../utils/db'
+import { meetingsOf, sectionRows } from './section-rows'
 
 /** Every meeting the caller may see between two dates (inclusive), with what it runs. */
 export async function scheduleEntries(me: SessionUser, from: string, to: string): Promise<ScheduleEntry[]> {

@@ -1,9 +1,13 @@
 import type { H3Event } from 'h3'
 import type { Kysely, Transaction } from 'kysely'
-import type { Database, Section } from '../database/schema'
-import type { SectionMode, SectionScope } from './access'
+import type { Database, Section } from '../../database/schema'
+import type { SectionMode, SectionScope } from '../../utils/access'
 import { findConflicts } from '#shared/utils/schedule'
 import type { RosterConflictView, RosterStudent, SectionRosterView } from '#shared/types/roster'
+import { requireSectionAccess } from '../../utils/access'
+import { useDb } from '../../utils/db'
+import { invitationStateOf } from './invitations'
+import { createError } from 'h3'
 
 // One section's roster: who is in it, where they sit, and the changes made to one student.
 

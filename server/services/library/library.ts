@@ -1,6 +1,6 @@
 import type { H3Event } from 'h3'
 import type { Expression, ExpressionBuilder, SqlBool } from 'kysely'
-import type { Database, Method, Substrate, SubstrateWindow, WindowKind } from '../database/schema'
+import type { Database, Method, Substrate, SubstrateWindow, WindowKind } from '../../database/schema'
 import type { SessionUser } from '#shared/types/auth'
 import type {
   LibraryProduct, MethodView, ProductNameInput, StandardPeak, SubstrateDetail, SubstrateListItem, SubstrateWindowView, WindowInput,
@@ -10,6 +10,16 @@ import { builtInProductName } from '#shared/data/product-names'
 import { positionLetter } from '#shared/utils/depiction'
 import { describeOverlap, findWindowOverlaps, windowDisplayName, type NamedTimeWindow } from '#shared/utils/windows'
 import { messageExcerpt } from '#shared/utils/text-input'
+import { visibleCourseIds } from '../../utils/access'
+import { audit } from '../../utils/audit'
+import { requireRole } from '../../utils/auth'
+import { useDb } from '../../utils/db'
+import { asBadRequest } from '../../utils/errors'
+import { invalid } from '../../utils/validation'
+import { canonicalForms, substrateAnalysis, substrateDepiction } from './chemistry-cache'
+import { substrateProductNamer } from './product-names'
+import { substrateReferenceViews } from './reference-distributions'
+import { createError } from 'h3'
 
 // The substrate library and the halogenation methods. Who sees what:
 //   shared entries (owner null)  every staff member reads them; nobody edits them (copy instead)

@@ -1,12 +1,16 @@
 import type { H3Event } from 'h3'
 import type { Kysely, Transaction } from 'kysely'
-import type { Database } from '../database/schema'
-import type { MultipartUpload } from './files'
+import type { Database } from '../../database/schema'
+import type { MultipartUpload } from '../../utils/files'
 import {
   checkRosterRows, mapRosterRecords, parseRosterCsv, rosterCapacityConflicts, rosterMappingProblems,
   RosterFileError, suggestRosterMapping, summarizeRosterRows, type CheckedRosterRow, type RosterAccount,
 } from '#shared/utils/roster-csv'
 import { rosterMappingSchema, type RosterConflictView, type RosterMapping, type RosterSummary } from '#shared/types/roster'
+import { uploadAsText } from '../../utils/files'
+import { invalid } from '../../utils/validation'
+import { issueInvitation, queueInvitationMail } from './invitations'
+import { createError } from 'h3'
 
 // Roster import: the file is read and every row checked against the course as it is now (the
 // import does it again inside its transaction, so a stale preview never decides anything).

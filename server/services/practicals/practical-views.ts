@@ -1,11 +1,16 @@
-import type { Transaction } from 'kysely'
-import type { Database, Method, Substrate } from '../database/schema'
-import type { PracticalScope } from './access'
-import type { SessionUser } from '#shared/types/auth'
-import { PLANNING_NOTE, type ItemInput, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView, type SessionView, type WindowView } from '#shared/types/practical'
-import { computeQuantities, defaultItems, expectedProducts, hazardsForReagent, type ItemSpec } from '#shared/utils/procedure'
+import type { Method, Substrate } from '../../database/schema'
+import type { PracticalScope } from '../../utils/access'
+import {
+  PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView, type SessionView,
+  type WindowView,
+} from '#shared/types/practical'
+import { computeQuantities, expectedProducts, hazardsForReagent } from '#shared/utils/procedure'
+import { useDb } from '../../utils/db'
+import { substrateAnalysis, substrateDepiction, substrateProductNamer } from '../library'
+import { partnerNames } from '../roster'
+import { meetingsOf, sectionRows } from '../sections'
 
-// Reading and writing practicals for the routes under server/api/practicals. Every reader takes
+// Reading practicals for the routes under server/api/practicals. Every reader takes
 // the caller's scope (from requirePracticalAccess / requireCourseAccess) and puts it in the SQL.
 
 export function methodSummary(m: Pick<Method, 'id' | 'name' | 'reagent' | 'halogen' | 'temperatureC' | 'source'>): MethodSummary {
@@ -93,65 +98,6 @@ export async function practicalDetail(scope: PracticalScope): Promise<PracticalD
     role: scope.role,
     canManage: scope.role === 'owner',
   }
-}
-
-/** The shared library (no owner) and the instructor's own entries are theirs to use. */
-async function libraryEntry<T extends 'substrates' | 'methods'>(table: T, id: number, me: SessionUser) {
-  const row = await useDb().selectFrom(table as 'substrates').selectAll()
-    .where('id', '=', id)
-    .where((eb) => eb.or([eb('ownerId', 'is', null), eb('ownerId', '=', me.id)]))
-    .executeTakeFirst()
-  return row as (T extends 'substrates' ? Substrate : Method) | undefined
-}
-
-export async function requireLibraryChoice(me: SessionUser, choice: { substrateId?: number, methodId?: number }) {
-  const substrate = choice.substrateId === undefined ? undefined : await libraryEntry('substrates', choice.substrateId, me)
-  if (choice.substrateId !== undefined && !substrate) invalid([{ field: 'substrateId', message: 'Pick a substrate from your library' }])
-  const method = choice.methodId === undefined ? undefined : await libraryEntry('methods', choice.methodId, me)
-  if (choice.methodId !== undefined && !method) invalid([{ field: 'methodId', message: 'Pick a method from your library' }])
-  return { substrate, method }
-}
-
-export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reagent'>): ItemSpec[] {
-  return defaultItems({ name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density }, method.reagent)
-}
-
-/**
- * Items as they will be stored: a SMILES must parse (it is stored as typed), and a missing
- * molar mass comes from it (IUPAC standard atomic weights via openchemlib, in the engine worker).
- */
-export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null, density: number | null }>): Promise<ItemSpec[]> {
-  const forms = await reagentForms(items.flatMap((item) => (item.smiles ? [item.smiles] : [])))
-  let next = 0
-  return items.map((item, i) => {
-    let molarMass = item.molarMass
-    if (item.smiles) {
-      const form = forms[next++]
-      if (!form) invalid([{ field: `items.${i}.smiles`, message: 'Not a readable SMILES' }])
-      molarMass ??= Number(form.molarMass.toFixed(3))
-    }
-    return { role: item.role, name: item.name, smiles: item.smiles, molarMass, density: item.density, basis: item.basis, amount: item.amount }
-  })
-}
-
-/**
- * Replaces a practical's items. The stockroom's link of each item to a catalog reagent is kept
- * across the edit, matched by role and name, so an instructor's change does not undo it.
- */
-export async function replacePracticalItems(trx: Transaction<Database>, practicalId: number, items: ItemSpec[]) {
-  const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'reagentId', 'reagentGramsPerMl']).where('practicalId', '=', practicalId).execute()
-  const key = (i: { role: string, name: string }) => `${i.role}|${i.name.trim().toLowerCase()}`
-  const links = new Map(before.filter((b) => b.reagentId !== null).map((b) => [key(b), b]))
-  await trx.deleteFrom('practicalItems').where('practicalId', '=', practicalId).execute()
-  if (!items.length) return
-  await trx.insertInto('practicalItems').values(items.map((item, position) => {
-    const link = links.get(key(item))
-    return { practicalId, position, ...item, reagentId: link?.reagentId ?? null, reagentGramsPerMl: link?.reagentGramsPerMl ?? null }
-  })).execute()
-}
-
-export async function touchPractical(trx: Transaction<Database>, practicalId: number) {
-  await trx.updateTable('practicals').set({ updatedAt: new Date() }).where('id', '=', practicalId).execute()
 }
 
 /**

@@ -1,6 +1,9 @@
 import { createHash, randomBytes } from 'node:crypto'
 import type { Kysely, Transaction } from 'kysely'
-import type { Database } from '../database/schema'
+import type { Database } from '../../database/schema'
+import { escapeHtml } from '../../utils/html'
+import { queueMail } from '../../utils/mail'
+import { createError } from 'h3'
 
 // Invitation links: 32 random bytes (base64url) in the e-mail, only their SHA-256 in the
 // database, so reading the table yields no working link. Seven days, one use.

@@ -1,8 +1,8 @@
 import type { Kysely } from 'kysely'
-import type { Database } from '../database/schema'
-import type { ReferenceReagent } from '../database/schema-library'
-import type { ReferenceDistribution } from '../../shared/utils/submission'
-import { builtInProductName } from '../../shared/data/product-names'
+import type { Database } from '../../database/schema'
+import type { ReferenceReagent } from '../../database/schema-library'
+import type { ReferenceDistribution } from '../../../shared/utils/submission'
+import { builtInProductName } from '../../../shared/data/product-names'
 
 // What a substrate's products are called and its reference distributions, read for the engines.
 // Relative imports and an explicit database: the demo seed runs this outside Nitro too.

@@ -1,6 +1,10 @@
 import type { z } from 'zod'
 import type { sectionInputSchema } from '#shared/types/section'
-import type { SectionRow } from './sections'
+import type { SectionRow } from './section-rows'
+import { useDb } from '../../utils/db'
+import { invalid } from '../../utils/validation'
+import { conflictsFor } from './section-rows'
+import { createError } from 'h3'
 
 type SectionInput = z.output<typeof sectionInputSchema>
 

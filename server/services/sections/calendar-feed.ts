@@ -1,8 +1,10 @@
 import { createHash, createHmac, randomBytes } from 'node:crypto'
 import ical from 'ical-generator'
 import type { Kysely, Transaction } from 'kysely'
-import type { Database } from '../database/schema'
+import type { Database } from '../../database/schema'
 import type { Role } from '#shared/types/auth'
+import { useDb } from '../../utils/db'
+import { meetingsOf, sectionRows } from './section-rows'
 
 // Personal iCalendar feeds of lab meetings. The feed URL carries a secret token (one per user)
 // instead of a session, so calendar programs can subscribe; resetting it kills the old URL at
