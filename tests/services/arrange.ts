@@ -5,13 +5,19 @@ import { DEFAULT_RUBRIC } from '../../shared/types/course'
 import type { Actor } from '../../server/utils/audit'
 import { createUser, testDb } from '../support/db'
 
-// What a service test arranges: the two Nitro globals the cross-cutting helpers still reach for
-// (server/utils is auto-imported there), a fresh instructor with a course of their own, and a
+// What a service test arranges: the Nitro globals the cross-cutting helpers still reach for
+// (server/utils is auto-imported there; the queue is replaced by a list of the jobs it was sent), a fresh instructor with a course of their own, and a
 // section of it. Everything gets unique codes so tests never touch the demo course.
+
+export const APP_URL = 'http://127.0.0.1:3999'
+export const queuedJobs: Array<{ queue: string, data: unknown }> = []
 
 export function stubNitroGlobals() {
   vi.stubGlobal('createError', createError)
-  vi.stubGlobal('useRuntimeConfig', () => ({ public: { appUrl: 'http://127.0.0.1:3999' }, mail: {}, smtp: {}, session: {} }))
+  vi.stubGlobal('useRuntimeConfig', () => ({ public: { appUrl: APP_URL }, mail: {}, smtp: {}, session: {} }))
+  vi.stubGlobal('MAIL_QUEUE', 'mail-send')
+  vi.stubGlobal('inTransaction', (db: unknown) => db)
+  vi.stubGlobal('useQueue', async () => ({ send: async (queue: string, data: unknown) => { queuedJobs.push({ queue, data }); return null } }))
 }
 
 export const actorFor = (user: { id: number }): Actor => ({ id: user.id, ip: '127.0.0.1' })

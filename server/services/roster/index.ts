@@ -1,5 +1,7 @@
-// Rosters: enrolments, stations and seats, roster files, invitations. Routes import from here.
+// Rosters: enrolments, hood stations and seats, roster files, invitations. Routes import from here.
 
+export { acceptInvitation, resendInvitation } from './invitation-commands'
 export { findInvitation, invitationGone } from './invitations'
-export { inviteToCourse, planRosterImport, refuseOverCapacity, rosterPreviewRows, withRosterRace, writeRosterRows } from './roster-import'
-export { loadSectionRoster, partnerNames, requireEnrollmentAccess, rosterActiveCount, rosterActiveStudents, rosterCapacityFor, rosterPlaceStudent, rosterStationPlaces, stationMates } from './section-roster'
+export { planRosterImport, rosterPreviewRows } from './roster-import'
+export { addEnrollment, assignStations, importRoster, placeEnrollment, refuseWithdrawn, withdrawEnrollment } from './roster-commands'
+export { loadSectionRoster, partnerNames, requireEnrollmentAccess, stationMates } from './section-roster'

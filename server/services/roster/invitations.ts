@@ -41,11 +41,13 @@ export interface InvitationMail {
   courseId?: number | null
   invitedBy: string
   createdBy: number | null
+  /** The product's address (runtime config public.appUrl); the link starts with it. */
+  appUrl: string
 }
 
 /** Plain text and HTML; names are escaped in the HTML, the link is ours. */
 export async function queueInvitationMail(db: Db, mail: InvitationMail) {
-  const link = `${useRuntimeConfig().public.appUrl.replace(/\/$/, '')}/invite/${mail.invitation.token}`
+  const link = `${mail.appUrl.replace(/\/$/, '')}/invite/${mail.invitation.token}`
   const until = mail.invitation.expiresAt.toUTCString().replace(/:\d\d GMT$/, ' UTC')
   const subject = `Your Halocline account for ${mail.courseLabel}`
   const text = [

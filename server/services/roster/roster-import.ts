@@ -1,4 +1,3 @@
-import type { H3Event } from 'h3'
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../../database/schema'
 import type { MultipartUpload } from '../../utils/files'
@@ -89,10 +88,11 @@ export function rosterPreviewRows(rows: CheckedRosterRow[]) {
   return rows.map(({ sectionId: _s, userId: _u, ...row }) => row)
 }
 
+/** Who adds students to which course; `appUrl` starts the invitation links. */
 export interface RosterWriteContext {
-  event: H3Event
   course: { id: number, code: string, title: string }
   me: { id: number, name: string }
+  appUrl: string
 }
 
 /** Creates accounts, enrolments, moves and invitations for the rows of a clean plan. */
@@ -144,6 +144,7 @@ export async function inviteToCourse(trx: Db, ctx: RosterWriteContext, person: {
     courseId: ctx.course.id,
     invitedBy: ctx.me.name,
     createdBy: ctx.me.id,
+    appUrl: ctx.appUrl,
   })
   return invitation
 }
