@@ -1,12 +1,9 @@
-import { calendarFeedUrl, resetCalendarToken } from '~~/server/services/sections'
+import { calendarFeedUrl, resetCalendarFeed } from '~~/server/services/sections'
+
 // A new secret for the feed URL: calendars subscribed with the old one get 410 Gone from now on.
 export default defineEventHandler(async (event): Promise<{ url: string }> => {
   const me = requireUser(event)
-  const token = await useDb().transaction().execute(async (trx) => {
-    const fresh = await resetCalendarToken(trx, me.id)
-    // The token itself stays out of the audit log: the log is not a place to keep secrets.
-    await audit(trx, event, { action: 'calendar.reset', entity: 'calendar_feed', entityId: me.id })
-    return fresh
-  })
-  return { url: calendarFeedUrl(token) }
+  const config = useRuntimeConfig(event)
+  const token = await resetCalendarFeed(useDb(), actorOf(event), me.id, config.session.password as string)
+  return { url: calendarFeedUrl(token, config.public.appUrl) }
 })

@@ -1,6 +1,6 @@
-// Sections and the schedule: meetings, conflicts, the calendar feed. Routes import from here.
+// Sections and the schedule: meetings, conflicts across courses, the calendar feed. Routes import from here.
 
-export { calendarFeed, calendarFeedUrl, calendarOwner, calendarToken, resetCalendarToken } from './calendar-feed'
+export { calendarFeed, calendarFeedUrl, calendarOwner, calendarToken, resetCalendarFeed } from './calendar-feed'
 export { scheduleEntries } from './schedule'
-export { candidateRow, checkTaIds, refuseUnconfirmedConflicts, sectionValues } from './section-input'
+export { createSection, deleteSection, updateSection } from './section-commands'
 export { conflictsFor, meetingsOf, sectionRows, sectionViews } from './section-rows'

@@ -1,17 +1,18 @@
 import type { z } from 'zod'
 import type { sectionInputSchema } from '#shared/types/section'
 import type { SectionRow } from './section-rows'
-import { useDb } from '../../utils/db'
+import type { Kysely } from 'kysely'
+import type { Database } from '../../database/schema'
 import { invalid } from '../../utils/validation'
 import { conflictsFor } from './section-rows'
 import { createError } from 'h3'
 
-type SectionInput = z.output<typeof sectionInputSchema>
+export type SectionInput = z.output<typeof sectionInputSchema>
 
 /** TAs named in a section form must be TA accounts; 400 naming the field otherwise. */
-export async function checkTaIds(taIds: number[]) {
+export async function checkTaIds(db: Kysely<Database>, taIds: number[]) {
   if (!taIds.length) return
-  const rows = await useDb().selectFrom('users').select('id').where('id', 'in', taIds).where('role', '=', 'ta').where('disabledAt', 'is', null).execute()
+  const rows = await db.selectFrom('users').select('id').where('id', 'in', taIds).where('role', '=', 'ta').where('disabledAt', 'is', null).execute()
   if (rows.length !== new Set(taIds).size) invalid([{ field: 'taIds', message: 'Pick teaching assistants from the list' }])
 }
 
@@ -31,8 +32,8 @@ export function candidateRow(id: number, course: { id: number, code: string, tim
 }
 
 /** 409 with every conflict unless the instructor has seen them and confirmed. */
-export async function refuseUnconfirmedConflicts(candidate: SectionRow, confirmed: boolean) {
-  const conflicts = await conflictsFor([candidate.id], candidate)
+export async function refuseUnconfirmedConflicts(db: Kysely<Database>, candidate: SectionRow, confirmed: boolean) {
+  const conflicts = await conflictsFor([candidate.id], candidate, db)
   if (conflicts.length && !confirmed) {
     throw createError({
       statusCode: 409,

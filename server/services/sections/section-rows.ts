@@ -53,9 +53,9 @@ function scheduled(row: SectionRow): ScheduledSection {
   }
 }
 
-async function taNames(ids: number[]) {
+async function taNames(db: Kysely<Database>, ids: number[]) {
   if (!ids.length) return {}
-  const rows = await useDb().selectFrom('users').select(['id', 'name']).where('id', 'in', ids).execute()
+  const rows = await db.selectFrom('users').select(['id', 'name']).where('id', 'in', ids).execute()
   return Object.fromEntries(rows.map((r) => [r.id, r.name]))
 }
 
@@ -64,22 +64,22 @@ async function taNames(ids: number[]) {
  * keeping those that involve the given sections. `candidate` replaces a stored section, or
  * is a new one (id 0), so a save can be checked before it is written.
  */
-export async function conflictsFor(sectionIds: number[], candidate?: SectionRow): Promise<Conflict[]> {
-  const rows = (await sectionRows().execute()) as SectionRow[]
+export async function conflictsFor(sectionIds: number[], candidate?: SectionRow, db: Kysely<Database> = useDb()): Promise<Conflict[]> {
+  const rows = (await sectionRows(db).execute()) as SectionRow[]
   const all = rows.filter((r) => r.id !== candidate?.id)
   if (candidate) all.push(candidate)
   const entries = all.map(scheduled)
   const focus = new Set(candidate ? [...sectionIds, candidate.id] : sectionIds)
-  const names = await taNames([...new Set(all.flatMap((r) => r.taIds))])
+  const names = await taNames(db, [...new Set(all.flatMap((r) => r.taIds))])
   return findConflicts(entries, names).filter((c) => c.sectionIds.some((id) => focus.has(id)))
 }
 
-export async function sectionViews(where: { courseId?: number, ids?: number[] }): Promise<SectionView[]> {
-  let query = sectionRows()
+export async function sectionViews(where: { courseId?: number, ids?: number[] }, db: Kysely<Database> = useDb()): Promise<SectionView[]> {
+  let query = sectionRows(db)
   if (where.courseId !== undefined) query = query.where('sections.courseId', '=', where.courseId)
   if (where.ids) query = query.where('sections.id', 'in', where.ids.length ? where.ids : [-1])
   const rows = (await query.execute()) as SectionRow[]
-  const names = await taNames([...new Set(rows.flatMap((r) => r.taIds))])
+  const names = await taNames(db, [...new Set(rows.flatMap((r) => r.taIds))])
   return rows.map((r) => ({
     id: r.id,
     courseId: r.courseId,

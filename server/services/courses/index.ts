@@ -1,0 +1,3 @@
+// Courses: a course, its settings and its owners. Routes import from here.
+
+export { addCourseOwner, createCourse, updateCourse, updateCourseSettings } from './course-commands'
