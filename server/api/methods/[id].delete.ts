@@ -4,7 +4,7 @@ export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor')
   const { id } = readParamsAs(event, idParamsSchema)
   const { row } = await requireLibraryEntry(event, 'methods', id, 'edit')
-  await deleteLibraryEntry(event, 'methods', id, row)
+  await deleteLibraryEntry(useDb(), actorOf(event), 'methods', id, row)
   setResponseStatus(event, 204)
   return null
 })

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { halogenMismatch, methodPatchSchema, type MethodView } from '#shared/types/library'
-import { libraryUsage, methodColumns, requireLibraryEntry, toMethodView } from '~~/server/services/library'
+import { libraryUsage, requireLibraryEntry, toMethodView, updateMethod } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {
   requireRole(event, 'instructor')
@@ -9,12 +9,7 @@ export default defineEventHandler(async (event): Promise<MethodView> => {
   const patch = await readBodyAs(event, methodPatchSchema)
   const mismatch = halogenMismatch(patch.reagent ?? before.reagent, patch.halogen)
   if (mismatch) invalid([{ field: 'halogen', message: mismatch }])
-  const row = await useDb().transaction().execute(async (trx) => {
-    const updated = await trx.updateTable('methods').set({ ...methodColumns(patch), updatedAt: new Date() })
-      .where('id', '=', id).returningAll().executeTakeFirstOrThrow()
-    await audit(trx, event, { action: 'method.update', entity: 'method', entityId: id, before, after: patch })
-    return updated
-  })
+  const row = await updateMethod(useDb(), actorOf(event), before, patch)
   const usage = await libraryUsage('methods', [id])
   return toMethodView(row, me, usage.get(id) ?? 0)
 })

@@ -6,7 +6,7 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, idParamsSchema)
   const { row } = await requireLibraryEntry(event, 'substrates', id, 'edit')
   const windows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', id).execute()
-  await deleteLibraryEntry(event, 'substrates', id, { ...row, windows })
+  await deleteLibraryEntry(useDb(), actorOf(event), 'substrates', id, { ...row, windows })
   setResponseStatus(event, 204)
   return null
 })

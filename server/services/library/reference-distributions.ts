@@ -6,7 +6,7 @@ import { latestUnitVersions, storedMolePercents } from '../../utils/class-result
 import { useDb } from '../../utils/db'
 import { invalid } from '../../utils/validation'
 import { substrateAnalysis } from './chemistry-cache'
-import { canonicalOrInvalid } from './library'
+import { canonicalOrInvalid } from './substrate-products'
 
 // Reference distributions of a substrate: what its product mixture really looks like with one
 // reagent family, read by the library page, written by its owner, and filled from the course's

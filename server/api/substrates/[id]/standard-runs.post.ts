@@ -2,24 +2,18 @@ import { idParamsSchema } from '#shared/types/fields'
 import { type StandardRunUploadResponse } from '#shared/types/library'
 import { RunInputError } from '#shared/utils/submission'
 import { suggestionsForRun } from '#shared/utils/windows'
-import { requireLibraryEntry } from '~~/server/services/library'
+import { addStandardRun, requireLibraryEntry } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<StandardRunUploadResponse> => {
   requireRole(event, 'instructor')
   const { id } = readParamsAs(event, idParamsSchema)
-  const { me } = await requireLibraryEntry(event, 'substrates', id, 'edit')
+  await requireLibraryEntry(event, 'substrates', id, 'edit')
   const { file } = await readUpload(event)
   const windows = await useDb().selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax'])
     .where('substrateId', '=', id).execute()
   const latest = Math.max(0, ...windows.map((w) => w.rtMax))
   const { peaks, warnings, mediaType } = await standardRunPeaksOf(file.bytes, latest > 0 ? latest : undefined)
-  const runId = await useDb().transaction().execute(async (trx) => {
-    const fileId = await storeFile(trx, file, me.id, mediaType)
-    const run = await trx.insertInto('standardRuns').values({ substrateId: id, fileId, peaks: JSON.stringify(peaks), createdBy: me.id })
-      .returning('id').executeTakeFirstOrThrow()
-    await audit(trx, event, { action: 'substrate.standard-run', entity: 'substrate', entityId: id, after: { standardRunId: run.id, fileId, sha256: file.sha256, peaks: peaks.length } })
-    return run.id
-  })
+  const runId = await addStandardRun(useDb(), actorOf(event), id, file, { peaks, mediaType })
   setResponseStatus(event, 201)
   return { id: runId, fileName: file.name, sha256: file.sha256, peaks, suggestions: suggestionsForRun(peaks, windows), warnings }
 })
