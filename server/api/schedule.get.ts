@@ -7,7 +7,8 @@ import { scheduleEntries } from '~~/server/services/sections'
 const querySchema = z.object({ from: dateField(), to: dateField() }).superRefine((q, ctx) => {
   if (calendarDateProblem(q.from) || calendarDateProblem(q.to)) return
   if (q.to < q.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'Must be on or after from' })
-  else if (daysBetween(q.from, q.to) > MAX_TERM_DAYS) ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${MAX_TERM_DAYS} days after from` })
+  else if (daysBetween(q.from, q.to) > MAX_TERM_DAYS) ctx.addIssue({ code: 'custom', path: ['to'],
+    message: `At most ${MAX_TERM_DAYS} days after from` })
 })
 
 // Every meeting the caller may see between two dates (inclusive), with what it runs.

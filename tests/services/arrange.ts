@@ -6,7 +6,8 @@ import type { Actor } from '../../server/utils/audit'
 import { createUser, testDb } from '../support/db'
 
 // What a service test arranges: the Nitro globals the cross-cutting helpers still reach for
-// (server/utils is auto-imported there; the queue is replaced by a list of the jobs it was sent), a fresh instructor with a course of their own, and a
+// (server/utils is auto-imported there; the queue is replaced by a list of the jobs it was sent), a fresh instructor with a course of their
+// own, and a
 // section of it. Everything gets unique codes so tests never touch the demo course.
 
 export const APP_URL = 'http://127.0.0.1:3999'
@@ -17,7 +18,8 @@ export function stubNitroGlobals() {
   vi.stubGlobal('useRuntimeConfig', () => ({ public: { appUrl: APP_URL }, mail: {}, smtp: {}, session: {} }))
   vi.stubGlobal('MAIL_QUEUE', 'mail-send')
   vi.stubGlobal('inTransaction', (db: unknown) => db)
-  vi.stubGlobal('useQueue', async () => ({ send: async (queue: string, data: unknown) => { queuedJobs.push({ queue, data }); return null } }))
+  vi.stubGlobal('useQueue',
+    async () => ({ send: async (queue: string, data: unknown) => { queuedJobs.push({ queue, data }); return null } }))
 }
 
 export const actorFor = (user: { id: number }): Actor => ({ id: user.id, ip: '127.0.0.1' })

@@ -10,10 +10,12 @@ export default defineEventHandler(async (event): Promise<SectionListItem[]> => {
   if (me.role === 'ta') {
     ids = (await db.selectFrom('sectionTas').select('sectionId').where('userId', '=', me.id).execute()).map((r) => r.sectionId)
   } else if (me.role === 'student') {
-    ids = (await db.selectFrom('enrollments').select('sectionId').where('userId', '=', me.id).where('status', '=', 'active').execute()).map((r) => r.sectionId)
+    ids = (await db.selectFrom('enrollments').select('sectionId').where('userId', '=', me.id).where('status', '=', 'active').execute())
+      .map((r) => r.sectionId)
   } else {
     const courseIds = await visibleCourseIds(me)
-    ids = courseIds.length ? (await db.selectFrom('sections').select('id').where('courseId', 'in', courseIds).execute()).map((r) => r.id) : []
+    ids = courseIds.length ? (await db.selectFrom('sections').select('id').where('courseId', 'in', courseIds).execute())
+      .map((r) => r.id) : []
   }
   const views = await sectionViews({ ids })
   const courses = new Map((await db.selectFrom('courses').select(['id', 'code', 'title', 'term'])

@@ -11,5 +11,6 @@ export default defineEventHandler(async (event): Promise<SubstrateListItem[]> =>
     .orderBy('name').orderBy('id')
     .execute()
   const usage = await libraryUsage('substrates', rows.map((r) => r.id))
-  return rows.map(({ windowCount, ...row }) => toSubstrateListItem(row, me, { windowCount: Number(windowCount ?? 0), usedBy: usage.get(row.id) ?? 0 }))
+  return rows.map(({ windowCount, ...row }) => toSubstrateListItem(row, me,
+    { windowCount: Number(windowCount ?? 0), usedBy: usage.get(row.id) ?? 0 }))
 })

@@ -9,7 +9,8 @@ export default defineEventHandler(async (event): Promise<SubstratePreview> => {
   const { smiles } = await readBodyAs(event, substratePreviewSchema)
   return asBadRequest(async () => {
     const { canonicalSmiles, formula, molarMass } = await substrateAnalysis(smiles)
-    const [products, depictionSvg] = await Promise.all([libraryProducts(canonicalSmiles), substrateDepiction(canonicalSmiles, { idPrefix: 'preview' })])
+    const [products,
+      depictionSvg] = await Promise.all([libraryProducts(canonicalSmiles), substrateDepiction(canonicalSmiles, { idPrefix: 'preview' })])
     return { canonicalSmiles, formula, molarMass, products, depictionSvg }
   })
 })

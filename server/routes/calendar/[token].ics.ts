@@ -23,7 +23,8 @@ export default defineEventHandler(async (event) => {
   const segment = getRequestURL(event).pathname.split('/').at(-1) ?? ''
   const token = TOKEN.exec(segment)?.[1]
   const found = token ? await calendarOwner(useDb(), token) : undefined
-  if (found?.revoked) return plainAnswer(event, 410, 'Gone', 'This calendar address was replaced. Copy the new one from your Halocline account page.')
+  if (found?.revoked) return plainAnswer(event, 410, 'Gone',
+    'This calendar address was replaced. Copy the new one from your Halocline account page.')
   if (!found?.owner || found.owner.disabledAt) return plainAnswer(event, 404, 'Not Found', 'No calendar at this address.')
   const body = await calendarFeed(useDb(), found.owner, useRuntimeConfig(event).public.appUrl)
   setResponseHeaders(event, {

@@ -14,7 +14,8 @@ export type CourseFields = z.output<typeof courseInputSchema>
 /** A new course owned by its creator, with the default rubric; 409 when its code is taken for that term. */
 export async function createCourse(db: Db, actor: Actor, creatorId: number, input: CourseFields): Promise<CourseListItem> {
   return db.transaction().execute(async (trx) => {
-    const clash = await trx.selectFrom('courses').select('id').where('code', '=', input.code).where('term', '=', input.term).executeTakeFirst()
+    const clash = await trx.selectFrom('courses').select('id').where('code', '=', input.code).where('term', '=', input.term)
+      .executeTakeFirst()
     if (clash) invalid([{ field: 'code', message: `${input.code} already exists for ${input.term}` }], 409)
     const row = await trx.insertInto('courses')
       .values({ ...input, rubric: JSON.stringify(DEFAULT_RUBRIC), createdBy: creatorId })

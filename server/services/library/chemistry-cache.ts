@@ -7,8 +7,10 @@ import { runEngine } from '../../utils/engines'
 // Stored substrates are analysed and drawn again on many pages; the answers never change for a
 // SMILES, so each is computed once in the engine worker and kept (a few hundred, least recently
 // used dropped first).
-const analyses = memoizeAsync(500, ({ smiles, halogen }: { smiles: string, halogen: Halogen }) => runEngine('substrateAnalysis', { smiles, halogen }))
-const drawings = memoizeAsync(500, (item: { smiles: string, options: DepictOptions }) => runEngine('depictions', [item]).then(([svg]) => svg!))
+const analyses = memoizeAsync(500,
+  ({ smiles, halogen }: { smiles: string, halogen: Halogen }) => runEngine('substrateAnalysis', { smiles, halogen }))
+const drawings = memoizeAsync(500, (item: { smiles: string, options: DepictOptions }) => runEngine('depictions', [item])
+  .then(([svg]) => svg!))
 const canonical = memoizeAsync(2000, (smiles: string) => runEngine('canonicalForms', [smiles]).then(([form]) => form ?? null))
 
 /** The monohalogenation products of a substrate (an engine error for one that cannot be analysed). */

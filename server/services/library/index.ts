@@ -4,7 +4,8 @@
 export { canonicalForms, reagentForms, substrateAnalysis, substrateDepiction } from './chemistry-cache'
 export { copyName, libraryScope, libraryUsage, requireLibraryEntry, requireLibraryReader } from './library-access'
 export {
-  addStandardRun, copyMethod, copySubstrate, createMethod, createSubstrate, deleteLibraryEntry, deleteSubstrateReference, saveSubstrateWindows,
+  addStandardRun, copyMethod, copySubstrate, createMethod, createSubstrate, deleteLibraryEntry, deleteSubstrateReference,
+    saveSubstrateWindows,
   setSubstrateReference, updateMethod, updateSubstrate,
 } from './library-commands'
 export { toMethodView } from './methods'

@@ -25,7 +25,9 @@ export function requireLibraryReader(event: H3Event) {
 }
 
 /** The scope of a library query, for its where clause: shared, mine, or used in a course I see. */
-export function libraryScope<T extends LibraryTable>(me: SessionUser, courseIds: number[], table: T): (eb: ExpressionBuilder<Database, T>) => Expression<SqlBool> {
+export function libraryScope<T extends LibraryTable>(
+  me: SessionUser, courseIds: number[], table: T,
+): (eb: ExpressionBuilder<Database, T>) => Expression<SqlBool> {
   // Both tables have id and owner_id; the builder is typed for one of them to name those columns.
   return (builder) => {
     const eb = builder as unknown as ExpressionBuilder<Database, 'substrates'>
@@ -33,7 +35,8 @@ export function libraryScope<T extends LibraryTable>(me: SessionUser, courseIds:
     eb('ownerId', 'is', null),
     eb('ownerId', '=', me.id),
     ...(courseIds.length
-      ? [eb('id', 'in', eb.selectFrom('practicals').select(`practicals.${USED_BY_COLUMN[table]}` as 'practicals.substrateId').where('practicals.courseId', 'in', courseIds))]
+      ? [eb('id', 'in', eb.selectFrom('practicals').select(`practicals.${USED_BY_COLUMN[table]}` as 'practicals.substrateId')
+        .where('practicals.courseId', 'in', courseIds))]
       : []),
     ])
   }
@@ -43,9 +46,13 @@ export function libraryScope<T extends LibraryTable>(me: SessionUser, courseIds:
  * Loads one library entry the caller may see (404 otherwise). 'edit' also needs the caller to
  * be the instructor who created it: shared entries are read-only for everyone (403).
  */
-export async function requireLibraryEntry<T extends LibraryTable>(event: H3Event, table: T, id: number, mode: LibraryMode): Promise<{ me: SessionUser, row: LibraryRow<T> }> {
+export async function requireLibraryEntry<T extends LibraryTable>(
+  event: H3Event, table: T, id: number, mode: LibraryMode,
+): Promise<{ me: SessionUser, row: LibraryRow<T> }> {
   const me = requireLibraryReader(event)
-  if (mode === 'edit' && me.role !== 'instructor') throw createError({ statusCode: 403, statusMessage: 'Only instructors can change the library' })
+  if (mode === 'edit' && me.role !== 'instructor') {
+    throw createError({ statusCode: 403, statusMessage: 'Only instructors can change the library' })
+  }
   const courseIds = await visibleCourseIds(me)
   // Both tables share id and owner_id; the cast only picks one for the query builder's types.
   const row = await useDb().selectFrom(table as 'substrates').selectAll()
@@ -73,7 +80,8 @@ export async function libraryUsage(table: LibraryTable, ids: number[], db: Kysel
 export async function refuseWhileInUse(table: LibraryTable, id: number, doing: string, db: Kysely<Database> = useDb()) {
   const used = (await libraryUsage(table, [id], db)).get(id) ?? 0
   if (used > 0) {
-    throw createError({ statusCode: 409, statusMessage: `${NOUN[table]} is used by ${used} practical${used === 1 ? '' : 's'}; it cannot be ${doing}` })
+    throw createError({ statusCode: 409,
+      statusMessage: `${NOUN[table]} is used by ${used} practical${used === 1 ? '' : 's'}; it cannot be ${doing}` })
   }
 }
 

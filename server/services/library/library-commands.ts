@@ -40,10 +40,12 @@ export async function deleteLibraryEntry(db: Db, actor: Actor, table: LibraryTab
 
 // ── Substrates ──────────────────────────────────────────────────────────────────────────────
 
-export async function createSubstrate(db: Db, actor: Actor, ownerId: number, input: z.output<typeof substrateInputSchema>, identity: Identity) {
+export async function createSubstrate(db: Db, actor: Actor, ownerId: number, input: z.output<typeof substrateInputSchema>,
+  identity: Identity) {
   return db.transaction().execute(async (trx) => {
     const created = await trx.insertInto('substrates').values({ ...input, ...identity, ownerId }).returningAll().executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, { action: 'substrate.create', entity: 'substrate', entityId: created.id, after: { ...input, ...identity } })
+    await recordAudit(trx, actor,
+      { action: 'substrate.create', entity: 'substrate', entityId: created.id, after: { ...input, ...identity } })
     return created
   })
 }
@@ -94,7 +96,8 @@ export async function copySubstrate(db: Db, actor: Actor, ownerId: number, origi
     const windows = await trx.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'label', 'rtMin', 'rtMax', 'responseFactor'])
       .where('substrateId', '=', from).execute()
     if (windows.length) await trx.insertInto('substrateWindows').values(windows.map((w) => ({ ...w, substrateId: copy.id }))).execute()
-    const runs = await trx.selectFrom('standardRuns').select(['fileId', 'peaks', 'createdBy', 'createdAt']).where('substrateId', '=', from).execute()
+    const runs = await trx.selectFrom('standardRuns').select(['fileId', 'peaks', 'createdBy', 'createdAt']).where('substrateId', '=', from)
+      .execute()
     if (runs.length) {
       await trx.insertInto('standardRuns')
         .values(runs.map((r) => ({ ...r, peaks: JSON.stringify(r.peaks), substrateId: copy.id }))).execute()
@@ -111,7 +114,8 @@ export async function copySubstrate(db: Db, actor: Actor, ownerId: number, origi
     }
     await recordAudit(trx, actor, {
       action: 'substrate.copy', entity: 'substrate', entityId: copy.id,
-      after: { copiedFrom: from, name: copy.name, windows: windows.length, standardRuns: runs.length, names: names.length, references: references.length },
+      after: { copiedFrom: from, name: copy.name, windows: windows.length, standardRuns: runs.length, names: names.length,
+        references: references.length },
     })
     return copy
   })
@@ -136,7 +140,8 @@ export async function saveSubstrateWindows(
       if (names.length) {
         await trx.insertInto('substrateProductNames').values(names.map((n) => ({ ...n, substrateId, updatedBy: actor.id }))).execute()
       }
-      await recordAudit(trx, actor, { action: 'substrate.names', entity: 'substrate', entityId: substrateId, before: beforeNames, after: names })
+      await recordAudit(trx, actor,
+        { action: 'substrate.names', entity: 'substrate', entityId: substrateId, before: beforeNames, after: names })
     }
     await trx.updateTable('substrates').set({ updatedAt: new Date() }).where('id', '=', substrateId).execute()
     await recordAudit(trx, actor, { action: 'substrate.windows', entity: 'substrate', entityId: substrateId, before, after: values })
@@ -171,7 +176,8 @@ export async function deleteSubstrateReference(db: Db, actor: Actor, substrateId
     const before = await trx.deleteFrom('substrateReferences').where('substrateId', '=', substrateId).where('reagent', '=', reagent)
       .returning(['percents', 'source', 'sourceKind']).executeTakeFirst()
     if (before) {
-      await recordAudit(trx, actor, { action: 'substrate.reference.delete', entity: 'substrate', entityId: substrateId, before: { reagent, ...before } })
+      await recordAudit(trx, actor,
+        { action: 'substrate.reference.delete', entity: 'substrate', entityId: substrateId, before: { reagent, ...before } })
     }
     return Boolean(before)
   })
@@ -219,7 +225,8 @@ export async function copyMethod(db: Db, actor: Actor, ownerId: number, original
     const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = original
     const copy = await trx.insertInto('methods').values({ ...fields, name: copyName(original.name), ownerId })
       .returningAll().executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, { action: 'method.copy', entity: 'method', entityId: copy.id, after: { copiedFrom: original.id, name: copy.name } })
+    await recordAudit(trx, actor,
+      { action: 'method.copy', entity: 'method', entityId: copy.id, after: { copiedFrom: original.id, name: copy.name } })
     return copy
   })
 }

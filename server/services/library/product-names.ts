@@ -13,7 +13,8 @@ export type ProductNamer = (canonicalSmiles: string) => string | null
 export async function storedProductNames(db: Kysely<Database>, substrateIds: readonly number[]): Promise<Map<number, Map<string, string>>> {
   const byId = new Map<number, Map<string, string>>()
   if (!substrateIds.length) return byId
-  const rows = await db.selectFrom('substrateProductNames').select(['substrateId', 'productSmiles', 'name']).where('substrateId', 'in', [...substrateIds]).execute()
+  const rows = await db.selectFrom('substrateProductNames').select(['substrateId', 'productSmiles', 'name'])
+    .where('substrateId', 'in', [...substrateIds]).execute()
   for (const r of rows) byId.set(r.substrateId, (byId.get(r.substrateId) ?? new Map()).set(r.productSmiles, r.name))
   return byId
 }
@@ -25,7 +26,8 @@ export async function substrateProductNamer(db: Kysely<Database>, substrateId: n
 }
 
 /** The substrate's reference distribution for a reagent family, or null. */
-export async function substrateReferenceFor(db: Kysely<Database>, substrateId: number, reagent: ReferenceReagent): Promise<ReferenceDistribution | null> {
+export async function substrateReferenceFor(db: Kysely<Database>, substrateId: number,
+  reagent: ReferenceReagent): Promise<ReferenceDistribution | null> {
   const row = await db.selectFrom('substrateReferences').select(['percents', 'source', 'sourceKind'])
     .where('substrateId', '=', substrateId).where('reagent', '=', reagent).executeTakeFirst()
   return row ? { percents: row.percents, source: row.source, sourceKind: row.sourceKind } : null

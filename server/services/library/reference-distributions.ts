@@ -1,6 +1,7 @@
 import type { SessionUser } from '#shared/types/auth'
 import type { Substrate } from '../../database/schema'
-import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput, type ReferenceView } from '#shared/types/library'
+import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput,
+  type ReferenceView } from '#shared/types/library'
 import { messageExcerpt } from '#shared/utils/text-input'
 import { latestUnitVersions, storedMolePercents } from '../../utils/class-results'
 import { useDb } from '../../utils/db'
@@ -15,7 +16,8 @@ import { canonicalOrInvalid } from './substrate-products'
 /** Every reference distribution of a substrate, in reagent order. */
 export async function substrateReferenceViews(substrateId: number): Promise<ReferenceView[]> {
   const rows = await useDb().selectFrom('substrateReferences').leftJoin('users', 'users.id', 'substrateReferences.updatedBy')
-    .select(['substrateReferences.reagent', 'substrateReferences.percents', 'substrateReferences.source', 'substrateReferences.sourceKind', 'substrateReferences.updatedAt', 'users.name as updatedBy'])
+    .select(['substrateReferences.reagent', 'substrateReferences.percents', 'substrateReferences.source', 'substrateReferences.sourceKind',
+      'substrateReferences.updatedAt', 'users.name as updatedBy'])
     .where('substrateReferences.substrateId', '=', substrateId).orderBy('substrateReferences.reagent').execute()
   return rows.map((r) => ({
     reagent: r.reagent, halogen: REAGENT_HALOGEN[r.reagent], percents: r.percents, source: r.source, sourceKind: r.sourceKind,
@@ -27,14 +29,16 @@ export async function substrateReferenceViews(substrateId: number): Promise<Refe
  * The percentages to store: each product of the reagent's halogen exactly once (any SMILES
  * spelling, stored canonical), naming the row of anything else.
  */
-export async function resolveReferencePercents(input: Pick<ReferenceInput, 'percents'>, substrate: Pick<Substrate, 'smiles' | 'name'>, reagent: LibraryReagent): Promise<Array<{ smiles: string, percent: number }>> {
+export async function resolveReferencePercents(input: Pick<ReferenceInput, 'percents'>, substrate: Pick<Substrate, 'smiles' | 'name'>,
+  reagent: LibraryReagent): Promise<Array<{ smiles: string, percent: number }>> {
   const products = (await substrateAnalysis(substrate.smiles, REAGENT_HALOGEN[reagent])).products.map((p) => p.smiles)
   const forms = await canonicalOrInvalid(input.percents.map((p, i) => ({ smiles: p.productSmiles, field: `percents.${i}.productSmiles` })))
   const seen = new Map<string, number>()
   const rows = input.percents.map((p, i) => {
     const field = `percents.${i}.productSmiles`
     const smiles = forms[i]!
-    if (!products.includes(smiles)) invalid([{ field, message: `“${messageExcerpt(p.productSmiles, 60)}” is not a product of ${substrate.name} with this reagent` }])
+    if (!products.includes(smiles)) invalid([{ field,
+      message: `“${messageExcerpt(p.productSmiles, 60)}” is not a product of ${substrate.name} with this reagent` }])
     if (seen.has(smiles)) invalid([{ field, message: `${smiles} is listed twice (rows ${seen.get(smiles)! + 1} and ${i + 1})` }])
     seen.set(smiles, i)
     return { smiles, percent: p.percent }
@@ -72,7 +76,8 @@ export async function referenceCandidates(me: SessionUser, substrate: Pick<Subst
       percent: runs.reduce((sum, r) => sum + (r.molePercents.find((m) => m.smiles === smiles)?.percent ?? 0), 0) / runs.length,
     }))
     candidates.push({
-      practicalId: p.id, title: p.title, courseCode: p.code, term: p.term, reagent: p.reagent, methodName: p.methodName, n: runs.length, percents,
+      practicalId: p.id, title: p.title, courseCode: p.code, term: p.term, reagent: p.reagent, methodName: p.methodName, n: runs.length,
+        percents,
       source: `Mean of ${runs.length} accepted result${runs.length === 1 ? '' : 's'}, ${p.code} ${p.term}, "${p.title}"`,
     })
   }

@@ -11,7 +11,8 @@ import { canonicalForms, substrateAnalysis } from './chemistry-cache'
 // names), and the checks on what an instructor saves against them: names and retention windows.
 
 /** Chlorination products, lettered as the depiction letters them, each with its bromo twin and their names. */
-export async function libraryProducts(smiles: string, nameOf: (smiles: string) => string | null = builtInProductName): Promise<LibraryProduct[]> {
+export async function libraryProducts(smiles: string,
+  nameOf: (smiles: string) => string | null = builtInProductName): Promise<LibraryProduct[]> {
   const [cl, br] = await Promise.all([substrateAnalysis(smiles, 'Cl'), substrateAnalysis(smiles, 'Br')])
   return cl.products.map((p, i) => {
     const brominated = (br.products.find((q) => q.atoms[0] === p.atoms[0]) ?? br.products[i]!).smiles
@@ -33,7 +34,8 @@ export async function libraryProducts(smiles: string, nameOf: (smiles: string) =
  */
 export async function canonicalOrInvalid(items: Array<{ smiles: string, field: string }>): Promise<string[]> {
   const forms = await canonicalForms(items.map((i) => i.smiles))
-  return items.map((item, i) => forms[i] ?? invalid([{ field: item.field, message: `“${messageExcerpt(item.smiles, 60)}” is not a readable SMILES` }]))
+  return items.map((item,
+    i) => forms[i] ?? invalid([{ field: item.field, message: `“${messageExcerpt(item.smiles, 60)}” is not a readable SMILES` }]))
 }
 
 /** The same products with names from another source (after the instructor renamed some). */
@@ -45,7 +47,8 @@ export function renameLibraryProducts(products: LibraryProduct[], nameOf: (smile
  * The names to store for a substrate's products: each SMILES matched to one of its products
  * (any spelling), no product twice; a name equal to the built-in one, or empty, stores nothing.
  */
-export async function resolveProductNames(names: ProductNameInput[], products: LibraryProduct[], substrateName: string): Promise<Array<{ productSmiles: string, name: string }>> {
+export async function resolveProductNames(names: ProductNameInput[], products: LibraryProduct[],
+  substrateName: string): Promise<Array<{ productSmiles: string, name: string }>> {
   const index = productIndex(products)
   const seen = new Set<string>()
   const rows: Array<{ productSmiles: string, name: string }> = []
@@ -53,7 +56,8 @@ export async function resolveProductNames(names: ProductNameInput[], products: L
   names.forEach((n, i) => {
     const field = `names.${i}.productSmiles`
     const canonical = forms[i]!
-    if (!index.has(canonical)) invalid([{ field, message: `“${messageExcerpt(n.productSmiles, 60)}” is not a monohalogenation product of ${substrateName}` }])
+    if (!index.has(canonical)) invalid([{ field,
+      message: `“${messageExcerpt(n.productSmiles, 60)}” is not a monohalogenation product of ${substrateName}` }])
     if (seen.has(canonical)) invalid([{ field, message: `${canonical} is named twice` }])
     seen.add(canonical)
     const name = n.name.trim()
@@ -101,10 +105,12 @@ export interface WindowRowValues {
  * Matches each product window to the substrate's products (any SMILES spelling), then refuses
  * duplicates and overlapping windows, naming the rows. Returns the rows to store.
  */
-export async function resolveWindows(windows: Array<WindowInput & { responseFactor: number }>, products: LibraryProduct[], substrateName: string): Promise<WindowRowValues[]> {
+export async function resolveWindows(windows: Array<WindowInput & { responseFactor: number }>, products: LibraryProduct[],
+  substrateName: string): Promise<WindowRowValues[]> {
   const index = productIndex(products)
   const seen = new Map<string, number>()
-  const named = windows.flatMap((w, i) => (w.kind === 'product' ? [{ smiles: w.productSmiles!, field: `windows.${i}.productSmiles`, i }] : []))
+  const named = windows.flatMap((w,
+    i) => (w.kind === 'product' ? [{ smiles: w.productSmiles!, field: `windows.${i}.productSmiles`, i }] : []))
   const forms = new Map((await canonicalOrInvalid(named)).map((form, k) => [named[k]!.i, form]))
   const rows = windows.map((w, i): WindowRowValues & NamedTimeWindow => {
     const field = `windows.${i}.productSmiles`
@@ -112,8 +118,10 @@ export async function resolveWindows(windows: Array<WindowInput & { responseFact
     if (w.kind === 'product') {
       const canonical = forms.get(i)!
       ref = index.get(canonical)
-      if (!ref) invalid([{ field, message: `“${messageExcerpt(w.productSmiles ?? '', 60)}” is not a monohalogenation product of ${substrateName}` }])
-      if (seen.has(ref.smiles)) invalid([{ field, message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])
+      if (!ref) invalid([{ field,
+        message: `“${messageExcerpt(w.productSmiles ?? '', 60)}” is not a monohalogenation product of ${substrateName}` }])
+      if (seen.has(ref.smiles)) invalid([{ field,
+        message: `${ref.position} (${ref.smiles}) already has a window in row ${seen.get(ref.smiles)! + 1}` }])
       seen.set(ref.smiles, i)
     }
     const label = w.kind === 'product' ? ref!.position : (w.label?.trim() || (w.kind === 'solvent' ? 'solvent' : 'starting material'))

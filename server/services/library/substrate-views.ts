@@ -33,12 +33,16 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
     db.selectFrom('standardRuns')
       .innerJoin('files', 'files.id', 'standardRuns.fileId')
       .leftJoin('users', 'users.id', 'standardRuns.createdBy')
-      .select(['standardRuns.id', 'standardRuns.peaks', 'standardRuns.createdAt', 'files.originalName', 'files.sha256', 'files.byteSize', 'users.name as uploadedBy'])
-      .where('standardRuns.substrateId', '=', row.id).orderBy('standardRuns.createdAt', 'desc').orderBy('standardRuns.id', 'desc').execute(),
+      .select(['standardRuns.id', 'standardRuns.peaks', 'standardRuns.createdAt', 'files.originalName', 'files.sha256', 'files.byteSize',
+        'users.name as uploadedBy'])
+      .where('standardRuns.substrateId', '=', row.id).orderBy('standardRuns.createdAt', 'desc').orderBy('standardRuns.id', 'desc')
+      .execute(),
     libraryUsage('substrates', [row.id]),
   ])
   const [nameOf, references] = await Promise.all([substrateProductNamer(db, row.id), substrateReferenceViews(row.id)])
-  const [products, depictionSvg] = await Promise.all([libraryProducts(row.smiles, nameOf), substrateDepiction(row.smiles, { idPrefix: `substrate-${row.id}` })])
+  const [products,
+    depictionSvg] = await Promise.all([libraryProducts(row.smiles, nameOf),
+      substrateDepiction(row.smiles, { idPrefix: `substrate-${row.id}` })])
   return {
     ...toSubstrateListItem(row, me, { windowCount: windows.length, usedBy: usage.get(row.id) ?? 0 }),
     notes: row.notes,

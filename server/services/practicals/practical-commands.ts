@@ -47,13 +47,15 @@ export async function createPractical(db: Kysely<Database>, actor: Actor, me: { 
   return db.transaction().execute(async (trx) => {
     const row = await trx.insertInto('practicals').values({ courseId, ...input }).returning('id').executeTakeFirstOrThrow()
     await replacePracticalItems(trx, row.id, items)
-    await recordAudit(trx, actor, { action: 'practical.create', entity: 'practical', entityId: row.id, after: { courseId, ...input, items } })
+    await recordAudit(trx, actor,
+      { action: 'practical.create', entity: 'practical', entityId: row.id, after: { courseId, ...input, items } })
     return row.id
   })
 }
 
 /** Changes the practical's fields; a new substrate or method rewrites the scale (itemsAfterLibraryChange). */
-export async function updatePractical(db: Kysely<Database>, actor: Actor, me: { id: number }, practical: PracticalRow, input: PracticalPatch) {
+export async function updatePractical(db: Kysely<Database>, actor: Actor, me: { id: number }, practical: PracticalRow,
+  input: PracticalPatch) {
   const id = practical.id
   const change = {
     substrate: input.substrateId !== undefined && input.substrateId !== practical.substrateId,
@@ -94,14 +96,16 @@ export async function deletePractical(db: Kysely<Database>, actor: Actor, practi
   if (practical.resultsReleasedAt) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has released results; it can no longer be deleted' })
   }
-  const inUse = () => createError({ statusCode: 409, statusMessage: 'Students have uploaded results to this practical; it can no longer be deleted' })
+  const inUse = () => createError({ statusCode: 409,
+    statusMessage: 'Students have uploaded results to this practical; it can no longer be deleted' })
   const submitted = await db.selectFrom('submissions').select('id').where('practicalId', '=', id).limit(1).executeTakeFirst()
   if (submitted) throw inUse()
   await db.transaction().execute(async (trx) => {
     const sessions = await trx.selectFrom('practicalSessions').selectAll().where('practicalId', '=', id).execute()
     const items = await trx.selectFrom('practicalItems').selectAll().where('practicalId', '=', id).orderBy('position').execute()
     await trx.deleteFrom('practicals').where('id', '=', id).execute()
-    await recordAudit(trx, actor, { action: 'practical.delete', entity: 'practical', entityId: id, before: { ...practical, sessions, items } })
+    await recordAudit(trx, actor,
+      { action: 'practical.delete', entity: 'practical', entityId: id, before: { ...practical, sessions, items } })
   }).catch((error) => {
     // An upload that landed after the check: the foreign key refuses the delete.
     if ((error as { code?: string }).code === '23503') throw inUse()

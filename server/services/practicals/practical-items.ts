@@ -27,14 +27,16 @@ export async function requireLibraryChoice(db: Db, me: { id: number }, choice: {
 }
 
 export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reagent'>): ItemSpec[] {
-  return defaultItems({ name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density }, method.reagent)
+  return defaultItems({ name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density },
+    method.reagent)
 }
 
 /**
  * Items as they will be stored: a SMILES must parse (it is stored as typed), and a missing
  * molar mass comes from it (IUPAC standard atomic weights via openchemlib, in the engine worker).
  */
-export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null, density: number | null }>): Promise<ItemSpec[]> {
+export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null,
+  density: number | null }>): Promise<ItemSpec[]> {
   const forms = await reagentForms(items.flatMap((item) => (item.smiles ? [item.smiles] : [])))
   let next = 0
   return items.map((item, i) => {
@@ -44,7 +46,8 @@ export async function checkedItems(items: Array<ItemInput & { smiles: string | n
       if (!form) invalid([{ field: `items.${i}.smiles`, message: 'Not a readable SMILES' }])
       molarMass ??= Number(form.molarMass.toFixed(3))
     }
-    return { role: item.role, name: item.name, smiles: item.smiles, molarMass, density: item.density, basis: item.basis, amount: item.amount }
+    return { role: item.role, name: item.name, smiles: item.smiles, molarMass, density: item.density, basis: item.basis,
+      amount: item.amount }
   })
 }
 
@@ -53,7 +56,8 @@ export async function checkedItems(items: Array<ItemInput & { smiles: string | n
  * across the edit, matched by role and name, so an instructor's change does not undo it.
  */
 export async function replacePracticalItems(trx: Transaction<Database>, practicalId: number, items: ItemSpec[]) {
-  const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'reagentId', 'reagentGramsPerMl']).where('practicalId', '=', practicalId).execute()
+  const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'reagentId', 'reagentGramsPerMl'])
+    .where('practicalId', '=', practicalId).execute()
   const key = (i: { role: string, name: string }) => `${i.role}|${i.name.trim().toLowerCase()}`
   const links = new Map(before.filter((b) => b.reagentId !== null).map((b) => [key(b), b]))
   await trx.deleteFrom('practicalItems').where('practicalId', '=', practicalId).execute()

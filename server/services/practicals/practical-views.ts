@@ -1,7 +1,8 @@
 import type { Method, Substrate } from '../../database/schema'
 import type { PracticalScope } from '../../utils/access'
 import {
-  PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView, type SessionView,
+  PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView,
+    type SessionView,
   type WindowView,
 } from '#shared/types/practical'
 import { computeQuantities, expectedProducts, hazardsForReagent } from '#shared/utils/procedure'
@@ -47,14 +48,16 @@ export async function practicalSessionViews(practicalIds: number[], sectionIds: 
 
 export async function practicalItemViews(practicalId: number): Promise<ItemView[]> {
   const rows = await useDb().selectFrom('practicalItems').selectAll().where('practicalId', '=', practicalId).orderBy('position').execute()
-  return rows.map((r) => ({ id: r.id, position: r.position, role: r.role, name: r.name, smiles: r.smiles, molarMass: r.molarMass, density: r.density, basis: r.basis, amount: r.amount }))
+  return rows.map((r) => ({ id: r.id, position: r.position, role: r.role, name: r.name, smiles: r.smiles, molarMass: r.molarMass,
+    density: r.density, basis: r.basis, amount: r.amount }))
 }
 
 /**
  * A substrate can carry windows for both its chloro and bromo products; a practical reads only
  * those of its method's halogen.
  */
-export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[], referenceWindows: ReferenceWindowView[] }> {
+export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[],
+  referenceWindows: ReferenceWindowView[] }> {
   const rows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).orderBy('rtMin').execute()
   const products = new Set((await substrateAnalysis(substrate.smiles, halogen)).products.map((p) => p.smiles))
   return {
@@ -82,7 +85,8 @@ export async function practicalDetail(scope: PracticalScope): Promise<PracticalD
   return {
     id: practical.id,
     title: practical.title,
-    substrate: { name: substrate.name, smiles: substrate.smiles, id: substrate.id, molarMass: substrate.molarMass, density: substrate.density },
+    substrate: { name: substrate.name, smiles: substrate.smiles, id: substrate.id, molarMass: substrate.molarMass,
+      density: substrate.density },
     method: method.name,
     windows,
     dueAt: dueAtFor(scope, sessions),

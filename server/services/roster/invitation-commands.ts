@@ -43,7 +43,8 @@ export async function resendInvitation(db: Db, actor: Actor, me: { id: number, n
  * Spends an open invitation and sets the password (already hashed). A second use, even at the
  * same moment, gets 410; the person's other open links die with it. Returns the account.
  */
-export async function acceptInvitation(db: Db, actor: Actor, token: string, invitation: { invitationId: number, userId: number }, passwordHash: string) {
+export async function acceptInvitation(db: Db, actor: Actor, token: string, invitation: { invitationId: number, userId: number },
+  passwordHash: string) {
   return db.transaction().execute(async (trx) => {
     const now = new Date()
     const spent = await trx.updateTable('invitations').set({ usedAt: now })
@@ -54,7 +55,8 @@ export async function acceptInvitation(db: Db, actor: Actor, token: string, invi
       .where('userId', '=', invitation.userId).where('usedAt', 'is', null).where('expiresAt', '>', now).execute()
     const row = await trx.updateTable('users').set({ passwordHash, updatedAt: now }).where('id', '=', invitation.userId)
       .returning(['id', 'email', 'name', 'role', 'sessionVersion']).executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, { action: 'invitation.accept', entity: 'user', entityId: row.id, after: { invitationId: invitation.invitationId } })
+    await recordAudit(trx, actor,
+      { action: 'invitation.accept', entity: 'user', entityId: row.id, after: { invitationId: invitation.invitationId } })
     return row
   })
 }

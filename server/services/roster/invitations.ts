@@ -45,6 +45,8 @@ export interface InvitationMail {
   appUrl: string
 }
 
+const WHAT_YOU_SEE = 'where you will see your lab section, hood station, procedure cards and results.'
+
 /** Plain text and HTML; names are escaped in the HTML, the link is ours. */
 export async function queueInvitationMail(db: Db, mail: InvitationMail) {
   const link = `${mail.appUrl.replace(/\/$/, '')}/invite/${mail.invitation.token}`
@@ -53,7 +55,7 @@ export async function queueInvitationMail(db: Db, mail: InvitationMail) {
   const text = [
     `Hello ${mail.to.name},`,
     '',
-    `${mail.invitedBy} added you to ${mail.courseLabel} in Halocline, where you will see your lab section, hood station, procedure cards and results.`,
+    `${mail.invitedBy} added you to ${mail.courseLabel} in Halocline, ${WHAT_YOU_SEE}`,
     '',
     'Choose your password here:',
     link,
@@ -63,7 +65,7 @@ export async function queueInvitationMail(db: Db, mail: InvitationMail) {
   ].join('\n')
   const html = [
     `<p>Hello ${escapeHtml(mail.to.name)},</p>`,
-    `<p>${escapeHtml(mail.invitedBy)} added you to ${escapeHtml(mail.courseLabel)} in Halocline, where you will see your lab section, hood station, procedure cards and results.</p>`,
+    `<p>${escapeHtml(mail.invitedBy)} added you to ${escapeHtml(mail.courseLabel)} in Halocline, ${WHAT_YOU_SEE}</p>`,
     `<p><a href="${escapeHtml(link)}">Choose your password</a></p>`,
     `<p>The link works once and until ${escapeHtml(until)}. If it has expired, ask your instructor for a new one.</p>`,
   ].join('\n')
@@ -85,17 +87,20 @@ export type InvitationLookup =
 
 export async function findInvitation(db: Db, token: string): Promise<InvitationLookup> {
   const row = await db.selectFrom('invitations').innerJoin('users', 'users.id', 'invitations.userId')
-    .select(['invitations.id', 'invitations.userId', 'invitations.expiresAt', 'invitations.usedAt', 'users.name', 'users.email', 'users.disabledAt'])
+    .select(['invitations.id', 'invitations.userId', 'invitations.expiresAt', 'invitations.usedAt', 'users.name', 'users.email',
+      'users.disabledAt'])
     .where('invitations.tokenHash', '=', hashInvitationToken(token)).executeTakeFirst()
   if (!row) return { status: 'missing' }
   if (row.usedAt) return { status: 'used' }
   if (row.expiresAt.getTime() <= Date.now()) return { status: 'expired' }
-  return { status: 'open', invitationId: row.id, userId: row.userId, name: row.name, email: row.email, expiresAt: row.expiresAt, disabled: row.disabledAt !== null }
+  return { status: 'open', invitationId: row.id, userId: row.userId, name: row.name, email: row.email, expiresAt: row.expiresAt,
+    disabled: row.disabledAt !== null }
 }
 
 /** 404 for a link we never made, 410 for one that has been used or has expired. */
 export function invitationGone(status: 'used' | 'expired' | 'missing'): never {
-  if (status === 'missing') throw createError({ statusCode: 404, statusMessage: 'This invitation link is not known', data: { reason: status } })
+  if (status === 'missing') throw createError({ statusCode: 404, statusMessage: 'This invitation link is not known',
+    data: { reason: status } })
   throw createError({
     statusCode: 410,
     statusMessage: status === 'used' ? 'This invitation has already been used' : 'This invitation has expired',
@@ -106,7 +111,8 @@ export function invitationGone(status: 'used' | 'expired' | 'missing'): never {
 export type InvitationStateRow = { passwordSet: boolean, lastExpiresAt: Date | null, lastUsedAt: Date | null }
 
 /** accepted: a password is set; invited: an open link; expired: the latest link ran out. */
-export function invitationStateOf(row: InvitationStateRow): { state: 'accepted' | 'invited' | 'expired' | 'none', expiresAt: string | null } {
+export function invitationStateOf(row: InvitationStateRow): { state: 'accepted' | 'invited' | 'expired' | 'none',
+  expiresAt: string | null } {
   if (row.passwordSet) return { state: 'accepted', expiresAt: null }
   if (!row.lastExpiresAt) return { state: 'none', expiresAt: null }
   if (!row.lastUsedAt && row.lastExpiresAt.getTime() > Date.now()) return { state: 'invited', expiresAt: row.lastExpiresAt.toISOString() }

@@ -5,7 +5,8 @@ import { recordAudit, type Actor } from '../../utils/audit'
 import { storeFile, type MultipartUpload } from '../../utils/files'
 import { invalid } from '../../utils/validation'
 import type { EnrollmentAdded, RosterImportResult, SectionRosterView } from '#shared/types/roster'
-import { planRosterImport, refuseOverCapacity, withRosterRace, writeRosterRows, inviteToCourse, type RosterWriteContext } from './roster-import'
+import { planRosterImport, refuseOverCapacity, withRosterRace, writeRosterRows, inviteToCourse,
+  type RosterWriteContext } from './roster-import'
 import {
   loadSectionRoster, rosterActiveCount, rosterActiveStudents, rosterCapacityFor, rosterPlaceStudent, rosterStationPlaces,
   type EnrollmentInScope,
@@ -55,8 +56,10 @@ export interface EnrollmentInput { email: string, name: string, confirmConflicts
 /** One student into one section: an existing student account is reused, a new person is invited. */
 export async function addEnrollment(db: Db, actor: Actor, ctx: RosterWriteContext, section: Section, input: EnrollmentInput) {
   return withRosterRace(() => db.transaction().execute(async (trx): Promise<EnrollmentAdded> => {
-    const user = await trx.selectFrom('users').select(['id', 'name', 'role', 'passwordHash']).where('email', '=', input.email).executeTakeFirst()
-    if (user && user.role !== 'student') invalid([{ field: 'email', message: 'This e-mail belongs to a staff account, not a student' }], 422)
+    const user = await trx.selectFrom('users').select(['id', 'name', 'role', 'passwordHash']).where('email', '=', input.email)
+      .executeTakeFirst()
+    if (user && user.role !== 'student') invalid([{ field: 'email', message: 'This e-mail belongs to a staff account, not a student' }],
+      422)
     const current = user && await trx.selectFrom('enrollments').innerJoin('sections', 'sections.id', 'enrollments.sectionId')
       .select(['enrollments.id', 'sections.code']).where('enrollments.userId', '=', user.id)
       .where('enrollments.courseId', '=', ctx.course.id).where('enrollments.status', '=', 'active').executeTakeFirst()
@@ -66,7 +69,8 @@ export async function addEnrollment(db: Db, actor: Actor, ctx: RosterWriteContex
     }
     refuseOverCapacity(rosterCapacityFor(section, (await rosterActiveCount(trx, section.id)) + 1), input.confirmConflicts)
 
-    const userId = user?.id ?? (await trx.insertInto('users').values({ email: input.email, name: input.name, role: 'student', passwordHash: null })
+    const userId = user?.id ?? (await trx.insertInto('users')
+      .values({ email: input.email, name: input.name, role: 'student', passwordHash: null })
       .returning('id').executeTakeFirstOrThrow()).id
     const enrollment = await trx.insertInto('enrollments').values({ courseId: ctx.course.id, sectionId: section.id, userId })
       .returning('id').executeTakeFirstOrThrow()
@@ -109,7 +113,8 @@ export async function placeEnrollment(db: Db, actor: Actor, e: EnrollmentInScope
     if (!staying) {
       refuseOverCapacity(rosterCapacityFor(target, (await rosterActiveCount(trx, target.id)) + 1), input.confirmConflicts)
       await trx.updateTable('enrollments').set({ sectionId: target.id, station: null, seat: null }).where('id', '=', e.id).execute()
-      if (station !== null) swapped = await rosterPlaceStudent(trx, { ...e, sectionId: target.id, station: null, seat: null }, station, seat)
+      if (station !== null) swapped = await rosterPlaceStudent(trx, { ...e, sectionId: target.id, station: null, seat: null }, station,
+        seat)
     } else {
       swapped = await rosterPlaceStudent(trx, e, station, seat)
     }
@@ -147,7 +152,8 @@ export async function assignStations(db: Db, actor: Actor, section: Section) {
     const places = rosterStationPlaces(students.length, section)
     if (!places) {
       const seats = section.hoodStations * section.studentsPerStation
-      throw createError({ statusCode: 409, statusMessage: `${section.code} has ${students.length} students but ${seats} places at its hood stations` })
+      throw createError({ statusCode: 409,
+        statusMessage: `${section.code} has ${students.length} students but ${seats} places at its hood stations` })
     }
     // Lift everyone first: the seat index allows one student per seat at every moment.
     await trx.updateTable('enrollments').set({ station: null, seat: null })

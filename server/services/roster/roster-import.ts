@@ -99,7 +99,8 @@ export interface RosterWriteContext {
 export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWriteContext, rows: CheckedRosterRow[]) {
   const fresh = rows.filter((r) => r.outcome === 'new')
   const created = fresh.length
-    ? await trx.insertInto('users').values(fresh.map((r) => ({ email: r.email, name: r.name, role: 'student' as const, passwordHash: null })))
+    ? await trx.insertInto('users')
+      .values(fresh.map((r) => ({ email: r.email, name: r.name, role: 'student' as const, passwordHash: null })))
       .returning(['id', 'email']).execute()
     : []
   const idOf = new Map(created.map((u) => [u.email, u.id]))
@@ -131,7 +132,8 @@ async function uninvitedAccounts(db: Db, userIds: number[]) {
   return db.selectFrom('users').select(['id as userId', 'email', 'name'])
     .where('id', 'in', userIds).where('passwordHash', 'is', null)
     .where((eb) => eb.not(eb.exists(eb.selectFrom('invitations').select('invitations.id')
-      .whereRef('invitations.userId', '=', 'users.id').where('invitations.usedAt', 'is', null).where('invitations.expiresAt', '>', new Date()))))
+      .whereRef('invitations.userId', '=', 'users.id').where('invitations.usedAt', 'is', null)
+      .where('invitations.expiresAt', '>', new Date()))))
     .execute()
 }
 

@@ -100,7 +100,8 @@ export async function rosterActiveStudents(db: Db, sectionId: number) {
 }
 
 export interface EnrollmentInScope {
-  enrollment: { id: number, courseId: number, sectionId: number, userId: number, status: 'active' | 'withdrawn', station: number | null, seat: number | null }
+  enrollment: { id: number, courseId: number, sectionId: number, userId: number, status: 'active' | 'withdrawn', station: number | null,
+    seat: number | null }
   scope: SectionScope
 }
 
@@ -118,7 +119,8 @@ export async function requireEnrollmentAccess(event: H3Event, id: number, mode: 
  * Puts the student on a station and seat. Whoever sat there takes the student's old place
  * (or none): the seat index allows one student per seat, so the other is lifted first.
  */
-export async function rosterPlaceStudent(trx: Transaction<Database>, e: EnrollmentInScope['enrollment'], station: number | null, seat: number | null) {
+export async function rosterPlaceStudent(trx: Transaction<Database>, e: EnrollmentInScope['enrollment'], station: number | null,
+  seat: number | null) {
   const occupant = station === null
     ? undefined
     : await trx.selectFrom('enrollments').select(['id']).where('sectionId', '=', e.sectionId).where('status', '=', 'active')

@@ -35,7 +35,8 @@ async function resetCalendarToken(trx: Transaction<Database>, userId: number, se
   const token = calendarTokenOf(seed, secret)
   const old = await trx.selectFrom('calendarFeeds').select('tokenHash').where('userId', '=', userId).forUpdate().executeTakeFirst()
   if (old) {
-    await trx.insertInto('calendarFeedRevocations').values({ tokenHash: old.tokenHash, userId }).onConflict((oc) => oc.doNothing()).execute()
+    await trx.insertInto('calendarFeedRevocations').values({ tokenHash: old.tokenHash, userId }).onConflict((oc) => oc.doNothing())
+      .execute()
   }
   await trx.insertInto('calendarFeeds').values({ userId, tokenHash: hashCalendarToken(token), tokenSeed: seed })
     .onConflict((oc) => oc.column('userId').doUpdateSet({ tokenHash: hashCalendarToken(token), tokenSeed: seed })).execute()
@@ -95,7 +96,8 @@ function feedSections(db: Kysely<Database>, user: { id: number, role: Role }) {
   switch (user.role) {
     case 'student':
       query = query.where((eb) => eb.exists(eb.selectFrom('enrollments').select('enrollments.id')
-        .whereRef('enrollments.sectionId', '=', 'sections.id').where('enrollments.userId', '=', user.id).where('enrollments.status', '=', 'active')))
+        .whereRef('enrollments.sectionId', '=', 'sections.id').where('enrollments.userId', '=', user.id)
+        .where('enrollments.status', '=', 'active')))
       break
     case 'ta':
       query = query.where((eb) => eb.exists(eb.selectFrom('sectionTas').select('sectionTas.userId')
@@ -121,14 +123,17 @@ export async function calendarFeed(db: Kysely<Database>, user: { id: number, nam
   const sections = await feedSections(db, user)
   const sessions = sections.length
     ? await db.selectFrom('practicalSessions').innerJoin('practicals', 'practicals.id', 'practicalSessions.practicalId')
-      .select(['practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate', 'practicalSessions.dueAt'])
+      .select(['practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate',
+        'practicalSessions.dueAt'])
       .where('practicalSessions.sectionId', 'in', sections.map((s) => s.id)).orderBy('practicals.id').execute()
     : []
   const byMeeting = new Map<string, typeof sessions>()
-  for (const s of sessions) byMeeting.set(`${s.sectionId}|${s.meetingDate}`, [...(byMeeting.get(`${s.sectionId}|${s.meetingDate}`) ?? []), s])
+  for (const s of sessions) byMeeting.set(`${s.sectionId}|${s.meetingDate}`,
+    [...(byMeeting.get(`${s.sectionId}|${s.meetingDate}`) ?? []), s])
 
   const base = appUrl.replace(/\/$/, '')
-  const calendar = ical({ name: `Halocline lab meetings: ${user.name}`, prodId: { company: 'Halocline', product: 'lab-meetings', language: 'EN' } })
+  const calendar = ical({ name: `Halocline lab meetings: ${user.name}`,
+    prodId: { company: 'Halocline', product: 'lab-meetings', language: 'EN' } })
   // Start and end are UTC instants; the course's zone is named for programs that show it.
   const zones = [...new Set(sections.map((s) => s.timezone))]
   if (zones.length === 1) calendar.x('X-WR-TIMEZONE', zones[0]!)
@@ -140,7 +145,10 @@ export async function calendarFeed(db: Kysely<Database>, user: { id: number, nam
       const description = [
         `${section.courseCode} ${section.courseTitle}, section ${section.code}, ${section.room}.`,
         `${localTime(meeting.start, section.timezone)}–${localTime(meeting.end, section.timezone)} ${section.timezone} time.`,
-        ...practicals.map((p) => `Practical: ${p.title}. Results due ${localDateTime(p.dueAt.toISOString(), section.timezone)} (${section.timezone}). ${base}/practicals/${p.id}`),
+        ...practicals.map((p) => {
+          const due = `${localDateTime(p.dueAt.toISOString(), section.timezone)} (${section.timezone})`
+          return `Practical: ${p.title}. Results due ${due}. ${base}/practicals/${p.id}`
+        }),
       ].join('\n')
       calendar.createEvent({
         id: `meeting-${section.id}-${meeting.date}@halocline`,

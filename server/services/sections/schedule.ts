@@ -10,9 +10,11 @@ export async function scheduleEntries(me: SessionUser, from: string, to: string)
   const courseIds = await visibleCourseIds(me)
   if (!courseIds.length) return []
   let sectionQuery = sectionRows().where('sections.courseId', 'in', courseIds)
-  if (me.role === 'ta') sectionQuery = sectionQuery.where('sections.id', 'in', db.selectFrom('sectionTas').select('sectionId').where('userId', '=', me.id))
+  if (me.role === 'ta') sectionQuery = sectionQuery.where('sections.id', 'in', db.selectFrom('sectionTas').select('sectionId')
+    .where('userId', '=', me.id))
   if (me.role === 'student') {
-    sectionQuery = sectionQuery.where('sections.id', 'in', db.selectFrom('enrollments').select('sectionId').where('userId', '=', me.id).where('status', '=', 'active'))
+    sectionQuery = sectionQuery.where('sections.id', 'in', db.selectFrom('enrollments').select('sectionId').where('userId', '=', me.id)
+      .where('status', '=', 'active'))
   }
   const sections = await sectionQuery.execute()
   if (!sections.length) return []
@@ -21,7 +23,8 @@ export async function scheduleEntries(me: SessionUser, from: string, to: string)
     .where('practicalSessions.sectionId', 'in', sections.map((s) => s.id))
     .where('practicalSessions.meetingDate', '>=', from).where('practicalSessions.meetingDate', '<=', to).execute()
   const taIds = [...new Set(sections.flatMap((s) => s.taIds))]
-  const taNames = new Map((taIds.length ? await db.selectFrom('users').select(['id', 'name']).where('id', 'in', taIds).execute() : []).map((u) => [u.id, u.name]))
+  const taNames = new Map((taIds.length ? await db.selectFrom('users').select(['id', 'name']).where('id', 'in', taIds).execute() : [])
+    .map((u) => [u.id, u.name]))
 
   const entries: ScheduleEntry[] = []
   for (const s of sections) {

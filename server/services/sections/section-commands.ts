@@ -30,7 +30,8 @@ export async function createSection(db: Db, actor: Actor, course: CourseRef, inp
   await refuseTakenCode(db, course.id, input.code)
   const conflicts = await refuseUnconfirmedConflicts(db, candidateRow(0, course, input, 0), input.confirmConflicts)
   const sectionId = await db.transaction().execute(async (trx) => {
-    const row = await trx.insertInto('sections').values({ courseId: course.id, ...sectionValues(input) }).returning('id').executeTakeFirstOrThrow()
+    const row = await trx.insertInto('sections').values({ courseId: course.id, ...sectionValues(input) }).returning('id')
+      .executeTakeFirstOrThrow()
     await saveSectionTas(trx, row.id, input.taIds)
     await recordAudit(trx, actor, {
       action: 'section.create', entity: 'section', entityId: row.id,

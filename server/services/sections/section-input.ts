@@ -12,12 +12,14 @@ export type SectionInput = z.output<typeof sectionInputSchema>
 /** TAs named in a section form must be TA accounts; 400 naming the field otherwise. */
 export async function checkTaIds(db: Kysely<Database>, taIds: number[]) {
   if (!taIds.length) return
-  const rows = await db.selectFrom('users').select('id').where('id', 'in', taIds).where('role', '=', 'ta').where('disabledAt', 'is', null).execute()
+  const rows = await db.selectFrom('users').select('id').where('id', 'in', taIds).where('role', '=', 'ta').where('disabledAt', 'is', null)
+    .execute()
   if (rows.length !== new Set(taIds).size) invalid([{ field: 'taIds', message: 'Pick teaching assistants from the list' }])
 }
 
 /** The row a save would produce, for the conflict check before anything is written. */
-export function candidateRow(id: number, course: { id: number, code: string, timezone: string }, input: SectionInput, enrolled: number): SectionRow {
+export function candidateRow(id: number, course: { id: number, code: string, timezone: string }, input: SectionInput,
+  enrolled: number): SectionRow {
   return {
     id,
     courseId: course.id,

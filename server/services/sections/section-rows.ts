@@ -20,7 +20,8 @@ export function sectionRows(db: Kysely<Database> | Transaction<Database> = useDb
     .select([
       'courses.code as courseCode',
       'courses.timezone',
-      sql<number[]>`coalesce((select array_agg(st.user_id order by st.user_id) from section_tas st where st.section_id = sections.id), '{}')`.as('taIds'),
+      sql<number[]>`coalesce((select array_agg(st.user_id order by st.user_id) from section_tas st
+        where st.section_id = sections.id), '{}')`.as('taIds'),
       sql<number>`(select count(*)::int from enrollments e where e.section_id = sections.id and e.status = 'active')`.as('enrolled'),
     ])
     .orderBy('sections.weekday')
@@ -28,7 +29,8 @@ export function sectionRows(db: Kysely<Database> | Transaction<Database> = useDb
     .orderBy('sections.code')
 }
 
-export function meetingsOf(row: Pick<SectionRow, 'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates' | 'timezone'>) {
+export function meetingsOf(row: Pick<SectionRow,
+  'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates' | 'timezone'>) {
   return sectionMeetings({
     weekday: row.weekday,
     startTime: row.startTime,

@@ -45,8 +45,10 @@ describe('updateSubstrate', () => {
   it('refuses a new structure while a practical uses the substrate, changing nothing', async () => {
     const { substrate, actor, me, course } = await ownButane()
     const method = await sharedMethod('cl2-light')
-    await createPractical(testDb(), actor, me, course.id, { title: 'Uses it', substrateId: substrate.id, methodId: method.id, workUnit: 'pair', notes: '' })
-    await expect(updateSubstrate(testDb(), actor, substrate, { smiles: 'CC(C)C' }, identifyIsobutane)).rejects.toMatchObject({ statusCode: 409 })
+    await createPractical(testDb(), actor, me, course.id,
+      { title: 'Uses it', substrateId: substrate.id, methodId: method.id, workUnit: 'pair', notes: '' })
+    await expect(updateSubstrate(testDb(), actor, substrate, { smiles: 'CC(C)C' },
+      identifyIsobutane)).rejects.toMatchObject({ statusCode: 409 })
     expect(await windowsOf(substrate.id)).toHaveLength(3)
     const stored = await testDb().selectFrom('substrates').select('smiles').where('id', '=', substrate.id).executeTakeFirstOrThrow()
     expect(stored.smiles).toBe('CCCC')

@@ -57,7 +57,8 @@ describe('updatePractical: the item-merge rule', () => {
     await testDb().updateTable('practicalItems').set({ amount: 25 }).where('practicalId', '=', id).where('role', '=', 'substrate').execute()
     const position = (await itemsOf(id)).length
     await testDb().insertInto('practicalItems')
-      .values({ practicalId: id, position, role: 'solvent', name: 'dichloromethane', smiles: 'ClCCl', molarMass: 84.93, density: 1.33, basis: 'mL', amount: 5 })
+      .values({ practicalId: id, position, role: 'solvent', name: 'dichloromethane', smiles: 'ClCCl', molarMass: 84.93, density: 1.33,
+        basis: 'mL', amount: 5 })
       .execute()
     const sulfuryl = await sharedMethod('so2cl2-azo')
     await updatePractical(testDb(), actor, me, await practicalRow(id), { methodId: sulfuryl.id })
@@ -76,7 +77,8 @@ describe('updatePractical: the item-merge rule', () => {
 
   it('a new substrate takes over the substrate row but keeps its basis and amount', async () => {
     const { id, actor, me } = await newPractical()
-    await testDb().updateTable('practicalItems').set({ amount: 12.5 }).where('practicalId', '=', id).where('role', '=', 'substrate').execute()
+    await testDb().updateTable('practicalItems').set({ amount: 12.5 }).where('practicalId', '=', id).where('role', '=', 'substrate')
+      .execute()
     const reagentsBefore = (await itemsOf(id)).filter((i) => i.role !== 'substrate').map((i) => i.name)
     const methylpropane = await sharedSubstrate('2-methylpropane')
     await updatePractical(testDb(), actor, me, await practicalRow(id), { substrateId: methylpropane.id })

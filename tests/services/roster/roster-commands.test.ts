@@ -73,7 +73,8 @@ describe('placeEnrollment and withdrawEnrollment', () => {
     expect(bNow).toEqual({ station: 1, seat: 1 })
 
     // 2 students per station in sectionOf: seat 3 does not exist.
-    await expect(placeEnrollment(testDb(), actor, { ...ea!, station: 2, seat: 1 }, section, { station: 2, seat: 3, confirmConflicts: false }))
+    await expect(placeEnrollment(testDb(), actor, { ...ea!, station: 2, seat: 1 }, section,
+      { station: 2, seat: 3, confirmConflicts: false }))
       .rejects.toMatchObject({ statusCode: 422 })
     expect(await auditRows('enrollment.place', ea!.id)).toHaveLength(1)
 

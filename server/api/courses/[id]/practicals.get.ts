@@ -11,7 +11,8 @@ export default defineEventHandler(async (event): Promise<PracticalListItem[]> =>
   let query = useDb().selectFrom('practicals')
     .innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
     .innerJoin('methods', 'methods.id', 'practicals.methodId')
-    .select(['practicals.id', 'practicals.title', 'practicals.workUnit', 'substrates.name as substrateName', 'substrates.smiles as substrateSmiles',
+    .select(['practicals.id', 'practicals.title', 'practicals.workUnit', 'substrates.name as substrateName',
+      'substrates.smiles as substrateSmiles',
       'methods.name as method', 'methods.reagent as methodReagent'])
     .where('practicals.courseId', '=', id)
   if (scope.sectionIds) {

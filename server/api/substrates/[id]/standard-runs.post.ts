@@ -24,7 +24,8 @@ async function standardRunPeaksOf(fileBytes: Buffer, expectedMaxMinutes: number 
   try {
     return await runEngine('standardRunPeaks', { bytes, expectedMaxMinutes }, { field: 'file', transfer: [bytes.buffer] })
   } catch (error) {
-    if (error instanceof RunInputError) throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`, data: { errors: error.rows } })
+    if (error instanceof RunInputError) throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`,
+      data: { errors: error.rows } })
     throw asUploadFormatError(error)
   }
 }
