@@ -1,3 +1,4 @@
 // Courses: a course, its settings and its owners. Routes import from here.
 
 export { addCourseOwner, createCourse, updateCourse, updateCourseSettings } from './course-commands'
+export { courseDetail, courseList } from './course-views'

@@ -1,9 +1,8 @@
 import type { Method, Substrate } from '../../database/schema'
-import type { PracticalScope } from '../../utils/access'
+import type { CourseScope, PracticalScope } from '../../utils/access'
 import {
-  PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type ProcedureCardView, type ReferenceWindowView,
-    type SessionView,
-  type WindowView,
+  PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type PracticalListItem, type ProcedureCardView,
+  type ReferenceWindowView, type SessionView, type WindowView,
 } from '#shared/types/practical'
 import { computeQuantities, expectedProducts, hazardsForReagent } from '#shared/utils/procedure'
 import { useDb } from '../../utils/db'
@@ -149,4 +148,44 @@ export async function procedureCard(scope: PracticalScope): Promise<ProcedureCar
     planningNote: PLANNING_NOTE,
     depictionSvg,
   }
+}
+
+/**
+ * A course's practicals, first meeting first. TAs and students see only practicals that run in
+ * their sections, and only those sections' ids and dates; the section filter is part of the query.
+ */
+export async function coursePracticals(scope: Pick<CourseScope, 'course' | 'sectionIds'>): Promise<PracticalListItem[]> {
+  const id = scope.course.id
+  let query = useDb().selectFrom('practicals')
+    .innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
+    .innerJoin('methods', 'methods.id', 'practicals.methodId')
+    .select(['practicals.id', 'practicals.title', 'practicals.workUnit', 'substrates.name as substrateName',
+      'substrates.smiles as substrateSmiles', 'methods.name as method', 'methods.reagent as methodReagent'])
+    .where('practicals.courseId', '=', id)
+  if (scope.sectionIds) {
+    const sectionIds = scope.sectionIds
+    query = query.where((eb) => eb.exists(eb.selectFrom('practicalSessions').select('practicalSessions.id')
+      .whereRef('practicalSessions.practicalId', '=', 'practicals.id').where('practicalSessions.sectionId', 'in', sectionIds)))
+  }
+  const rows = await query.orderBy('practicals.id').execute()
+  const sessions = await practicalSessionViews(rows.map((r) => r.id), scope.sectionIds)
+  const firstMeeting = (practicalId: number) => sessions.get(practicalId)?.[0]?.meetingDate ?? '9999-12-31'
+  return rows
+    .map((r) => {
+      const mine = sessions.get(r.id) ?? []
+      return {
+        id: r.id,
+        title: r.title,
+        substrateSmiles: r.substrateSmiles,
+        method: r.method,
+        sectionIds: mine.map((s) => s.sectionId),
+        meetingDates: mine.map((s) => s.meetingDate),
+        substrateName: r.substrateName,
+        methodReagent: r.methodReagent,
+        workUnit: r.workUnit,
+        timezone: scope.course.timezone,
+        sessions: mine,
+      }
+    })
+    .sort((a, b) => firstMeeting(a.id).localeCompare(firstMeeting(b.id)) || a.id - b.id)
 }

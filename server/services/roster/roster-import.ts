@@ -5,7 +5,9 @@ import {
   checkRosterRows, mapRosterRecords, parseRosterCsv, rosterCapacityConflicts, rosterMappingProblems,
   RosterFileError, suggestRosterMapping, summarizeRosterRows, type CheckedRosterRow, type RosterAccount,
 } from '#shared/utils/roster-csv'
-import { rosterMappingSchema, type RosterConflictView, type RosterMapping, type RosterSummary } from '#shared/types/roster'
+import {
+  rosterMappingSchema, type RosterConflictView, type RosterImportHistoryItem, type RosterMapping, type RosterSummary,
+} from '#shared/types/roster'
 import { uploadAsText } from '../../utils/files'
 import { invalid } from '../../utils/validation'
 import { issueInvitation, queueInvitationMail } from './invitations'
@@ -166,4 +168,22 @@ export function refuseOverCapacity(conflicts: RosterConflictView[], confirmed: b
   if (conflicts.length && !confirmed) {
     throw createError({ statusCode: 409, statusMessage: conflicts[0]!.message, data: { conflicts } })
   }
+}
+
+/** The course's last 100 roster imports, newest first, with who uploaded which file. */
+export async function rosterImportHistory(db: Db, courseId: number): Promise<RosterImportHistoryItem[]> {
+  const rows = await db.selectFrom('rosterImports')
+    .innerJoin('files', 'files.id', 'rosterImports.fileId')
+    .leftJoin('users', 'users.id', 'rosterImports.createdBy')
+    .select(['rosterImports.id', 'rosterImports.createdAt', 'rosterImports.summary', 'files.originalName', 'users.name'])
+    .where('rosterImports.courseId', '=', courseId)
+    .orderBy('rosterImports.createdAt', 'desc').orderBy('rosterImports.id', 'desc')
+    .limit(100).execute()
+  return rows.map((r) => ({
+    id: r.id,
+    createdAt: r.createdAt.toISOString(),
+    by: r.name,
+    fileName: r.originalName,
+    summary: r.summary as unknown as RosterSummary,
+  }))
 }

@@ -1,0 +1,32 @@
+import type { CourseScope } from '../../utils/access'
+import { useDb } from '../../utils/db'
+import type { CourseDetail, CourseListItem } from '#shared/types/course'
+
+// Courses as the pages read them; the caller's scope comes from requireCourseAccess / visibleCourseIds.
+
+export async function courseList(ids: number[]): Promise<CourseListItem[]> {
+  if (!ids.length) return []
+  return useDb().selectFrom('courses').select(['id', 'code', 'title', 'term'])
+    .where('id', 'in', ids).orderBy('term', 'desc').orderBy('code').execute()
+}
+
+/** The course with its settings; students do not see the owners' list. */
+export async function courseDetail({ course, role }: Pick<CourseScope, 'course' | 'role'>): Promise<CourseDetail> {
+  const owners = await useDb().selectFrom('courseOwners').innerJoin('users', 'users.id', 'courseOwners.userId')
+    .select(['users.id', 'users.name', 'users.email']).where('courseOwners.courseId', '=', course.id).orderBy('users.name').execute()
+  return {
+    id: course.id,
+    code: course.code,
+    title: course.title,
+    term: course.term,
+    timezone: course.timezone,
+    outlierTest: course.outlierTest,
+    outlierAlpha: course.outlierAlpha === 0.1 ? 0.1 : 0.05,
+    zscoreLimit: course.zscoreLimit,
+    accuracyTolerancePercent: course.accuracyTolerancePercent,
+    releasePolicy: course.releasePolicy,
+    rubric: course.rubric,
+    owners: role === 'student' ? [] : owners,
+    role,
+  }
+}
