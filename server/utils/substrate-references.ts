@@ -2,6 +2,7 @@ import type { SessionUser } from '#shared/types/auth'
 import type { Substrate } from '../database/schema'
 import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput, type ReferenceView } from '#shared/types/library'
 import { messageExcerpt } from '#shared/utils/text-input'
+import { latestUnitVersions, storedMolePercents } from '../services/results'
 
 // Reference distributions of a substrate: what its product mixture really looks like with one
 // reagent family, read by the library page, written by its owner, and filled from the course's

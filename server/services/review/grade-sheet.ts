@@ -1,7 +1,10 @@
-import type { ReviewerScope } from './review-scope'
+import type { ReviewerScope } from './scope'
 import { KEY_FACTOR_LABELS, type QueueRow } from '#shared/types/review'
 import { SUBMISSION_STATUS_LABELS } from '#shared/types/submission'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
+import { reviewSafeFileName } from './downloads'
+import { reviewQueueOf } from './queue'
+import { useDb } from '../../utils/db'
 
 // The grade sheet: one row per student in the caller's sections (partners each get their work
 // unit's row; a student with nothing uploaded gets an empty one), made safe for spreadsheets.
@@ -35,8 +38,7 @@ async function rosterWithoutWork(scope: ReviewerScope, seen: Set<number>): Promi
 }
 
 export async function buildGradeSheet(scope: ReviewerScope): Promise<{ fileName: string, csv: string }> {
-  const chemistry = await practicalChemistry(scope.practical)
-  const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
+  const { chemistry, rows } = await reviewQueueOf(scope)
   const grades = await acceptedScores(rows)
   const sheet: SheetRow[] = rows.flatMap((unit) => unit.unit.members.map((m) => ({ name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit })))
   sheet.push(...await rosterWithoutWork(scope, new Set(rows.flatMap((r) => r.unit.members.map((m) => m.id)))))

@@ -1,8 +1,11 @@
-import type { PracticalScope } from './access'
+import type { PracticalScope } from '../../utils/access'
 import type { CrossTermComparison, CrossTermRow, CrossTermStats } from '#shared/types/results'
 import { summarize } from '#shared/utils/statistics'
 import { chooseHeadline } from '#shared/utils/headline'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { latestUnitVersions } from './latest-versions'
+import { practicalChemistry } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 interface CrossTermResultRow {
   practicalId: number

@@ -1,5 +1,8 @@
 import type { ExpectationView } from '#shared/types/submission'
 import { practicalChemistryOf, type PracticalChemistry } from '#shared/utils/submission'
+import { substrateAnalysis } from '../../utils/chemistry'
+import { useDb } from '../../utils/db'
+import { substrateProductNamer, substrateReferenceFor } from '../../utils/substrate-extras'
 
 /**
  * A practical's products (named), windows, prediction, literature factors and what runs are

@@ -1,12 +1,21 @@
 import type { PracticalChemistry } from '#shared/utils/submission'
 import type { H3Event } from 'h3'
-import type { ReviewerScope } from './review-scope'
+import type { ReviewerScope } from './scope'
 import type { SessionUser } from '#shared/types/auth'
-import type { StoredFlag, SubmissionStatus } from '../database/schema'
-import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView } from '#shared/types/review'
+import type { StoredFlag, SubmissionStatus } from '../../database/schema'
+import type { z } from 'zod'
+import {
+  KEY_FACTOR_LABELS, type queueQuerySchema, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical,
+  type QueueResponse, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView,
+} from '#shared/types/review'
 import type { OutlierFinding } from '#shared/utils/outliers'
-import { stationOfUnitKey } from '../services/submissions/work-units'
+import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { classOutlierReport } from '../results/class-statistics'
+import { latestClassResults } from '../results/latest-versions'
+import { requireReviewerOf, reviewSectionIds } from './scope'
+import { practicalChemistry } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -94,6 +103,12 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
     })
   }
   return result
+}
+
+/** The practical's chemistry and its review queue, as the queue page, the grade sheet and bulk accept read them. */
+export async function reviewQueueOf(scope: ReviewerScope) {
+  const chemistry = await practicalChemistry(scope.practical)
+  return { chemistry, ...await buildReviewQueue(scope, chemistry.keyFactor) }
 }
 
 /** Every work unit's latest version in the caller's sections, flagged and sorted. */
@@ -184,8 +199,7 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
   const items: ReviewPracticalItem[] = []
   for (const { id } of candidates) {
     const scope = await requireReviewerOf(event, id)
-    const chemistry = await practicalChemistry(scope.practical)
-    const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
+    const { rows } = await reviewQueueOf(scope)
     items.push({
       id,
       title: scope.practical.title,
@@ -195,4 +209,35 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
     })
   }
   return items
+}
+
+type ParsedQueueQuery = z.output<typeof queueQuerySchema>
+
+/** A row passes the ?status= and ?flag= filters ("any": every run that needs attention). */
+function matchesQueueQuery(row: QueueRow, query: ParsedQueueQuery): boolean {
+  if (query.status && row.status !== query.status) return false
+  if (!query.flag) return true
+  return query.flag === 'any' ? row.attention > 0 : row.flags.some((f) => f.code === query.flag)
+}
+
+/** How many rows carry each flag code, for the filter's choices. */
+function flagCodeCounts(rows: QueueRow[]): QueueResponse['flagCodes'] {
+  const codes = new Map<string, number>()
+  for (const row of rows) for (const code of new Set(row.flags.map((f) => f.code))) codes.set(code, (codes.get(code) ?? 0) + 1)
+  return [...codes].map(([code, count]) => ({ code, count })).sort((a, b) => a.code.localeCompare(b.code))
+}
+
+/** The queue page of one practical: counts and flag codes over the chosen section, rows filtered. */
+export async function reviewQueueView(scope: ReviewerScope, query: ParsedQueueQuery): Promise<QueueResponse> {
+  const { chemistry, rows, outliers } = await reviewQueueOf(scope)
+  const inSection = query.section ? rows.filter((r) => r.section.id === query.section) : rows
+  return {
+    practical: queuePracticalOf(scope, chemistry),
+    role: scope.role,
+    sections: await reviewSectionsOf(scope),
+    rows: inSection.filter((r) => matchesQueueQuery(r, query)),
+    counts: countQueueRows(inSection),
+    flagCodes: flagCodeCounts(inSection),
+    outliers: outliers.run,
+  }
 }

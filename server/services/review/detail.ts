@@ -1,9 +1,15 @@
-import type { ReviewerScope } from './review-scope'
-import type { StoredFlag, Submission } from '../database/schema'
+import type { ReviewerScope } from './scope'
+import type { StoredFlag, Submission } from '../../database/schema'
 import type { PeakView, StoredResult } from '#shared/types/submission'
 import type { AccuracySuggestionView, ReviewFactorKey, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { buildReviewQueue, flagsWithOutlier, nextPendingAfter, queuePracticalOf, unitViewsOf } from './queue'
+import { reviewSectionIds } from './scope'
+import { diffVersions } from './version-diff'
+import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
+import { invalid } from '../../utils/validation'
 
 // Everything a reviewer looks at for one submission: the peaks and result, flags (with the
 // class outlier test), the three distributions, every version of the work unit and a diff,
@@ -62,28 +68,60 @@ export function accuracySuggestionFor(scope: ReviewerScope, observed: number | n
   return { tolerancePercent, observed, expected, comparedWith, deviationPercent, scores }
 }
 
-export async function buildSubmissionDetail(scope: ReviewerScope, submission: Submission, compareId?: number): Promise<SubmissionDetail> {
+type Chemistry = Awaited<ReturnType<typeof practicalChemistry>>
+
+/** Each product's share in this run beside the statistical, predicted and reference shares. */
+function detailDistribution(chemistry: Chemistry, result: StoredResult): SubmissionDetail['distribution'] {
+  return chemistry.products.map((p) => ({
+    smiles: p.smiles, label: p.label, name: p.name, carbonClass: p.carbonClass, hydrogens: p.hydrogens,
+    observed: result.molePercents.find((m) => m.smiles === p.smiles)?.percent ?? null,
+    statistical: chemistry.statistical.find((m) => m.smiles === p.smiles)?.percent ?? 0,
+    predicted: chemistry.predicted.find((m) => m.smiles === p.smiles)?.percent ?? 0,
+    reference: referenceShare(chemistry, p.smiles),
+  }))
+}
+
+/** The solvent and starting-material windows the trace is drawn with. */
+function referenceWindowsOf(chemistry: Chemistry): SubmissionDetail['referenceWindows'] {
+  const { solvent, startingMaterial } = chemistry
+  return [
+    ...(solvent ? [{ kind: 'solvent' as const, rtMin: solvent.rtMin, rtMax: solvent.rtMax }] : []),
+    ...(startingMaterial ? [{ kind: 'starting-material' as const, rtMin: startingMaterial.rtMin, rtMax: startingMaterial.rtMax }] : []),
+  ]
+}
+
+/** The substrate and method names, the section, and who uploaded and who excluded the run. */
+async function detailFacts(scope: ReviewerScope, submission: Submission) {
   const db = useDb()
-  const chemistry = await practicalChemistry(scope.practical)
-  const key = chemistry.keyFactor
-  const [versions, queue, units, names, section] = await Promise.all([
-    unitVersions(scope, submission),
-    buildReviewQueue(scope, key),
-    unitViewsOf([submission]),
-    db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId').innerJoin('methods', 'methods.id', 'practicals.methodId')
+  const [names, section, people] = await Promise.all([
+    db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
+      .innerJoin('methods', 'methods.id', 'practicals.methodId')
       .select(['substrates.name as substrateName', 'substrates.smiles', 'methods.name as methodName', 'methods.reagent'])
       .where('practicals.id', '=', scope.practical.id).executeTakeFirstOrThrow(),
     db.selectFrom('sections').select(['id', 'code']).where('id', '=', submission.sectionId).executeTakeFirstOrThrow(),
+    db.selectFrom('users').select(['id', 'name'])
+      .where('id', 'in', [submission.submittedBy, submission.excludedBy ?? submission.submittedBy]).execute(),
+  ])
+  const nameOf = (id: number | null) => people.find((p) => p.id === id)?.name ?? null
+  return { names, section, nameOf }
+}
+
+export async function buildSubmissionDetail(scope: ReviewerScope, submission: Submission, compareId?: number): Promise<SubmissionDetail> {
+  const chemistry = await practicalChemistry(scope.practical)
+  const key = chemistry.keyFactor
+  const [versions, queue, units, { names, section, nameOf }] = await Promise.all([
+    unitVersions(scope, submission),
+    buildReviewQueue(scope, key),
+    unitViewsOf([submission]),
+    detailFacts(scope, submission),
   ])
   const current = versions.find((v) => v.id === submission.id)!
   const labels = new Map(chemistry.products.map((p) => [p.smiles, p.label]))
   const result = submission.result as StoredResult
   const { flags, attention } = flagsWithOutlier(submission.flags as StoredFlag[], submission.id, queue.outliers, key)
   const latest = versions.at(-1)!
-  const people = await db.selectFrom('users').select(['id', 'name'])
-    .where('id', 'in', [submission.submittedBy, submission.excludedBy ?? submission.submittedBy]).execute()
-  const nameOf = (id: number | null) => people.find((p) => p.id === id)?.name ?? null
   const observed = keyFactorValue(submission, key)
+  const excludedAt = submission.excludedAt
   return {
     id: submission.id,
     version: submission.version,
@@ -108,18 +146,9 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     flags,
     attention,
     outliers: queue.outliers.run,
-    distribution: chemistry.products.map((p) => ({
-      smiles: p.smiles, label: p.label, name: p.name, carbonClass: p.carbonClass, hydrogens: p.hydrogens,
-      observed: result.molePercents.find((m) => m.smiles === p.smiles)?.percent ?? null,
-      statistical: chemistry.statistical.find((m) => m.smiles === p.smiles)?.percent ?? 0,
-      predicted: chemistry.predicted.find((m) => m.smiles === p.smiles)?.percent ?? 0,
-      reference: referenceShare(chemistry, p.smiles),
-    })),
+    distribution: detailDistribution(chemistry, result),
     windows: chemistry.windows.map((w) => ({ productSmiles: w.productSmiles, rtMin: w.rtMin, rtMax: w.rtMax })),
-    referenceWindows: [
-      ...(chemistry.solvent ? [{ kind: 'solvent' as const, rtMin: chemistry.solvent.rtMin, rtMax: chemistry.solvent.rtMax }] : []),
-      ...(chemistry.startingMaterial ? [{ kind: 'starting-material' as const, rtMin: chemistry.startingMaterial.rtMin, rtMax: chemistry.startingMaterial.rtMax }] : []),
-    ],
+    referenceWindows: referenceWindowsOf(chemistry),
     versions: versions.map((v) => ({
       id: v.id, version: v.version, submittedAt: v.createdAt.toISOString(), fileName: v.originalName, status: v.status,
       keyFactor: keyFactorValue(v, key), late: v.late, excluded: v.excludedAt !== null,
@@ -128,7 +157,7 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     reviews: await unitReviews(versions.map((v) => v.id)),
     rubric: scope.course.rubric,
     suggestion: accuracySuggestionFor(scope, observed, chemistry.expected.factors[key], chemistry.expected.description),
-    excluded: submission.excludedAt ? { at: submission.excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' } : null,
+    excluded: excludedAt ? { at: excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' } : null,
     nextPendingId: nextPendingAfter(queue.rows, submission.id),
     pendingCount: queue.rows.filter((r) => r.status === 'pending').length,
   }

@@ -1,5 +1,6 @@
 import { sql, type Kysely } from 'kysely'
-import type { Database, SubmissionStatus } from '../database/schema'
+import type { Database, SubmissionStatus } from '../../database/schema'
+import { useDb } from '../../utils/db'
 
 export interface ClassRow {
   submissionId: number

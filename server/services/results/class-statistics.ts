@@ -1,6 +1,7 @@
 import type { FactorStats } from '#shared/types/summary'
 import type { OutlierReport, OutlierSettings } from '#shared/utils/outliers'
-import { factorStatistics, outlierReport, type FactorStatsJob } from '../engines/statistics'
+import { factorStatistics, outlierReport, type FactorStatsJob } from '../../engines/statistics'
+import { runEngine } from '../../utils/engines'
 
 // Up to this many results the class figures take a few milliseconds and are computed inline;
 // beyond, in the engine worker (server/engines/statistics.ts says why).

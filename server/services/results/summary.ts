@@ -1,11 +1,15 @@
-import type { PracticalScope } from './access'
+import type { PracticalScope } from '../../utils/access'
 import type { FactorSet, PracticalSummary } from '#shared/types/summary'
 import type { FactorValue } from '#shared/utils/class-summary'
 import type { OutlierSettings } from '#shared/utils/outliers'
 import type { OutlierTestName } from '#shared/types/course'
-import type { ClassRow } from './class-results'
-import type { FactorStatsJob } from '../engines/statistics'
+import type { ClassRow } from './latest-versions'
+import type { FactorStatsJob } from '../../engines/statistics'
 import { keyFactorValue, type KeyFactor } from '#shared/utils/key-factor'
+import { classFactorStats } from './class-statistics'
+import { latestClassResults } from './latest-versions'
+import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 /** The class figures of each group of rows (the whole class, then each section), computed together. */
 async function factorSets(groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean): Promise<FactorSet[]> {

@@ -1,7 +1,7 @@
 // The section digest e-mails as small pure functions: one context in, subject, plain text,
 // HTML (every value escaped) and a CSV attachment out. The preview route and the send route
 // call the same function, so what the instructor previews is exactly what goes out.
-import type { DigestContext, DigestUnit, DigestVersion } from './digest-data'
+import type { DigestContext, DigestUnit, DigestVersion } from './data'
 import type { DigestMessage, DigestRecipient } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
 import { RESULTS_FACTOR_LABELS, RESULTS_STATISTIC_SYMBOLS as STATISTIC_SYMBOL } from '#shared/types/results'
@@ -10,6 +10,7 @@ import { SUBMISSION_STATUS_LABELS } from '#shared/types/submission'
 import { reviewFlagName } from '#shared/types/review'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
 import { formatArithmeticMean, formatHeadline, HEADLINE_LABELS } from '#shared/utils/headline'
+import { escapeHtml } from '../../utils/html'
 
 function digestNumber(value: number | null | undefined, digits = 2): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : 'n/a'

@@ -1,7 +1,11 @@
 import type { H3Event } from 'h3'
-import type { PracticalScope } from './access'
+import type { PracticalScope } from '../../utils/access'
 import type { Kysely } from 'kysely'
-import type { Database, Submission } from '../database/schema'
+import type { Database, Submission } from '../../database/schema'
+import { createError } from 'h3'
+import { requirePracticalAccess } from '../../utils/access'
+import { requireRole } from '../../utils/auth'
+import { useDb } from '../../utils/db'
 
 // Who reviews: the course's instructors (every section) and the TAs of the sections running a
 // practical (their sections only). The coordinator and students are refused outright (403):

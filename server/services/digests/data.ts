@@ -1,9 +1,14 @@
-import type { PracticalScope } from './access'
-import type { StoredFlag, SubmissionStatus } from '../database/schema'
+import type { PracticalScope } from '../../utils/access'
+import type { StoredFlag, SubmissionStatus } from '../../database/schema'
 import type { DigestRecipient, ResultsKeyFactor } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
-import { stationOfUnitKey, unitKeyOf } from '../services/submissions/work-units'
+import { stationOfUnitKey, unitKeyOf } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { createError } from 'h3'
+import { latestClassResults } from '../results/latest-versions'
+import { practicalSummary } from '../results/summary'
+import { practicalChemistry } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 
 export interface DigestPerson { id: number, name: string, email: string }
