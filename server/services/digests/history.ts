@@ -16,7 +16,10 @@ export async function digestHistory(scope: PracticalScope): Promise<DigestHistor
   const db = useDb()
   const digests = await db.selectFrom('digests').innerJoin('sections', 'sections.id', 'digests.sectionId')
     .leftJoin('users', 'users.id', 'digests.createdBy')
-    .select(['digests.id', 'digests.sectionId', 'sections.code', 'digests.createdAt', 'digests.scheduledAt', 'digests.recipientCount', 'users.name'])
+    .select([
+      'digests.id', 'digests.sectionId', 'sections.code', 'digests.createdAt', 'digests.scheduledAt', 'digests.recipientCount',
+      'users.name',
+    ])
     .where('digests.practicalId', '=', scope.practical.id)
     .where('digests.sectionId', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1])
     .orderBy('digests.createdAt', 'desc').orderBy('digests.id', 'desc').limit(200).execute()

@@ -82,7 +82,9 @@ function earlierDigest(trx: Db, actor: Actor, ctx: DigestContext, requestKey: st
 }
 
 /** One message per recipient, keyed 'digest:<digest id>:<user id>' so a digest never mails twice. */
-async function queueDigestMessages(trx: Db, actor: Actor, scope: PracticalScope, ctx: DigestContext, digestId: number, scheduled: Date | null) {
+async function queueDigestMessages(
+  trx: Db, actor: Actor, scope: PracticalScope, ctx: DigestContext, digestId: number, scheduled: Date | null,
+) {
   for (const recipient of ctx.recipients) {
     const message = composeDigestMessage(ctx, recipient)
     await queueMail(trx, {

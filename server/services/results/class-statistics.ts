@@ -14,6 +14,10 @@ export function classFactorStats(jobs: FactorStatsJob[]): Promise<FactorStats[]>
 }
 
 /** The course's outlier test over a class (shared/utils/outliers.ts). */
-export function classOutlierReport(values: Array<{ submissionId: number, value: number }>, settings: OutlierSettings): Promise<OutlierReport> {
-  return values.length <= INLINE_RESULTS ? Promise.resolve(outlierReport({ values, settings })) : runEngine('outlierReport', { values, settings })
+export function classOutlierReport(
+  values: Array<{ submissionId: number, value: number }>, settings: OutlierSettings,
+): Promise<OutlierReport> {
+  return values.length <= INLINE_RESULTS
+    ? Promise.resolve(outlierReport({ values, settings }))
+    : runEngine('outlierReport', { values, settings })
 }

@@ -12,7 +12,9 @@ import { practicalChemistry, referenceShare } from '../submissions/practical-che
 import { useDb } from '../../utils/db'
 
 /** The class figures of each group of rows (the whole class, then each section), computed together. */
-async function factorSets(groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean): Promise<FactorSet[]> {
+async function factorSets(
+  groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean,
+): Promise<FactorSet[]> {
   const keys = (['secondaryToPrimary', 'tertiaryToPrimary'] as const).filter((k) => has[k])
   const jobs: FactorStatsJob[] = groups.flatMap((rows) => {
     // A flagged run no reviewer has accepted yet is what "pulls the mean" in the headline.
@@ -46,7 +48,9 @@ function exclusionReasonFor(scope: PracticalScope, row: { sectionId: number, exc
  * excluded ones left out and listed. The whole class is summarised for everyone who may see
  * the practical; the by-section part holds only the caller's sections.
  */
-export async function practicalSummary(scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number }): Promise<PracticalSummary> {
+export async function practicalSummary(
+  scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number },
+): Promise<PracticalSummary> {
   const chemistry = await practicalChemistry(scope.practical)
   const rows = await latestClassResults(scope.practical.id)
   const included = rows.filter((r) => r.excludedAt === null)
@@ -84,7 +88,8 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
     n: included.length,
     headline: key ? { factor: chemistry.keyFactor, ...key.headline } : null,
     factors: factors!,
-    excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
+    excluded: rows.filter((r) => r.excludedAt !== null)
+      .map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
     bySection: sections.map((s, i) => ({ sectionId: s.id, code: s.code, n: bySectionRows[i]!.length, factors: sectionFactors[i]! })),
     keyFactor: chemistry.keyFactor,
     literature: chemistry.literature,

@@ -55,7 +55,10 @@ async function writeDecision(trx: Transaction<Database>, actor: Actor, submissio
     entity: 'submission',
     entityId: submission.id,
     before: { status: before.status, scores: previous?.scores ?? null, total: previous?.total ?? null },
-    after: { status, scores: d.scores, total: d.total, reason: d.reason, comment: d.comment, reviewId: review.id, ...(d.bulk ? { bulk: true } : {}) },
+    after: {
+      status, scores: d.scores, total: d.total, reason: d.reason, comment: d.comment, reviewId: review.id,
+      ...(d.bulk ? { bulk: true } : {}),
+    },
   })
   return review.id
 }

@@ -29,7 +29,9 @@ async function unitVersions(scope: ReviewerScope, submission: Submission) {
 type VersionRow = Awaited<ReturnType<typeof unitVersions>>[number]
 
 /** Default: the previous version against this one; ?compare= picks the other side. Older one first. */
-function chosenDiff(versions: VersionRow[], current: VersionRow, compareId: number | undefined, labels: Map<string, string>): VersionDiff | null {
+function chosenDiff(
+  versions: VersionRow[], current: VersionRow, compareId: number | undefined, labels: Map<string, string>,
+): VersionDiff | null {
   let other: VersionRow | undefined
   if (compareId !== undefined) {
     other = versions.find((v) => v.id === compareId)
@@ -40,7 +42,9 @@ function chosenDiff(versions: VersionRow[], current: VersionRow, compareId: numb
   }
   if (!other) return null
   const [from, to] = other.version < current.version ? [other, current] : [current, other]
-  const side = (v: VersionRow) => ({ id: v.id, version: v.version, peaks: v.parsed as PeakView[], result: v.result as StoredResult, flags: v.flags as StoredFlag[] })
+  const side = (v: VersionRow) => ({
+    id: v.id, version: v.version, peaks: v.parsed as PeakView[], result: v.result as StoredResult, flags: v.flags as StoredFlag[],
+  })
   return diffVersions(side(from), side(to), labels)
 }
 
@@ -57,7 +61,9 @@ async function unitReviews(versionIds: number[]): Promise<ReviewView[]> {
   }))
 }
 
-export function accuracySuggestionFor(scope: ReviewerScope, observed: number | null, expected: number | null, comparedWith: string): AccuracySuggestionView {
+export function accuracySuggestionFor(
+  scope: ReviewerScope, observed: number | null, expected: number | null, comparedWith: string,
+): AccuracySuggestionView {
   const tolerancePercent = scope.course.accuracyTolerancePercent
   const scores: Record<string, number> = {}
   for (const c of scope.course.rubric.filter((r) => r.kind === 'accuracy')) {
@@ -157,7 +163,9 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     reviews: await unitReviews(versions.map((v) => v.id)),
     rubric: scope.course.rubric,
     suggestion: accuracySuggestionFor(scope, observed, chemistry.expected.factors[key], chemistry.expected.description),
-    excluded: excludedAt ? { at: excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' } : null,
+    excluded: excludedAt
+      ? { at: excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' }
+      : null,
     nextPendingId: nextPendingAfter(queue.rows, submission.id),
     pendingCount: queue.rows.filter((r) => r.status === 'pending').length,
   }

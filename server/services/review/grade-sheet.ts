@@ -24,7 +24,9 @@ async function acceptedScores(rows: QueueRow[]): Promise<Map<number, { scores: R
     .where('submissionId', 'in', ids).where('decision', '=', 'accept')
     .orderBy('submissionId').orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
   const latest = new Map<number, { scores: Record<string, number>, total: number | null }>()
-  for (const r of reviews) if (!latest.has(r.submissionId)) latest.set(r.submissionId, { scores: r.scores as Record<string, number>, total: r.total })
+  for (const r of reviews) {
+    if (!latest.has(r.submissionId)) latest.set(r.submissionId, { scores: r.scores as Record<string, number>, total: r.total })
+  }
   return latest
 }
 
@@ -34,15 +36,19 @@ async function rosterWithoutWork(scope: ReviewerScope, seen: Set<number>): Promi
     .innerJoin('sections', 'sections.id', 'enrollments.sectionId')
     .select(['users.id', 'users.name', 'users.email', 'sections.code', 'enrollments.station'])
     .where('enrollments.sectionId', 'in', scope.sessionSectionIds).where('enrollments.status', '=', 'active').execute()
-  return students.filter((s) => !seen.has(s.id)).map((s) => ({ name: s.name, email: s.email, section: s.code, station: s.station, unit: null }))
+  return students.filter((s) => !seen.has(s.id))
+    .map((s) => ({ name: s.name, email: s.email, section: s.code, station: s.station, unit: null }))
 }
 
 export async function buildGradeSheet(scope: ReviewerScope): Promise<{ fileName: string, csv: string }> {
   const { chemistry, rows } = await reviewQueueOf(scope)
   const grades = await acceptedScores(rows)
-  const sheet: SheetRow[] = rows.flatMap((unit) => unit.unit.members.map((m) => ({ name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit })))
+  const sheet: SheetRow[] = rows.flatMap((unit) => unit.unit.members.map((m) => ({
+    name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit,
+  })))
   sheet.push(...await rosterWithoutWork(scope, new Set(rows.flatMap((r) => r.unit.members.map((m) => m.id)))))
-  sheet.sort((a, b) => a.section.localeCompare(b.section) || (a.station ?? Infinity) - (b.station ?? Infinity) || a.name.localeCompare(b.name))
+  sheet.sort((a, b) =>
+    a.section.localeCompare(b.section) || (a.station ?? Infinity) - (b.station ?? Infinity) || a.name.localeCompare(b.name))
 
   const rubric = scope.course.rubric
   const header = [

@@ -9,7 +9,9 @@ import { audit, type Actor } from '../../utils/audit'
  * Sets or clears a practical's release (the manual policy's switch), audited. Releasing twice
  * keeps the first time; withdrawing is always allowed, so a policy change never strands a release.
  */
-export async function setPracticalRelease(db: Kysely<Database>, actor: Actor, scope: PracticalScope, released: boolean): Promise<ReleaseView> {
+export async function setPracticalRelease(
+  db: Kysely<Database>, actor: Actor, scope: PracticalScope, released: boolean,
+): Promise<ReleaseView> {
   if (released && scope.course.releasePolicy !== 'manual') {
     throw createError({
       statusCode: 409,

@@ -31,7 +31,9 @@ export function reviewSectionIds(scope: ReviewerScope): number[] | null {
 }
 
 /** One submission in the caller's review scope, or 404 (403 for roles that never review). */
-export async function requireReviewableSubmission(event: H3Event, submissionId: number): Promise<{ scope: ReviewerScope, submission: Submission }> {
+export async function requireReviewableSubmission(
+  event: H3Event, submissionId: number,
+): Promise<{ scope: ReviewerScope, submission: Submission }> {
   requireRole(event, 'instructor', 'ta')
   const db = useDb()
   const head = await db.selectFrom('submissions').select('practicalId').where('id', '=', submissionId).executeTakeFirst()

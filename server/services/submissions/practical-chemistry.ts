@@ -10,10 +10,13 @@ import { substrateProductNamer, substrateReferenceFor } from '../../utils/substr
  */
 export async function practicalChemistry(practical: { substrateId: number, methodId: number }): Promise<PracticalChemistry> {
   const db = useDb()
-  const substrate = await db.selectFrom('substrates').select(['id', 'smiles']).where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
-  const method = await db.selectFrom('methods').select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary']).where('id', '=', practical.methodId).executeTakeFirstOrThrow()
+  const substrate = await db.selectFrom('substrates').select(['id', 'smiles'])
+    .where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
+  const method = await db.selectFrom('methods').select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary'])
+    .where('id', '=', practical.methodId).executeTakeFirstOrThrow()
   const [windows, nameOf, reference, analysis] = await Promise.all([
-    db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor']).where('substrateId', '=', substrate.id).execute(),
+    db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor'])
+      .where('substrateId', '=', substrate.id).execute(),
     substrateProductNamer(db, substrate.id),
     substrateReferenceFor(db, substrate.id, method.reagent),
     substrateAnalysis(substrate.smiles, method.halogen),

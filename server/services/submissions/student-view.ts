@@ -95,7 +95,9 @@ function peakViews(parsed: unknown): PeakView[] {
 
 function feedbackOf(rubric: RubricCriterion[], scores: Record<string, number>, total: number | null, comment: string): MyFeedbackView {
   return {
-    scores: rubric.map((c) => ({ key: c.key, label: c.label, maxPoints: c.maxPoints, score: typeof scores[c.key] === 'number' ? scores[c.key]! : null })),
+    scores: rubric.map((c) => ({
+      key: c.key, label: c.label, maxPoints: c.maxPoints, score: typeof scores[c.key] === 'number' ? scores[c.key]! : null,
+    })),
     total,
     maxTotal: rubric.reduce((sum, c) => sum + c.maxPoints, 0),
     comment,
@@ -208,7 +210,8 @@ export async function mySubmissionsOf(db: Kysely<Database>, scope: PracticalScop
   const { substrate, method, chemistry, partners } = await practicalFacts(db, scope, unit)
   const rows = await myVersionRows(db, me.id, practical.id)
   const reviews = await latestReviews(db, rows.map((r) => r.id))
-  const released = scoresReleased(course.releasePolicy, { reviewed: true, dueAt: unit.dueAt, practicalReleasedAt: practical.resultsReleasedAt })
+  const facts = { reviewed: true, dueAt: unit.dueAt, practicalReleasedAt: practical.resultsReleasedAt }
+  const released = scoresReleased(course.releasePolicy, facts)
   const open = chemistry.windows.length > 0
   return {
     practical: {

@@ -51,7 +51,9 @@ export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): 
  * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
  * the original is kept as.
  */
-export async function computeRun(scope: PracticalScope, file: UploadedFile): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, mediaType: string }> {
+export async function computeRun(
+  scope: PracticalScope, file: UploadedFile,
+): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, mediaType: string }> {
   const chemistry = await practicalChemistry(scope.practical)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
@@ -68,7 +70,9 @@ export async function computeRun(scope: PracticalScope, file: UploadedFile): Pro
   }
 }
 
-export function toCreated(row: Pick<Submission, 'id' | 'version' | 'status' | 'result' | 'flags' | 'late' | 'inputKind'>): SubmissionCreated {
+export function toCreated(
+  row: Pick<Submission, 'id' | 'version' | 'status' | 'result' | 'flags' | 'late' | 'inputKind'>,
+): SubmissionCreated {
   const result = row.result as StoredResult
   return {
     id: row.id,
@@ -165,7 +169,9 @@ export async function storeSubmissionVersion(db: Kysely<Database>, actor: Actor,
     await trx.insertInto('submissionMembers').values(v.unit.memberIds.map((userId) => ({ submissionId: inserted.id, userId }))).execute()
     await audit(trx, actor, {
       action: 'submission.create', entity: 'submission', entityId: inserted.id,
-      after: { practicalId: v.practicalId, unitKey: v.unit.unitKey, version: next, sha256: v.file.sha256, fileName: v.file.name, late: v.late },
+      after: {
+        practicalId: v.practicalId, unitKey: v.unit.unitKey, version: next, sha256: v.file.sha256, fileName: v.file.name, late: v.late,
+      },
     })
     return inserted
   })

@@ -1,6 +1,8 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { NETCDF_MEDIA_TYPE, XLSX_MEDIA_TYPE } from '#shared/utils/lib/upload-content'
-import { isReviewUnitMember, requireReviewableSubmission, reviewSafeFileName, setReviewDownloadHeaders, submissionFile } from '../../../services/review'
+import {
+  isReviewUnitMember, requireReviewableSubmission, reviewSafeFileName, setReviewDownloadHeaders, submissionFile,
+} from '../../../services/review'
 
 // What a download is served as, by what the upload was read as: text stays text/plain (its bytes,
 // whatever their encoding, are sent as they came), workbooks and netCDF keep their own types.
