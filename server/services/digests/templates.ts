@@ -115,31 +115,63 @@ function heading(ctx: DigestContext): string {
 }
 
 /** A student's digest: the class figures and their own unit's counted result. Never anyone else's name. */
-export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecipient): DigestMessage {
-  const label = RESULTS_FACTOR_LABELS[ctx.keyFactor]
-  const unit = ctx.units.find((u) => u.members.some((m) => m.id === recipient.userId)) ?? null
+/** The student's own lines: their version, factor, where it sits in the class, flags, exclusion. */
+function ownResultLines(ctx: DigestContext, unit: DigestUnit | null): string[] {
   const mine = unit?.counted ?? null
-  const atStation = ctx.practical.workUnit === 'pair' && unit?.station !== null && unit?.station !== undefined
-  const whose = atStation ? 'Your station’s result' : 'Your result'
+  if (!mine) {
+    return ['We have no accepted or waiting-for-review result from you for this practical. '
+      + 'If yours was returned, upload the corrected version.']
+  }
   const test = ctx.classStats?.test.name ?? DEFAULT_OUTLIER_TEST
   const own: string[] = []
-  if (!mine) {
-    own.push('We have no accepted or waiting-for-review result from you for this practical. '
-      + 'If yours was returned, upload the corrected version.')
-  } else {
-    own.push(`Version ${mine.version}, ${SUBMISSION_STATUS_LABELS[mine.status].toLowerCase()}.`)
-    own.push(`${label} selectivity: ${digestNumber(mine.factor)}.`)
-    if (mine.factor !== null) own.push(...placement(mine.factor, mine.submissionId, ctx.classStats, ctx.literature))
-    own.push(`Mole %: ${molePercentText(ctx, mine.molePercents).join('; ')}.`)
-    for (const f of mine.flags) own.push(`Flag: ${f.message}`)
-    if (unit?.outlier) {
-      own.push(`The class’s outlier test (${OUTLIER_TEST_LABELS[test]}) flags this result: ${outlierFigures(test, unit.outlier)}. `
-        + 'Flagged results stay in the class figures unless a reviewer leaves them out with a reason.')
-    }
-    if (mine.exclusionReason !== null) {
-      own.push(`This result is left out of the class figures: ${mine.exclusionReason || 'no reason given'}.`)
-    }
+  own.push(`Version ${mine.version}, ${SUBMISSION_STATUS_LABELS[mine.status].toLowerCase()}.`)
+  own.push(`${RESULTS_FACTOR_LABELS[ctx.keyFactor]} selectivity: ${digestNumber(mine.factor)}.`)
+  if (mine.factor !== null) own.push(...placement(mine.factor, mine.submissionId, ctx.classStats, ctx.literature))
+  own.push(`Mole %: ${molePercentText(ctx, mine.molePercents).join('; ')}.`)
+  for (const f of mine.flags) own.push(`Flag: ${f.message}`)
+  if (unit?.outlier) {
+    own.push(`The class’s outlier test (${OUTLIER_TEST_LABELS[test]}) flags this result: ${outlierFigures(test, unit.outlier)}. `
+      + 'Flagged results stay in the class figures unless a reviewer leaves them out with a reason.')
   }
+  if (mine.exclusionReason !== null) {
+    own.push(`This result is left out of the class figures: ${mine.exclusionReason || 'no reason given'}.`)
+  }
+  return own
+}
+
+/** The student's CSV: the class and section figures (headline first, the mean after the median), then their own row. */
+function studentDigestCsv(ctx: DigestContext, unit: DigestUnit | null, whose: string) {
+  const label = RESULTS_FACTOR_LABELS[ctx.keyFactor]
+  const mine = unit?.counted ?? null
+  const header = [
+    'Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature',
+    'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${digestProduct(p)}`),
+  ]
+  const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] => {
+    const h = s?.headline
+    return [name, label, s?.n ?? 0, h?.statistic ? HEADLINE_LABELS[h.statistic] : null, digestCell(h?.value),
+      digestCell(h?.ci95?.[0]), digestCell(h?.ci95?.[1]), digestCell(s?.median), digestCell(s?.mean), digestCell(ctx.literature),
+      null, null, null, null, ...mole.map((m) => digestCell(m))]
+  }
+  const flags = [
+    ...(mine?.flags.map((f) => f.code) ?? []), ...(unit?.outlier ? ['outlier'] : []),
+    ...(mine?.exclusionReason != null ? ['excluded'] : []),
+  ]
+  const rows: CsvCell[][] = [
+    statsRow('Class', ctx.classStats, ctx.products.map((p) => ctx.classMolePercents.find((m) => m.smiles === p.smiles)?.percent ?? null)),
+    statsRow(`Section ${ctx.section.code}`, ctx.sectionStats, ctx.products.map(() => null)),
+    [whose, label, null, null, null, null, null, null, null, digestCell(ctx.literature), digestCell(mine?.factor), mine?.version ?? null,
+      statusLabel(mine), flags.join('; '),
+      ...ctx.products.map((p) => digestCell(mine?.molePercents.find((m) => m.smiles === p.smiles)?.percent))],
+  ]
+  return digestCsvAttachment(`${digestSlug(ctx.course.code, ctx.practical.title, 'your-result')}.csv`, header, rows)
+}
+
+export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecipient): DigestMessage {
+  const unit = ctx.units.find((u) => u.members.some((m) => m.id === recipient.userId)) ?? null
+  const atStation = ctx.practical.workUnit === 'pair' && unit?.station !== null && unit?.station !== undefined
+  const whose = atStation ? 'Your station’s result' : 'Your result'
+  const own = ownResultLines(ctx, unit)
   const subject = `${ctx.course.code} · ${ctx.practical.title}: class results and yours`
   const intro = `Here are the class results for ${heading(ctx)}`
   const outro = 'The attached CSV holds the class figures and your own result.'
@@ -153,33 +185,7 @@ export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecip
     `<h2 style="font-size:16px">${escapeHtml(whose)}</h2>`, htmlList(own),
     `<p>${escapeHtml(outro)}</p>`, `<p style="color:#3A5671">Halocline, for ${escapeHtml(ctx.course.code)}</p>`,
   ].join(''))
-
-  // The headline figure first, as in the text; the arithmetic mean after the median.
-  const header = [
-    'Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature',
-    'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${digestProduct(p)}`),
-  ]
-  const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] => {
-    const h = s?.headline
-    return [name, label, s?.n ?? 0, h?.statistic ? HEADLINE_LABELS[h.statistic] : null, digestCell(h?.value),
-      digestCell(h?.ci95?.[0]), digestCell(h?.ci95?.[1]), digestCell(s?.median), digestCell(s?.mean), digestCell(ctx.literature),
-      null, null, null, null, ...mole.map((m) => digestCell(m))]
-  }
-  const rows: CsvCell[][] = [
-    statsRow('Class', ctx.classStats, ctx.products.map((p) => ctx.classMolePercents.find((m) => m.smiles === p.smiles)?.percent ?? null)),
-    statsRow(`Section ${ctx.section.code}`, ctx.sectionStats, ctx.products.map(() => null)),
-    [whose, label, null, null, null, null, null, null, null, digestCell(ctx.literature), digestCell(mine?.factor), mine?.version ?? null,
-      statusLabel(mine),
-      [
-        ...(mine?.flags.map((f) => f.code) ?? []), ...(unit?.outlier ? ['outlier'] : []),
-        ...(mine?.exclusionReason != null ? ['excluded'] : []),
-      ].join('; '),
-      ...ctx.products.map((p) => digestCell(mine?.molePercents.find((m) => m.smiles === p.smiles)?.percent))],
-  ]
-  return {
-    to: recipient.email, subject, text, html,
-    attachments: [digestCsvAttachment(`${digestSlug(ctx.course.code, ctx.practical.title, 'your-result')}.csv`, header, rows)],
-  }
+  return { to: recipient.email, subject, text, html, attachments: [studentDigestCsv(ctx, unit, whose)] }
 }
 
 interface StaffRow {
