@@ -20,6 +20,8 @@ export default defineConfig({
         },
       }),
       {
+        // Services import shared code as '#shared/...', the alias Nuxt gives the server.
+        resolve: { alias: { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) } },
         test: {
           name: 'services',
           include: ['tests/services/**/*.test.ts'],

@@ -1,6 +1,8 @@
 import type { H3Event } from 'h3'
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../database/schema'
+import type { SessionUser } from '#shared/types/auth'
+import { requireUser } from './auth'
 import { clientAddress } from './client-address'
 
 export interface AuditEntry {
@@ -11,18 +13,30 @@ export interface AuditEntry {
   after?: unknown
 }
 
-/** Who a command acts for, as the audit log records it: the signed-in user and their address. */
-export interface Actor {
+/** Who runs a command in server/services: the signed-in user and the address of the request. */
+export interface Actor extends SessionUser {
+  ip: string
+}
+
+/**
+ * Whom an audit row names. A command usually has an Actor; a few acts have no session yet
+ * (accepting an invitation, signing in), so the id may be null.
+ */
+export interface AuditActor {
   id: number | null
   ip: string
 }
 
+/** The acting user of a request, for a command; 401 without a session. */
 export function actorOf(event: H3Event): Actor {
-  return { id: event.context.auth?.user.id ?? null, ip: clientAddress(event) }
+  return { ...requireUser(event), ip: clientAddress(event) }
 }
 
+const isEvent = (who: H3Event | AuditActor): who is H3Event => 'context' in who && 'node' in who
+
 /** Written inside the caller's transaction, so a change and its audit row land together. */
-export async function recordAudit(db: Kysely<Database> | Transaction<Database>, actor: Actor, entry: AuditEntry) {
+export async function audit(db: Kysely<Database> | Transaction<Database>, who: H3Event | AuditActor, entry: AuditEntry) {
+  const actor = isEvent(who) ? { id: who.context.auth?.user.id ?? null, ip: clientAddress(who) } : who
   await db.insertInto('auditLog').values({
     actorId: actor.id,
     action: entry.action,
@@ -32,9 +46,4 @@ export async function recordAudit(db: Kysely<Database> | Transaction<Database>, 
     after: entry.after === undefined ? null : JSON.stringify(entry.after),
     ip: actor.ip,
   }).execute()
-}
-
-/** The same, for a handler that writes itself: the actor is the request's. */
-export async function audit(db: Kysely<Database> | Transaction<Database>, event: H3Event, entry: AuditEntry) {
-  await recordAudit(db, actorOf(event), entry)
 }

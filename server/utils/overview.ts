@@ -6,6 +6,8 @@ import { HEADLINE_LABELS } from '#shared/utils/headline'
 import { KEY_FACTOR_LABELS } from '#shared/types/review'
 import { addDays, todayIn } from '#shared/utils/dates'
 import { scheduleEntries } from '../services/sections'
+import { practicalSummary } from '../services/results'
+import { reviewPracticalItems } from '../services/review'
 
 const isoDay = (offset = 0) => addDays(todayIn('UTC'), offset)
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`

@@ -1,4 +1,5 @@
 import { crossTermQuerySchema, type CrossTermComparison } from '#shared/types/results'
+import { crossTermComparison } from '../../services/results'
 
 // The same substrate and method in every course and term, so an instructor sees whether this
 // term's class is typical. Aggregates only; the practical asked about must be the caller's own.

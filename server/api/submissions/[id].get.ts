@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { detailQuerySchema, type SubmissionDetail } from '#shared/types/review'
+import { buildSubmissionDetail, requireReviewableSubmission } from '../../services/review'
 
 // One submission for its reviewer; ?compare=<id of another version> picks the diff's other side.
 export default defineEventHandler(async (event): Promise<SubmissionDetail> => {

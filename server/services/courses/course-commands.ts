@@ -1,7 +1,7 @@
 import type { Kysely } from 'kysely'
 import type { z } from 'zod'
 import type { Course, Database } from '../../database/schema'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { invalid } from '../../utils/validation'
 import { DEFAULT_RUBRIC, type courseInputSchema, type CourseListItem, type CourseSettings } from '#shared/types/course'
 
@@ -21,7 +21,7 @@ export async function createCourse(db: Db, actor: Actor, creatorId: number, inpu
       .values({ ...input, rubric: JSON.stringify(DEFAULT_RUBRIC), createdBy: creatorId })
       .returning(['id', 'code', 'title', 'term']).executeTakeFirstOrThrow()
     await trx.insertInto('courseOwners').values({ courseId: row.id, userId: creatorId }).execute()
-    await recordAudit(trx, actor, { action: 'course.create', entity: 'course', entityId: row.id, after: input })
+    await audit(trx, actor, { action: 'course.create', entity: 'course', entityId: row.id, after: input })
     return row
   })
 }
@@ -29,7 +29,7 @@ export async function createCourse(db: Db, actor: Actor, creatorId: number, inpu
 export async function updateCourse(db: Db, actor: Actor, course: Course, input: CourseFields) {
   await db.transaction().execute(async (trx) => {
     await trx.updateTable('courses').set({ ...input, updatedAt: new Date() }).where('id', '=', course.id).execute()
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'course.update', entity: 'course', entityId: course.id,
       before: { code: course.code, title: course.title, term: course.term, timezone: course.timezone }, after: input,
     })
@@ -42,7 +42,7 @@ export async function updateCourseSettings(db: Db, actor: Actor, course: Course,
     await trx.updateTable('courses').set({ ...input, rubric: JSON.stringify(input.rubric), updatedAt: new Date() })
       .where('id', '=', course.id).execute()
     const { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, rubric } = course
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'course.settings', entity: 'course', entityId: course.id,
       before: { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, rubric },
       after: input,
@@ -56,7 +56,7 @@ export async function addCourseOwner(db: Db, actor: Actor, courseId: number, ema
   if (!user || user.role !== 'instructor') invalid([{ field: 'email', message: 'No instructor account has this e-mail' }], 422)
   await db.transaction().execute(async (trx) => {
     await trx.insertInto('courseOwners').values({ courseId, userId: user.id }).onConflict((oc) => oc.doNothing()).execute()
-    await recordAudit(trx, actor, { action: 'course.owner.add', entity: 'course', entityId: courseId, after: { userId: user.id } })
+    await audit(trx, actor, { action: 'course.owner.add', entity: 'course', entityId: courseId, after: { userId: user.id } })
   })
   return { id: user.id, name: user.name, email }
 }

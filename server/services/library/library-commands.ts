@@ -1,7 +1,7 @@
 import type { Kysely } from 'kysely'
 import type { z } from 'zod'
 import type { Database, Method, Substrate } from '../../database/schema'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { storeFile, type UploadedFile } from '../../utils/files'
 import { invalid } from '../../utils/validation'
 import {
@@ -30,7 +30,7 @@ export async function deleteLibraryEntry(db: Db, actor: Actor, table: LibraryTab
   try {
     await db.transaction().execute(async (trx) => {
       await trx.deleteFrom(table as 'substrates').where('id', '=', id).execute()
-      await recordAudit(trx, actor, { action: `${ENTITY[table]}.delete`, entity: ENTITY[table], entityId: id, before })
+      await audit(trx, actor, { action: `${ENTITY[table]}.delete`, entity: ENTITY[table], entityId: id, before })
     })
   } catch (error) {
     if ((error as { code?: string }).code === '23503') await refuseWhileInUse(table, id, 'deleted', db)
@@ -44,7 +44,7 @@ export async function createSubstrate(db: Db, actor: Actor, ownerId: number, inp
   identity: Identity) {
   return db.transaction().execute(async (trx) => {
     const created = await trx.insertInto('substrates').values({ ...input, ...identity, ownerId }).returningAll().executeTakeFirstOrThrow()
-    await recordAudit(trx, actor,
+    await audit(trx, actor,
       { action: 'substrate.create', entity: 'substrate', entityId: created.id, after: { ...input, ...identity } })
     return created
   })
@@ -79,7 +79,7 @@ export async function updateSubstrate(
       dropped.droppedReferences = await trx.deleteFrom('substrateReferences').where('substrateId', '=', id)
         .returning(['reagent', 'percents', 'source']).execute()
     }
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'substrate.update', entity: 'substrate', entityId: id, before, after: { ...patch, ...(identity ?? {}), ...dropped },
     })
     return updated
@@ -112,7 +112,7 @@ export async function copySubstrate(db: Db, actor: Actor, ownerId: number, origi
       await trx.insertInto('substrateReferences')
         .values(references.map((r) => ({ ...r, percents: JSON.stringify(r.percents), substrateId: copy.id, updatedBy: ownerId }))).execute()
     }
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'substrate.copy', entity: 'substrate', entityId: copy.id,
       after: { copiedFrom: from, name: copy.name, windows: windows.length, standardRuns: runs.length, names: names.length,
         references: references.length },
@@ -140,11 +140,11 @@ export async function saveSubstrateWindows(
       if (names.length) {
         await trx.insertInto('substrateProductNames').values(names.map((n) => ({ ...n, substrateId, updatedBy: actor.id }))).execute()
       }
-      await recordAudit(trx, actor,
+      await audit(trx, actor,
         { action: 'substrate.names', entity: 'substrate', entityId: substrateId, before: beforeNames, after: names })
     }
     await trx.updateTable('substrates').set({ updatedAt: new Date() }).where('id', '=', substrateId).execute()
-    await recordAudit(trx, actor, { action: 'substrate.windows', entity: 'substrate', entityId: substrateId, before, after: values })
+    await audit(trx, actor, { action: 'substrate.windows', entity: 'substrate', entityId: substrateId, before, after: values })
     return rows
   })
 }
@@ -163,7 +163,7 @@ export async function setSubstrateReference(
     await trx.insertInto('substrateReferences').values({ substrateId, reagent, ...values })
       .onConflict((oc) => oc.columns(['substrateId', 'reagent']).doUpdateSet(values)).execute()
     await trx.updateTable('substrates').set({ updatedAt: new Date() }).where('id', '=', substrateId).execute()
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'substrate.reference', entity: 'substrate', entityId: substrateId,
       before: before ?? null, after: { reagent, percents, source: input.source, sourceKind: input.sourceKind },
     })
@@ -176,7 +176,7 @@ export async function deleteSubstrateReference(db: Db, actor: Actor, substrateId
     const before = await trx.deleteFrom('substrateReferences').where('substrateId', '=', substrateId).where('reagent', '=', reagent)
       .returning(['percents', 'source', 'sourceKind']).executeTakeFirst()
     if (before) {
-      await recordAudit(trx, actor,
+      await audit(trx, actor,
         { action: 'substrate.reference.delete', entity: 'substrate', entityId: substrateId, before: { reagent, ...before } })
     }
     return Boolean(before)
@@ -192,7 +192,7 @@ export async function addStandardRun(
     const run = await trx.insertInto('standardRuns')
       .values({ substrateId, fileId, peaks: JSON.stringify(read.peaks), createdBy: actor.id })
       .returning('id').executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'substrate.standard-run', entity: 'substrate', entityId: substrateId,
       after: { standardRunId: run.id, fileId, sha256: file.sha256, peaks: read.peaks.length },
     })
@@ -205,7 +205,7 @@ export async function addStandardRun(
 export async function createMethod(db: Db, actor: Actor, ownerId: number, input: z.output<typeof methodInputSchema>): Promise<Method> {
   return db.transaction().execute(async (trx) => {
     const created = await trx.insertInto('methods').values(newMethodRow(input, ownerId)).returningAll().executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, { action: 'method.create', entity: 'method', entityId: created.id, after: input })
+    await audit(trx, actor, { action: 'method.create', entity: 'method', entityId: created.id, after: input })
     return created
   })
 }
@@ -215,7 +215,7 @@ export async function updateMethod(db: Db, actor: Actor, before: Method, patch: 
   return db.transaction().execute(async (trx) => {
     const updated = await trx.updateTable('methods').set({ ...methodColumns(patch), updatedAt: new Date() })
       .where('id', '=', before.id).returningAll().executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, { action: 'method.update', entity: 'method', entityId: before.id, before, after: patch })
+    await audit(trx, actor, { action: 'method.update', entity: 'method', entityId: before.id, before, after: patch })
     return updated
   })
 }
@@ -225,7 +225,7 @@ export async function copyMethod(db: Db, actor: Actor, ownerId: number, original
     const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = original
     const copy = await trx.insertInto('methods').values({ ...fields, name: copyName(original.name), ownerId })
       .returningAll().executeTakeFirstOrThrow()
-    await recordAudit(trx, actor,
+    await audit(trx, actor,
       { action: 'method.copy', entity: 'method', entityId: copy.id, after: { copiedFrom: original.id, name: copy.name } })
     return copy
   })

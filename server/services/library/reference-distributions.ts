@@ -3,7 +3,7 @@ import type { Substrate } from '../../database/schema'
 import { REAGENT_HALOGEN, type LibraryReagent, type ReferenceCandidate, type ReferenceInput,
   type ReferenceView } from '#shared/types/library'
 import { messageExcerpt } from '#shared/utils/text-input'
-import { latestUnitVersions, storedMolePercents } from '../../utils/class-results'
+import { latestUnitVersions, storedMolePercents } from '../results'
 import { useDb } from '../../utils/db'
 import { invalid } from '../../utils/validation'
 import { substrateAnalysis } from './chemistry-cache'

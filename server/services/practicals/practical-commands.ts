@@ -2,7 +2,7 @@ import { createError } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database, Method, Substrate } from '../../database/schema'
 import type { PracticalScope } from '../../utils/access'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { asBadRequest } from '../../utils/errors'
 import { invalid } from '../../utils/validation'
 import type { PracticalPatch, SessionsInput } from '#shared/types/practical'
@@ -47,7 +47,7 @@ export async function createPractical(db: Kysely<Database>, actor: Actor, me: { 
   return db.transaction().execute(async (trx) => {
     const row = await trx.insertInto('practicals').values({ courseId, ...input }).returning('id').executeTakeFirstOrThrow()
     await replacePracticalItems(trx, row.id, items)
-    await recordAudit(trx, actor,
+    await audit(trx, actor,
       { action: 'practical.create', entity: 'practical', entityId: row.id, after: { courseId, ...input, items } })
     return row.id
   })
@@ -79,7 +79,7 @@ export async function updatePractical(db: Kysely<Database>, actor: Actor, me: { 
     }
     await trx.updateTable('practicals').set({ ...input, updatedAt: new Date() }).where('id', '=', id).execute()
     const { title, substrateId, methodId, workUnit, notes } = practical
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'practical.update', entity: 'practical', entityId: id,
       before: { title, substrateId, methodId, workUnit, notes, ...(rescaled ? { items: before } : {}) },
       after: { ...input, ...(rescaled ? { items } : {}) },
@@ -104,7 +104,7 @@ export async function deletePractical(db: Kysely<Database>, actor: Actor, practi
     const sessions = await trx.selectFrom('practicalSessions').selectAll().where('practicalId', '=', id).execute()
     const items = await trx.selectFrom('practicalItems').selectAll().where('practicalId', '=', id).orderBy('position').execute()
     await trx.deleteFrom('practicals').where('id', '=', id).execute()
-    await recordAudit(trx, actor,
+    await audit(trx, actor,
       { action: 'practical.delete', entity: 'practical', entityId: id, before: { ...practical, sessions, items } })
   }).catch((error) => {
     // An upload that landed after the check: the foreign key refuses the delete.
@@ -120,7 +120,7 @@ export async function savePracticalItems(db: Kysely<Database>, actor: Actor, pra
       .where('practicalId', '=', practicalId).orderBy('position').execute()
     await replacePracticalItems(trx, practicalId, items)
     await touchPractical(trx, practicalId)
-    await recordAudit(trx, actor, { action: 'practical.items', entity: 'practical', entityId: practicalId, before, after: items })
+    await audit(trx, actor, { action: 'practical.items', entity: 'practical', entityId: practicalId, before, after: items })
   })
 }
 
@@ -150,7 +150,7 @@ export async function setPracticalSessions(
     await trx.deleteFrom('practicalSessions').where('practicalId', '=', practicalId).execute()
     if (rows.length) await trx.insertInto('practicalSessions').values(rows).execute()
     await touchPractical(trx, practicalId)
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'practical.sessions', entity: 'practical', entityId: practicalId,
       before, after: rows.map(({ practicalId: _p, ...r }) => r),
     })

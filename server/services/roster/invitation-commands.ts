@@ -1,7 +1,7 @@
 import { createError } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database } from '../../database/schema'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { findInvitation, invitationGone } from './invitations'
 import { inviteToCourse } from './roster-import'
 
@@ -30,7 +30,7 @@ export async function resendInvitation(db: Db, actor: Actor, me: { id: number, n
   const invitation = await db.transaction().execute(async (trx) => {
     const course = { id: found.courseId, code: found.code, title: found.title }
     const issued = await inviteToCourse(trx, { course, me, appUrl }, { userId: found.id, email: found.email, name: found.name })
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'invitation.resend', entity: 'user', entityId: found.id,
       after: { invitationId: issued.id, expiresAt: issued.expiresAt.toISOString() },
     })
@@ -55,7 +55,7 @@ export async function acceptInvitation(db: Db, actor: Actor, token: string, invi
       .where('userId', '=', invitation.userId).where('usedAt', 'is', null).where('expiresAt', '>', now).execute()
     const row = await trx.updateTable('users').set({ passwordHash, updatedAt: now }).where('id', '=', invitation.userId)
       .returning(['id', 'email', 'name', 'role', 'sessionVersion']).executeTakeFirstOrThrow()
-    await recordAudit(trx, actor,
+    await audit(trx, actor,
       { action: 'invitation.accept', entity: 'user', entityId: row.id, after: { invitationId: invitation.invitationId } })
     return row
   })

@@ -1,7 +1,7 @@
 import { createError } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database, Section } from '../../database/schema'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { storeFile, type MultipartUpload } from '../../utils/files'
 import { invalid } from '../../utils/validation'
 import type { EnrollmentAdded, RosterImportResult, SectionRosterView } from '#shared/types/roster'
@@ -40,7 +40,7 @@ export async function importRoster(db: Db, actor: Actor, ctx: RosterWriteContext
     const row = await trx.insertInto('rosterImports').values({
       courseId: ctx.course.id, fileId, mapping: JSON.stringify(plan.mapping), summary: JSON.stringify(summary), createdBy: ctx.me.id,
     }).returning('id').executeTakeFirstOrThrow()
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'roster.import', entity: 'course', entityId: ctx.course.id,
       after: {
         importId: row.id, fileId, fileName: upload.file.name, summary, invited, moved,
@@ -76,7 +76,7 @@ export async function addEnrollment(db: Db, actor: Actor, ctx: RosterWriteContex
       .returning('id').executeTakeFirstOrThrow()
     const invite = !user || (user.passwordHash === null)
     if (invite) await inviteToCourse(trx, ctx, { userId, email: input.email, name: user?.name ?? input.name })
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'enrollment.add', entity: 'enrollment', entityId: enrollment.id,
       before: null, after: { userId, sectionId: section.id, newAccount: !user, invited: invite },
     })
@@ -119,7 +119,7 @@ export async function placeEnrollment(db: Db, actor: Actor, e: EnrollmentInScope
       swapped = await rosterPlaceStudent(trx, e, station, seat)
     }
     const after = { sectionId: target.id, station, seat, ...swapped }
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: staying ? 'enrollment.place' : 'enrollment.move', entity: 'enrollment', entityId: e.id,
       before: { sectionId: e.sectionId, station: e.station, seat: e.seat }, after,
     })
@@ -136,7 +136,7 @@ export async function withdrawEnrollment(db: Db, actor: Actor, e: EnrollmentInSc
     const changed = await trx.updateTable('enrollments').set({ status: 'withdrawn', withdrawnAt, station: null, seat: null })
       .where('id', '=', e.id).where('status', '=', 'active').executeTakeFirst()
     if (!changed.numUpdatedRows) throw gone()
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'enrollment.withdraw', entity: 'enrollment', entityId: e.id,
       before: { status: e.status, sectionId: e.sectionId, station: e.station, seat: e.seat },
       after: { status: 'withdrawn', withdrawnAt: withdrawnAt.toISOString(), station: null, seat: null },
@@ -161,7 +161,7 @@ export async function assignStations(db: Db, actor: Actor, section: Section) {
     for (const [i, s] of students.entries()) {
       await trx.updateTable('enrollments').set(places[i]!).where('id', '=', s.id).execute()
     }
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'section.stations.assign', entity: 'section', entityId: section.id,
       before: students.map((s) => ({ id: s.id, station: s.station, seat: s.seat })),
       after: students.map((s, i) => ({ id: s.id, ...places[i]! })),

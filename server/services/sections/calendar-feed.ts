@@ -3,7 +3,7 @@ import ical from 'ical-generator'
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../../database/schema'
 import type { Role } from '#shared/types/auth'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { meetingsOf, sectionRows } from './section-rows'
 
 // Personal iCalendar feeds of lab meetings. The feed URL carries a secret token (one per user)
@@ -74,7 +74,7 @@ export async function resetCalendarFeed(db: Kysely<Database>, actor: Actor, user
   return db.transaction().execute(async (trx) => {
     const fresh = await resetCalendarToken(trx, userId, secret)
     // The token itself stays out of the audit log: the log is not a place to keep secrets.
-    await recordAudit(trx, actor, { action: 'calendar.reset', entity: 'calendar_feed', entityId: userId })
+    await audit(trx, actor, { action: 'calendar.reset', entity: 'calendar_feed', entityId: userId })
     return fresh
   })
 }

@@ -1,7 +1,7 @@
 import { createError } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database, Section } from '../../database/schema'
-import { recordAudit, type Actor } from '../../utils/audit'
+import { audit, type Actor } from '../../utils/audit'
 import { invalid } from '../../utils/validation'
 import type { SectionInput } from './section-input'
 import { candidateRow, checkTaIds, refuseUnconfirmedConflicts, sectionValues } from './section-input'
@@ -33,7 +33,7 @@ export async function createSection(db: Db, actor: Actor, course: CourseRef, inp
     const row = await trx.insertInto('sections').values({ courseId: course.id, ...sectionValues(input) }).returning('id')
       .executeTakeFirstOrThrow()
     await saveSectionTas(trx, row.id, input.taIds)
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'section.create', entity: 'section', entityId: row.id,
       after: { ...sectionValues(input), taIds: input.taIds, confirmedConflicts: conflicts.map((c) => c.message) },
     })
@@ -54,7 +54,7 @@ export async function updateSection(db: Db, actor: Actor, course: CourseRef, sec
     await trx.deleteFrom('sectionTas').where('sectionId', '=', sectionId).execute()
     await saveSectionTas(trx, sectionId, input.taIds)
     const { meetings: _m, enrolled: _e, ...beforeFields } = before!
-    await recordAudit(trx, actor, {
+    await audit(trx, actor, {
       action: 'section.update', entity: 'section', entityId: sectionId,
       before: { ...beforeFields, taIds: before!.tas.map((t) => t.id) },
       after: { ...sectionValues(input), taIds: input.taIds, confirmedConflicts: conflicts.map((c) => c.message) },
@@ -73,6 +73,6 @@ export async function deleteSection(db: Db, actor: Actor, section: Section) {
   }
   await db.transaction().execute(async (trx) => {
     await trx.deleteFrom('sections').where('id', '=', section.id).execute()
-    await recordAudit(trx, actor, { action: 'section.delete', entity: 'section', entityId: section.id, before: section })
+    await audit(trx, actor, { action: 'section.delete', entity: 'section', entityId: section.id, before: section })
   })
 }

@@ -10,7 +10,9 @@ export const stationUnitKey = (sectionId: number, station: number) => `station:$
 
 /** The unit a student's result counts for: their station's for pair work once they have one, else their own. */
 export function unitKeyOf(workUnit: WorkUnitKind, student: { userId: number, sectionId: number, station: number | null }): string {
-  return workUnit === 'pair' && student.station !== null ? stationUnitKey(student.sectionId, student.station) : studentUnitKey(student.userId)
+  return workUnit === 'pair' && student.station !== null
+    ? stationUnitKey(student.sectionId, student.station)
+    : studentUnitKey(student.userId)
 }
 
 const STATION_KEY = /^station:\d+:(\d+)$/

@@ -16,6 +16,14 @@
 //    trapezoid sums of the raw signal minus the baseline, so smoothing never changes them.
 // 6. Overlap: each apex's Gaussian-equivalent width (from its outer half width) predicts how much
 //    of it lies beyond the drop line; above overlapTolerance the pair is flagged `overlap`.
+//
+// Why no peak-picking package for the apexes (ml-gsd was declared once and never used, and was
+// removed): it finds peaks on the whole signal from the second derivative of a Savitzky-Golay
+// filter, with its own noise and width rules. Here an apex must sit inside a baseline-corrected
+// peak region of step 3 and clear the same noise-SD threshold that drew the region; keeping that
+// rule with a package would mean mapping its peaks back onto our regions and thresholds, so the
+// selection would still be written here. The local-maximum search itself (`apexes`) is twenty
+// lines; steps 3, 4 and 6 (baseline, drop lines, overlap) are what no package does.
 import type { Peak } from './peak-table'
 
 export interface Trace {

@@ -1,7 +1,7 @@
 // Peak-table reader for integration reports exported as CSV, TSV, semicolon or aligned text.
 import type { TimeUnit } from './header-names'
 import { type Mark, type CellRead, type ColumnStyle, type ReadProblem, analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness } from './number-text'
-import { type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
+import { type ColumnMap, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
 import { type Delimiter, splitLines, utf8Length } from './table-text'
 import { MAX_UPLOAD_BYTES } from '../limits'
 
@@ -161,6 +161,109 @@ function valueAt(col: Column, i: number, row: number, raw: string): number | Row
   return r.value
 }
 
+type ColumnSpec = Omit<Column, 'style' | 'reads' | 'regrouped'>
+
+/** The columns to read: retention time, area (or area % when there is no area), then area % and height if present. */
+function columnSpecs(kinds: ColumnMap, fromPercent: boolean): ColumnSpec[] {
+  const specs: ColumnSpec[] = [
+    { key: 'rt', what: 'retention time', index: kinds.get('rt')!.index },
+    { key: 'area', what: fromPercent ? 'area %' : 'area', index: kinds.get(fromPercent ? 'areaPercent' : 'area')!.index },
+  ]
+  if (!fromPercent && kinds.has('areaPercent')) specs.push({ key: 'areaPercent', what: 'area %', index: kinds.get('areaPercent')!.index })
+  if (kinds.has('height')) specs.push({ key: 'height', what: 'height', index: kinds.get('height')!.index })
+  return specs
+}
+
+/** What is wrong with one row's retention time and area (missing, unreadable, negative, out of range, repeated). */
+function peakRowProblems(
+  row: number, rt: number | RowError | null, area: number | RowError | null, raw: { rt: string, area: string },
+  areaCol: Column, fromPercent: boolean, seen: Map<number, number>,
+): RowError[] {
+  const problems: RowError[] = []
+  if (rt === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time is missing.` })
+  else if (typeof rt !== 'number') problems.push(rt)
+  else if (rt < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the retention time ${excerpt(raw.rt)} is negative.` })
+  if (area === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the ${areaCol.what} is missing.` })
+  else if (typeof area !== 'number') problems.push(area)
+  else if (area < 0) {
+    problems.push({
+      row, code: 'negative-value',
+      message: `Row ${row}: the ${areaCol.what} ${excerpt(raw.area)} is negative; re-integrate the peak or check the baseline.`,
+    })
+  } else if (area > (fromPercent ? 100 : MAX_PEAK_AREA)) {
+    problems.push({ row, code: 'out-of-range', message: fromPercent
+      ? `Row ${row}: the area % ${excerpt(raw.area)} is above 100.`
+      : `Row ${row}: the area ${excerpt(raw.area)} is above 1e15, far beyond what an integrator reports; check the export.` })
+  }
+  if (problems.length === 0 && typeof rt === 'number' && seen.has(rt)) {
+    problems.push({
+      row, code: 'duplicate-rt',
+      message: `Row ${row}: retention time ${excerpt(raw.rt)} already appears on row ${seen.get(rt)}; remove the duplicate row.`,
+    })
+  }
+  return problems
+}
+
+/** Area % and height where the row has them in range; the names of columns with values left out go to `leftOut`. */
+function addOptionalValues(peak: Peak, extras: Column[], i: number, row: number, cells: RawRow['cells'], leftOut: Set<string>) {
+  for (const col of extras) {
+    const v = valueAt(col, i, row, cells[col.index] ?? '')
+    const limit = col.key === 'areaPercent' ? 100 : MAX_PEAK_AREA
+    if (typeof v === 'number' && Math.abs(v) <= limit) peak[col.key as 'areaPercent' | 'height'] = v
+    else if (v !== null) leftOut.add(col.what)
+  }
+}
+
+/** Reads the data rows into peaks, collecting each row's errors; a totals row is skipped with a warning. */
+function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, warnings: string[], errors: RowError[]): Peak[] {
+  const [rtCol, areaCol] = columns as [Column, Column]
+  const parsed: Peak[] = []
+  const seen = new Map<number, number>()
+  let areaSum = 0
+  const leftOut = new Set<string>()
+  rows.forEach(({ row, cells }, i) => {
+    if (errors.length >= MAX_ERRORS) return
+    const raw = { rt: cells[rtCol.index] ?? '', area: cells[areaCol.index] ?? '' }
+    const rt = valueAt(rtCol, i, row, raw.rt)
+    const area = valueAt(areaCol, i, row, raw.area)
+    if (rt === null && typeof area === 'number' && parsed.length > 1 && Math.abs(area - areaSum) <= 0.005 * areaSum) {
+      warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
+      return
+    }
+    const problems = peakRowProblems(row, rt, area, raw, areaCol, fromPercent, seen)
+    if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
+    seen.set(rt, row)
+    areaSum += area
+    const peak: Peak = { retentionTime: rt, area, row }
+    if (fromPercent) peak.areaPercent = area
+    addOptionalValues(peak, columns.slice(2), i, row, cells, leftOut)
+    parsed.push(peak)
+  })
+  for (const name of leftOut) warnings.push(`Some ${name} values are not numbers or out of range and were left out.`)
+  return parsed
+}
+
+/** Retention times in minutes (clock cells are minutes already), with the unit and where it came from; over-long times are errors. */
+function retentionInMinutes(
+  parsed: Peak[], rtCol: Column, declared: ReturnType<typeof declaredTimeUnit>, options: PeakTableOptions,
+  warnings: string[], errors: RowError[],
+) {
+  const { unit, source } = rtCol.style.clock
+    ? { unit: 'min' as const, source: 'cells' as const }
+    : chooseTimeUnit(parsed.map(p => p.retentionTime), declared, options.timeUnit, options.expectedMaxMinutes, warnings)
+  const factor = toMinutes(unit)
+  if (factor !== 1) for (const p of parsed) p.retentionTime *= factor
+  for (const p of parsed) {
+    if (p.retentionTime > MAX_RETENTION_MINUTES && errors.length < MAX_ERRORS) {
+      errors.push({
+        row: p.row!, code: 'out-of-range',
+        message: `Row ${p.row}: the retention time ${+p.retentionTime.toPrecision(6)} min is more than ${MAX_RETENTION_MINUTES / 60} hours; check the time unit of the export.`,
+      })
+    }
+  }
+  return { unit, source }
+}
+
 /** Reads a peak table. Any error refuses the whole table: `peaks` is then empty. */
 export function parsePeakTable(text: string, options: PeakTableOptions = {}): ParsedPeakTable {
   const warnings: string[] = []
@@ -168,11 +271,15 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   const refuse = (row: number, code: ParseErrorCode, message: string): ParsedPeakTable => ({ peaks: [], warnings, errors: [...errors, { row, code, message }], meta: null })
   const maxBytes = options.maxBytes ?? MAX_UPLOAD_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
-  if (text.length > maxBytes || utf8Length(text) > maxBytes) return refuse(0, 'too-large', `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`)
+  if (text.length > maxBytes || utf8Length(text) > maxBytes) {
+    return refuse(0, 'too-large', `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`)
+  }
   const lines = splitLines(text)
   const header = findHeader(lines)
   if (!header) return refuse(0, 'no-header', 'No header row naming the retention time and area columns was found.')
-  if (!header.kinds.has('rt')) return refuse(header.row, 'no-rt-column', `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`)
+  if (!header.kinds.has('rt')) {
+    return refuse(header.row, 'no-rt-column', `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`)
+  }
   const { rows, unitsRow, errors: layout } = collectRows(lines, header, warnings)
   errors.push(...layout)
   const kinds = columnsOf(header, unitsRow)
@@ -181,74 +288,17 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
     return refuse(header.row, 'no-area-column', `Row ${header.row}: the header has no area column; export the table with peak areas ("Area") or area %, not only heights.${hint}`)
   }
   const maxRows = options.maxRows ?? MAX_PEAK_ROWS
-  if (rows.length > maxRows) return refuse(rows[maxRows]!.row, 'too-many-rows', `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`)
+  if (rows.length > maxRows) {
+    return refuse(rows[maxRows]!.row, 'too-many-rows', `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`)
+  }
   const fromPercent = !kinds.has('area')
   if (fromPercent) warnings.push('The file has no absolute peak areas, so the mole % were computed from its area % column.')
-  const specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[] = [
-    { key: 'rt', what: 'retention time', index: kinds.get('rt')!.index },
-    { key: 'area', what: fromPercent ? 'area %' : 'area', index: kinds.get(fromPercent ? 'areaPercent' : 'area')!.index },
-  ]
-  if (!fromPercent && kinds.has('areaPercent')) specs.push({ key: 'areaPercent', what: 'area %', index: kinds.get('areaPercent')!.index })
-  if (kinds.has('height')) specs.push({ key: 'height', what: 'height', index: kinds.get('height')!.index })
-  const columns = readColumns(rows, specs)
-  const [rtCol, areaCol] = columns as [Column, Column]
-  const maxArea = fromPercent ? 100 : MAX_PEAK_AREA
-  const parsed: Peak[] = []
-  const seen = new Map<number, number>()
-  let areaSum = 0
-  const leftOut = new Set<string>()
-  rows.forEach(({ row, cells }, i) => {
-    if (errors.length >= MAX_ERRORS) return
-    const rtRaw = cells[rtCol.index] ?? ''
-    const areaRaw = cells[areaCol.index] ?? ''
-    const rt = valueAt(rtCol, i, row, rtRaw)
-    const area = valueAt(areaCol, i, row, areaRaw)
-    if (rt === null && typeof area === 'number' && parsed.length > 1 && Math.abs(area - areaSum) <= 0.005 * areaSum) {
-      warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
-      return
-    }
-    const problems: RowError[] = []
-    if (rt === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time is missing.` })
-    else if (typeof rt !== 'number') problems.push(rt)
-    else if (rt < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the retention time ${excerpt(rtRaw)} is negative.` })
-    if (area === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the ${areaCol.what} is missing.` })
-    else if (typeof area !== 'number') problems.push(area)
-    else if (area < 0) problems.push({ row, code: 'negative-value', message: `Row ${row}: the ${areaCol.what} ${excerpt(areaRaw)} is negative; re-integrate the peak or check the baseline.` })
-    else if (area > maxArea) {
-      problems.push({ row, code: 'out-of-range', message: fromPercent
-        ? `Row ${row}: the area % ${excerpt(areaRaw)} is above 100.`
-        : `Row ${row}: the area ${excerpt(areaRaw)} is above 1e15, far beyond what an integrator reports; check the export.` })
-    }
-    if (problems.length === 0 && typeof rt === 'number' && seen.has(rt)) {
-      problems.push({ row, code: 'duplicate-rt', message: `Row ${row}: retention time ${excerpt(rtRaw)} already appears on row ${seen.get(rt)}; remove the duplicate row.` })
-    }
-    if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
-    seen.set(rt, row)
-    areaSum += area
-    const peak: Peak = { retentionTime: rt, area, row }
-    if (fromPercent) peak.areaPercent = area
-    for (const col of columns.slice(2)) {
-      const v = valueAt(col, i, row, cells[col.index] ?? '')
-      const limit = col.key === 'areaPercent' ? 100 : MAX_PEAK_AREA
-      if (typeof v === 'number' && Math.abs(v) <= limit) peak[col.key as 'areaPercent' | 'height'] = v
-      else if (v !== null) leftOut.add(col.what)
-    }
-    parsed.push(peak)
-  })
-  for (const name of leftOut) warnings.push(`Some ${name} values are not numbers or out of range and were left out.`)
+  const columns = readColumns(rows, columnSpecs(kinds, fromPercent))
+  const rtCol = columns[0]!
+  const parsed = readPeakRows(rows, columns, fromPercent, warnings, errors)
   if (errors.length) return { peaks: [], warnings, errors, meta: null }
   if (parsed.length === 0) return refuse(header.row, 'no-peaks', `The table under the header on row ${header.row} has no peak rows.`)
-  const clock = rtCol.style.clock
-  const { unit, source } = clock
-    ? { unit: 'min' as const, source: 'cells' as const }
-    : chooseTimeUnit(parsed.map(p => p.retentionTime), declaredTimeUnit(header, unitsRow), options.timeUnit, options.expectedMaxMinutes, warnings)
-  const factor = toMinutes(unit)
-  if (factor !== 1) for (const p of parsed) p.retentionTime *= factor
-  for (const p of parsed) {
-    if (p.retentionTime > MAX_RETENTION_MINUTES && errors.length < MAX_ERRORS) {
-      errors.push({ row: p.row!, code: 'out-of-range', message: `Row ${p.row}: the retention time ${+p.retentionTime.toPrecision(6)} min is more than ${MAX_RETENTION_MINUTES / 60} hours; check the time unit of the export.` })
-    }
-  }
+  const { unit, source } = retentionInMinutes(parsed, rtCol, declaredTimeUnit(header, unitsRow), options, warnings, errors)
   if (errors.length) return { peaks: [], warnings, errors, meta: null }
   const decimalMark = rtCol.style.decimal ?? columns.find(c => c.style.decimal)?.style.decimal ?? null
   return {

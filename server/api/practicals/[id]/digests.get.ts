@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import type { DigestHistoryItem } from '#shared/types/results'
+import { digestHistory } from '../../../services/digests'
 
 // The digests sent for a practical, in the caller's sections, with each message's delivery.
 export default defineEventHandler(async (event): Promise<DigestHistoryItem[]> => {

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import type { MySubmissionsView } from '../../../utils/student-submissions'
+import { mySubmissionsOf, type MySubmissionsView } from '../../../services/submissions'
 
 // A student's own GC results for a practical: every version of their work unit, newest first,
 // with flags, the computed result and the reviewers' decisions (scores only once released).
@@ -7,5 +7,5 @@ import type { MySubmissionsView } from '../../../utils/student-submissions'
 export default defineEventHandler(async (event): Promise<MySubmissionsView> => {
   requireRole(event, 'student')
   const { id } = readParamsAs(event, idParamsSchema)
-  return mySubmissionsOf(event, await requirePracticalAccess(event, id))
+  return mySubmissionsOf(useDb(), await requirePracticalAccess(event, id))
 })

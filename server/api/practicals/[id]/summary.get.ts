@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { summaryQuerySchema } from '#shared/types/summary'
+import { practicalSummary } from '../../../services/results'
 
 // Public contract: the class-wide factors with their spread, the outliers by the course's test
 // (or ?method=), the exclusions, and the caller's sections one by one.

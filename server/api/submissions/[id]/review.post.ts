@@ -1,6 +1,7 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { reviewInputSchema } from '#shared/types/submission'
 import { type ReviewSaved } from '#shared/types/review'
+import { requireReviewableSubmission, saveSubmissionReview } from '../../../services/review'
 
 // Accept with rubric scores (total computed here) or return for resubmission with a reason.
 export default defineEventHandler(async (event): Promise<ReviewSaved> => {
@@ -8,5 +9,5 @@ export default defineEventHandler(async (event): Promise<ReviewSaved> => {
   const { id } = readParamsAs(event, idParamsSchema)
   const { scope, submission } = await requireReviewableSubmission(event, id)
   const input = await readBodyAs(event, reviewInputSchema)
-  return saveSubmissionReview(event, scope, submission, input)
+  return saveSubmissionReview(useDb(), actorOf(event), scope, submission, input)
 })

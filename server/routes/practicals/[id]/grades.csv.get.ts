@@ -1,4 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
+import { buildGradeSheet, requireReviewerOf, setReviewDownloadHeaders } from '../../../services/review'
 // The grade sheet as CSV, one row per student, safe to open in a spreadsheet (no cell can start
 // a formula; numbers stay numbers). A TA gets their own sections' students only.
 export default defineEventHandler(async (event) => {

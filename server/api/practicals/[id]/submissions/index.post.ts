@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { z } from 'zod'
+import { createSubmission } from '../../../../services/submissions'
 
 const keySchema = z.string().trim().min(1).max(200).nullable()
 
@@ -10,7 +11,7 @@ export default defineEventHandler(async (event) => {
   const scope = await requirePracticalAccess(event, id)
   const key = validate(keySchema, getRequestHeader(event, 'idempotency-key') ?? null)
   const { file } = await readUpload(event)
-  const { status, body } = await createSubmission(event, scope, file, key)
+  const { status, body } = await createSubmission(useDb(), actorOf(event), scope, file, key)
   setResponseStatus(event, status)
   return body
 })

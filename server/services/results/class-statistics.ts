@@ -1,6 +1,7 @@
 import type { FactorStats } from '#shared/types/summary'
 import type { OutlierReport, OutlierSettings } from '#shared/utils/outliers'
-import { factorStatistics, outlierReport, type FactorStatsJob } from '../engines/statistics'
+import { factorStatistics, outlierReport, type FactorStatsJob } from '../../engines/statistics'
+import { runEngine } from '../../utils/engines'
 
 // Up to this many results the class figures take a few milliseconds and are computed inline;
 // beyond, in the engine worker (server/engines/statistics.ts says why).
@@ -13,6 +14,10 @@ export function classFactorStats(jobs: FactorStatsJob[]): Promise<FactorStats[]>
 }
 
 /** The course's outlier test over a class (shared/utils/outliers.ts). */
-export function classOutlierReport(values: Array<{ submissionId: number, value: number }>, settings: OutlierSettings): Promise<OutlierReport> {
-  return values.length <= INLINE_RESULTS ? Promise.resolve(outlierReport({ values, settings })) : runEngine('outlierReport', { values, settings })
+export function classOutlierReport(
+  values: Array<{ submissionId: number, value: number }>, settings: OutlierSettings,
+): Promise<OutlierReport> {
+  return values.length <= INLINE_RESULTS
+    ? Promise.resolve(outlierReport({ values, settings }))
+    : runEngine('outlierReport', { values, settings })
 }

@@ -1,6 +1,7 @@
 import type { ExpectationView } from '#shared/types/submission'
 import { practicalChemistryOf, type PracticalChemistry } from '#shared/utils/submission'
-import { substrateAnalysis, substrateProductNamer, substrateReferenceFor } from '../services/library'
+import { substrateAnalysis, substrateProductNamer, substrateReferenceFor } from '../library'
+import { useDb } from '../../utils/db'
 
 /**
  * A practical's products (named), windows, prediction, literature factors and what runs are
@@ -8,10 +9,13 @@ import { substrateAnalysis, substrateProductNamer, substrateReferenceFor } from 
  */
 export async function practicalChemistry(practical: { substrateId: number, methodId: number }): Promise<PracticalChemistry> {
   const db = useDb()
-  const substrate = await db.selectFrom('substrates').select(['id', 'smiles']).where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
-  const method = await db.selectFrom('methods').select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary']).where('id', '=', practical.methodId).executeTakeFirstOrThrow()
+  const substrate = await db.selectFrom('substrates').select(['id', 'smiles'])
+    .where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
+  const method = await db.selectFrom('methods').select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary'])
+    .where('id', '=', practical.methodId).executeTakeFirstOrThrow()
   const [windows, nameOf, reference, analysis] = await Promise.all([
-    db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor']).where('substrateId', '=', substrate.id).execute(),
+    db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor'])
+      .where('substrateId', '=', substrate.id).execute(),
     substrateProductNamer(db, substrate.id),
     substrateReferenceFor(db, substrate.id, method.reagent),
     substrateAnalysis(substrate.smiles, method.halogen),

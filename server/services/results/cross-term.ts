@@ -1,8 +1,11 @@
-import type { PracticalScope } from './access'
+import type { PracticalScope } from '../../utils/access'
 import type { CrossTermComparison, CrossTermRow, CrossTermStats } from '#shared/types/results'
 import { summarize } from '#shared/utils/statistics'
 import { chooseHeadline } from '#shared/utils/headline'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { latestUnitVersions } from './latest-versions'
+import { practicalChemistry } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 interface CrossTermResultRow {
   practicalId: number
@@ -35,7 +38,8 @@ export async function crossTermComparison(scope: PracticalScope): Promise<CrossT
     .innerJoin('courses', 'courses.id', 'practicals.courseId')
     .select((eb) => [
       'practicals.id', 'courses.code', 'courses.term',
-      eb.selectFrom('practicalSessions').select((e) => e.fn.min('meetingDate').as('m')).whereRef('practicalSessions.practicalId', '=', 'practicals.id').as('firstMeeting'),
+      eb.selectFrom('practicalSessions').select((e) => e.fn.min('meetingDate').as('m'))
+        .whereRef('practicalSessions.practicalId', '=', 'practicals.id').as('firstMeeting'),
     ])
     .where('substrates.smiles', '=', reference.smiles)
     .where('methods.reagent', '=', reference.reagent)
@@ -43,7 +47,8 @@ export async function crossTermComparison(scope: PracticalScope): Promise<CrossT
     .execute()
   const ids = practicals.map((p) => p.id)
   const sections = await db.selectFrom('practicalSessions').innerJoin('sections', 'sections.id', 'practicalSessions.sectionId')
-    .select(['practicalSessions.practicalId', 'sections.code']).where('practicalSessions.practicalId', 'in', ids).orderBy('sections.code').execute()
+    .select(['practicalSessions.practicalId', 'sections.code'])
+    .where('practicalSessions.practicalId', 'in', ids).orderBy('sections.code').execute()
   // One pass over every matching practical: each unit's newest accepted-or-pending version.
   const latest = await latestUnitVersions(db, ids).innerJoin('sections as sec', 'sec.id', 's.sectionId')
     .select(['s.practicalId', 'sec.code as sectionCode', 's.excludedAt', 's.factorSecondary', 's.factorTertiary'])

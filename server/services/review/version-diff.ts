@@ -1,4 +1,4 @@
-import type { StoredFlag } from '../database/schema'
+import type { StoredFlag } from '../../database/schema'
 import type { PeakView, StoredResult } from '#shared/types/submission'
 import type { ReviewFactorKey, PeakChange, VersionDiff } from '#shared/types/review'
 

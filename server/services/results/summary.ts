@@ -1,14 +1,20 @@
-import type { PracticalScope } from './access'
+import type { PracticalScope } from '../../utils/access'
 import type { FactorSet, PracticalSummary } from '#shared/types/summary'
 import type { FactorValue } from '#shared/utils/class-summary'
 import type { OutlierSettings } from '#shared/utils/outliers'
 import type { OutlierTestName } from '#shared/types/course'
-import type { ClassRow } from './class-results'
-import type { FactorStatsJob } from '../engines/statistics'
+import type { ClassRow } from './latest-versions'
+import type { FactorStatsJob } from '../../engines/statistics'
 import { keyFactorValue, type KeyFactor } from '#shared/utils/key-factor'
+import { classFactorStats } from './class-statistics'
+import { latestClassResults } from './latest-versions'
+import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 /** The class figures of each group of rows (the whole class, then each section), computed together. */
-async function factorSets(groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean): Promise<FactorSet[]> {
+async function factorSets(
+  groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean,
+): Promise<FactorSet[]> {
   const keys = (['secondaryToPrimary', 'tertiaryToPrimary'] as const).filter((k) => has[k])
   const jobs: FactorStatsJob[] = groups.flatMap((rows) => {
     // A flagged run no reviewer has accepted yet is what "pulls the mean" in the headline.
@@ -42,7 +48,9 @@ function exclusionReasonFor(scope: PracticalScope, row: { sectionId: number, exc
  * excluded ones left out and listed. The whole class is summarised for everyone who may see
  * the practical; the by-section part holds only the caller's sections.
  */
-export async function practicalSummary(scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number }): Promise<PracticalSummary> {
+export async function practicalSummary(
+  scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number },
+): Promise<PracticalSummary> {
   const chemistry = await practicalChemistry(scope.practical)
   const rows = await latestClassResults(scope.practical.id)
   const included = rows.filter((r) => r.excludedAt === null)
@@ -80,7 +88,8 @@ export async function practicalSummary(scope: PracticalScope, options: { method?
     n: included.length,
     headline: key ? { factor: chemistry.keyFactor, ...key.headline } : null,
     factors: factors!,
-    excluded: rows.filter((r) => r.excludedAt !== null).map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
+    excluded: rows.filter((r) => r.excludedAt !== null)
+      .map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
     bySection: sections.map((s, i) => ({ sectionId: s.id, code: s.code, n: bySectionRows[i]!.length, factors: sectionFactors[i]! })),
     keyFactor: chemistry.keyFactor,
     literature: chemistry.literature,

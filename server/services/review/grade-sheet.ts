@@ -1,7 +1,10 @@
-import type { ReviewerScope } from './review-scope'
+import type { ReviewerScope } from './scope'
 import { KEY_FACTOR_LABELS, type QueueRow } from '#shared/types/review'
 import { SUBMISSION_STATUS_LABELS } from '#shared/types/submission'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
+import { reviewSafeFileName } from './downloads'
+import { reviewQueueOf } from './queue'
+import { useDb } from '../../utils/db'
 
 // The grade sheet: one row per student in the caller's sections (partners each get their work
 // unit's row; a student with nothing uploaded gets an empty one), made safe for spreadsheets.
@@ -21,7 +24,9 @@ async function acceptedScores(rows: QueueRow[]): Promise<Map<number, { scores: R
     .where('submissionId', 'in', ids).where('decision', '=', 'accept')
     .orderBy('submissionId').orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
   const latest = new Map<number, { scores: Record<string, number>, total: number | null }>()
-  for (const r of reviews) if (!latest.has(r.submissionId)) latest.set(r.submissionId, { scores: r.scores as Record<string, number>, total: r.total })
+  for (const r of reviews) {
+    if (!latest.has(r.submissionId)) latest.set(r.submissionId, { scores: r.scores as Record<string, number>, total: r.total })
+  }
   return latest
 }
 
@@ -31,16 +36,19 @@ async function rosterWithoutWork(scope: ReviewerScope, seen: Set<number>): Promi
     .innerJoin('sections', 'sections.id', 'enrollments.sectionId')
     .select(['users.id', 'users.name', 'users.email', 'sections.code', 'enrollments.station'])
     .where('enrollments.sectionId', 'in', scope.sessionSectionIds).where('enrollments.status', '=', 'active').execute()
-  return students.filter((s) => !seen.has(s.id)).map((s) => ({ name: s.name, email: s.email, section: s.code, station: s.station, unit: null }))
+  return students.filter((s) => !seen.has(s.id))
+    .map((s) => ({ name: s.name, email: s.email, section: s.code, station: s.station, unit: null }))
 }
 
 export async function buildGradeSheet(scope: ReviewerScope): Promise<{ fileName: string, csv: string }> {
-  const chemistry = await practicalChemistry(scope.practical)
-  const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
+  const { chemistry, rows } = await reviewQueueOf(scope)
   const grades = await acceptedScores(rows)
-  const sheet: SheetRow[] = rows.flatMap((unit) => unit.unit.members.map((m) => ({ name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit })))
+  const sheet: SheetRow[] = rows.flatMap((unit) => unit.unit.members.map((m) => ({
+    name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit,
+  })))
   sheet.push(...await rosterWithoutWork(scope, new Set(rows.flatMap((r) => r.unit.members.map((m) => m.id)))))
-  sheet.sort((a, b) => a.section.localeCompare(b.section) || (a.station ?? Infinity) - (b.station ?? Infinity) || a.name.localeCompare(b.name))
+  sheet.sort((a, b) =>
+    a.section.localeCompare(b.section) || (a.station ?? Infinity) - (b.station ?? Infinity) || a.name.localeCompare(b.name))
 
   const rubric = scope.course.rubric
   const header = [

@@ -1,7 +1,11 @@
 import type { H3Event } from 'h3'
-import type { PracticalScope } from './access'
+import type { PracticalScope } from '../../utils/access'
 import type { Kysely } from 'kysely'
-import type { Database, Submission } from '../database/schema'
+import type { Database, Submission } from '../../database/schema'
+import { createError } from 'h3'
+import { requirePracticalAccess } from '../../utils/access'
+import { requireRole } from '../../utils/auth'
+import { useDb } from '../../utils/db'
 
 // Who reviews: the course's instructors (every section) and the TAs of the sections running a
 // practical (their sections only). The coordinator and students are refused outright (403):
@@ -27,7 +31,9 @@ export function reviewSectionIds(scope: ReviewerScope): number[] | null {
 }
 
 /** One submission in the caller's review scope, or 404 (403 for roles that never review). */
-export async function requireReviewableSubmission(event: H3Event, submissionId: number): Promise<{ scope: ReviewerScope, submission: Submission }> {
+export async function requireReviewableSubmission(
+  event: H3Event, submissionId: number,
+): Promise<{ scope: ReviewerScope, submission: Submission }> {
   requireRole(event, 'instructor', 'ta')
   const db = useDb()
   const head = await db.selectFrom('submissions').select('practicalId').where('id', '=', submissionId).executeTakeFirst()

@@ -1,15 +1,19 @@
-import { sql, type Transaction } from 'kysely'
-import type { H3Event } from 'h3'
-import type { ReviewerScope } from './review-scope'
-import type { Database, Submission } from '../database/schema'
+import { sql, type Kysely, type Transaction } from 'kysely'
+import type { ReviewerScope } from './scope'
+import type { Database, Submission } from '../../database/schema'
 import type { BulkAcceptResult, ExclusionView, QueueRow, ReviewSaved } from '#shared/types/review'
 import type { reviewInputSchema } from '#shared/types/submission'
 import type { z } from 'zod'
 import { rubricScoreIssues, rubricTotal, startingScores } from '#shared/utils/grading'
+import { createError } from 'h3'
+import { latestUnitVersion } from './scope'
+import { audit, type Actor } from '../../utils/audit'
+import { invalid } from '../../utils/validation'
 
-// Review decisions, bulk acceptance and exclusions. Each write takes the work unit's lock (the
-// same one uploads take), checks again inside the transaction that the version is still the
-// latest, and writes its audit row with before and after in the same transaction.
+// Review decisions, bulk acceptance and exclusions: commands on the database, by an Actor. Each
+// write takes the work unit's lock (the same one uploads take), checks again inside the
+// transaction that the version is still the latest, and writes its audit row with before and
+// after in the same transaction.
 
 type ReviewBody = z.output<typeof reviewInputSchema>
 
@@ -32,31 +36,37 @@ interface Decision {
 }
 
 /** Inside a transaction holding the unit's lock: status, review row and audit row. */
-async function writeDecision(trx: Transaction<Database>, event: H3Event, submission: Submission, d: Decision): Promise<number> {
+async function writeDecision(trx: Transaction<Database>, actor: Actor, submission: Submission, d: Decision): Promise<number> {
   const before = await trx.selectFrom('submissions').select('status').where('id', '=', submission.id).forUpdate().executeTakeFirstOrThrow()
   const previous = await lastReviewOf(trx, submission.id)
   const status = d.decision === 'accept' ? 'accepted' as const : 'returned' as const
   await trx.updateTable('submissions').set({ status, updatedAt: new Date() }).where('id', '=', submission.id).execute()
   const review = await trx.insertInto('reviews').values({
     submissionId: submission.id,
-    reviewerId: requireUser(event).id,
+    reviewerId: actor.id,
     decision: d.decision,
     reason: d.reason,
     comment: d.comment,
     scores: JSON.stringify(d.scores),
     total: d.total,
   }).returning('id').executeTakeFirstOrThrow()
-  await audit(trx, event, {
+  await audit(trx, actor, {
     action: `submission.${d.decision}`,
     entity: 'submission',
     entityId: submission.id,
     before: { status: before.status, scores: previous?.scores ?? null, total: previous?.total ?? null },
-    after: { status, scores: d.scores, total: d.total, reason: d.reason, comment: d.comment, reviewId: review.id, ...(d.bulk ? { bulk: true } : {}) },
+    after: {
+      status, scores: d.scores, total: d.total, reason: d.reason, comment: d.comment, reviewId: review.id,
+      ...(d.bulk ? { bulk: true } : {}),
+    },
   })
   return review.id
 }
 
-export async function saveSubmissionReview(event: H3Event, scope: ReviewerScope, submission: Submission, input: ReviewBody): Promise<ReviewSaved> {
+/** Accepts (rubric scores, total computed here) or returns (reason) the latest version of a unit. */
+export async function saveSubmissionReview(
+  db: Kysely<Database>, actor: Actor, scope: ReviewerScope, submission: Submission, input: ReviewBody,
+): Promise<ReviewSaved> {
   const rubric = scope.course.rubric
   const accept = input.decision === 'accept'
   // A return carries no grade: its reason and comment are what the student needs.
@@ -67,13 +77,14 @@ export async function saveSubmissionReview(event: H3Event, scope: ReviewerScope,
     invalid([{ field: 'comment', message: 'This run has a blocking flag: say in the comment why you accept it' }])
   }
   const total = accept ? rubricTotal(rubric, scores) : null
-  const reviewId = await useDb().transaction().execute(async (trx) => {
+  const reviewId = await db.transaction().execute(async (trx) => {
     await lockReviewUnit(trx, submission)
     const latest = await latestUnitVersion(trx, submission)
     if (latest !== submission.version) {
       throw createError({ statusCode: 409, statusMessage: `Only the latest version can be reviewed: version ${latest} is newer` })
     }
-    return writeDecision(trx, event, submission, { decision: input.decision, reason: accept ? null : input.reason ?? null, comment: input.comment, scores, total })
+    const reason = accept ? null : input.reason ?? null
+    return writeDecision(trx, actor, submission, { decision: input.decision, reason, comment: input.comment, scores, total })
   })
   return { id: submission.id, status: accept ? 'accepted' : 'returned', reviewId, scores, total }
 }
@@ -87,28 +98,48 @@ function bulkSkipReason(row: QueueRow | undefined): string | null {
   return null
 }
 
+/** The queue as the reviewer sees it now: its rows, and the expected key factor accuracy is scored against. */
+export interface BulkAcceptQueue {
+  rows: QueueRow[]
+  expected: number | null
+}
+
+type Scores = Record<string, number>
+
+/** Which asked-for rows may be accepted in bulk, with their scores, and why the others may not. */
+function chooseCleanRows(scope: ReviewerScope, queue: BulkAcceptQueue, ids: number[], given: Scores) {
+  const rubric = scope.course.rubric
+  const byId = new Map(queue.rows.map((r) => [r.id, r]))
+  const skipped: BulkAcceptResult['skipped'] = []
+  const chosen: Array<{ id: number, scores: Scores }> = []
+  const tolerancePercent = scope.course.accuracyTolerancePercent
+  for (const id of new Set(ids)) {
+    const row = byId.get(id)
+    const skip = bulkSkipReason(row)
+    if (skip) { skipped.push({ id, reason: skip }); continue }
+    const scores = startingScores(rubric, { observed: row!.keyFactor, expected: queue.expected, tolerancePercent }, given)
+    if (rubricScoreIssues(rubric, scores, { requireAll: true }).length) {
+      skipped.push({ id, reason: 'No selectivity to score accuracy from: review it on its own' })
+      continue
+    }
+    chosen.push({ id, scores })
+  }
+  return { chosen, skipped }
+}
+
 /**
  * Accepts only clean rows (latest, pending, no warning or blocking flag, no outlier, not
  * excluded) with the suggested accuracy score and full marks elsewhere unless `given`.
  */
-export async function acceptCleanInBulk(event: H3Event, scope: ReviewerScope, ids: number[], given: Record<string, number>): Promise<BulkAcceptResult> {
+export async function acceptCleanInBulk(
+  db: Kysely<Database>, actor: Actor, scope: ReviewerScope, queue: BulkAcceptQueue, ids: number[], given: Scores,
+): Promise<BulkAcceptResult> {
   const rubric = scope.course.rubric
   const issues = rubricScoreIssues(rubric, given)
   if (issues.length) invalid(issues)
-  const chemistry = await practicalChemistry(scope.practical)
-  const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
-  const byId = new Map(rows.map((r) => [r.id, r]))
-  const result: BulkAcceptResult = { accepted: [], skipped: [] }
-  const chosen: Array<{ id: number, scores: Record<string, number> }> = []
-  for (const id of new Set(ids)) {
-    const row = byId.get(id)
-    const skip = bulkSkipReason(row)
-    if (skip) { result.skipped.push({ id, reason: skip }); continue }
-    const scores = startingScores(rubric, { observed: row!.keyFactor, expected: chemistry.expected.factors[chemistry.keyFactor], tolerancePercent: scope.course.accuracyTolerancePercent }, given)
-    if (rubricScoreIssues(rubric, scores, { requireAll: true }).length) { result.skipped.push({ id, reason: 'No selectivity to score accuracy from: review it on its own' }); continue }
-    chosen.push({ id, scores })
-  }
-  await useDb().transaction().execute(async (trx) => {
+  const { chosen, skipped } = chooseCleanRows(scope, queue, ids, given)
+  const result: BulkAcceptResult = { accepted: [], skipped }
+  await db.transaction().execute(async (trx) => {
     for (const { id, scores } of chosen) {
       const submission = await trx.selectFrom('submissions').selectAll().where('id', '=', id).executeTakeFirstOrThrow()
       await lockReviewUnit(trx, submission)
@@ -118,7 +149,7 @@ export async function acceptCleanInBulk(event: H3Event, scope: ReviewerScope, id
         continue
       }
       const total = rubricTotal(rubric, scores)
-      await writeDecision(trx, event, submission, { decision: 'accept', reason: null, comment: '', scores, total, bulk: true })
+      await writeDecision(trx, actor, submission, { decision: 'accept', reason: null, comment: '', scores, total, bulk: true })
       result.accepted.push({ id, scores, total })
     }
   })
@@ -126,17 +157,19 @@ export async function acceptCleanInBulk(event: H3Event, scope: ReviewerScope, id
 }
 
 /** Excludes a run from the class statistics (reason given) or counts it again (reason null). */
-export async function setSubmissionExclusion(event: H3Event, submission: Submission, reason: string | null): Promise<{ id: number, excluded: ExclusionView | null }> {
-  const me = requireUser(event)
+export async function setSubmissionExclusion(
+  db: Kysely<Database>, actor: Actor, submission: Submission, reason: string | null,
+): Promise<{ id: number, excluded: ExclusionView | null }> {
+  const me = actor
   const at = new Date()
-  await useDb().transaction().execute(async (trx) => {
+  await db.transaction().execute(async (trx) => {
     const before = await trx.selectFrom('submissions').select(['excludedAt', 'exclusionReason', 'excludedBy'])
       .where('id', '=', submission.id).forUpdate().executeTakeFirstOrThrow()
     if (reason === null && before.excludedAt === null) return
     await trx.updateTable('submissions').set(reason === null
       ? { excludedAt: null, excludedBy: null, exclusionReason: null, updatedAt: at }
       : { excludedAt: at, excludedBy: me.id, exclusionReason: reason, updatedAt: at }).where('id', '=', submission.id).execute()
-    await audit(trx, event, {
+    await audit(trx, actor, {
       action: reason === null ? 'submission.include' : 'submission.exclude',
       entity: 'submission',
       entityId: submission.id,

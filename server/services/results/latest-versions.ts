@@ -1,5 +1,6 @@
 import { sql, type Kysely } from 'kysely'
-import type { Database, SubmissionStatus } from '../database/schema'
+import type { Database, SubmissionStatus } from '../../database/schema'
+import { useDb } from '../../utils/db'
 
 export interface ClassRow {
   submissionId: number
@@ -40,8 +41,8 @@ export function latestUnitVersions(db: Kysely<Database>, practicalIds: readonly 
 export const storedMolePercents = sql<ClassRow['molePercents']>`s.result -> 'molePercents'`
 
 /** Each work unit's latest accepted-or-pending version of one practical, excluded ones included. */
-export function latestClassResults(practicalId: number): Promise<ClassRow[]> {
-  return latestUnitVersions(useDb(), [practicalId])
+export function latestClassResults(practicalId: number, db: Kysely<Database> = useDb()): Promise<ClassRow[]> {
+  return latestUnitVersions(db, [practicalId])
     .select([
       's.id as submissionId', 's.sectionId', 's.unitKey', 's.status', 's.factorSecondary', 's.factorTertiary',
       storedMolePercents.as('molePercents'), 's.excludedAt', 's.exclusionReason',

@@ -1,12 +1,21 @@
 import type { PracticalChemistry } from '#shared/utils/submission'
 import type { H3Event } from 'h3'
-import type { ReviewerScope } from './review-scope'
+import type { ReviewerScope } from './scope'
 import type { SessionUser } from '#shared/types/auth'
-import type { StoredFlag, SubmissionStatus } from '../database/schema'
-import { KEY_FACTOR_LABELS, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView } from '#shared/types/review'
+import type { StoredFlag, SubmissionStatus } from '../../database/schema'
+import type { z } from 'zod'
+import {
+  KEY_FACTOR_LABELS, type queueQuerySchema, type ReviewFactorKey, type OutlierRun, type QueueCounts, type QueuePractical,
+  type QueueResponse, type QueueRow, type ReviewFlag, type ReviewPracticalItem, type UnitMember, type UnitView,
+} from '#shared/types/review'
 import type { OutlierFinding } from '#shared/utils/outliers'
-import { stationOfUnitKey } from '../services/submissions/work-units'
+import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { classOutlierReport } from '../results/class-statistics'
+import { latestClassResults } from '../results/latest-versions'
+import { requireReviewerOf, reviewSectionIds } from './scope'
+import { practicalChemistry } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -27,16 +36,26 @@ export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFa
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
   const report = await classOutlierReport(values, settings)
   return {
-    run: { test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit, maxOutliers: report.maxOutliers, note: report.note },
+    run: {
+      test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit,
+      maxOutliers: report.maxOutliers, note: report.note,
+    },
     findings: new Map(report.outliers.map((o) => [o.submissionId, o])),
   }
 }
 
+const LATER_STEP = ', and a later step exceeds its critical value, so every value removed up to that step is an outlier'
+
 const TEST_WORDING = {
   // A value removed before the deciding step is an outlier even when its own R is below λ.
-  'gesd': (f: OutlierFinding, run: OutlierRun) => `the generalized ESD test (α = ${run.alpha}, up to ${run.maxOutliers ?? '?'} outliers): removed at step ${f.step ?? 1} with R = ${f.statistic.toFixed(3)} against the critical value ${f.critical.toFixed(3)}${f.statistic > f.critical ? '' : ', and a later step exceeds its critical value, so every value removed up to that step is an outlier'}`,
-  'grubbs': (f: OutlierFinding, run: OutlierRun) => `Grubbs' test: G = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (α = ${run.alpha}, two-sided)`,
-  'dixon': (f: OutlierFinding, run: OutlierRun) => `Dixon's Q test: Q = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (${Math.round((1 - run.alpha) * 100)} % confidence)`,
+  'gesd': (f: OutlierFinding, run: OutlierRun) =>
+    `the generalized ESD test (α = ${run.alpha}, up to ${run.maxOutliers ?? '?'} outliers): removed at step ${f.step ?? 1} `
+    + `with R = ${f.statistic.toFixed(3)} against the critical value ${f.critical.toFixed(3)}${f.statistic > f.critical ? '' : LATER_STEP}`,
+  'grubbs': (f: OutlierFinding, run: OutlierRun) =>
+    `Grubbs' test: G = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} (α = ${run.alpha}, two-sided)`,
+  'dixon': (f: OutlierFinding, run: OutlierRun) =>
+    `Dixon's Q test: Q = ${f.statistic.toFixed(3)} is above the critical value ${f.critical.toFixed(3)} `
+    + `(${Math.round((1 - run.alpha) * 100)} % confidence)`,
   'modified-z': (f: OutlierFinding) => `modified z-score: |M| = ${Math.abs(f.statistic).toFixed(2)} is above the limit ${f.critical}`,
 } as const
 
@@ -44,7 +63,8 @@ export function outlierFlagOf(finding: OutlierFinding, run: OutlierRun, keyFacto
   return {
     code: 'outlier',
     severity: 'warning',
-    message: `The ${KEY_FACTOR_LABELS[keyFactor]} selectivity of ${finding.value.toFixed(2)} is an outlier among the class's ${run.n} results by ${TEST_WORDING[run.test](finding, run)}. Check the run before it counts; exclude it from the class statistics if it is a bad run.`,
+    message: `The ${KEY_FACTOR_LABELS[keyFactor]} selectivity of ${finding.value.toFixed(2)} is an outlier among the class's ${run.n} results `
+      + `by ${TEST_WORDING[run.test](finding, run)}. Check the run before it counts; exclude it from the class statistics if it is a bad run.`,
     test: run.test,
     statistic: finding.statistic,
     critical: finding.critical,
@@ -53,7 +73,9 @@ export function outlierFlagOf(finding: OutlierFinding, run: OutlierRun, keyFacto
 }
 
 /** Flags as stored with a version, plus the outlier flag when the class test marks it. */
-export function flagsWithOutlier(stored: StoredFlag[], submissionId: number, outliers: ClassOutliers, keyFactor: ReviewFactorKey): { flags: ReviewFlag[], attention: number, outlier: boolean } {
+export function flagsWithOutlier(
+  stored: StoredFlag[], submissionId: number, outliers: ClassOutliers, keyFactor: ReviewFactorKey,
+): { flags: ReviewFlag[], attention: number, outlier: boolean } {
   const finding = outliers.findings.get(submissionId)
   const flags: ReviewFlag[] = finding ? [...stored, outlierFlagOf(finding, outliers.run, keyFactor)] : [...stored]
   const rank = { info: 0, warning: 1, danger: 2 } as const
@@ -78,7 +100,8 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
   const members = await useDb().selectFrom('submissionMembers')
     .innerJoin('users', 'users.id', 'submissionMembers.userId')
     .innerJoin('submissions', 'submissions.id', 'submissionMembers.submissionId')
-    .leftJoin('enrollments', (join) => join.onRef('enrollments.userId', '=', 'submissionMembers.userId').onRef('enrollments.sectionId', '=', 'submissions.sectionId'))
+    .leftJoin('enrollments', (join) => join.onRef('enrollments.userId', '=', 'submissionMembers.userId')
+      .onRef('enrollments.sectionId', '=', 'submissions.sectionId'))
     .select(['submissionMembers.submissionId', 'users.id', 'users.name', 'users.email', 'enrollments.station'])
     .where('submissionMembers.submissionId', 'in', rows.map((r) => r.id))
     .orderBy('users.name').orderBy('users.id').execute()
@@ -96,15 +119,24 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
   return result
 }
 
+/** The practical's chemistry and its review queue, as the queue page, the grade sheet and bulk accept read them. */
+export async function reviewQueueOf(scope: ReviewerScope) {
+  const chemistry = await practicalChemistry(scope.practical)
+  return { chemistry, ...await buildReviewQueue(scope, chemistry.keyFactor) }
+}
+
 /** Every work unit's latest version in the caller's sections, flagged and sorted. */
-export async function buildReviewQueue(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<{ rows: QueueRow[], outliers: ClassOutliers }> {
+export async function buildReviewQueue(
+  scope: ReviewerScope, keyFactor: ReviewFactorKey,
+): Promise<{ rows: QueueRow[], outliers: ClassOutliers }> {
   const db = useDb()
   const sections = reviewSectionIds(scope)
   let query = db.selectFrom((eb) => eb.selectFrom('submissions').distinctOn('unitKey').selectAll()
     .where('practicalId', '=', scope.practical.id).orderBy('unitKey').orderBy('version', 'desc').as('s'))
     .innerJoin('sections', 'sections.id', 's.sectionId')
     .leftJoin('users as excluder', 'excluder.id', 's.excludedBy')
-    .select(['s.id', 's.sectionId', 'sections.code as sectionCode', 's.unitKey', 's.version', 's.createdAt', 's.late', 's.status', 's.flags',
+    .select(['s.id', 's.sectionId', 'sections.code as sectionCode', 's.unitKey', 's.version', 's.createdAt', 's.late', 's.status',
+      's.flags',
       's.factorSecondary', 's.factorTertiary', 's.excludedAt', 's.exclusionReason', 'excluder.name as excludedByName'])
   if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
   const latest = await query.execute()
@@ -184,8 +216,7 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
   const items: ReviewPracticalItem[] = []
   for (const { id } of candidates) {
     const scope = await requireReviewerOf(event, id)
-    const chemistry = await practicalChemistry(scope.practical)
-    const { rows } = await buildReviewQueue(scope, chemistry.keyFactor)
+    const { rows } = await reviewQueueOf(scope)
     items.push({
       id,
       title: scope.practical.title,
@@ -195,4 +226,35 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
     })
   }
   return items
+}
+
+type ParsedQueueQuery = z.output<typeof queueQuerySchema>
+
+/** A row passes the ?status= and ?flag= filters ("any": every run that needs attention). */
+function matchesQueueQuery(row: QueueRow, query: ParsedQueueQuery): boolean {
+  if (query.status && row.status !== query.status) return false
+  if (!query.flag) return true
+  return query.flag === 'any' ? row.attention > 0 : row.flags.some((f) => f.code === query.flag)
+}
+
+/** How many rows carry each flag code, for the filter's choices. */
+function flagCodeCounts(rows: QueueRow[]): QueueResponse['flagCodes'] {
+  const codes = new Map<string, number>()
+  for (const row of rows) for (const code of new Set(row.flags.map((f) => f.code))) codes.set(code, (codes.get(code) ?? 0) + 1)
+  return [...codes].map(([code, count]) => ({ code, count })).sort((a, b) => a.code.localeCompare(b.code))
+}
+
+/** The queue page of one practical: counts and flag codes over the chosen section, rows filtered. */
+export async function reviewQueueView(scope: ReviewerScope, query: ParsedQueueQuery): Promise<QueueResponse> {
+  const { chemistry, rows, outliers } = await reviewQueueOf(scope)
+  const inSection = query.section ? rows.filter((r) => r.section.id === query.section) : rows
+  return {
+    practical: queuePracticalOf(scope, chemistry),
+    role: scope.role,
+    sections: await reviewSectionsOf(scope),
+    rows: inSection.filter((r) => matchesQueueQuery(r, query)),
+    counts: countQueueRows(inSection),
+    flagCodes: flagCodeCounts(inSection),
+    outliers: outliers.run,
+  }
 }

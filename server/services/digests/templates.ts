@@ -1,7 +1,7 @@
 // The section digest e-mails as small pure functions: one context in, subject, plain text,
 // HTML (every value escaped) and a CSV attachment out. The preview route and the send route
 // call the same function, so what the instructor previews is exactly what goes out.
-import type { DigestContext, DigestUnit, DigestVersion } from './digest-data'
+import type { DigestContext, DigestUnit, DigestVersion } from './data'
 import type { DigestMessage, DigestRecipient } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
 import { RESULTS_FACTOR_LABELS, RESULTS_STATISTIC_SYMBOLS as STATISTIC_SYMBOL } from '#shared/types/results'
@@ -10,6 +10,7 @@ import { SUBMISSION_STATUS_LABELS } from '#shared/types/submission'
 import { reviewFlagName } from '#shared/types/review'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
 import { formatArithmeticMean, formatHeadline, HEADLINE_LABELS } from '#shared/utils/headline'
+import { escapeHtml } from '../../utils/html'
 
 function digestNumber(value: number | null | undefined, digits = 2): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : 'n/a'
@@ -35,7 +36,8 @@ function digestCsvAttachment(filename: string, header: string[], rows: CsvCell[]
 function outlierFigures(test: OutlierTestName, o: NonNullable<DigestUnit['outlier']>, against = 'against a critical value of'): string {
   const figures = `${STATISTIC_SYMBOL[test]} = ${digestNumber(Math.abs(o.statistic), 3)} ${against} ${digestNumber(o.critical, 3)}`
   if (test !== 'gesd' || !o.step) return figures
-  return `${figures} at step ${o.step}${Math.abs(o.statistic) > o.critical ? '' : '; a later step exceeds its critical value, so every result removed up to it is an outlier'}`
+  const laterStep = '; a later step exceeds its critical value, so every result removed up to it is an outlier'
+  return `${figures} at step ${o.step}${Math.abs(o.statistic) > o.critical ? '' : laterStep}`
 }
 
 function statusLabel(version: DigestVersion | null): string {
@@ -60,11 +62,14 @@ function placement(value: number, own: number | null, stats: FactorStats | null,
   if (others.length) lines.push(`Higher than ${others.filter((v) => v < value).length} of the other ${others.length} results in the class.`)
   if (stats && stats.q1 !== null && stats.q3 !== null) {
     const range = `${digestNumber(stats.q1)} to ${digestNumber(stats.q3)}`
-    lines.push(value < stats.q1 ? `Below the middle half of the class (${range}).` : value > stats.q3 ? `Above the middle half of the class (${range}).` : `Inside the middle half of the class (${range}).`)
+    const where = value < stats.q1 ? 'Below' : value > stats.q3 ? 'Above' : 'Inside'
+    lines.push(`${where} the middle half of the class (${range}).`)
   }
   if (literature) {
     const off = (value / literature - 1) * 100
-    lines.push(Math.abs(off) < 1 ? 'Within 1 % of the literature value.' : `${Math.abs(off).toFixed(0)} % ${off > 0 ? 'above' : 'below'} the literature value.`)
+    lines.push(Math.abs(off) < 1
+      ? 'Within 1 % of the literature value.'
+      : `${Math.abs(off).toFixed(0)} % ${off > 0 ? 'above' : 'below'} the literature value.`)
   }
   return lines
 }
@@ -79,7 +84,8 @@ function molePercentText(ctx: DigestContext, mole: Array<{ smiles: string, perce
 const HTML_CELL = 'style="border:1px solid #D6D0C2;padding:4px 8px;text-align:left;vertical-align:top"'
 const htmlList = (items: string[]) => (items.length ? `<ul>${items.map((i) => `<li>${escapeHtml(i)}</li>`).join('')}</ul>` : '')
 const htmlTable = (header: string[], rows: string[][]) =>
-  `<table style="border-collapse:collapse;font-size:14px"><thead><tr>${header.map((h) => `<th ${HTML_CELL}>${escapeHtml(h)}</th>`).join('')}</tr></thead>`
+  `<table style="border-collapse:collapse;font-size:14px">`
+  + `<thead><tr>${header.map((h) => `<th ${HTML_CELL}>${escapeHtml(h)}</th>`).join('')}</tr></thead>`
   + `<tbody>${rows.map((r) => `<tr>${r.map((c) => `<td ${HTML_CELL}>${escapeHtml(c)}</td>`).join('')}</tr>`).join('')}</tbody></table>`
 const htmlPage = (body: string) =>
   `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Halocline digest</title></head>`
@@ -97,7 +103,8 @@ function classFigures(ctx: DigestContext): string[] {
     lines.splice(1, 0, `${formatArithmeticMean(stats.headline)}.`, stats.headline.reason)
   }
   if (stats?.test.applied && stats.outliers.length) {
-    lines.push(`${stats.outliers.length} result(s) flagged by the class's outlier test (${OUTLIER_TEST_LABELS[stats.test.name]}) are still counted here until a reviewer decides on them.`)
+    lines.push(`${stats.outliers.length} result(s) flagged by the class's outlier test (${OUTLIER_TEST_LABELS[stats.test.name]}) `
+      + 'are still counted here until a reviewer decides on them.')
   }
   if (ctx.excludedCount) lines.push(`${ctx.excludedCount} result(s) left out of the class figures by a reviewer, each with a reason.`)
   return lines
@@ -108,58 +115,89 @@ function heading(ctx: DigestContext): string {
 }
 
 /** A student's digest: the class figures and their own unit's counted result. Never anyone else's name. */
-export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecipient): DigestMessage {
-  const label = RESULTS_FACTOR_LABELS[ctx.keyFactor]
-  const unit = ctx.units.find((u) => u.members.some((m) => m.id === recipient.userId)) ?? null
+/** The student's own lines: their version, factor, where it sits in the class, flags, exclusion. */
+function ownResultLines(ctx: DigestContext, unit: DigestUnit | null): string[] {
   const mine = unit?.counted ?? null
-  const whose = ctx.practical.workUnit === 'pair' && unit?.station !== null && unit?.station !== undefined ? 'Your station’s result' : 'Your result'
+  if (!mine) {
+    return ['We have no accepted or waiting-for-review result from you for this practical. '
+      + 'If yours was returned, upload the corrected version.']
+  }
   const test = ctx.classStats?.test.name ?? DEFAULT_OUTLIER_TEST
   const own: string[] = []
-  if (!mine) {
-    own.push('We have no accepted or waiting-for-review result from you for this practical. If yours was returned, upload the corrected version.')
-  } else {
-    own.push(`Version ${mine.version}, ${SUBMISSION_STATUS_LABELS[mine.status].toLowerCase()}.`)
-    own.push(`${label} selectivity: ${digestNumber(mine.factor)}.`)
-    if (mine.factor !== null) own.push(...placement(mine.factor, mine.submissionId, ctx.classStats, ctx.literature))
-    own.push(`Mole %: ${molePercentText(ctx, mine.molePercents).join('; ')}.`)
-    for (const f of mine.flags) own.push(`Flag: ${f.message}`)
-    if (unit?.outlier) {
-      own.push(`The class’s outlier test (${OUTLIER_TEST_LABELS[test]}) flags this result: ${outlierFigures(test, unit.outlier)}. Flagged results stay in the class figures unless a reviewer leaves them out with a reason.`)
-    }
-    if (mine.exclusionReason !== null) own.push(`This result is left out of the class figures: ${mine.exclusionReason || 'no reason given'}.`)
+  own.push(`Version ${mine.version}, ${SUBMISSION_STATUS_LABELS[mine.status].toLowerCase()}.`)
+  own.push(`${RESULTS_FACTOR_LABELS[ctx.keyFactor]} selectivity: ${digestNumber(mine.factor)}.`)
+  if (mine.factor !== null) own.push(...placement(mine.factor, mine.submissionId, ctx.classStats, ctx.literature))
+  own.push(`Mole %: ${molePercentText(ctx, mine.molePercents).join('; ')}.`)
+  for (const f of mine.flags) own.push(`Flag: ${f.message}`)
+  if (unit?.outlier) {
+    own.push(`The class’s outlier test (${OUTLIER_TEST_LABELS[test]}) flags this result: ${outlierFigures(test, unit.outlier)}. `
+      + 'Flagged results stay in the class figures unless a reviewer leaves them out with a reason.')
   }
+  if (mine.exclusionReason !== null) {
+    own.push(`This result is left out of the class figures: ${mine.exclusionReason || 'no reason given'}.`)
+  }
+  return own
+}
+
+/** The student's CSV: the class and section figures (headline first, the mean after the median), then their own row. */
+function studentDigestCsv(ctx: DigestContext, unit: DigestUnit | null, whose: string) {
+  const label = RESULTS_FACTOR_LABELS[ctx.keyFactor]
+  const mine = unit?.counted ?? null
+  const header = [
+    'Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature',
+    'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${digestProduct(p)}`),
+  ]
+  const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] => {
+    const h = s?.headline
+    return [name, label, s?.n ?? 0, h?.statistic ? HEADLINE_LABELS[h.statistic] : null, digestCell(h?.value),
+      digestCell(h?.ci95?.[0]), digestCell(h?.ci95?.[1]), digestCell(s?.median), digestCell(s?.mean), digestCell(ctx.literature),
+      null, null, null, null, ...mole.map((m) => digestCell(m))]
+  }
+  const flags = [
+    ...(mine?.flags.map((f) => f.code) ?? []), ...(unit?.outlier ? ['outlier'] : []),
+    ...(mine?.exclusionReason != null ? ['excluded'] : []),
+  ]
+  const rows: CsvCell[][] = [
+    statsRow('Class', ctx.classStats, ctx.products.map((p) => ctx.classMolePercents.find((m) => m.smiles === p.smiles)?.percent ?? null)),
+    statsRow(`Section ${ctx.section.code}`, ctx.sectionStats, ctx.products.map(() => null)),
+    [whose, label, null, null, null, null, null, null, null, digestCell(ctx.literature), digestCell(mine?.factor), mine?.version ?? null,
+      statusLabel(mine), flags.join('; '),
+      ...ctx.products.map((p) => digestCell(mine?.molePercents.find((m) => m.smiles === p.smiles)?.percent))],
+  ]
+  return digestCsvAttachment(`${digestSlug(ctx.course.code, ctx.practical.title, 'your-result')}.csv`, header, rows)
+}
+
+export function studentDigestTemplate(ctx: DigestContext, recipient: DigestRecipient): DigestMessage {
+  const unit = ctx.units.find((u) => u.members.some((m) => m.id === recipient.userId)) ?? null
+  const atStation = ctx.practical.workUnit === 'pair' && unit?.station !== null && unit?.station !== undefined
+  const whose = atStation ? 'Your station’s result' : 'Your result'
+  const own = ownResultLines(ctx, unit)
   const subject = `${ctx.course.code} · ${ctx.practical.title}: class results and yours`
   const intro = `Here are the class results for ${heading(ctx)}`
   const outro = 'The attached CSV holds the class figures and your own result.'
-  const text = [`Hello ${recipient.name},`, '', intro, '', ...classFigures(ctx), '', `${whose}:`, ...own.map((l) => `- ${l}`), '', outro, '', `Halocline, for ${ctx.course.code}`, ''].join('\n')
+  const text = [
+    `Hello ${recipient.name},`, '', intro, '', ...classFigures(ctx), '', `${whose}:`, ...own.map((l) => `- ${l}`), '', outro, '',
+    `Halocline, for ${ctx.course.code}`, '',
+  ].join('\n')
   const html = htmlPage([
     `<p>Hello ${escapeHtml(recipient.name)},</p>`, `<p>${escapeHtml(intro)}</p>`,
     `<h2 style="font-size:16px">Class results</h2>`, htmlList(classFigures(ctx)),
     `<h2 style="font-size:16px">${escapeHtml(whose)}</h2>`, htmlList(own),
     `<p>${escapeHtml(outro)}</p>`, `<p style="color:#3A5671">Halocline, for ${escapeHtml(ctx.course.code)}</p>`,
   ].join(''))
-
-  // The headline figure first, as in the text; the arithmetic mean after the median.
-  const header = ['Row', 'Factor', 'n', 'Headline statistic', 'Headline', '95 % CI low', '95 % CI high', 'Median', 'Arithmetic mean', 'Literature', 'Value', 'Version', 'Status', 'Flags', ...ctx.products.map((p) => `mol % ${digestProduct(p)}`)]
-  const statsRow = (name: string, s: FactorStats | null, mole: Array<number | null>): CsvCell[] => {
-    const h = s?.headline
-    return [name, label, s?.n ?? 0, h?.statistic ? HEADLINE_LABELS[h.statistic] : null, digestCell(h?.value), digestCell(h?.ci95?.[0]), digestCell(h?.ci95?.[1]),
-      digestCell(s?.median), digestCell(s?.mean), digestCell(ctx.literature), null, null, null, null, ...mole.map((m) => digestCell(m))]
-  }
-  const rows: CsvCell[][] = [
-    statsRow('Class', ctx.classStats, ctx.products.map((p) => ctx.classMolePercents.find((m) => m.smiles === p.smiles)?.percent ?? null)),
-    statsRow(`Section ${ctx.section.code}`, ctx.sectionStats, ctx.products.map(() => null)),
-    [whose, label, null, null, null, null, null, null, null, digestCell(ctx.literature), digestCell(mine?.factor), mine?.version ?? null, statusLabel(mine),
-      [...(mine?.flags.map((f) => f.code) ?? []), ...(unit?.outlier ? ['outlier'] : []), ...(mine?.exclusionReason != null ? ['excluded'] : [])].join('; '),
-      ...ctx.products.map((p) => digestCell(mine?.molePercents.find((m) => m.smiles === p.smiles)?.percent))],
-  ]
-  return {
-    to: recipient.email, subject, text, html,
-    attachments: [digestCsvAttachment(`${digestSlug(ctx.course.code, ctx.practical.title, 'your-result')}.csv`, header, rows)],
-  }
+  return { to: recipient.email, subject, text, html, attachments: [studentDigestCsv(ctx, unit, whose)] }
 }
 
-interface StaffRow { station: string, students: string, version: string, status: string, factor: string, flags: string, late: string, excluded: string }
+interface StaffRow {
+  station: string
+  students: string
+  version: string
+  status: string
+  factor: string
+  flags: string
+  late: string
+  excluded: string
+}
 
 function staffRow(ctx: DigestContext, unit: DigestUnit): StaffRow {
   const v = unit.latest
@@ -185,14 +223,18 @@ export function staffDigestTemplate(ctx: DigestContext, recipient: DigestRecipie
   const withResult = ctx.units.filter((u) => u.latest).length
   const test = ctx.classStats?.test
   const testLine = !test ? 'Outlier test: no results yet.'
-    : test.applied ? `Outlier test: ${OUTLIER_TEST_LABELS[test.name]}; ${ctx.units.filter((u) => u.outlier).length} result(s) flagged in this section.${test.note ? ` ${test.note}` : ''}`
+    : test.applied
+      ? `Outlier test: ${OUTLIER_TEST_LABELS[test.name]}; ${ctx.units.filter((u) => u.outlier).length} result(s) flagged in this section.`
+        + (test.note ? ` ${test.note}` : '')
       : `Outlier test: ${OUTLIER_TEST_LABELS[test.name]} could not run: ${test.note ?? 'not enough results'}.`
   const subject = `${ctx.course.code} ${ctx.section.code} · ${ctx.practical.title}: section results`
   const intro = `Section ${ctx.section.code} results for ${heading(ctx)} ${withResult} of ${ctx.units.length} work units have uploaded.`
   const header = ['Station', 'Students', 'Version', 'Status', `${label} selectivity`, 'Flags', 'Late', 'Excluded']
   const cells = rows.map((r) => [r.station, r.students, r.version, r.status, r.factor, r.flags, r.late, r.excluded])
-  const textRows = rows.map((r) => `- ${[r.station ? `Station ${r.station}` : null, r.students, r.version ? `v${r.version}` : null, r.status,
-    r.factor ? `${label} ${r.factor}` : null, r.flags ? `flags: ${r.flags}` : null, r.late || null, r.excluded || null].filter(Boolean).join(' · ')}`)
+  const textRows = rows.map((r) => `- ${[
+    r.station ? `Station ${r.station}` : null, r.students, r.version ? `v${r.version}` : null, r.status,
+    r.factor ? `${label} ${r.factor}` : null, r.flags ? `flags: ${r.flags}` : null, r.late || null, r.excluded || null,
+  ].filter(Boolean).join(' · ')}`)
   const text = [`Hello ${recipient.name},`, '', intro, '', ...classFigures(ctx), testLine, '', 'Section table:', ...textRows, '',
     'The attached CSV holds the same table with the mole % of each product.', '', `Halocline, for ${ctx.course.code}`, ''].join('\n')
   const html = htmlPage([
@@ -203,7 +245,10 @@ export function staffDigestTemplate(ctx: DigestContext, recipient: DigestRecipie
     `<p style="color:#3A5671">Halocline, for ${escapeHtml(ctx.course.code)}</p>`,
   ].join(''))
 
-  const csvHeader = ['Station', 'Students', 'Version', 'Status', `${label} selectivity`, ...ctx.products.map((p) => `mol % ${digestProduct(p)}`), 'Flags', 'Late', 'Excluded', 'Exclusion reason']
+  const csvHeader = [
+    'Station', 'Students', 'Version', 'Status', `${label} selectivity`, ...ctx.products.map((p) => `mol % ${digestProduct(p)}`),
+    'Flags', 'Late', 'Excluded', 'Exclusion reason',
+  ]
   const csvRows: CsvCell[][] = ctx.units.map((u, i) => {
     const v = u.latest
     return [u.station, rows[i]!.students, v?.version ?? null, rows[i]!.status, digestCell(v?.factor),
@@ -212,7 +257,9 @@ export function staffDigestTemplate(ctx: DigestContext, recipient: DigestRecipie
   })
   return {
     to: recipient.email, subject, text, html,
-    attachments: [digestCsvAttachment(`${digestSlug(ctx.course.code, ctx.section.code, ctx.practical.title, 'section')}.csv`, csvHeader, csvRows)],
+    attachments: [
+      digestCsvAttachment(`${digestSlug(ctx.course.code, ctx.section.code, ctx.practical.title, 'section')}.csv`, csvHeader, csvRows),
+    ],
   }
 }
 

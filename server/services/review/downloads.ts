@@ -1,4 +1,6 @@
 import type { H3Event } from 'h3'
+import { setResponseHeaders } from 'h3'
+import { useDb } from '../../utils/db'
 
 /**
  * A download name that is safe in any header, file system and spreadsheet: ASCII letters,
@@ -32,4 +34,11 @@ export async function isReviewUnitMember(userId: number, submissionId: number): 
       .where('m.userId', '=', userId)))
     .executeTakeFirst()
   return Boolean(row)
+}
+
+/** The stored original of a submission, with its version, for the download. */
+export function submissionFile(submissionId: number) {
+  return useDb().selectFrom('submissions').innerJoin('files', 'files.id', 'submissions.fileId')
+    .select(['submissions.version', 'files.originalName', 'files.content', 'files.mediaType'])
+    .where('submissions.id', '=', submissionId).executeTakeFirstOrThrow()
 }

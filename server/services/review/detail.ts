@@ -1,9 +1,15 @@
-import type { ReviewerScope } from './review-scope'
-import type { StoredFlag, Submission } from '../database/schema'
+import type { ReviewerScope } from './scope'
+import type { StoredFlag, Submission } from '../../database/schema'
 import type { PeakView, StoredResult } from '#shared/types/submission'
 import type { AccuracySuggestionView, ReviewFactorKey, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { buildReviewQueue, flagsWithOutlier, nextPendingAfter, queuePracticalOf, unitViewsOf } from './queue'
+import { reviewSectionIds } from './scope'
+import { diffVersions } from './version-diff'
+import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
+import { invalid } from '../../utils/validation'
 
 // Everything a reviewer looks at for one submission: the peaks and result, flags (with the
 // class outlier test), the three distributions, every version of the work unit and a diff,
@@ -23,7 +29,9 @@ async function unitVersions(scope: ReviewerScope, submission: Submission) {
 type VersionRow = Awaited<ReturnType<typeof unitVersions>>[number]
 
 /** Default: the previous version against this one; ?compare= picks the other side. Older one first. */
-function chosenDiff(versions: VersionRow[], current: VersionRow, compareId: number | undefined, labels: Map<string, string>): VersionDiff | null {
+function chosenDiff(
+  versions: VersionRow[], current: VersionRow, compareId: number | undefined, labels: Map<string, string>,
+): VersionDiff | null {
   let other: VersionRow | undefined
   if (compareId !== undefined) {
     other = versions.find((v) => v.id === compareId)
@@ -34,7 +42,9 @@ function chosenDiff(versions: VersionRow[], current: VersionRow, compareId: numb
   }
   if (!other) return null
   const [from, to] = other.version < current.version ? [other, current] : [current, other]
-  const side = (v: VersionRow) => ({ id: v.id, version: v.version, peaks: v.parsed as PeakView[], result: v.result as StoredResult, flags: v.flags as StoredFlag[] })
+  const side = (v: VersionRow) => ({
+    id: v.id, version: v.version, peaks: v.parsed as PeakView[], result: v.result as StoredResult, flags: v.flags as StoredFlag[],
+  })
   return diffVersions(side(from), side(to), labels)
 }
 
@@ -51,7 +61,9 @@ async function unitReviews(versionIds: number[]): Promise<ReviewView[]> {
   }))
 }
 
-export function accuracySuggestionFor(scope: ReviewerScope, observed: number | null, expected: number | null, comparedWith: string): AccuracySuggestionView {
+export function accuracySuggestionFor(
+  scope: ReviewerScope, observed: number | null, expected: number | null, comparedWith: string,
+): AccuracySuggestionView {
   const tolerancePercent = scope.course.accuracyTolerancePercent
   const scores: Record<string, number> = {}
   for (const c of scope.course.rubric.filter((r) => r.kind === 'accuracy')) {
@@ -62,28 +74,60 @@ export function accuracySuggestionFor(scope: ReviewerScope, observed: number | n
   return { tolerancePercent, observed, expected, comparedWith, deviationPercent, scores }
 }
 
-export async function buildSubmissionDetail(scope: ReviewerScope, submission: Submission, compareId?: number): Promise<SubmissionDetail> {
+type Chemistry = Awaited<ReturnType<typeof practicalChemistry>>
+
+/** Each product's share in this run beside the statistical, predicted and reference shares. */
+function detailDistribution(chemistry: Chemistry, result: StoredResult): SubmissionDetail['distribution'] {
+  return chemistry.products.map((p) => ({
+    smiles: p.smiles, label: p.label, name: p.name, carbonClass: p.carbonClass, hydrogens: p.hydrogens,
+    observed: result.molePercents.find((m) => m.smiles === p.smiles)?.percent ?? null,
+    statistical: chemistry.statistical.find((m) => m.smiles === p.smiles)?.percent ?? 0,
+    predicted: chemistry.predicted.find((m) => m.smiles === p.smiles)?.percent ?? 0,
+    reference: referenceShare(chemistry, p.smiles),
+  }))
+}
+
+/** The solvent and starting-material windows the trace is drawn with. */
+function referenceWindowsOf(chemistry: Chemistry): SubmissionDetail['referenceWindows'] {
+  const { solvent, startingMaterial } = chemistry
+  return [
+    ...(solvent ? [{ kind: 'solvent' as const, rtMin: solvent.rtMin, rtMax: solvent.rtMax }] : []),
+    ...(startingMaterial ? [{ kind: 'starting-material' as const, rtMin: startingMaterial.rtMin, rtMax: startingMaterial.rtMax }] : []),
+  ]
+}
+
+/** The substrate and method names, the section, and who uploaded and who excluded the run. */
+async function detailFacts(scope: ReviewerScope, submission: Submission) {
   const db = useDb()
-  const chemistry = await practicalChemistry(scope.practical)
-  const key = chemistry.keyFactor
-  const [versions, queue, units, names, section] = await Promise.all([
-    unitVersions(scope, submission),
-    buildReviewQueue(scope, key),
-    unitViewsOf([submission]),
-    db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId').innerJoin('methods', 'methods.id', 'practicals.methodId')
+  const [names, section, people] = await Promise.all([
+    db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
+      .innerJoin('methods', 'methods.id', 'practicals.methodId')
       .select(['substrates.name as substrateName', 'substrates.smiles', 'methods.name as methodName', 'methods.reagent'])
       .where('practicals.id', '=', scope.practical.id).executeTakeFirstOrThrow(),
     db.selectFrom('sections').select(['id', 'code']).where('id', '=', submission.sectionId).executeTakeFirstOrThrow(),
+    db.selectFrom('users').select(['id', 'name'])
+      .where('id', 'in', [submission.submittedBy, submission.excludedBy ?? submission.submittedBy]).execute(),
+  ])
+  const nameOf = (id: number | null) => people.find((p) => p.id === id)?.name ?? null
+  return { names, section, nameOf }
+}
+
+export async function buildSubmissionDetail(scope: ReviewerScope, submission: Submission, compareId?: number): Promise<SubmissionDetail> {
+  const chemistry = await practicalChemistry(scope.practical)
+  const key = chemistry.keyFactor
+  const [versions, queue, units, { names, section, nameOf }] = await Promise.all([
+    unitVersions(scope, submission),
+    buildReviewQueue(scope, key),
+    unitViewsOf([submission]),
+    detailFacts(scope, submission),
   ])
   const current = versions.find((v) => v.id === submission.id)!
   const labels = new Map(chemistry.products.map((p) => [p.smiles, p.label]))
   const result = submission.result as StoredResult
   const { flags, attention } = flagsWithOutlier(submission.flags as StoredFlag[], submission.id, queue.outliers, key)
   const latest = versions.at(-1)!
-  const people = await db.selectFrom('users').select(['id', 'name'])
-    .where('id', 'in', [submission.submittedBy, submission.excludedBy ?? submission.submittedBy]).execute()
-  const nameOf = (id: number | null) => people.find((p) => p.id === id)?.name ?? null
   const observed = keyFactorValue(submission, key)
+  const excludedAt = submission.excludedAt
   return {
     id: submission.id,
     version: submission.version,
@@ -108,18 +152,9 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     flags,
     attention,
     outliers: queue.outliers.run,
-    distribution: chemistry.products.map((p) => ({
-      smiles: p.smiles, label: p.label, name: p.name, carbonClass: p.carbonClass, hydrogens: p.hydrogens,
-      observed: result.molePercents.find((m) => m.smiles === p.smiles)?.percent ?? null,
-      statistical: chemistry.statistical.find((m) => m.smiles === p.smiles)?.percent ?? 0,
-      predicted: chemistry.predicted.find((m) => m.smiles === p.smiles)?.percent ?? 0,
-      reference: referenceShare(chemistry, p.smiles),
-    })),
+    distribution: detailDistribution(chemistry, result),
     windows: chemistry.windows.map((w) => ({ productSmiles: w.productSmiles, rtMin: w.rtMin, rtMax: w.rtMax })),
-    referenceWindows: [
-      ...(chemistry.solvent ? [{ kind: 'solvent' as const, rtMin: chemistry.solvent.rtMin, rtMax: chemistry.solvent.rtMax }] : []),
-      ...(chemistry.startingMaterial ? [{ kind: 'starting-material' as const, rtMin: chemistry.startingMaterial.rtMin, rtMax: chemistry.startingMaterial.rtMax }] : []),
-    ],
+    referenceWindows: referenceWindowsOf(chemistry),
     versions: versions.map((v) => ({
       id: v.id, version: v.version, submittedAt: v.createdAt.toISOString(), fileName: v.originalName, status: v.status,
       keyFactor: keyFactorValue(v, key), late: v.late, excluded: v.excludedAt !== null,
@@ -128,7 +163,9 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     reviews: await unitReviews(versions.map((v) => v.id)),
     rubric: scope.course.rubric,
     suggestion: accuracySuggestionFor(scope, observed, chemistry.expected.factors[key], chemistry.expected.description),
-    excluded: submission.excludedAt ? { at: submission.excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' } : null,
+    excluded: excludedAt
+      ? { at: excludedAt.toISOString(), by: nameOf(submission.excludedBy), reason: submission.exclusionReason ?? '' }
+      : null,
     nextPendingId: nextPendingAfter(queue.rows, submission.id),
     pendingCount: queue.rows.filter((r) => r.status === 'pending').length,
   }

@@ -1,9 +1,14 @@
-import type { PracticalScope } from './access'
-import type { StoredFlag, SubmissionStatus } from '../database/schema'
+import type { PracticalScope } from '../../utils/access'
+import type { StoredFlag, SubmissionStatus } from '../../database/schema'
 import type { DigestRecipient, ResultsKeyFactor } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
-import { stationOfUnitKey, unitKeyOf } from '../services/submissions/work-units'
+import { stationOfUnitKey, unitKeyOf } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
+import { createError } from 'h3'
+import { latestClassResults } from '../results/latest-versions'
+import { practicalSummary } from '../results/summary'
+import { practicalChemistry } from '../submissions/practical-chemistry'
+import { useDb } from '../../utils/db'
 
 
 export interface DigestPerson { id: number, name: string, email: string }
@@ -97,7 +102,9 @@ async function digestRecipients(scope: PracticalScope, sectionId: number): Promi
 }
 
 /** The section's units: enrolled students grouped as the practical counts them, plus any past uploader. */
-async function digestUnits(scope: PracticalScope, sectionId: number, stats: FactorStats | null, keyFactor: ResultsKeyFactor): Promise<DigestUnit[]> {
+async function digestUnits(
+  scope: PracticalScope, sectionId: number, stats: FactorStats | null, keyFactor: ResultsKeyFactor,
+): Promise<DigestUnit[]> {
   const db = useDb()
   const enrolled = await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
     .select(['users.id', 'users.name', 'users.email', 'enrollments.station']).where('enrollments.sectionId', '=', sectionId)
@@ -144,7 +151,8 @@ export async function loadDigestContext(scope: PracticalScope, sectionId: number
     .select(['sections.id', 'sections.code', 'practicalSessions.meetingDate'])
     .where('sections.id', '=', sectionId).where('practicalSessions.practicalId', '=', scope.practical.id).executeTakeFirstOrThrow()
   const names = await db.selectFrom('substrates').innerJoin('methods', (j) => j.on('methods.id', '=', scope.practical.methodId))
-    .select(['substrates.name as substrate', 'methods.name as method']).where('substrates.id', '=', scope.practical.substrateId).executeTakeFirstOrThrow()
+    .select(['substrates.name as substrate', 'methods.name as method'])
+    .where('substrates.id', '=', scope.practical.substrateId).executeTakeFirstOrThrow()
   const chemistry = await practicalChemistry(scope.practical)
   // The official figures: the course's own test, nothing left out but what a reviewer excluded.
   const summary = await practicalSummary(scope, {})

@@ -1,4 +1,4 @@
-import type { ReleasePolicy } from '../database/schema'
+import type { ReleasePolicy } from '../../database/schema'
 
 export interface ReleaseFacts {
   /** A TA or instructor has reviewed this version. */

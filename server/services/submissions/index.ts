@@ -1,0 +1,6 @@
+// Uploads and the student's own results: what routes may use. work-units.ts names whose result a
+// submission is; practical-chemistry.ts loads what a practical's runs are computed against.
+export { computeRun, createSubmission, previewOf, storeSubmissionVersion, studentUnit, type StudentWorkUnit } from './uploads'
+export { mySubmissionsOf, type MySubmissionsView } from './student-view'
+export { expectationView, practicalChemistry, referenceShare } from './practical-chemistry'
+export { stationOfUnitKey, unitKeyOf } from './work-units'

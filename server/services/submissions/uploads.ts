@@ -1,0 +1,224 @@
+import { sql } from 'kysely'
+import type { Kysely } from 'kysely'
+import type { PracticalScope } from '../../utils/access'
+import type { UploadedFile } from '../../utils/files'
+import type { Database, Submission } from '../../database/schema'
+import type { KeyFactor } from '#shared/utils/key-factor'
+import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
+import { attentionOf, RunInputError, type RunResult } from '#shared/utils/submission'
+import { stationOfUnitKey, unitKeyOf } from './work-units'
+import { createError } from 'h3'
+import { expectationView, practicalChemistry } from './practical-chemistry'
+import { audit, type Actor } from '../../utils/audit'
+import { runEngine } from '../../utils/engines'
+import { asUploadFormatError, storeFile } from '../../utils/files'
+import { stationMates } from '../roster'
+
+export interface StudentWorkUnit {
+  sectionId: number
+  unitKey: string
+  /** Everyone the result counts for: the student, and their station partner(s) for pair work. */
+  memberIds: number[]
+  dueAt: Date | null
+  /** The day the caller's section runs the practical ('YYYY-MM-DD'). */
+  meetingDate: string | null
+}
+
+/** The caller's own work unit for a practical: 404 unless they are a student in a section that runs it. */
+export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): Promise<StudentWorkUnit> {
+  if (scope.role !== 'student') throw createError({ statusCode: 403, statusMessage: 'Only students upload results' })
+  const enrollment = await db.selectFrom('enrollments').select(['sectionId', 'station'])
+    .where('userId', '=', scope.me.id).where('status', '=', 'active')
+    .where('sectionId', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1])
+    .executeTakeFirst()
+  if (!enrollment) throw createError({ statusCode: 404, statusMessage: 'Practical not found' })
+  const session = await db.selectFrom('practicalSessions').select(['dueAt', 'meetingDate'])
+    .where('practicalId', '=', scope.practical.id).where('sectionId', '=', enrollment.sectionId).executeTakeFirst()
+  const student = { userId: scope.me.id, sectionId: enrollment.sectionId, station: enrollment.station }
+  const unitKey = unitKeyOf(scope.practical.workUnit, student)
+  const partners = stationOfUnitKey(unitKey) === null ? [] : await stationMates(db, enrollment.sectionId, enrollment.station!)
+  return {
+    sectionId: enrollment.sectionId,
+    unitKey,
+    memberIds: [...new Set([scope.me.id, ...partners.map((p) => p.userId)])],
+    dueAt: session?.dueAt ?? null,
+    meetingDate: session?.meetingDate ?? null,
+  }
+}
+
+/**
+ * Runs the engines on an uploaded file (text, .xlsx or ANDI/AIA netCDF, judged by its bytes) in
+ * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
+ * the original is kept as.
+ */
+export async function computeRun(
+  scope: PracticalScope, file: UploadedFile,
+): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, mediaType: string }> {
+  const chemistry = await practicalChemistry(scope.practical)
+  if (!chemistry.windows.length) {
+    throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
+  }
+  try {
+    const bytes = new Uint8Array(file.bytes)
+    const { run, mediaType } = await runEngine('evaluateUpload', { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer] })
+    return { run, chemistry, mediaType }
+  } catch (error) {
+    if (error instanceof RunInputError) {
+      throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
+    }
+    throw asUploadFormatError(error)
+  }
+}
+
+export function toCreated(
+  row: Pick<Submission, 'id' | 'version' | 'status' | 'result' | 'flags' | 'late' | 'inputKind'>,
+): SubmissionCreated {
+  const result = row.result as StoredResult
+  return {
+    id: row.id,
+    version: row.version,
+    status: row.status,
+    result: { molePercents: result.molePercents, factors: result.factors },
+    flags: row.flags as FlagView[],
+    late: row.late,
+    kind: row.inputKind,
+  }
+}
+
+export function previewOf(run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, late: boolean): SubmissionPreview {
+  return {
+    kind: run.kind,
+    molePercents: run.molePercents,
+    factors: run.factors,
+    peaks: run.peaks,
+    flags: run.flags,
+    relative: run.relative,
+    conversion: run.conversion,
+    unassignedPercent: run.unassignedPercent,
+    warnings: run.warnings,
+    predicted: chemistry.predicted,
+    statistical: chemistry.statistical,
+    products: chemistry.products,
+    expected: expectationView(chemistry),
+    productKind: chemistry.productKind,
+    late,
+  }
+}
+
+async function byIdempotencyKey(db: Kysely<Database>, userId: number, key: string) {
+  return db.selectFrom('submissions').selectAll().where('submittedBy', '=', userId).where('idempotencyKey', '=', key).executeTakeFirst()
+}
+
+const UNIQUE_VIOLATION = '23505'
+
+/** What a new version is made of: the unit it counts for, the file, and what the engines made of it. */
+export interface NewVersion {
+  practicalId: number
+  unit: Pick<StudentWorkUnit, 'sectionId' | 'unitKey' | 'memberIds'>
+  file: UploadedFile
+  /** What the original is kept as (text/plain, a workbook, netCDF). */
+  mediaType: string
+  run: RunResult
+  keyFactor: KeyFactor
+  late: boolean
+  idempotencyKey: string | null
+}
+
+/** The result as stored with a version: what every later figure is computed from. */
+function storedResultOf(run: RunResult, keyFactor: KeyFactor): StoredResult {
+  return {
+    molePercents: run.molePercents,
+    factors: run.factors,
+    relative: run.relative,
+    conversion: run.conversion,
+    unassignedPercent: run.unassignedPercent,
+    warnings: run.warnings,
+    keyFactor,
+  }
+}
+
+/**
+ * Stores the next version of a work unit in one transaction: the original bytes, the parsed
+ * peaks and the computed result, the unit's members and the audit row. One writer per work unit
+ * at a time, so two partners uploading at once get versions n and n+1.
+ */
+export async function storeSubmissionVersion(db: Kysely<Database>, actor: Actor, v: NewVersion): Promise<Submission> {
+  return db.transaction().execute(async (trx) => {
+    await sql`select pg_advisory_xact_lock(hashtext(${`submission:${v.practicalId}:${v.unit.unitKey}`}))`.execute(trx)
+    const { next } = await trx.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
+      .where('practicalId', '=', v.practicalId).where('unitKey', '=', v.unit.unitKey).executeTakeFirstOrThrow()
+    const fileId = await storeFile(trx, v.file, actor.id, v.mediaType)
+    const inserted = await trx.insertInto('submissions').values({
+      practicalId: v.practicalId,
+      sectionId: v.unit.sectionId,
+      unitKey: v.unit.unitKey,
+      version: next,
+      fileId,
+      inputKind: v.run.kind,
+      sha256: v.file.sha256,
+      parsed: JSON.stringify(v.run.peaks),
+      result: JSON.stringify(storedResultOf(v.run, v.keyFactor)),
+      flags: JSON.stringify(v.run.flags),
+      attention: attentionOf(v.run.flags),
+      factorSecondary: v.run.factors.secondaryToPrimary,
+      factorTertiary: v.run.factors.tertiaryToPrimary,
+      late: v.late,
+      submittedBy: actor.id,
+      idempotencyKey: v.idempotencyKey,
+    }).returningAll().executeTakeFirstOrThrow()
+    await trx.insertInto('submissionMembers').values(v.unit.memberIds.map((userId) => ({ submissionId: inserted.id, userId }))).execute()
+    await audit(trx, actor, {
+      action: 'submission.create', entity: 'submission', entityId: inserted.id,
+      after: {
+        practicalId: v.practicalId, unitKey: v.unit.unitKey, version: next, sha256: v.file.sha256, fileName: v.file.name, late: v.late,
+      },
+    })
+    return inserted
+  })
+}
+
+/** The first answer to a repeated Idempotency-Key, or null for a new key; 409 when it was for another practical. */
+async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: number, key: string | null) {
+  if (!key) return null
+  const earlier = await byIdempotencyKey(db, userId, key)
+  if (earlier && earlier.practicalId !== practicalId) {
+    throw createError({ statusCode: 409, statusMessage: 'This Idempotency-Key was already used for another practical' })
+  }
+  return earlier ? { status: 201, body: toCreated(earlier) } : null
+}
+
+/** The newest version of a work unit, if any. */
+function latestOfUnit(db: Kysely<Database>, practicalId: number, unitKey: string) {
+  return db.selectFrom('submissions').selectAll()
+    .where('practicalId', '=', practicalId).where('unitKey', '=', unitKey)
+    .orderBy('version', 'desc').limit(1).executeTakeFirst()
+}
+
+/**
+ * A student's upload: a repeated Idempotency-Key returns the first answer; the same file as the
+ * latest version is recognised (200 with identicalTo) and stores nothing; else a new version.
+ */
+export async function createSubmission(
+  db: Kysely<Database>, actor: Actor, scope: PracticalScope, file: UploadedFile, idempotencyKey: string | null,
+): Promise<{ status: number, body: SubmissionCreated }> {
+  const earlier = await earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
+  if (earlier) return earlier
+  const unit = await studentUnit(db, scope)
+  const { run, chemistry, mediaType } = await computeRun(scope, file)
+  const latest = await latestOfUnit(db, scope.practical.id, unit.unitKey)
+  if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
+  const late = unit.dueAt !== null && Date.now() > unit.dueAt.getTime()
+  try {
+    const row = await storeSubmissionVersion(db, actor, {
+      practicalId: scope.practical.id, unit, file, mediaType, run, keyFactor: chemistry.keyFactor, late, idempotencyKey,
+    })
+    return { status: 201, body: toCreated(row) }
+  } catch (error) {
+    // The same key sent twice at once: the loser of the race answers with the winner's row.
+    if ((error as { code?: string }).code === UNIQUE_VIOLATION && idempotencyKey) {
+      const winner = await byIdempotencyKey(db, actor.id, idempotencyKey)
+      if (winner) return { status: 201, body: toCreated(winner) }
+    }
+    throw error
+  }
+}
