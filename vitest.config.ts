@@ -1,5 +1,9 @@
+import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
+
+// Plain vitest projects resolve `#shared` as Nuxt does (service and server code import it).
+const sharedAlias = { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) }
 
 export default defineConfig({
   test: {
@@ -21,6 +25,7 @@ export default defineConfig({
       {
         test: {
           name: 'services',
+          alias: sharedAlias,
           include: ['tests/services/**/*.test.ts'],
           environment: 'node',
           // Domain commands against a database of their own, without HTTP (tests/support/db.ts).
