@@ -68,7 +68,8 @@ async function prepareDatabase(secrets) {
     if (didStart) started.cluster = paths
     return didStart ? 'started' : 'already running'
   })
-  await step('Creating the database', async () => ((await ensureDatabase({ password, port: pgPort, database: 'halocline' })) ? 'created' : 'exists'))
+  const created = () => ensureDatabase({ password, port: pgPort, database: 'halocline' })
+  await step('Creating the database', async () => ((await created()) ? 'created' : 'exists'))
   return databaseUrl({ password, port: pgPort, database: 'halocline' })
 }
 

@@ -81,7 +81,9 @@ export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ign
       server.once('exit', resolve)
       server.kill('SIGTERM')
     }))
-    return { baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop }
+    return {
+      baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop,
+    }
   } catch (error) {
     await stop()
     throw error

@@ -103,7 +103,9 @@ export function workUnitsOf(students: Array<{ station: number | null }>, workUni
  * One work unit's amount of an item in the reagent's stock unit, or a sentence saying why not.
  * The item's own molar mass and density come first; the catalog's fill the gaps.
  */
-export function perUnitAmount(quantity: QuantityView, item: ForecastItem, reagent: ForecastReagent): { amount: number } | { problem: string } {
+export function perUnitAmount(
+  quantity: QuantityView, item: ForecastItem, reagent: ForecastReagent,
+): { amount: number } | { problem: string } {
   const cannot = (why: string) => ({ problem: `${item.name} (${reagent.name}): ${why}` })
   if (item.reagentGramsPerMl !== null) {
     if (quantity.millilitres === null) return cannot('a concentration in g/mL needs the item in mL.')
@@ -124,7 +126,10 @@ export function perUnitAmount(quantity: QuantityView, item: ForecastItem, reagen
 
 /** Items as computeQuantities sees them, with the catalog's molar mass and density filling gaps. */
 function withCatalogData(item: ForecastItem, reagent: ForecastReagent | undefined): ItemSpec {
-  const spec: ItemSpec = { role: item.role, name: item.name, smiles: item.smiles, molarMass: item.molarMass, density: item.density, basis: item.basis, amount: item.amount }
+  const spec: ItemSpec = {
+    role: item.role, name: item.name, smiles: item.smiles, molarMass: item.molarMass, density: item.density, basis: item.basis,
+    amount: item.amount,
+  }
   // A solution's density is not the solid's: only the item itself is taken as the reagent.
   if (!reagent || item.reagentGramsPerMl !== null) return spec
   return { ...spec, molarMass: spec.molarMass ?? reagent.molarMass, density: spec.density ?? (isGas(item.smiles) ? null : reagent.density) }
@@ -149,7 +154,9 @@ interface Demand { date: string, amount: number }
  * First-expiring first: each demand, in date order, draws from the in-date lot that expires
  * soonest. This covers as much as any order of drawing can. Returns what each lot gave.
  */
-export function allocateStock(demands: Demand[], lots: Array<{ id: number, remaining: number, expiresOn: string | null }>): { covered: number[], drawn: Map<number, number> } {
+export function allocateStock(
+  demands: Demand[], lots: Array<{ id: number, remaining: number, expiresOn: string | null }>,
+): { covered: number[], drawn: Map<number, number> } {
   const left = lots.map((l) => ({ ...l, left: l.remaining }))
     .sort((a, b) => (a.expiresOn ?? '9999-12-31').localeCompare(b.expiresOn ?? '9999-12-31') || a.id - b.id)
   const drawn = new Map<number, number>()
@@ -218,7 +225,9 @@ function skipReason(s: ForecastSessionInput, today: string): string | null {
 }
 
 /** The meetings in date order: what each draws per reagent (with overage), and the range's sessions. */
-function scheduledDemand(input: ForecastInput, reagents: Map<number, ForecastReagent>, perUnit: Map<number, PerUnitNeeds>): ScheduledDemand {
+function scheduledDemand(
+  input: ForecastInput, reagents: Map<number, ForecastReagent>, perUnit: Map<number, PerUnitNeeds>,
+): ScheduledDemand {
   const practicals = new Map(input.practicals.map((p) => [p.id, p]))
   const out: ScheduledDemand = { sessions: [], skippedSessions: [], demands: new Map() }
   const ordered = [...input.sessions]
@@ -232,7 +241,8 @@ function scheduledDemand(input: ForecastInput, reagents: Map<number, ForecastRea
     if (skip) {
       if (inRange) {
         out.skippedSessions.push({
-          practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, sectionCode: s.sectionCode, meetingDate: s.meetingDate, reason: skip,
+          practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, sectionCode: s.sectionCode, meetingDate: s.meetingDate,
+          reason: skip,
         })
       }
       continue
@@ -245,7 +255,8 @@ function scheduledDemand(input: ForecastInput, reagents: Map<number, ForecastRea
     }
     if (!inRange) continue
     out.sessions.push({
-      practicalId: p.id, practicalTitle: p.title, courseId: p.courseId, courseCode: p.courseCode, sectionId: s.sectionId, sectionCode: s.sectionCode,
+      practicalId: p.id, practicalTitle: p.title, courseId: p.courseId, courseCode: p.courseCode, sectionId: s.sectionId,
+      sectionCode: s.sectionCode,
       meetingDate: s.meetingDate, week: weekStart(s.meetingDate), students: s.students, units: s.units, workUnit: p.workUnit,
       halogenatedWasteMl: round(s.units * per.wasteMl, 1),
     })

@@ -9,10 +9,14 @@ import { mailVisibleTo } from './scope'
 
 // The outbox: the messages a staff member may see, sending one again, and a test message.
 
-export async function outboxMessages(db: Kysely<Database>, me: SessionUser, filter: { status?: MailStatus, limit: number }): Promise<OutboxMessage[]> {
+export async function outboxMessages(
+  db: Kysely<Database>, me: SessionUser, filter: { status?: MailStatus, limit: number },
+): Promise<OutboxMessage[]> {
   let query = db
     .selectFrom('mailMessages')
-    .select(['id', 'kind', 'toAddresses', 'subject', 'status', 'attempts', 'unknownOutcomes', 'lastError', 'scheduledAt', 'sentAt', 'createdAt'])
+    .select([
+      'id', 'kind', 'toAddresses', 'subject', 'status', 'attempts', 'unknownOutcomes', 'lastError', 'scheduledAt', 'sentAt', 'createdAt',
+    ])
     .where(mailVisibleTo(me))
     .orderBy('createdAt', 'desc')
     .limit(filter.limit)

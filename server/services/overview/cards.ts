@@ -50,7 +50,8 @@ export async function reviewCards(event: H3Event, me: SessionUser): Promise<Over
 export function nextLabCard(entries: ScheduleEntry[]): OverviewCard {
   const next = entries.find((e) => e.practicals.length && e.start >= new Date().toISOString())
   if (!next) {
-    return { title: 'Next practical', value: '—', detail: 'No practical is scheduled in the coming four weeks.', to: '/schedule', action: 'Open the schedule' }
+    const detail = 'No practical is scheduled in the coming four weeks.'
+    return { title: 'Next practical', value: '—', detail, to: '/schedule', action: 'Open the schedule' }
   }
   const day = new Intl.DateTimeFormat('en-US', {
     timeZone: next.timezone, weekday: 'short', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false,
@@ -58,7 +59,8 @@ export function nextLabCard(entries: ScheduleEntry[]): OverviewCard {
   return {
     title: 'Next practical',
     value: day,
-    detail: `${next.practicals.map((p) => p.title).join(', ')} · ${next.courseCode} ${next.sectionCode}, ${next.room}, ${plural(next.enrolled, 'student')}`,
+    detail: `${next.practicals.map((p) => p.title).join(', ')} · ${next.courseCode} ${next.sectionCode}, ${next.room}, `
+      + plural(next.enrolled, 'student'),
     to: `/practicals/${next.practicals[0]!.id}`,
     action: 'Open the practical',
   }
@@ -117,7 +119,8 @@ export async function classResultCard(event: H3Event, me: SessionUser): Promise<
   return {
     title: `Class ${name} selectivity`,
     value: headline.value.toFixed(2),
-    detail: `${HEADLINE_LABELS[headline.statistic]} of ${plural(stats.n, 'result')} in ${scope.practical.title}${ci}${median}${predicted}${flagged}.`,
+    detail: `${HEADLINE_LABELS[headline.statistic]} of ${plural(stats.n, 'result')} in ${scope.practical.title}`
+      + `${ci}${median}${predicted}${flagged}.`,
     to: `/results/practicals/${latest.id}`,
     action: 'Open the class results',
     tone: stats.outliers.length ? 'warning' : undefined,

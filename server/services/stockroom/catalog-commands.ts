@@ -24,7 +24,9 @@ export async function createReagent(db: Kysely<Database>, actor: Actor, input: z
 }
 
 /** A change to a reagent; its unit stays while it has lots (their quantities are in that unit). */
-export async function updateReagent(db: Kysely<Database>, actor: Actor, id: number, input: z.output<typeof reagentPatchSchema>): Promise<Reagent> {
+export async function updateReagent(
+  db: Kysely<Database>, actor: Actor, id: number, input: z.output<typeof reagentPatchSchema>,
+): Promise<Reagent> {
   const before = await requireReagent(db, id)
   const merged = { ...reagentFields(before), ...input }
   const issues = reagentRuleIssues(merged)
@@ -35,12 +37,15 @@ export async function updateReagent(db: Kysely<Database>, actor: Actor, id: numb
     if (input.unit && input.unit !== before.unit) {
       const lots = await trx.selectFrom('reagentLots').select('id').where('reagentId', '=', id).limit(1).execute()
       if (lots.length) {
-        throw createError({ statusCode: 409, statusMessage: `unit: its lots are counted in ${before.unit}; the unit cannot change while it has stock` })
+        const why = `unit: its lots are counted in ${before.unit}; the unit cannot change while it has stock`
+        throw createError({ statusCode: 409, statusMessage: why })
       }
     }
     const updated = await trx.updateTable('reagents').set({ ...input, ...identity, updatedAt: new Date() })
       .where('id', '=', id).returningAll().executeTakeFirstOrThrow()
-    await auditAs(trx, actor, { action: 'reagent.update', entity: 'reagent', entityId: id, before: reagentFields(before), after: reagentFields(updated) })
+    await auditAs(trx, actor, {
+      action: 'reagent.update', entity: 'reagent', entityId: id, before: reagentFields(before), after: reagentFields(updated),
+    })
     return updated
   })
 }
@@ -52,7 +57,9 @@ export async function deleteReagent(db: Kysely<Database>, actor: Actor, id: numb
     const lots = await trx.selectFrom('reagentLots').select('id').where('reagentId', '=', id).limit(1).execute()
     const items = await trx.selectFrom('practicalItems').select('id').where('reagentId', '=', id).limit(1).execute()
     if (lots.length || items.length) {
-      const why = lots.length ? 'This reagent has stock lots; it stays in the catalog' : 'Practicals draw on this reagent; unlink their items first'
+      const why = lots.length
+        ? 'This reagent has stock lots; it stays in the catalog'
+        : 'Practicals draw on this reagent; unlink their items first'
       throw createError({ statusCode: 409, statusMessage: why })
     }
     await trx.deleteFrom('reagents').where('id', '=', id).execute()
@@ -70,7 +77,8 @@ export async function linkItemToReagent(db: Kysely<Database>, actor: Actor, item
     .where('id', '=', itemId).executeTakeFirst()
   if (!item) throw createError({ statusCode: 404, statusMessage: 'Practical item not found' })
   if (input.reagentId !== null) {
-    const reagent = await requireReagent(db, input.reagentId).catch(() => invalid([{ field: 'reagentId', message: 'Not a reagent in the catalog' }]))
+    const reagent = await requireReagent(db, input.reagentId)
+      .catch(() => invalid([{ field: 'reagentId', message: 'Not a reagent in the catalog' }]))
     if (input.gramsPerMl !== null && reagent.unit !== 'g' && !reagent.density) {
       invalid([{ field: 'gramsPerMl', message: 'A concentration in g/mL needs a reagent counted in g, or one with a density' }])
     }

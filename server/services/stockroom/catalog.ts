@@ -15,7 +15,8 @@ import { isLowStock, lotRows, lotView, stockroomToday, stockTotals } from './lot
 export function reagentFields(r: Reagent): ReagentFields {
   return {
     name: r.name, smiles: r.smiles, formula: r.formula, molarMass: r.molarMass, physicalState: r.physicalState, density: r.density,
-    containerSize: r.containerSize, unit: r.unit, supplierName: r.supplierName, supplierEmail: r.supplierEmail, catalogNumber: r.catalogNumber,
+    containerSize: r.containerSize, unit: r.unit, supplierName: r.supplierName, supplierEmail: r.supplierEmail,
+    catalogNumber: r.catalogNumber,
     signalWord: r.signalWord, hazardCodes: r.hazardCodes, hazards: r.hazards as HazardKey[], storageNotes: r.storageNotes,
     shelfLifeMonths: r.shelfLifeMonths, overagePercent: r.overagePercent, lowStockLevel: r.lowStockLevel,
   }
@@ -81,7 +82,9 @@ function linkedItemsOf(db: Kysely<Database>, reagentId: number, courseIds: numbe
     .orderBy('practicals.title').orderBy('practicalItems.position').execute()
 }
 
-export async function reagentDetailView(db: Kysely<Database>, r: Reagent, me: SessionUser, today = stockroomToday()): Promise<ReagentDetail> {
+export async function reagentDetailView(
+  db: Kysely<Database>, r: Reagent, me: SessionUser, today = stockroomToday(),
+): Promise<ReagentDetail> {
   const lots = (await lotRows(db).where('reagentLots.reagentId', '=', r.id)
     .orderBy('reagentLots.receivedOn', 'desc').orderBy('reagentLots.id', 'desc').execute())
     .map((row) => lotView(row, today))

@@ -55,7 +55,9 @@ async function forecastPracticals(db: Kysely<Database>, practicalIds: number[]):
 }
 
 /** Each meeting with its section, whether the section still meets that day, and its work units. */
-async function forecastSessions(db: Kysely<Database>, rows: SessionRow[], practicals: ForecastPractical[]): Promise<ForecastSessionInput[]> {
+async function forecastSessions(
+  db: Kysely<Database>, rows: SessionRow[], practicals: ForecastPractical[],
+): Promise<ForecastSessionInput[]> {
   const sectionIds = [...new Set(rows.map((s) => s.sectionId))]
   if (!sectionIds.length) return []
   const sections = new Map((await sectionRows().where('sections.id', 'in', sectionIds).execute())
@@ -90,7 +92,8 @@ function suggestReagent(item: { name: string }, canonical: string | null, reagen
 
 /** Items of the range's practicals that draw on no reagent yet, each with the reagent it probably means. */
 async function unlinkedItemsOf(practicals: ForecastPractical[], inRange: Set<number>, reagents: Reagent[]): Promise<UnlinkedItem[]> {
-  const unlinked = practicals.filter((p) => inRange.has(p.id)).flatMap((p) => p.items.filter((i) => i.reagentId === null).map((i) => ({ p, i })))
+  const unlinked = practicals.filter((p) => inRange.has(p.id))
+    .flatMap((p) => p.items.filter((i) => i.reagentId === null).map((i) => ({ p, i })))
   const structures = await canonicalForms(unlinked.flatMap(({ i }) => (i.smiles ? [i.smiles] : [])))
   let next = 0
   return unlinked.map(({ p, i }) => {

@@ -14,7 +14,9 @@ import { requireLot, shelfLifeExpiry } from './lots'
  * Stock that arrives outside an order sheet (a stocktake, a transfer). Quantities are kept in the
  * reagent's unit; a lot given in the other one is converted through the reagent's density.
  */
-export async function addLot(db: Kysely<Database>, actor: Actor, reagentId: number, input: z.output<typeof lotInputSchema>): Promise<LotView> {
+export async function addLot(
+  db: Kysely<Database>, actor: Actor, reagentId: number, input: z.output<typeof lotInputSchema>,
+): Promise<LotView> {
   const reagent = await requireReagent(db, reagentId)
   const quantity = stockQuantityIn(reagent, input.quantity, input.unit)
   const lot = await db.transaction().execute(async (trx) => {
@@ -49,7 +51,9 @@ export async function updateLot(db: Kysely<Database>, actor: Actor, id: number, 
  * What was taken from a lot. The lot row is locked so two entries cannot both take the last of
  * it; the first use also marks the lot opened.
  */
-export async function recordUsage(db: Kysely<Database>, actor: Actor, lotId: number, input: z.output<typeof usageInputSchema>): Promise<LotView> {
+export async function recordUsage(
+  db: Kysely<Database>, actor: Actor, lotId: number, input: z.output<typeof usageInputSchema>,
+): Promise<LotView> {
   await requireLot(db, lotId)
   if (input.practicalId !== null) {
     const practical = await db.selectFrom('practicals').select('id').where('id', '=', input.practicalId).executeTakeFirst()
@@ -67,8 +71,11 @@ export async function recordUsage(db: Kysely<Database>, actor: Actor, lotId: num
     const created = await trx.insertInto('reagentUsage').values({
       lotId, usedOn: input.usedOn, amount: input.amount, note: input.note, practicalId: input.practicalId, recordedBy: actor.id,
     }).returning('id').executeTakeFirstOrThrow()
-    if (!lot.openedOn) await trx.updateTable('reagentLots').set({ openedOn: input.usedOn, updatedAt: new Date() }).where('id', '=', lotId).execute()
-    await auditAs(trx, actor, { action: 'lot.use', entity: 'reagent_lot', entityId: lotId, after: { usageId: created.id, ...input, unit: lot.unit } })
+    if (!lot.openedOn) {
+      await trx.updateTable('reagentLots').set({ openedOn: input.usedOn, updatedAt: new Date() }).where('id', '=', lotId).execute()
+    }
+    const after = { usageId: created.id, ...input, unit: lot.unit }
+    await auditAs(trx, actor, { action: 'lot.use', entity: 'reagent_lot', entityId: lotId, after })
   })
   return (await requireLot(db, lotId)).view
 }

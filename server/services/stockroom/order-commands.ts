@@ -20,7 +20,9 @@ import { purchaseRequestMail, purchaseRequests } from './purchase-requests'
  * A new sheet: from the forecast's shortfalls for a range (one line per reagent, whole
  * containers, the catalog's supplier), or empty for articles outside the forecast.
  */
-export async function createOrderSheet(db: Kysely<Database>, actor: Actor, input: z.output<typeof orderCreateSchema>): Promise<OrderDetail> {
+export async function createOrderSheet(
+  db: Kysely<Database>, actor: Actor, input: z.output<typeof orderCreateSchema>,
+): Promise<OrderDetail> {
   let lines: ReturnType<typeof linesFromShortfalls> = []
   if (input.from && input.to) {
     const forecast = await loadForecast(db, actor, { from: input.from, to: input.to })
@@ -41,14 +43,17 @@ export async function createOrderSheet(db: Kysely<Database>, actor: Actor, input
 }
 
 /** A sheet being prepared: its title, notes and lines (the list replaces the stored one). */
-export async function updateOrderSheet(db: Kysely<Database>, actor: Actor, id: number, input: z.output<typeof orderPatchSchema>): Promise<OrderDetail> {
+export async function updateOrderSheet(
+  db: Kysely<Database>, actor: Actor, id: number, input: z.output<typeof orderPatchSchema>,
+): Promise<OrderDetail> {
   await requireOrderSheet(db, id, 'draft')
   const lines = input.lines ? await checkedOrderLines(db, input.lines) : undefined
   await db.transaction().execute(async (trx) => {
     const sheet = await requireOrderSheet(trx, id, 'draft')
     const storedLines = await trx.selectFrom('orderLines').selectAll().where('orderId', '=', id).orderBy('position').execute()
     const before = { title: sheet.title, notes: sheet.notes, lines: storedLines }
-    await trx.updateTable('orderSheets').set({ title: input.title, notes: input.notes, updatedAt: new Date() }).where('id', '=', id).execute()
+    await trx.updateTable('orderSheets').set({ title: input.title, notes: input.notes, updatedAt: new Date() })
+      .where('id', '=', id).execute()
     if (lines) await writeOrderLines(trx, id, lines)
     await auditAs(trx, actor, { action: 'order.update', entity: 'order_sheet', entityId: id, before, after: input })
   })
@@ -90,13 +95,17 @@ export async function sendOrderSheet(db: Kysely<Database>, actor: Actor, id: num
  * The delivery came: one lot per catalog line that arrived (containers × size, the catalog's
  * shelf life unless an expiry is given), and the sheet is closed.
  */
-export async function receiveOrder(db: Kysely<Database>, actor: Actor, id: number, input: z.output<typeof receiveInputSchema>): Promise<OrderDetail> {
+export async function receiveOrder(
+  db: Kysely<Database>, actor: Actor, id: number, input: z.output<typeof receiveInputSchema>,
+): Promise<OrderDetail> {
   const sheet = await requireOrderSheet(db, id, 'sent')
   const lines = await db.selectFrom('orderLines').selectAll().where('orderId', '=', id).execute()
   const byId = new Map(lines.map((l) => [l.id, l]))
   input.lines.forEach((r, i) => {
     if (!byId.has(r.lineId)) invalid([{ field: `lines.${i}.lineId`, message: 'Not a line of this sheet' }])
-    if (r.expiresOn && r.expiresOn < input.receivedOn) invalid([{ field: `lines.${i}.expiresOn`, message: 'The expiry is before the received date' }])
+    if (r.expiresOn && r.expiresOn < input.receivedOn) {
+      invalid([{ field: `lines.${i}.expiresOn`, message: 'The expiry is before the received date' }])
+    }
   })
   if (sheet.sentAt && input.receivedOn < isoDateOf(sheet.sentAt)) invalid([{ field: 'receivedOn', message: 'Before the order was sent' }])
   const reagentIds = [...new Set(lines.map((l) => l.reagentId).filter((r): r is number => r !== null))]
@@ -118,7 +127,8 @@ export async function receiveOrder(db: Kysely<Database>, actor: Actor, id: numbe
       }).returning('id').executeTakeFirstOrThrow()
       created.push(lot.id)
     }
-    await trx.updateTable('orderSheets').set({ status: 'received', receivedOn: input.receivedOn, receivedBy: actor.id, updatedAt: new Date() })
+    await trx.updateTable('orderSheets')
+      .set({ status: 'received', receivedOn: input.receivedOn, receivedBy: actor.id, updatedAt: new Date() })
       .where('id', '=', id).execute()
     await auditAs(trx, actor, { action: 'order.receive', entity: 'order_sheet', entityId: id, after: { ...input, lots: created } })
   })

@@ -69,7 +69,9 @@ export async function orderSheetDetail(db: Kysely<Database>, id: number): Promis
   const sheet = await requireOrderSheet(db, id)
   const lines = await db.selectFrom('orderLines').selectAll().where('orderId', '=', id).orderBy('position').execute()
   const reagentIds = [...new Set(lines.map((l) => l.reagentId).filter((r): r is number => r !== null))]
-  const reagentRows = reagentIds.length ? await db.selectFrom('reagents').select(['id', 'hazards']).where('id', 'in', reagentIds).execute() : []
+  const reagentRows = reagentIds.length
+    ? await db.selectFrom('reagents').select(['id', 'hazards']).where('id', 'in', reagentIds).execute()
+    : []
   const reagents = new Map(reagentRows.map((r) => [r.id, r]))
   const lots = lines.length
     ? await db.selectFrom('reagentLots').select(['id', 'reagentId', 'orderLineId', 'quantity', 'unit'])
@@ -97,7 +99,8 @@ export function linesFromShortfalls(lines: ForecastLine[], reagents: Reagent[]):
     return {
       reagentId: r.id, name: r.name, supplierName: r.supplierName, supplierEmail: r.supplierEmail, catalogNumber: r.catalogNumber,
       containers: l.containers, containerSize: r.containerSize, unit: r.unit,
-      note: `Short by ${formatStock(l.shortfall, l.unit)} for ${l.weeks.length === 1 ? 'the week of' : 'the weeks from'} ${l.weeks[0]!.week}`,
+      note: `Short by ${formatStock(l.shortfall, l.unit)} for ${l.weeks.length === 1 ? 'the week of' : 'the weeks from'}`
+        + ` ${l.weeks[0]!.week}`,
     }
   })
 }
@@ -128,12 +131,15 @@ export async function writeOrderLines(trx: Transaction<Database>, orderId: numbe
   await trx.deleteFrom('orderLines').where('orderId', '=', orderId).execute()
   if (!lines.length) return
   await trx.insertInto('orderLines').values(lines.map((l, position) => ({
-    orderId, position, reagentId: l.reagentId ?? null, name: l.name, supplierName: l.supplierName ?? '', supplierEmail: l.supplierEmail ?? null,
+    orderId, position, reagentId: l.reagentId ?? null, name: l.name, supplierName: l.supplierName ?? '',
+    supplierEmail: l.supplierEmail ?? null,
     catalogNumber: l.catalogNumber ?? '', containers: l.containers, containerSize: l.containerSize, unit: l.unit, note: l.note ?? '',
   }))).execute()
 }
 
-const CSV_HEADER = ['Line', 'Item', 'Supplier', 'Supplier e-mail', 'Catalogue number', 'Containers', 'Container size', 'Unit', 'Total', 'Note']
+const CSV_HEADER = [
+  'Line', 'Item', 'Supplier', 'Supplier e-mail', 'Catalogue number', 'Containers', 'Container size', 'Unit', 'Total', 'Note',
+]
 
 /** The sheet as CSV for a spreadsheet (OWASP-safe cells), optionally one supplier's lines only. */
 export function orderSheetCsv(lines: OrderLineView[]): string {

@@ -16,7 +16,10 @@ export interface PurchaseRequest {
 export function purchaseRequests(detail: OrderDetail): PurchaseRequest[] {
   if (!detail.lines.length) throw createError({ statusCode: 422, statusMessage: 'The sheet has no lines to request' })
   const missing = detail.lines.findIndex((l) => !l.supplierEmail)
-  if (missing >= 0) invalid([{ field: `lines.${missing}.supplierEmail`, message: `Line ${missing + 1} (${detail.lines[missing]!.name}) has no supplier e-mail` }], 422)
+  if (missing >= 0) {
+    const message = `Line ${missing + 1} (${detail.lines[missing]!.name}) has no supplier e-mail`
+    invalid([{ field: `lines.${missing}.supplierEmail`, message }], 422)
+  }
   const groups = new Map<string, PurchaseRequest>()
   for (const line of detail.lines) {
     const group = groups.get(line.supplierEmail!) ?? { supplierEmail: line.supplierEmail!, supplierName: line.supplierName, lines: [] }
@@ -29,7 +32,12 @@ export function purchaseRequests(detail: OrderDetail): PurchaseRequest[] {
 /** The e-mail of one purchase request: plain text, escaped HTML, the supplier's lines as CSV. */
 export function purchaseRequestMail(detail: OrderDetail, request: PurchaseRequest, sender: { name: string }) {
   const greeting = request.supplierName ? `Dear ${request.supplierName},` : 'Hello,'
-  const rows = request.lines.map((l) => ({ name: l.name, catalog: l.catalogNumber, amount: l.unit === 'each' ? `${l.containers} × ${l.containerSize} each` : formatContainers(l.containers, l.containerSize, l.unit), note: l.note }))
+  const rows = request.lines.map((l) => ({
+    name: l.name,
+    catalog: l.catalogNumber,
+    amount: l.unit === 'each' ? `${l.containers} × ${l.containerSize} each` : formatContainers(l.containers, l.containerSize, l.unit),
+    note: l.note,
+  }))
   const deliver = detail.deliverTo ? `Deliver to: ${detail.deliverTo}` : ''
   const text = [
     greeting, '',
@@ -43,7 +51,8 @@ export function purchaseRequestMail(detail: OrderDetail, request: PurchaseReques
   const html = [
     `<p>${escapeHtml(greeting)}</p>`,
     `<p>Please quote and supply the following (purchase request ${detail.id}, &ldquo;${escapeHtml(detail.title)}&rdquo;):</p>`,
-    '<table style="border-collapse:collapse"><thead><tr><th>Item</th><th>Catalogue number</th><th>Amount</th><th>Note</th></tr></thead><tbody>',
+    '<table style="border-collapse:collapse">',
+    '<thead><tr><th>Item</th><th>Catalogue number</th><th>Amount</th><th>Note</th></tr></thead><tbody>',
     ...rows.map((r) => `<tr>${cell(r.name)}${cell(r.catalog)}${cell(r.amount)}${cell(r.note)}</tr>`),
     '</tbody></table>',
     deliver ? `<p>${escapeHtml(deliver)}</p>` : '',
@@ -55,6 +64,10 @@ export function purchaseRequestMail(detail: OrderDetail, request: PurchaseReques
     subject: `Purchase request ${detail.id}: ${detail.title}`,
     text,
     html,
-    attachments: [{ filename: `purchase-request-${detail.id}.csv`, contentType: 'text/csv', content: Buffer.from(orderSheetCsv(request.lines), 'utf8').toString('base64') }],
+    attachments: [{
+      filename: `purchase-request-${detail.id}.csv`,
+      contentType: 'text/csv',
+      content: Buffer.from(orderSheetCsv(request.lines), 'utf8').toString('base64'),
+    }],
   }
 }

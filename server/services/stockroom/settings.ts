@@ -12,7 +12,8 @@ export async function stockroomSettings(db: Kysely<Database>): Promise<Stockroom
 /** The one settings row, created on first save. */
 export async function saveStockroomSettings(db: Kysely<Database>, actor: Actor, input: z.output<typeof settingsInputSchema>) {
   await db.transaction().execute(async (trx) => {
-    const before = await trx.selectFrom('stockroomSettings').select(['rinseMlPerUnit', 'deliverTo']).where('id', '=', 1).forUpdate().executeTakeFirst()
+    const before = await trx.selectFrom('stockroomSettings').select(['rinseMlPerUnit', 'deliverTo'])
+      .where('id', '=', 1).forUpdate().executeTakeFirst()
     await trx.insertInto('stockroomSettings').values({ id: 1, ...input, updatedAt: new Date() })
       .onConflict((oc) => oc.column('id').doUpdateSet({ ...input, updatedAt: new Date() })).execute()
     await auditAs(trx, actor, { action: 'stockroom.settings', entity: 'stockroom_settings', entityId: 1, before, after: input })

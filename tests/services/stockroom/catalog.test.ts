@@ -32,7 +32,9 @@ describe('catalog commands', () => {
     const db = testDb()
     const actor = await coordinator()
     const reagent = await createReagent(db, actor, reagentInput({ unit: 'mL', density: 1.5 }))
-    await addLot(db, actor, reagent.id, { lotCode: 'A1', quantity: 100, unit: 'mL', containers: 1, location: '', receivedOn: '2026-01-10', openedOn: null, expiresOn: null })
+    await addLot(db, actor, reagent.id, {
+      lotCode: 'A1', quantity: 100, unit: 'mL', containers: 1, location: '', receivedOn: '2026-01-10', openedOn: null, expiresOn: null,
+    })
     const error = await refusal(updateReagent(db, actor, reagent.id, { unit: 'g' }))
     expect(error.statusCode).toBe(409)
     expect(error.statusMessage).toMatch(/^unit: /)
@@ -62,7 +64,9 @@ describe('catalog commands', () => {
     const db = testDb()
     const actor = await coordinator()
     const stocked = await createReagent(db, actor, reagentInput())
-    await addLot(db, actor, stocked.id, { lotCode: '', quantity: 5, unit: 'mL', containers: 1, location: '', receivedOn: '2026-02-01', openedOn: null, expiresOn: null })
+    await addLot(db, actor, stocked.id, {
+      lotCode: '', quantity: 5, unit: 'mL', containers: 1, location: '', receivedOn: '2026-02-01', openedOn: null, expiresOn: null,
+    })
     expect((await refusal(deleteReagent(db, actor, stocked.id))).statusCode).toBe(409)
     expect(await db.selectFrom('reagents').select('id').where('id', '=', stocked.id).executeTakeFirst()).toBeDefined()
 
@@ -80,7 +84,8 @@ describe('catalog commands', () => {
       .orderBy('id').executeTakeFirstOrThrow()
     const error = await refusal(linkItemToReagent(db, actor, notMl.id, { reagentId: reagent.id, gramsPerMl: 0.1 }))
     expect(error.statusMessage).toMatch(/^gramsPerMl: /)
-    const unchanged = await db.selectFrom('practicalItems').select(['reagentId', 'reagentGramsPerMl']).where('id', '=', notMl.id).executeTakeFirstOrThrow()
+    const unchanged = await db.selectFrom('practicalItems').select(['reagentId', 'reagentGramsPerMl'])
+      .where('id', '=', notMl.id).executeTakeFirstOrThrow()
     expect(unchanged).toEqual({ reagentId: notMl.reagentId, reagentGramsPerMl: notMl.reagentGramsPerMl })
 
     const linked = await linkItemToReagent(db, actor, notMl.id, { reagentId: reagent.id, gramsPerMl: null })

@@ -6,7 +6,8 @@ import { addLot, createReagent, recordUsage, updateLot } from '../../../server/s
 afterAll(closeTestDb)
 
 const lot = (overrides: Partial<Parameters<typeof addLot>[3]> = {}): Parameters<typeof addLot>[3] => ({
-  lotCode: 'L-1', quantity: 100, unit: 'mL', containers: 1, location: 'Cabinet 2', receivedOn: '2026-01-31', openedOn: null, expiresOn: null,
+  lotCode: 'L-1', quantity: 100, unit: 'mL', containers: 1, location: 'Cabinet 2', receivedOn: '2026-01-31', openedOn: null,
+  expiresOn: null,
   ...overrides,
 })
 
@@ -68,7 +69,8 @@ describe('lot commands', () => {
     const db = testDb()
     const actor = await coordinator()
     const created = await addLot(db, actor, (await createReagent(db, actor, reagentInput())).id, lot())
-    const error = await refusal(recordUsage(db, actor, created.id, { usedOn: '2026-02-03', amount: 1, note: '', practicalId: 2_000_000_000 }))
+    const use = { usedOn: '2026-02-03', amount: 1, note: '', practicalId: 2_000_000_000 }
+    const error = await refusal(recordUsage(db, actor, created.id, use))
     expect(error.statusMessage).toBe('practicalId: No such practical')
   })
 

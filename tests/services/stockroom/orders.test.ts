@@ -18,6 +18,10 @@ async function draftWithLine(unit: 'g' | 'mL' = 'mL') {
   return { db, actor, reagent, sheet: detail, line }
 }
 
+/** As if the requests went out on 2 March 2026 (the mail itself is the e2e tests' business). */
+const markSent = (id: number) => testDb().updateTable('orderSheets')
+  .set({ status: 'sent', sentAt: new Date('2026-03-02T15:00:00Z') }).where('id', '=', id).execute()
+
 const statusOf = async (id: number) =>
   (await testDb().selectFrom('orderSheets').select('status').where('id', '=', id).executeTakeFirstOrThrow()).status
 
@@ -51,7 +55,7 @@ describe('order sheet commands', () => {
 
   it('receives a sent order: lots of containers × size, expiry by shelf life, the sheet closed', async () => {
     const { db, actor, reagent, sheet } = await draftWithLine('mL')
-    await db.updateTable('orderSheets').set({ status: 'sent', sentAt: new Date('2026-03-02T15:00:00Z') }).where('id', '=', sheet.id).execute()
+    await markSent(sheet.id)
     const lineId = sheet.lines[0]!.id
 
     const early = await refusal(receiveOrder(db, actor, sheet.id, { receivedOn: '2026-03-01', lines: [] }))
@@ -67,7 +71,8 @@ describe('order sheet commands', () => {
       receivedOn: '2026-03-05', lines: [{ lineId, containers: 2, lotCode: 'R-7', location: 'Bay 1', expiresOn: null }],
     })
     expect(received.status).toBe('received')
-    const lots = await db.selectFrom('reagentLots').select(['quantity', 'unit', 'expiresOn', 'orderLineId']).where('reagentId', '=', reagent.id).execute()
+    const lots = await db.selectFrom('reagentLots').select(['quantity', 'unit', 'expiresOn', 'orderLineId'])
+      .where('reagentId', '=', reagent.id).execute()
     expect(lots).toEqual([{ quantity: 500, unit: 'mL', expiresOn: '2027-03-05', orderLineId: lineId }])
     const audit = await auditRows('order_sheet', sheet.id)
     expect(audit.at(-1)!.action).toBe('order.receive')
@@ -83,7 +88,7 @@ describe('order sheet commands', () => {
     const other = await createReagent(db, actor, reagentInput({ unit: 'mL', physicalState: 'liquid', density: null }))
     const withTwo = await updateOrderSheet(db, actor, sheet.id, { lines: [line, { ...line, reagentId: other.id, name: other.name }] })
     await db.updateTable('reagents').set({ unit: 'g' }).where('id', '=', other.id).execute()
-    await db.updateTable('orderSheets').set({ status: 'sent', sentAt: new Date('2026-03-02T15:00:00Z') }).where('id', '=', sheet.id).execute()
+    await markSent(sheet.id)
     const lines = withTwo.lines.map((l) => ({ lineId: l.id, containers: 1, lotCode: '', location: '', expiresOn: null }))
     const error = await refusal(receiveOrder(db, actor, sheet.id, { receivedOn: '2026-03-05', lines }))
     expect(error.statusMessage).toMatch(/^unit: /)

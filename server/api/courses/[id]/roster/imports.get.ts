@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type RosterImportHistoryItem, type RosterSummary } from '#shared/types/roster'
+import type { RosterImportHistoryItem } from '#shared/types/roster'
 
 export default defineEventHandler(async (event): Promise<RosterImportHistoryItem[]> => {
   requireUser(event)
@@ -17,6 +17,6 @@ export default defineEventHandler(async (event): Promise<RosterImportHistoryItem
     createdAt: r.createdAt.toISOString(),
     by: r.name,
     fileName: r.originalName,
-    summary: r.summary as unknown as RosterSummary,
+    summary: r.summary,
   }))
 })
