@@ -2,6 +2,9 @@ import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 
+// Plain vitest projects resolve `#shared` as Nuxt does (service and server code import it).
+const sharedAlias = { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) }
+
 export default defineConfig({
   test: {
     projects: [
@@ -20,14 +23,11 @@ export default defineConfig({
         },
       }),
       {
-        // Services import shared code as '#shared/...', the alias Nuxt gives the server.
-        resolve: { alias: { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) } },
         test: {
           name: 'services',
+          alias: sharedAlias,
           include: ['tests/services/**/*.test.ts'],
           environment: 'node',
-          // Service files import shared code as the server does; Nitro is not there to resolve it.
-          alias: { '#shared': fileURLToPath(new URL('./shared', import.meta.url)) },
           // Domain commands against a database of their own, without HTTP (tests/support/db.ts).
           globalSetup: ['tests/support/services-setup.ts'],
           fileParallelism: false,

@@ -40,40 +40,51 @@ async function shutdown(code = 0) {
 process.on('SIGINT', () => { console.log('\nStopping…'); void shutdown(0) })
 process.on('SIGTERM', () => void shutdown(0))
 
-async function main() {
-  console.log('Halocline: preparing everything on 127.0.0.1\n')
+/** Node, PostgreSQL binaries, packages and the secrets in .env; returns the secrets. */
+async function checkPrerequisites() {
   await step('Checking Node.js', checkNodeVersion)
   await step('Checking PostgreSQL server binaries', ensurePostgres)
   await step('Checking npm packages', () => ensureNodeModules(root))
   mkdirSync(dataDir, { recursive: true })
-  const { values: secrets } = await step('Checking secrets in .env', () => {
+  const { values } = await step('Checking secrets in .env', () => {
     const env = ensureEnvFile(join(root, '.env'))
     return { note: env.created ? 'written' : 'present', values: env.values }
   })
+  return values
+}
 
-  let url = process.env.NUXT_DATABASE_URL ?? secrets.NUXT_DATABASE_URL
-  if (url) {
+/** The database URL: the one the operator gave, else a local cluster of our own, started here. */
+async function prepareDatabase(secrets) {
+  const given = process.env.NUXT_DATABASE_URL ?? secrets.NUXT_DATABASE_URL
+  if (given) {
     console.log('▸ Using the database in NUXT_DATABASE_URL (no local PostgreSQL started)')
-  } else {
-    const paths = clusterPaths(dataDir)
-    const password = secrets.HALOCLINE_PG_PASSWORD
-    await step(`Creating the PostgreSQL cluster in ${shown(paths.data)}`, () => (initCluster(paths, password) ? 'created' : 'exists'))
-    await step(`Starting PostgreSQL on 127.0.0.1:${pgPort}`, () => {
-      const didStart = startCluster(paths, pgPort)
-      if (didStart) started.cluster = paths
-      return didStart ? 'started' : 'already running'
-    })
-    await step('Creating the database', async () => ((await ensureDatabase({ password, port: pgPort, database: 'halocline' })) ? 'created' : 'exists'))
-    url = databaseUrl({ password, port: pgPort, database: 'halocline' })
+    return given
   }
+  const paths = clusterPaths(dataDir)
+  const password = secrets.HALOCLINE_PG_PASSWORD
+  await step(`Creating the PostgreSQL cluster in ${shown(paths.data)}`, () => (initCluster(paths, password) ? 'created' : 'exists'))
+  await step(`Starting PostgreSQL on 127.0.0.1:${pgPort}`, () => {
+    const didStart = startCluster(paths, pgPort)
+    if (didStart) started.cluster = paths
+    return didStart ? 'started' : 'already running'
+  })
+  const created = () => ensureDatabase({ password, port: pgPort, database: 'halocline' })
+  await step('Creating the database', async () => ((await created()) ? 'created' : 'exists'))
+  return databaseUrl({ password, port: pgPort, database: 'halocline' })
+}
 
+/** Migrations and, on an empty database, the demo scenario. */
+async function migrateAndSeed(url) {
   // The database tasks are TypeScript shared with the server; tsx runs them in this process.
   const { register } = await import('tsx/esm/api')
   register()
   const tasks = await import('../server/database/tasks.ts')
   await step('Applying migrations', async () => `${(await tasks.migrate(url)).applied.length} applied`)
   await step('Loading the demo scenario', async () => ((await tasks.seedDemoIfEmpty(url)) ? 'seeded' : 'database has data; left as is'))
+}
 
+/** The SMTP fake, supervised; returns the folder it saves messages in. */
+async function startMail() {
   const mailDir = join(dataDir, 'mail')
   await step(`Starting the local SMTP fake on 127.0.0.1:${smtpPort}`, async () => {
     started.smtp = supervise({
@@ -84,25 +95,20 @@ async function main() {
     await started.smtp.first
     return `saving to ${shown(mailDir)}`
   })
-  await step('Building the app', () => ensureBuild(root))
-  const serverEnv = {
-    NUXT_DATABASE_URL: url,
-    NUXT_SESSION_PASSWORD: secrets.NUXT_SESSION_PASSWORD,
-    NUXT_SMTP_HOST: '127.0.0.1',
-    NUXT_SMTP_PORT: String(smtpPort),
-    NUXT_DEMO_MAIL_DIR: mailDir,
-    NUXT_PUBLIC_DEMO: 'true',
-    NUXT_PUBLIC_APP_URL: appUrl,
-    ...pickNuxtOverrides(secrets),
-  }
-  let announced = false
+  return mailDir
+}
+
+let announced = false
+
+/** The built server, supervised; its first log waits until the progress lines are done. */
+async function serve(env) {
   await step(`Serving on ${appUrl}`, async () => {
     started.server = supervise({
       name: 'The server',
       log: (line) => console.error(`[start] ${line}`),
       start: async () => {
-        const child = await startServer({ root, port, env: serverEnv })
-        // The first server's log waits until our progress lines are done; later ones go straight out.
+        const child = await startServer({ root, port, env })
+        // Later servers' logs go straight out.
         if (announced) child.stdout?.pipe(process.stdout)
         else child.stdout?.on('data', (chunk) => serverLog.push(chunk))
         return child
@@ -111,6 +117,10 @@ async function main() {
     await started.server.first
     return 'up'
   })
+}
+
+/** Where to go and who to sign in as; then the server's log, held back until now. */
+function announce(mailDir) {
   console.log(`
 Halocline is running at ${appUrl}
 
@@ -130,6 +140,26 @@ Press Ctrl-C to stop everything.
   const first = started.server.current()
   first?.stdout?.removeAllListeners('data')
   first?.stdout?.pipe(process.stdout)
+}
+
+async function main() {
+  console.log('Halocline: preparing everything on 127.0.0.1\n')
+  const secrets = await checkPrerequisites()
+  const url = await prepareDatabase(secrets)
+  await migrateAndSeed(url)
+  const mailDir = await startMail()
+  await step('Building the app', () => ensureBuild(root))
+  await serve({
+    NUXT_DATABASE_URL: url,
+    NUXT_SESSION_PASSWORD: secrets.NUXT_SESSION_PASSWORD,
+    NUXT_SMTP_HOST: '127.0.0.1',
+    NUXT_SMTP_PORT: String(smtpPort),
+    NUXT_DEMO_MAIL_DIR: mailDir,
+    NUXT_PUBLIC_DEMO: 'true',
+    NUXT_PUBLIC_APP_URL: appUrl,
+    ...pickNuxtOverrides(secrets),
+  })
+  announce(mailDir)
 }
 
 // Anything the operator put in .env as NUXT_* (SMTP provider, proxy trust) wins over defaults.

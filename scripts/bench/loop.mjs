@@ -35,8 +35,8 @@ async function load(clients, ms, request) {
   return statuses
 }
 
-export async function benchLoop(world, { seconds = 8, clients = 3 } = {}) {
-  const file = world.loopProbeFile
+/** The three kinds of heavy request, each a function of (client, iteration) returning a status. */
+async function heavyRequests(world) {
   const client = new pg.Client({ connectionString: world.databaseUrl })
   await client.connect()
   const { rows: [practical] } = await client.query(`select id from practicals where title like 'Photochlorination%' limit 1`)
@@ -45,20 +45,24 @@ export async function benchLoop(world, { seconds = 8, clients = 3 } = {}) {
   const student = await signIn(world.baseUrl, 'student01@larkspur.example')
   const instructor = await signIn(world.baseUrl, 'instructor@larkspur.example')
   const traces = [0, 1, 2].map((v) => trace(100_000, v))
-  const post = (path, cookie, body) => fetch(`${world.baseUrl}${path}`, { method: 'POST', headers: { cookie, 'content-type': 'application/json' }, body: JSON.stringify(body) })
+  const post = (path, cookie, body) => fetch(`${world.baseUrl}${path}`, {
+    method: 'POST', headers: { cookie, 'content-type': 'application/json' }, body: JSON.stringify(body),
+  })
 
   const upload = async (c, i) => {
     const form = new FormData()
     form.append('file', new Blob([traces[(c + i) % traces.length]], { type: 'text/csv' }), 'bench-trace.csv')
-    const r = await fetch(`${world.baseUrl}/api/practicals/${practical.id}/submissions/preview`, { method: 'POST', body: form, headers: { cookie: student } })
+    const url = `${world.baseUrl}/api/practicals/${practical.id}/submissions/preview`
+    const r = await fetch(url, { method: 'POST', body: form, headers: { cookie: student } })
     await r.arrayBuffer()
     return r.status
   }
   const chemistry = async (c, i) => {
     // A different chain length each time: nothing is answered from a cache.
     const carbons = 12 + ((c * 7 + i) % 29)
+    const observed = [{ smiles: `ClC${'C'.repeat(carbons - 1)}`, percent: 30 }, { smiles: `CC(Cl)${'C'.repeat(carbons - 2)}`, percent: 70 }]
     const r = i % 2
-      ? await post('/api/chemistry/reactivity', student, { smiles: 'C'.repeat(carbons), observed: [{ smiles: `ClC${'C'.repeat(carbons - 1)}`, percent: 30 }, { smiles: `CC(Cl)${'C'.repeat(carbons - 2)}`, percent: 70 }] })
+      ? await post('/api/chemistry/reactivity', student, { smiles: 'C'.repeat(carbons), observed })
       : await post('/api/chemistry/analyze', student, { smiles: 'C'.repeat(carbons), productDepictions: true })
     await r.arrayBuffer()
     return r.status
@@ -68,6 +72,36 @@ export async function benchLoop(world, { seconds = 8, clients = 3 } = {}) {
     await r.arrayBuffer()
     return r.status
   }
+  return { upload, chemistry, summary }
+}
+
+/** One phase: the requests under load while /api/health is probed, and the loop delay it caused. */
+async function measurePhase(world, name, requests, { seconds, clients }) {
+  await loopDelay(world, world.loopProbeFile)
+  const health = []
+  let probing = true
+  const prober = (async () => {
+    while (probing) {
+      const t = performance.now()
+      await (await fetch(`${world.baseUrl}/api/health`)).arrayBuffer()
+      health.push(performance.now() - t)
+      await sleep(100)
+    }
+  })()
+  const statuses = requests.length
+    ? (await Promise.all(requests.map((request) => load(clients, seconds * 1000, request)))).flat()
+    : (await sleep(seconds * 1000), [])
+  probing = false
+  await prober
+  const loop = await loopDelay(world, world.loopProbeFile)
+  return {
+    case: name, requests: statuses.length, non200: statuses.filter((s) => s !== 200).length,
+    loopP99Ms: loop.p99, loopMaxMs: loop.max, healthP99Ms: quantile(health, 0.99), healthMaxMs: Math.max(...health),
+  }
+}
+
+export async function benchLoop(world, { seconds = 8, clients = 3 } = {}) {
+  const { upload, chemistry, summary } = await heavyRequests(world)
   const phases = [
     ['idle (baseline)', []],
     ['uploads: 100,000-point traces', [upload]],
@@ -75,32 +109,9 @@ export async function benchLoop(world, { seconds = 8, clients = 3 } = {}) {
     ['summary of 20,000 results', [summary]],
     ['all of the above at once', [upload, chemistry, summary]],
   ]
-  const rows = []
   // One warm-up of each, so compiled code and caches are not what is measured.
   await Promise.all([upload(0, 0), chemistry(0, 0), summary()])
-  for (const [name, requests] of phases) {
-    await loopDelay(world, file)
-    const health = []
-    let probing = true
-    const prober = (async () => {
-      while (probing) {
-        const t = performance.now()
-        await (await fetch(`${world.baseUrl}/api/health`)).arrayBuffer()
-        health.push(performance.now() - t)
-        await sleep(100)
-      }
-    })()
-    const statuses = requests.length
-      ? (await Promise.all(requests.map((request) => load(clients, seconds * 1000, request)))).flat()
-      : (await sleep(seconds * 1000), [])
-    probing = false
-    await prober
-    const loop = await loopDelay(world, file)
-    const refused = statuses.filter((s) => s !== 200).length
-    rows.push({
-      case: name, requests: statuses.length, non200: refused,
-      loopP99Ms: loop.p99, loopMaxMs: loop.max, healthP99Ms: quantile(health, 0.99), healthMaxMs: Math.max(...health),
-    })
-  }
+  const rows = []
+  for (const [name, requests] of phases) rows.push(await measurePhase(world, name, requests, { seconds, clients }))
   return rows
 }

@@ -10,15 +10,16 @@ import { killPidFile, startServer, startSmtpFake } from './processes.mjs'
 import { randomSecret } from './env.mjs'
 
 /**
- * Options: name (folder under .data), database, seed, serverEnv (extra NUXT_* for the server),
- * stdio (the server's), tasks (server/database/tasks.ts when the caller has already loaded it). Returns the addresses of everything, and stop().
+ * A database of its own: a PostgreSQL cluster on a free port under .data/<name>-<pid>, migrated
+ * and (unless `seed` is false) seeded. `undo` runs in reverse on stop(); a caller adds its own.
  * @param {string} root
- * @param {{ name?: string, database?: string, seed?: boolean, serverEnv?: Record<string, string>, stdio?: any, tasks?: any }} [options]
+ * @param {{ name?: string, database?: string, seed?: boolean, tasks?: any }} [options]
  */
-export async function startWorld(root, { name = 'world', database = 'halocline', seed = true, server: withServer = true, serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], tasks = null } = {}) {
+export async function startDatabaseWorld(root, { name = 'world', database = 'halocline', seed = true, tasks = null } = {}) {
   const runRoot = join(root, '.data', `${name}-${process.pid}`)
   rmSync(runRoot, { recursive: true, force: true })
   mkdirSync(runRoot, { recursive: true })
+  /** @type {Array<() => unknown>} */
   const undo = [() => rmSync(runRoot, { recursive: true, force: true })]
   const stop = async () => {
     for (const action of undo.reverse()) {
@@ -38,9 +39,24 @@ export async function startWorld(root, { name = 'world', database = 'halocline',
     const db = tasks ?? await loadTasks()
     await db.migrate(url)
     if (seed) await db.seedDemoIfEmpty(url)
-    // The service tests need the database only: no mail server, no build, no HTTP.
-    if (!withServer) return { databaseUrl: url, runRoot, pgPort, stop }
+    return { databaseUrl: url, runRoot, pgPort, undo, stop }
+  } catch (error) {
+    await stop()
+    throw error
+  }
+}
 
+/**
+ * The whole product: a database world (above), the SMTP fake and the built server.
+ * Options: name (folder under .data), database, seed, serverEnv (extra NUXT_* for the server),
+ * stdio (the server's), tasks (server/database/tasks.ts when the caller has already loaded it).
+ * Returns the addresses of everything, and stop().
+ * @param {string} root
+ * @param {{ name?: string, database?: string, seed?: boolean, serverEnv?: Record<string, string>, stdio?: any, tasks?: any }} [options]
+ */
+export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], ...databaseOptions } = {}) {
+  const { databaseUrl: url, runRoot, pgPort, undo, stop } = await startDatabaseWorld(root, databaseOptions)
+  try {
     const smtpPort = await freePort()
     const smtpPidFile = join(runRoot, 'smtp.pid')
     const mailDir = join(runRoot, 'mail')
@@ -61,11 +77,13 @@ export async function startWorld(root, { name = 'world', database = 'halocline',
       },
     })
     undo.push(() => new Promise((resolve) => {
-      if (server.exitCode !== null) return resolve()
+      if (server.exitCode !== null) return resolve(undefined)
       server.once('exit', resolve)
       server.kill('SIGTERM')
     }))
-    return { baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop }
+    return {
+      baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop,
+    }
   } catch (error) {
     await stop()
     throw error

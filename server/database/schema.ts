@@ -2,6 +2,7 @@ import type { ColumnType, Generated, Insertable, Selectable, Updateable } from '
 import type { StockroomTables } from './schema-stockroom'
 import type { DigestTables } from './schema-digests'
 import type { LibraryDataTables } from './schema-library'
+import type { RosterSummary } from '../../shared/types/roster'
 
 // Timestamps come back from pg as Date and go in as Date or ISO text.
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -175,7 +176,7 @@ export interface RosterImportsTable {
   courseId: number
   fileId: number
   mapping: Json<Record<string, string | null>>
-  summary: Json<Record<string, unknown>>
+  summary: Json<RosterSummary>
   createdBy: number | null
   createdAt: CreatedAt
 }

@@ -32,11 +32,16 @@ export function actorOf(event: H3Event): Actor {
   return { ...requireUser(event), ip: clientAddress(event) }
 }
 
+/** Whom a request's audit row names, signed in or not (accepting an invitation has no session yet). */
+export function auditActorOf(event: H3Event): AuditActor {
+  return { id: event.context.auth?.user.id ?? null, ip: clientAddress(event) }
+}
+
 const isEvent = (who: H3Event | AuditActor): who is H3Event => 'context' in who && 'node' in who
 
 /** Written inside the caller's transaction, so a change and its audit row land together. */
 export async function audit(db: Kysely<Database> | Transaction<Database>, who: H3Event | AuditActor, entry: AuditEntry) {
-  const actor = isEvent(who) ? { id: who.context.auth?.user.id ?? null, ip: clientAddress(who) } : who
+  const actor = isEvent(who) ? auditActorOf(who) : who
   await db.insertInto('auditLog').values({
     actorId: actor.id,
     action: entry.action,

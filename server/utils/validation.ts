@@ -1,5 +1,4 @@
-import { createError } from 'h3'
-import type { H3Event } from 'h3'
+import { createError, type H3Event } from 'h3'
 import type { z } from 'zod'
 import { forbiddenCharacter, codePointLabel, messageExcerpt } from '#shared/utils/text-input'
 

@@ -103,7 +103,9 @@ export function workUnitsOf(students: Array<{ station: number | null }>, workUni
  * One work unit's amount of an item in the reagent's stock unit, or a sentence saying why not.
  * The item's own molar mass and density come first; the catalog's fill the gaps.
  */
-export function perUnitAmount(quantity: QuantityView, item: ForecastItem, reagent: ForecastReagent): { amount: number } | { problem: string } {
+export function perUnitAmount(
+  quantity: QuantityView, item: ForecastItem, reagent: ForecastReagent,
+): { amount: number } | { problem: string } {
   const cannot = (why: string) => ({ problem: `${item.name} (${reagent.name}): ${why}` })
   if (item.reagentGramsPerMl !== null) {
     if (quantity.millilitres === null) return cannot('a concentration in g/mL needs the item in mL.')
@@ -124,7 +126,10 @@ export function perUnitAmount(quantity: QuantityView, item: ForecastItem, reagen
 
 /** Items as computeQuantities sees them, with the catalog's molar mass and density filling gaps. */
 function withCatalogData(item: ForecastItem, reagent: ForecastReagent | undefined): ItemSpec {
-  const spec: ItemSpec = { role: item.role, name: item.name, smiles: item.smiles, molarMass: item.molarMass, density: item.density, basis: item.basis, amount: item.amount }
+  const spec: ItemSpec = {
+    role: item.role, name: item.name, smiles: item.smiles, molarMass: item.molarMass, density: item.density, basis: item.basis,
+    amount: item.amount,
+  }
   // A solution's density is not the solid's: only the item itself is taken as the reagent.
   if (!reagent || item.reagentGramsPerMl !== null) return spec
   return { ...spec, molarMass: spec.molarMass ?? reagent.molarMass, density: spec.density ?? (isGas(item.smiles) ? null : reagent.density) }
@@ -149,7 +154,9 @@ interface Demand { date: string, amount: number }
  * First-expiring first: each demand, in date order, draws from the in-date lot that expires
  * soonest. This covers as much as any order of drawing can. Returns what each lot gave.
  */
-export function allocateStock(demands: Demand[], lots: Array<{ id: number, remaining: number, expiresOn: string | null }>): { covered: number[], drawn: Map<number, number> } {
+export function allocateStock(
+  demands: Demand[], lots: Array<{ id: number, remaining: number, expiresOn: string | null }>,
+): { covered: number[], drawn: Map<number, number> } {
   const left = lots.map((l) => ({ ...l, left: l.remaining }))
     .sort((a, b) => (a.expiresOn ?? '9999-12-31').localeCompare(b.expiresOn ?? '9999-12-31') || a.id - b.id)
   const drawn = new Map<number, number>()
@@ -180,19 +187,17 @@ function convertLot(lot: ForecastLot, reagent: ForecastReagent): number | null {
   return lot.unit === 'g' ? lot.remaining / reagent.density : lot.remaining * reagent.density
 }
 
-/** The whole forecast: per reagent and ISO week, stock against it, and halogenated waste. */
-export function buildForecast(input: ForecastInput): ForecastResult {
-  const reagents = new Map(input.reagents.map((r) => [r.id, r]))
-  const practicals = new Map(input.practicals.map((p) => [p.id, p]))
-  const problems = new Set<string>()
+interface PerUnitNeeds { amounts: Array<{ reagentId: number, amount: number }>, wasteMl: number }
 
-  // Per practical: each linked item's amount per unit, and the waste per unit.
-  const perUnit = new Map<number, { amounts: Array<{ reagentId: number, amount: number }>, wasteMl: number }>()
+/** Per practical: each linked item's amount per work unit, and the waste per unit. */
+function perUnitNeeds(input: ForecastInput, reagents: Map<number, ForecastReagent>, problems: Set<string>): Map<number, PerUnitNeeds> {
+  const perUnit = new Map<number, PerUnitNeeds>()
   for (const p of input.practicals) {
-    const quantities = computeQuantities(p.items.map((item) => withCatalogData(item, item.reagentId === null ? undefined : reagents.get(item.reagentId))))
-    const amounts: Array<{ reagentId: number, amount: number }> = []
+    const reagentOf = (item: ForecastItem) => (item.reagentId === null ? undefined : reagents.get(item.reagentId))
+    const quantities = computeQuantities(p.items.map((item) => withCatalogData(item, reagentOf(item))))
+    const amounts: PerUnitNeeds['amounts'] = []
     p.items.forEach((item, i) => {
-      const reagent = item.reagentId === null ? undefined : reagents.get(item.reagentId)
+      const reagent = reagentOf(item)
       if (!reagent) return
       const result = perUnitAmount(quantities.items[i]!, item, reagent)
       if ('problem' in result) problems.add(`${p.title}: ${result.problem}`)
@@ -200,75 +205,108 @@ export function buildForecast(input: ForecastInput): ForecastResult {
     })
     perUnit.set(p.id, { amounts, wasteMl: wastePerUnit(quantities.items, input.rinseMlPerUnit) })
   }
+  return perUnit
+}
 
-  const sessions: ForecastSession[] = []
-  const skippedSessions: SkippedSession[] = []
-  const demands = new Map<number, Array<Demand & { inRange: boolean }>>()
-  const ordered = [...input.sessions].sort((a, b) => a.meetingDate.localeCompare(b.meetingDate) || a.sectionCode.localeCompare(b.sectionCode))
+type RangedDemand = Demand & { inRange: boolean }
+
+interface ScheduledDemand {
+  sessions: ForecastSession[]
+  skippedSessions: SkippedSession[]
+  /** Per reagent, every meeting's amount up to the range's end; earlier ones draw on stock first. */
+  demands: Map<number, RangedDemand[]>
+}
+
+/** Why a meeting draws nothing, or null when it counts. */
+function skipReason(s: ForecastSessionInput, today: string): string | null {
+  // Meetings already held drew on stock then (their usage is recorded against the lots).
+  if (s.meetingDate < today) return 'Already held: what it used is in the usage records.'
+  return s.isMeeting ? null : 'The section does not meet on this date.'
+}
+
+/** The meetings in date order: what each draws per reagent (with overage), and the range's sessions. */
+function scheduledDemand(
+  input: ForecastInput, reagents: Map<number, ForecastReagent>, perUnit: Map<number, PerUnitNeeds>,
+): ScheduledDemand {
+  const practicals = new Map(input.practicals.map((p) => [p.id, p]))
+  const out: ScheduledDemand = { sessions: [], skippedSessions: [], demands: new Map() }
+  const ordered = [...input.sessions]
+    .sort((a, b) => a.meetingDate.localeCompare(b.meetingDate) || a.sectionCode.localeCompare(b.sectionCode))
   for (const s of ordered) {
     const p = practicals.get(s.practicalId)
     const per = perUnit.get(s.practicalId)
     if (!p || !per || s.meetingDate > input.to) continue
     const inRange = s.meetingDate >= input.from
-    // Meetings already held drew on stock then (their usage is recorded against the lots).
-    const skip = s.meetingDate < input.today ? 'Already held: what it used is in the usage records.' : !s.isMeeting ? 'The section does not meet on this date.' : null
+    const skip = skipReason(s, input.today)
     if (skip) {
-      if (inRange) skippedSessions.push({ practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, sectionCode: s.sectionCode, meetingDate: s.meetingDate, reason: skip })
+      if (inRange) {
+        out.skippedSessions.push({
+          practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, sectionCode: s.sectionCode, meetingDate: s.meetingDate,
+          reason: skip,
+        })
+      }
       continue
     }
     for (const a of per.amounts) {
       const reagent = reagents.get(a.reagentId)!
-      const list = demands.get(a.reagentId) ?? []
+      const list = out.demands.get(a.reagentId) ?? []
       list.push({ date: s.meetingDate, amount: s.units * a.amount * (1 + reagent.overagePercent / 100), inRange })
-      demands.set(a.reagentId, list)
+      out.demands.set(a.reagentId, list)
     }
-    if (inRange) {
-      sessions.push({
-        practicalId: p.id, practicalTitle: p.title, courseId: p.courseId, courseCode: p.courseCode, sectionId: s.sectionId, sectionCode: s.sectionCode,
-        meetingDate: s.meetingDate, week: weekStart(s.meetingDate), students: s.students, units: s.units, workUnit: p.workUnit,
-        halogenatedWasteMl: round(s.units * per.wasteMl, 1),
-      })
-    }
-  }
-
-  const lines: ForecastLine[] = []
-  for (const [reagentId, list] of demands) {
-    const reagent = reagents.get(reagentId)!
-    const inRange = list.filter((d) => d.inRange)
-    if (!inRange.length) continue
-    const lots = input.lots.filter((l) => l.reagentId === reagentId).flatMap((l) => {
-      const remaining = convertLot(l, reagent)
-      if (remaining === null) problems.add(`${reagent.name}: a lot in ${l.unit} cannot be counted in ${reagent.unit} without a density.`)
-      return remaining === null || remaining <= 0 ? [] : [{ id: l.id, remaining, expiresOn: l.expiresOn }]
-    })
-    const { covered, drawn } = allocateStock(list, lots)
-    const required = sum(inRange.map((d) => d.amount))
-    const reservedEarlier = sum(list.filter((d) => !d.inRange).map((d) => d.amount))
-    const coveredInRange = sum(list.map((d, i) => (d.inRange ? covered[i]! : 0)))
-    const shortfall = Math.max(0, required - coveredInRange)
-    // On hand: what the range draws, plus what is left in lots still in date at the last use.
-    // Left over in a lot that expires sooner cannot be used: it is reported, not counted.
-    const lastUse = inRange.at(-1)!.date
-    const leftover = (l: { id: number, remaining: number }) => Math.max(0, l.remaining - (drawn.get(l.id) ?? 0))
-    const lasts = (l: { expiresOn: string | null }) => l.expiresOn === null || l.expiresOn >= lastUse
-    const onHand = coveredInRange + sum(lots.filter(lasts).map(leftover))
-    const notCounted = sum(lots.filter((l) => !lasts(l)).map(leftover))
-    const containers = shortfall > EPSILON ? Math.ceil(shortfall / reagent.containerSize - EPSILON) : 0
-    const byWeek = new Map<string, number>()
-    for (const d of inRange) byWeek.set(weekStart(d.date), (byWeek.get(weekStart(d.date)) ?? 0) + d.amount)
-    lines.push({
-      reagentId, name: reagent.name, unit: reagent.unit,
-      required: round(required), onHand: round(onHand), shortfall: round(shortfall), containers, containerSize: reagent.containerSize,
-      overagePercent: reagent.overagePercent, orderQuantity: round(containers * reagent.containerSize),
-      weeks: [...byWeek].map(([week, amount]) => ({ week, required: round(amount) })),
-      reservedEarlier: round(reservedEarlier), notCounted: round(notCounted),
-      supplierName: reagent.supplierName, hazards: reagent.hazards,
+    if (!inRange) continue
+    out.sessions.push({
+      practicalId: p.id, practicalTitle: p.title, courseId: p.courseId, courseCode: p.courseCode, sectionId: s.sectionId,
+      sectionCode: s.sectionCode,
+      meetingDate: s.meetingDate, week: weekStart(s.meetingDate), students: s.students, units: s.units, workUnit: p.workUnit,
+      halogenatedWasteMl: round(s.units * per.wasteMl, 1),
     })
   }
-  lines.sort((a, b) => a.name.localeCompare(b.name))
+  return out
+}
 
+/** A reagent's lots in its own unit; a lot that cannot be converted is a problem, not stock. */
+function lotsInReagentUnit(lots: ForecastLot[], reagent: ForecastReagent, problems: Set<string>) {
+  return lots.filter((l) => l.reagentId === reagent.id).flatMap((l) => {
+    const remaining = convertLot(l, reagent)
+    if (remaining === null) problems.add(`${reagent.name}: a lot in ${l.unit} cannot be counted in ${reagent.unit} without a density.`)
+    return remaining === null || remaining <= 0 ? [] : [{ id: l.id, remaining, expiresOn: l.expiresOn }]
+  })
+}
+
+/** One reagent's line: required in the range, on hand, the shortfall in whole containers, by week. */
+function forecastLine(reagent: ForecastReagent, list: RangedDemand[], lotList: ForecastLot[], problems: Set<string>): ForecastLine | null {
+  const inRange = list.filter((d) => d.inRange)
+  if (!inRange.length) return null
+  const lots = lotsInReagentUnit(lotList, reagent, problems)
+  const { covered, drawn } = allocateStock(list, lots)
+  const required = sum(inRange.map((d) => d.amount))
+  const reservedEarlier = sum(list.filter((d) => !d.inRange).map((d) => d.amount))
+  const coveredInRange = sum(list.map((d, i) => (d.inRange ? covered[i]! : 0)))
+  const shortfall = Math.max(0, required - coveredInRange)
+  // On hand: what the range draws, plus what is left in lots still in date at the last use.
+  // Left over in a lot that expires sooner cannot be used: it is reported, not counted.
+  const lastUse = inRange.at(-1)!.date
+  const leftover = (l: { id: number, remaining: number }) => Math.max(0, l.remaining - (drawn.get(l.id) ?? 0))
+  const lasts = (l: { expiresOn: string | null }) => l.expiresOn === null || l.expiresOn >= lastUse
+  const onHand = coveredInRange + sum(lots.filter(lasts).map(leftover))
+  const notCounted = sum(lots.filter((l) => !lasts(l)).map(leftover))
+  const containers = shortfall > EPSILON ? Math.ceil(shortfall / reagent.containerSize - EPSILON) : 0
+  const byWeek = new Map<string, number>()
+  for (const d of inRange) byWeek.set(weekStart(d.date), (byWeek.get(weekStart(d.date)) ?? 0) + d.amount)
+  return {
+    reagentId: reagent.id, name: reagent.name, unit: reagent.unit,
+    required: round(required), onHand: round(onHand), shortfall: round(shortfall), containers, containerSize: reagent.containerSize,
+    overagePercent: reagent.overagePercent, orderQuantity: round(containers * reagent.containerSize),
+    weeks: [...byWeek].map(([week, amount]) => ({ week, required: round(amount) })),
+    reservedEarlier: round(reservedEarlier), notCounted: round(notCounted),
+    supplierName: reagent.supplierName, hazards: reagent.hazards,
+  }
+}
+
+/** Every ISO week of the range, with its meetings and their halogenated waste. */
+function forecastWeeks(from: string, to: string, sessions: ForecastSession[]): ForecastWeek[] {
   const weeks = new Map<string, ForecastWeek>()
-  for (let week = weekStart(input.from); week <= input.to; week = addDays(week, 7)) {
+  for (let week = weekStart(from); week <= to; week = addDays(week, 7)) {
     weeks.set(week, { week, isoWeek: isoWeekLabel(week), sessions: 0, halogenatedWasteMl: 0 })
   }
   for (const s of sessions) {
@@ -276,11 +314,21 @@ export function buildForecast(input: ForecastInput): ForecastResult {
     w.sessions += 1
     w.halogenatedWasteMl = round(w.halogenatedWasteMl + s.halogenatedWasteMl, 1)
   }
+  return [...weeks.values()]
+}
 
+/** The whole forecast: per reagent and ISO week, stock against it, and halogenated waste. */
+export function buildForecast(input: ForecastInput): ForecastResult {
+  const reagents = new Map(input.reagents.map((r) => [r.id, r]))
+  const problems = new Set<string>()
+  const perUnit = perUnitNeeds(input, reagents, problems)
+  const { sessions, skippedSessions, demands } = scheduledDemand(input, reagents, perUnit)
+  const lines = [...demands].flatMap(([reagentId, list]) => forecastLine(reagents.get(reagentId)!, list, input.lots, problems) ?? [])
+  lines.sort((a, b) => a.name.localeCompare(b.name))
   return {
     lines,
     halogenatedWasteMl: round(sum(sessions.map((s) => s.halogenatedWasteMl)), 1),
-    weeks: [...weeks.values()],
+    weeks: forecastWeeks(input.from, input.to, sessions),
     sessions,
     skippedSessions,
     problems: [...problems],

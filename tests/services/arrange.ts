@@ -1,3 +1,4 @@
+import type { Role } from '../../server/database/schema'
 import { randomUUID } from 'node:crypto'
 import { createError } from 'h3'
 import { vi } from 'vitest'
@@ -22,7 +23,8 @@ export function stubNitroGlobals() {
     async () => ({ send: async (queue: string, data: unknown) => { queuedJobs.push({ queue, data }); return null } }))
 }
 
-export const actorFor = (user: { id: number }): Actor => ({ id: user.id, ip: '127.0.0.1' })
+export const actorFor = (user: { id: number, role?: Role, name?: string }): Actor =>
+  ({ id: user.id, name: user.name ?? 'Test user', role: user.role ?? 'instructor', ip: '127.0.0.1' })
 
 export async function instructorWithCourse() {
   const owner = await createUser('instructor')

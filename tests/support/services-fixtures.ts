@@ -25,7 +25,7 @@ export async function demoPracticalScope(db: Kysely<Database> = testDb()): Promi
 /** A new instructor acting from a documentation address (RFC 5737). */
 export async function newActor(role: 'instructor' | 'ta' = 'instructor'): Promise<Actor> {
   const user = await createUser(role)
-  return { user: { id: user.id, name: `Test ${role}`, role }, ip: '192.0.2.7' }
+  return { id: user.id, name: `Test ${role}`, role, ip: '192.0.2.7' }
 }
 
 /** A fresh student's own work unit key ('user:<id>'), with the student's id. */

@@ -1,15 +1,14 @@
 import { passwordChangeSchema } from '#shared/types/auth'
+import { changePassword, refuseCommonPassword } from '../../services/accounts'
 
 export default defineEventHandler(async (event) => {
-  const me = requireUser(event)
+  const actor = actorOf(event)
   const { currentPassword, newPassword } = await readBodyAs(event, passwordChangeSchema)
-  if (isCommonPassword(newPassword)) {
-    invalid([{ field: 'newPassword', message: 'This password is too common; choose another' }], 422)
-  }
+  refuseCommonPassword(newPassword)
 
   const db = useDb()
-  const user = await db.selectFrom('users').select(['email', 'passwordHash']).where('id', '=', me.id).executeTakeFirstOrThrow()
-  const attempt = await attemptPassword(event, user.email, { id: me.id, passwordHash: user.passwordHash }, currentPassword)
+  const stored = await db.selectFrom('users').select(['email', 'passwordHash']).where('id', '=', actor.id).executeTakeFirstOrThrow()
+  const attempt = await attemptPassword(event, stored.email, { id: actor.id, passwordHash: stored.passwordHash }, currentPassword)
   if (attempt.outcome === 'throttled') {
     setResponseHeader(event, 'Retry-After', attempt.retryAfterSeconds)
     throw createError({ statusCode: 429, statusMessage: 'Too many wrong passwords. Try again later.' })
@@ -18,20 +17,11 @@ export default defineEventHandler(async (event) => {
     invalid([{ field: 'currentPassword', message: 'Current password is incorrect' }], 422)
   }
 
-  const passwordHash = await hashUserPassword(newPassword)
-  const version = await db.transaction().execute(async (trx) => {
-    const row = await trx
-      .updateTable('users')
-      .set((eb) => ({ passwordHash, sessionVersion: eb('sessionVersion', '+', 1), updatedAt: new Date() }))
-      .where('id', '=', me.id)
-      .returning('sessionVersion')
-      .executeTakeFirstOrThrow()
-    await audit(trx, event, { action: 'password.change', entity: 'user', entityId: me.id })
-    return row.sessionVersion
-  })
-  forgetAccount(me.id)
+  const version = await changePassword(db, actor, await hashUserPassword(newPassword))
+  forgetAccount(actor.id)
   // Every other session dies with the old version; this one carries on with the new one.
-  await replaceUserSession(event, { user: me, secure: { sv: version }, loggedInAt: Date.now() })
+  const { ip: _ip, ...user } = actor
+  await replaceUserSession(event, { user, secure: { sv: version }, loggedInAt: Date.now() })
   setResponseStatus(event, 204)
   return null
 })

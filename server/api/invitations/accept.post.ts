@@ -13,7 +13,7 @@ export default defineEventHandler(async (event): Promise<{ user: PublicUser }> =
   if (found.disabled) throw createError({ statusCode: 403, statusMessage: 'This account is disabled. Ask your course instructor.' })
 
   const passwordHash = await hashUserPassword(password)
-  const user = await acceptInvitation(useDb(), actorOf(event), token, found, passwordHash)
+  const user = await acceptInvitation(useDb(), auditActorOf(event), token, found, passwordHash)
   await replaceUserSession(event, {
     user: { id: user.id, name: user.name, role: user.role },
     secure: { sv: user.sessionVersion },

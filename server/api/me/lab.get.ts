@@ -11,12 +11,17 @@ export default defineEventHandler(async (event): Promise<MyLab> => {
     .where('userId', '=', me.id).where('status', '=', 'active').execute()
   if (!mine.length) return { enrollments: [] }
   const views = await sectionViews({ ids: mine.map((e) => e.sectionId) })
-  const courses = new Map((await db.selectFrom('courses').select(['id', 'code', 'title', 'term', 'timezone']).where('id', 'in', views.map((v) => v.courseId)).execute()).map((c) => [c.id, c]))
+  const courseRows = await db.selectFrom('courses').select(['id', 'code', 'title', 'term', 'timezone'])
+    .where('id', 'in', views.map((v) => v.courseId)).execute()
+  const courses = new Map(courseRows.map((c) => [c.id, c]))
   const practicals = await db.selectFrom('practicalSessions')
     .innerJoin('practicals', 'practicals.id', 'practicalSessions.practicalId')
     .innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
     .innerJoin('methods', 'methods.id', 'practicals.methodId')
-    .select(['practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate', 'practicalSessions.dueAt', 'substrates.name as substrate', 'methods.name as method'])
+    .select([
+      'practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate', 'practicalSessions.dueAt',
+      'substrates.name as substrate', 'methods.name as method',
+    ])
     .where('practicalSessions.sectionId', 'in', mine.map((e) => e.sectionId)).orderBy('practicalSessions.meetingDate').execute()
 
   const enrollments = await Promise.all(mine.map(async (e) => {
@@ -24,13 +29,18 @@ export default defineEventHandler(async (event): Promise<MyLab> => {
     const partners = await partnerNames(db, { userId: me.id, sectionId: e.sectionId, station: e.station })
     return {
       course: courses.get(view.courseId)!,
-      section: { id: view.id, code: view.code, weekday: view.weekday, startTime: view.startTime, endTime: view.endTime, room: view.room, tas: view.tas.map((t) => t.name) },
+      section: {
+        id: view.id, code: view.code, weekday: view.weekday, startTime: view.startTime, endTime: view.endTime, room: view.room,
+        tas: view.tas.map((t) => t.name),
+      },
       station: e.station,
       seat: e.seat,
       partners,
       meetings: view.meetings,
       practicals: practicals.filter((p) => p.sectionId === e.sectionId)
-        .map((p) => ({ id: p.id, title: p.title, meetingDate: p.meetingDate, dueAt: p.dueAt.toISOString(), substrate: p.substrate, method: p.method })),
+        .map((p) => ({
+          id: p.id, title: p.title, meetingDate: p.meetingDate, dueAt: p.dueAt.toISOString(), substrate: p.substrate, method: p.method,
+        })),
     }
   }))
   return { enrollments }

@@ -1,4 +1,5 @@
 import type { Overview } from '#shared/types/overview'
+import { nextLabCard, scheduleAhead, stockroomCards } from '../../services/overview'
 
 // The coordinator's first screen: what to order, the waste to expect, the next practical.
 export default defineEventHandler(async (event): Promise<Overview> => {

@@ -1,4 +1,5 @@
 import type { Overview } from '#shared/types/overview'
+import { classResultCard, nextLabCard, reviewCards, scheduleAhead } from '../../services/overview'
 
 // A TA's first screen: their sections' queue and the next practical they teach.
 export default defineEventHandler(async (event): Promise<Overview> => {

@@ -1,6 +1,7 @@
 import type { StockroomSettings } from '#shared/types/stockroom'
+import { requireStockroomReader, stockroomSettings } from '../../services/stockroom'
 
 export default defineEventHandler(async (event): Promise<StockroomSettings> => {
   requireStockroomReader(event)
-  return stockroomSettings()
+  return stockroomSettings(useDb())
 })

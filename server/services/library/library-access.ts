@@ -14,7 +14,6 @@ import { useDb } from '../../utils/db'
 // Students never list the library: their practical's page carries its substrate and windows.
 
 export type LibraryTable = 'substrates' | 'methods'
-type LibraryRow<T extends LibraryTable> = T extends 'substrates' ? Substrate : Method
 export type LibraryMode = 'read' | 'edit'
 
 const USED_BY_COLUMN = { substrates: 'substrateId', methods: 'methodId' } as const
@@ -25,38 +24,46 @@ export function requireLibraryReader(event: H3Event) {
 }
 
 /** The scope of a library query, for its where clause: shared, mine, or used in a course I see. */
-export function libraryScope<T extends LibraryTable>(
-  me: SessionUser, courseIds: number[], table: T,
-): (eb: ExpressionBuilder<Database, T>) => Expression<SqlBool> {
-  // Both tables have id and owner_id; the builder is typed for one of them to name those columns.
-  return (builder) => {
-    const eb = builder as unknown as ExpressionBuilder<Database, 'substrates'>
-    return eb.or([
+type ScopeOf<T extends LibraryTable> = (eb: ExpressionBuilder<Database, T>) => Expression<SqlBool>
+export function libraryScope(me: SessionUser, courseIds: number[], table: 'substrates'): ScopeOf<'substrates'>
+export function libraryScope(me: SessionUser, courseIds: number[], table: 'methods'): ScopeOf<'methods'>
+export function libraryScope(me: SessionUser, courseIds: number[], table: LibraryTable): ScopeOf<LibraryTable> {
+  // Both tables have id and owner_id, so a builder over either names them.
+  return (eb: ExpressionBuilder<Database, LibraryTable>) => eb.or([
     eb('ownerId', 'is', null),
     eb('ownerId', '=', me.id),
     ...(courseIds.length
-      ? [eb('id', 'in', eb.selectFrom('practicals').select(`practicals.${USED_BY_COLUMN[table]}` as 'practicals.substrateId')
+      ? [eb('id', 'in', eb.selectFrom('practicals').select(`practicals.${USED_BY_COLUMN[table]}`)
         .where('practicals.courseId', 'in', courseIds))]
       : []),
-    ])
-  }
+  ])
+}
+
+/** One entry of either table, within the caller's scope. */
+function libraryRow(me: SessionUser, courseIds: number[], table: LibraryTable, id: number): Promise<Substrate | Method | undefined> {
+  const db = useDb()
+  return table === 'substrates'
+    ? db.selectFrom('substrates').selectAll().where('id', '=', id).where(libraryScope(me, courseIds, table)).executeTakeFirst()
+    : db.selectFrom('methods').selectAll().where('id', '=', id).where(libraryScope(me, courseIds, table)).executeTakeFirst()
 }
 
 /**
  * Loads one library entry the caller may see (404 otherwise). 'edit' also needs the caller to
  * be the instructor who created it: shared entries are read-only for everyone (403).
  */
-export async function requireLibraryEntry<T extends LibraryTable>(
-  event: H3Event, table: T, id: number, mode: LibraryMode,
-): Promise<{ me: SessionUser, row: LibraryRow<T> }> {
+type EntryOf<R> = Promise<{ me: SessionUser, row: R }>
+export function requireLibraryEntry(event: H3Event, table: 'substrates', id: number, mode: LibraryMode): EntryOf<Substrate>
+export function requireLibraryEntry(event: H3Event, table: 'methods', id: number, mode: LibraryMode): EntryOf<Method>
+export function requireLibraryEntry(event: H3Event, table: LibraryTable, id: number, mode: LibraryMode): EntryOf<Substrate | Method>
+export async function requireLibraryEntry(
+  event: H3Event, table: LibraryTable, id: number, mode: LibraryMode,
+): EntryOf<Substrate | Method> {
   const me = requireLibraryReader(event)
   if (mode === 'edit' && me.role !== 'instructor') {
     throw createError({ statusCode: 403, statusMessage: 'Only instructors can change the library' })
   }
   const courseIds = await visibleCourseIds(me)
-  // Both tables share id and owner_id; the cast only picks one for the query builder's types.
-  const row = await useDb().selectFrom(table as 'substrates').selectAll()
-    .where('id', '=', id).where(libraryScope(me, courseIds, table as 'substrates')).executeTakeFirst()
+  const row = await libraryRow(me, courseIds, table, id)
   if (!row) throw createError({ statusCode: 404, statusMessage: `${NOUN[table]} not found` })
   if (mode === 'edit' && row.ownerId === null) {
     throw createError({ statusCode: 403, statusMessage: 'Shared library entries are read-only; make a copy to change it' })
@@ -64,7 +71,7 @@ export async function requireLibraryEntry<T extends LibraryTable>(
   if (mode === 'edit' && row.ownerId !== me.id) {
     throw createError({ statusCode: 403, statusMessage: 'Only the instructor who created this entry can change it' })
   }
-  return { me, row: row as unknown as LibraryRow<T> }
+  return { me, row }
 }
 
 /** Practicals using each entry, by id. */

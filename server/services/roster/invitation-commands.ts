@@ -1,7 +1,7 @@
 import { createError } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database } from '../../database/schema'
-import { audit, type Actor } from '../../utils/audit'
+import { audit, type Actor, type AuditActor } from '../../utils/audit'
 import { findInvitation, invitationGone } from './invitations'
 import { inviteToCourse } from './roster-import'
 
@@ -43,7 +43,7 @@ export async function resendInvitation(db: Db, actor: Actor, me: { id: number, n
  * Spends an open invitation and sets the password (already hashed). A second use, even at the
  * same moment, gets 410; the person's other open links die with it. Returns the account.
  */
-export async function acceptInvitation(db: Db, actor: Actor, token: string, invitation: { invitationId: number, userId: number },
+export async function acceptInvitation(db: Db, actor: AuditActor, token: string, invitation: { invitationId: number, userId: number },
   passwordHash: string) {
   return db.transaction().execute(async (trx) => {
     const now = new Date()

@@ -184,6 +184,6 @@ export async function rosterImportHistory(db: Db, courseId: number): Promise<Ros
     createdAt: r.createdAt.toISOString(),
     by: r.name,
     fileName: r.originalName,
-    summary: r.summary as unknown as RosterSummary,
+    summary: r.summary,
   }))
 }

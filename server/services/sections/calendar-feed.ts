@@ -155,8 +155,7 @@ export async function calendarFeed(db: Kysely<Database>, user: { id: number, nam
         start: new Date(meeting.start),
         end: new Date(meeting.end),
         // A stable stamp (the section's last change) keeps the feed byte-identical between polls.
-        // schema.ts types Generated<Timestamp> columns as the ColumnType itself; the value is a Date.
-        stamp: section.updatedAt as unknown as Date,
+        stamp: section.updatedAt,
         summary: practicals.length ? `${label}: ${practicals.map((p) => p.title).join('; ')}` : `${label}: lab meeting`,
         location: section.room,
         description,

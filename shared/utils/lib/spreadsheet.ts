@@ -158,6 +158,16 @@ export function sheetRowsToText(rows: SheetCell[][]): string {
   return `${lines.join('\n')}\n`
 }
 
+/**
+ * A cell as read-excel-file gives it. Its types name a date cell `typeof Date` (the constructor);
+ * at run time it is a Date instance, which is what SheetCell says.
+ */
+function sheetCell(value: unknown): SheetCell {
+  if (value === null || value === undefined || value instanceof Date) return value
+  if (typeof value === 'string' || typeof value === 'number' || typeof value === 'boolean') return value
+  return String(value)
+}
+
 /** The first sheet of an .xlsx file as text for parsePeakTable / parseTrace, with notes for the reader. */
 export async function readFirstSheetText(bytes: Uint8Array): Promise<{ text: string, warnings: string[] }> {
   const sheets = checkWorkbook(listZip(bytes))
@@ -165,7 +175,7 @@ export async function readFirstSheetText(bytes: Uint8Array): Promise<{ text: str
   let rows: SheetCell[][]
   try {
     const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer
-    rows = await readSheet(buffer) as unknown as SheetCell[][]
+    rows = (await readSheet(buffer)).map((row) => row.map(sheetCell))
   } catch (error) {
     if ((error as Error)?.name === 'SheetNotFoundError') throw new SpreadsheetError(422, 'the workbook has no sheets')
     throw new SpreadsheetError(422, 'the spreadsheet cannot be read (its sheet data is damaged): save it again as .xlsx')

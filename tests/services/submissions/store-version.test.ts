@@ -39,7 +39,7 @@ async function pair(): Promise<{ actor: Actor, partner: number, unit: NewVersion
   const a = await createUser('student')
   const b = await createUser('student')
   const unit = { sectionId: scope.sessionSectionIds[0]!, unitKey: `user:${a.id}`, memberIds: [a.id, b.id] }
-  return { actor: { user: { id: a.id, name: 'Test student', role: 'student' }, ip: '198.51.100.4' }, partner: b.id, unit }
+  return { actor: { id: a.id, name: 'Test student', role: 'student', ip: '198.51.100.4' }, partner: b.id, unit }
 }
 
 describe('storeSubmissionVersion', () => {

@@ -1,4 +1,6 @@
+import { listMailbox, requireDemoMailbox } from '../../../services/outbox'
+
 export default defineEventHandler(async (event) => {
   const me = requireRole(event, 'instructor', 'coordinator')
-  return listMailbox(me, requireDemoMailbox())
+  return listMailbox(useDb(), me, requireDemoMailbox(useRuntimeConfig(event)))
 })

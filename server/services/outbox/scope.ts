@@ -1,6 +1,6 @@
 import type { ExpressionBuilder } from 'kysely'
 import type { SessionUser } from '#shared/types/auth'
-import type { Database } from '../database/schema'
+import type { Database } from '../../database/schema'
 
 /**
  * The messages a staff member may see: the ones they queued, and (for instructors) anything about

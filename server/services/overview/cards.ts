@@ -5,9 +5,15 @@ import type { SessionUser } from '#shared/types/auth'
 import { HEADLINE_LABELS } from '#shared/utils/headline'
 import { KEY_FACTOR_LABELS } from '#shared/types/review'
 import { addDays, todayIn } from '#shared/utils/dates'
-import { scheduleEntries } from '../services/sections'
-import { practicalSummary } from '../services/results'
-import { reviewPracticalItems } from '../services/review'
+import { requirePracticalAccess } from '../../utils/access'
+import { useDb } from '../../utils/db'
+import { reviewPracticalItems } from '../review'
+import { scheduleEntries } from '../sections'
+import { practicalSummary } from '../results'
+import { loadForecast, stockroomToday } from '../stockroom'
+
+// The cards of the role home pages (GET /api/overview/<role>). Reads only; the review and
+// class-result cards take the request because the review scope and practical access read it.
 
 const isoDay = (offset = 0) => addDays(todayIn('UTC'), offset)
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
@@ -43,12 +49,18 @@ export async function reviewCards(event: H3Event, me: SessionUser): Promise<Over
 /** The next meeting that runs a practical, from the caller's schedule. */
 export function nextLabCard(entries: ScheduleEntry[]): OverviewCard {
   const next = entries.find((e) => e.practicals.length && e.start >= new Date().toISOString())
-  if (!next) return { title: 'Next practical', value: '—', detail: 'No practical is scheduled in the coming four weeks.', to: '/schedule', action: 'Open the schedule' }
-  const day = new Intl.DateTimeFormat('en-US', { timeZone: next.timezone, weekday: 'short', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false }).format(new Date(next.start))
+  if (!next) {
+    const detail = 'No practical is scheduled in the coming four weeks.'
+    return { title: 'Next practical', value: '—', detail, to: '/schedule', action: 'Open the schedule' }
+  }
+  const day = new Intl.DateTimeFormat('en-US', {
+    timeZone: next.timezone, weekday: 'short', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false,
+  }).format(new Date(next.start))
   return {
     title: 'Next practical',
     value: day,
-    detail: `${next.practicals.map((p) => p.title).join(', ')} · ${next.courseCode} ${next.sectionCode}, ${next.room}, ${plural(next.enrolled, 'student')}`,
+    detail: `${next.practicals.map((p) => p.title).join(', ')} · ${next.courseCode} ${next.sectionCode}, ${next.room}, `
+      + plural(next.enrolled, 'student'),
     to: `/practicals/${next.practicals[0]!.id}`,
     action: 'Open the practical',
   }
@@ -57,7 +69,7 @@ export function nextLabCard(entries: ScheduleEntry[]): OverviewCard {
 /** Shortfalls and waste for the coming four weeks, from the stockroom forecast. */
 export async function stockroomCards(me: SessionUser): Promise<OverviewCard[]> {
   const today = stockroomToday()
-  const forecast = await loadForecast(me, { from: today, to: isoDay(27), today })
+  const forecast = await loadForecast(useDb(), me, { from: today, to: isoDay(27), today })
   const short = forecast.lines.filter((l) => l.containers > 0)
   return [
     {
@@ -102,10 +114,13 @@ export async function classResultCard(event: H3Event, me: SessionUser): Promise<
   // The same figure the results page and the digests lead with (shared/utils/headline.ts).
   const ci = headline.ci95 ? ` (95 % CI ${headline.ci95[0].toFixed(2)} to ${headline.ci95[1].toFixed(2)})` : ''
   const median = headline.statistic === 'median' ? '' : `; median ${stats.median?.toFixed(2) ?? 'n/a'}`
+  const predicted = literature ? `; the method predicts ${literature.toFixed(2)}` : ''
+  const flagged = stats.test.applied && stats.outliers.length ? `; ${plural(stats.outliers.length, 'outlier')} flagged` : ''
   return {
     title: `Class ${name} selectivity`,
     value: headline.value.toFixed(2),
-    detail: `${HEADLINE_LABELS[headline.statistic]} of ${plural(stats.n, 'result')} in ${scope.practical.title}${ci}${median}${literature ? `; the method predicts ${literature.toFixed(2)}` : ''}${stats.test.applied && stats.outliers.length ? `; ${plural(stats.outliers.length, 'outlier')} flagged` : ''}.`,
+    detail: `${HEADLINE_LABELS[headline.statistic]} of ${plural(stats.n, 'result')} in ${scope.practical.title}`
+      + `${ci}${median}${predicted}${flagged}.`,
     to: `/results/practicals/${latest.id}`,
     action: 'Open the class results',
     tone: stats.outliers.length ? 'warning' : undefined,
