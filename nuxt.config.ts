@@ -47,7 +47,23 @@ export default defineNuxtConfig({
   nitro: { output: { dir: tag ? `.output-${tag}` : '.output' } },
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@vueuse/nuxt', 'nuxt-auth-utils'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@vueuse/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
+  // Lint only (eslint.config.mjs, `npm run lint`, run by npm test): the stylistic options say how
+  // the code already reads, so that `eslint --fix` changes layout, not habits.
+  eslint: {
+    config: {
+      stylistic: {
+        indent: 2,
+        quotes: 'single',
+        semi: false,
+        commaDangle: 'always-multiline',
+        braceStyle: '1tbs',
+        arrowParens: true,
+        blockSpacing: true,
+        quoteProps: 'consistent-as-needed',
+      },
+    },
+  },
   css: ['~/assets/css/main.css'],
   // main.css holds the @tailwind layers; without this the module injects a second copy.
   tailwindcss: { cssPath: '~/assets/css/main.css' },

@@ -1,7 +1,9 @@
 #!/usr/bin/env node
-// npm test: the same preparation as npm start (machine packages, npm packages), then every
-// vitest project. The e2e project's global set-up makes its own throwaway PostgreSQL, SMTP fake
-// and server. The last line is the one CI reads: "tests: N passed, N failed[, N skipped]".
+// npm test: the same preparation as npm start (machine packages, npm packages), then ESLint
+// (zero warnings), then every vitest project. The e2e project's global set-up makes its own
+// throwaway PostgreSQL, SMTP fake and server. The last line is the one CI reads:
+// "tests: N passed, N failed[, N skipped]"; a lint failure counts as one failed test.
+// Arguments (`npm test -- --project unit`) select a subset and skip the lint: `npm run lint`.
 import { spawnSync } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
@@ -9,6 +11,7 @@ import { fileURLToPath } from 'node:url'
 import { step } from './lib/steps.mjs'
 import { checkNodeVersion, ensureChromium, ensurePostgres } from './lib/system.mjs'
 import { ensureNodeModules } from './lib/deps.mjs'
+import { runLint } from './lib/lint.mjs'
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
 const report = join(root, 'test-results', 'vitest.json')
@@ -39,6 +42,14 @@ async function main() {
   rmSync(report, { force: true })
 
   const args = process.argv.slice(2)
+  // The whole run lints first; a subset run (any argument) leaves it to `npm run lint`.
+  const lint = args.length ? null : await step('Linting (eslint, zero warnings)', () => runLint(root))
+  if (lint && !lint.ok) {
+    process.stdout.write(lint.output)
+    console.error(`\n✗ Lint failed: ${lint.note}. \`npm run lint\` shows them again; \`npx eslint . --fix\` mends the layout ones.\n`)
+  }
+  const lintFailures = lint && !lint.ok ? 1 : 0
+
   const result = spawnSync(process.execPath, [
     join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run',
     '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...args,
@@ -47,12 +58,13 @@ async function main() {
   const counts = summarize()
   const code = result.status ?? 1
   if (!counts) {
-    console.log(`tests: 0 passed, 1 failed`)
+    console.log(`tests: 0 passed, ${1 + lintFailures} failed`)
     process.exit(code || 1)
   }
-  const failed = counts.failed || (code !== 0 ? Math.max(counts.failed, 1) : 0)
+  const failed = (counts.failed || (code !== 0 ? 1 : 0)) + lintFailures
+  if (lintFailures) console.error('✗ Lint failed (see above): counted as one failed test.')
   console.log(`tests: ${counts.passed} passed, ${failed} failed${counts.skipped ? `, ${counts.skipped} skipped` : ''}`)
-  process.exit(code)
+  process.exit(code || lintFailures)
 }
 
 main().catch((error) => {
