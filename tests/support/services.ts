@@ -23,7 +23,7 @@ export function stopSmtp() {
 
 export async function startSmtp() {
   const child = await startSmtpFake({ root: inject('root'), port: inject('smtpPort'), dir: inject('mailDir'), pidFile: inject('smtpPidFile') })
-  ;(child as unknown as import('node:child_process').ChildProcess).unref()
+  child.unref()
 }
 
 /** Every message the SMTP fake holds, parsed back with mailparser. */
