@@ -20,6 +20,8 @@ export default defineConfig({
           name: 'nuxt',
           include: ['tests/nuxt/**/*.test.ts'],
           environment: 'nuxt',
+          // Each file starts the Nuxt app in beforeAll: on two busy cores that can pass 10 s.
+          hookTimeout: 60_000,
         },
       }),
       {

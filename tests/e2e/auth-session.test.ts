@@ -32,7 +32,7 @@ describe('/api/_auth/session', () => {
       const reply = await client.request(path, { method: 'DELETE' })
       expect(reply.status, path).toBe(405)
       expect(reply.headers.get('allow')).toBe('GET, HEAD')
-      expect(reply.body.statusMessage).toBe('Sign out with POST /api/auth/logout')
+      expect(reply.refusal.statusMessage).toBe('Sign out with POST /api/auth/logout')
       expect(reply.headers.getSetCookie()).toEqual([])
     }
     expect((await client.request('/api/_auth/session', { method: 'POST' })).status).toBe(405)

@@ -47,7 +47,7 @@ describe('calendar feed', () => {
     expect(feed.status).toBe(200)
     expect(feed.headers.get('content-type')).toBe('text/calendar; charset=utf-8')
     expect(feed.headers.get('cache-control')).toBe('private, max-age=300')
-    const all = lines(feed.body)
+    const all = lines(feed.text)
     expect(all[0]).toBe('BEGIN:VCALENDAR')
     expect(all.filter(Boolean).at(-1)).toBe('END:VCALENDAR')
     expect(all).toContain('X-WR-TIMEZONE:America/Chicago')
@@ -56,7 +56,7 @@ describe('calendar feed', () => {
     const dates = expectedDates('R1')
     expect(r1.skippedDates).toHaveLength(1)
     expect(dates).not.toContain(r1.skippedDates[0])
-    const vevents = events(feed.body)
+    const vevents = events(feed.text)
     expect(vevents).toHaveLength(dates.length)
     expect(vevents.map((e) => prop(e, 'UID')).sort()).toEqual(dates.map((d) => `meeting-${r1.id}-${d}@halocline`).sort())
     for (const e of vevents) {
@@ -83,7 +83,7 @@ describe('calendar feed', () => {
     expect(gone.status).toBe(410)
     expect(gone.headers.get('location')).toBeNull()
     expect(gone.headers.get('content-type')).toBe('text/plain; charset=utf-8')
-    expect(gone.body).toMatch(/^This calendar address was replaced\./)
+    expect(gone.text).toMatch(/^This calendar address was replaced\./)
     expect((await new Client().get(pathOf(reset.body.url))).status).toBe(200)
     expect((await student.get('/api/calendar')).body.url).toBe(reset.body.url)
     // Some programs check an address with HEAD first: the same answers, no redirect.
@@ -101,7 +101,7 @@ describe('calendar feed', () => {
         expect(reply.status, path).toBe(404)
         expect(reply.headers.get('location')).toBeNull()
         expect(reply.headers.get('content-type')).toBe('text/plain; charset=utf-8')
-        expect(reply.body).toBe('No calendar at this address.\n')
+        expect(reply.text).toBe('No calendar at this address.\n')
       }
     }
     expect((await new Client().get('/api/calendar')).status).toBe(401)
@@ -110,7 +110,7 @@ describe('calendar feed', () => {
 
   it('keeps only a hash of the token: the URL still shows again, and a database copy alone opens nothing', async () => {
     const student = await signedIn(DEMO.student(51))
-    const url = (await student.get('/api/calendar')).body.url as string
+    const url = (await student.get('/api/calendar')).body.url
     const token = /\/calendar\/([\w-]{43})\.ics$/.exec(url)![1]!
     const row = await testDb().selectFrom('calendarFeeds').innerJoin('users', 'users.id', 'calendarFeeds.userId')
       .selectAll('calendarFeeds').where('users.email', '=', DEMO.student(51)).executeTakeFirstOrThrow()
@@ -137,7 +137,7 @@ describe('calendar feed', () => {
   it('gives a TA their sections, and the coordinator every section', async () => {
     const ta = await signedIn(DEMO.ta1)
     const taFeed = await new Client().get(pathOf((await ta.get('/api/calendar')).body.url))
-    const uids = events(taFeed.body).map((e) => prop(e, 'UID')!)
+    const uids = events(taFeed.text).map((e) => prop(e, 'UID')!)
     const ids = new Set(uids.map((u) => Number(u.split('-')[1])))
     expect([...ids].sort()).toEqual([sections.M1!.id, sections.W1!.id].sort())
     expect(uids).toHaveLength(expectedDates('M1').length + expectedDates('W1').length)
@@ -145,7 +145,7 @@ describe('calendar feed', () => {
     const coordinator = await signedIn(DEMO.coordinator)
     const feed = await new Client().get(pathOf((await coordinator.get('/api/calendar')).body.url))
     const total = ['M1', 'T1', 'W1', 'R1'].reduce((n, code) => n + expectedDates(code).length, 0)
-    const demoEvents = events(feed.body).filter((e) => prop(e, 'SUMMARY')!.startsWith('CHEM 2240'))
+    const demoEvents = events(feed.text).filter((e) => prop(e, 'SUMMARY')!.startsWith('CHEM 2240'))
     expect(demoEvents).toHaveLength(total)
   })
 })

@@ -23,7 +23,7 @@ describe('POST /api/chemistry/analyze', () => {
     // Keys are canonical SMILES from the server; look them up through the reactivity route's matching.
     const values = Object.values(percents).sort((a, b) => a - b)
     expect(values).toEqual([13.9, 23.1, 27.8, 35.2])
-    const byClass = (cls: string) => reply.body.products.filter((p: any) => p.carbonClass === cls).reduce((s: number, p: any) => s + p.predictedPercent, 0)
+    const byClass = (cls: string) => reply.body.products.filter((p) => p.carbonClass === cls).reduce((s, p) => s + p.predictedPercent, 0)
     expect(byClass('primary')).toBeCloseTo(41.7, 1)
     expect(byClass('secondary')).toBeCloseTo(35.2, 1)
     expect(byClass('tertiary')).toBeCloseTo(23.1, 1)
@@ -56,14 +56,14 @@ describe('POST /api/chemistry/analyze', () => {
   ])('refuses %s with a 400 and a readable message', async (_case, smiles) => {
     const reply = await analyze({ smiles })
     expect(reply.status).toBe(400)
-    expect(typeof reply.body.statusMessage).toBe('string')
-    expect(reply.body.statusMessage.length).toBeGreaterThan(10)
+    expect(typeof reply.refusal.statusMessage).toBe('string')
+    expect(reply.refusal.statusMessage.length).toBeGreaterThan(10)
   })
 
   it('refuses a missing smiles with the field named', async () => {
     const reply = await analyze({ halogen: 'Cl' })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toMatch(/^smiles:/)
+    expect(reply.refusal.statusMessage).toMatch(/^smiles:/)
   })
 })
 
@@ -98,6 +98,6 @@ describe('POST /api/chemistry/reactivity', () => {
   it('names an unknown product', async () => {
     const reply = await client.post('/api/chemistry/reactivity', { smiles: 'CCC', observed: [{ smiles: 'CCCCCl', percent: 10 }] })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toContain('CCCCCl')
+    expect(reply.refusal.statusMessage).toContain('CCCCCl')
   })
 })

@@ -24,15 +24,15 @@ describe('GET /api/courses (public contract)', () => {
   it('gives each role the courses it may see, as { id, code, title, term }', async () => {
     const mine = await instructor.get('/api/courses')
     expect(mine.status).toBe(200)
-    const demo = mine.body.find((c: any) => c.code === 'CHEM 2240')
-    expect(Object.keys(demo).sort()).toEqual(['code', 'id', 'term', 'title'])
+    const demo = mine.body.find((c) => c.code === 'CHEM 2240')
+    expect(Object.keys(demo!).sort()).toEqual(['code', 'id', 'term', 'title'])
     for (const email of [DEMO.ta1, DEMO.coordinator, DEMO.student(20)]) {
       const reply = await (await signedIn(email)).get('/api/courses')
-      expect(reply.body.map((c: any) => c.code), email).toContain('CHEM 2240')
+      expect(reply.body.map((c) => c.code), email).toContain('CHEM 2240')
     }
     const stranger = await createUser('instructor')
     const none = await (await signedIn(stranger.email, stranger.password)).get('/api/courses')
-    expect(none.body.some((c: any) => c.code === 'CHEM 2240')).toBe(false)
+    expect(none.body.some((c) => c.code === 'CHEM 2240')).toBe(false)
   })
 
   it('another instructor gets 404 for the course, never its data', async () => {
@@ -58,7 +58,7 @@ describe('courses and sections', () => {
     expect(again.status).toBe(409)
     const badZone = await client.post('/api/courses', { code: 'CHEM 9002', title: 'T', term: 'Spring 2027', timezone: 'Mars/Olympus' })
     expect(badZone.status).toBe(400)
-    expect(badZone.body.statusMessage).toMatch(/^timezone:/)
+    expect(badZone.refusal.statusMessage).toMatch(/^timezone:/)
   })
 
   it('a section lists its meetings without skipped dates, and validation names the field', async () => {
@@ -67,10 +67,10 @@ describe('courses and sections', () => {
     const course = await client.post('/api/courses', { code: 'CHEM 9010', title: 'T', term: 'Fall 2026' })
     const bad = await client.post(`/api/courses/${course.body.id}/sections`, sectionBody({ endTime: '08:00' }))
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toMatch(/^endTime:/)
+    expect(bad.refusal.statusMessage).toMatch(/^endTime:/)
     const ok = await client.post(`/api/courses/${course.body.id}/sections`, sectionBody({ room: `Room ${owner.id}` }))
     expect(ok.status).toBe(201)
-    const dates = ok.body.section.meetings.map((m: any) => m.date)
+    const dates = ok.body.section.meetings.map((m) => m.date)
     // Fridays from 2026-09-04 to 2026-12-11 (ISO calendar): 15, minus the skipped 2026-11-27.
     expect(dates).toHaveLength(14)
     expect(dates).not.toContain('2026-11-27')
@@ -84,7 +84,7 @@ describe('courses and sections', () => {
     const course = await client.post('/api/courses', { code: 'CHEM 9020', title: 'T', term: 'Fall 2026', timezone: 'America/Chicago' })
     const ok = await client.post(`/api/courses/${course.body.id}/sections`, sectionBody({ room: `DST room ${owner.id}`, firstDate: '2026-10-23', lastDate: '2026-11-06', skippedDates: [] }))
     // US DST ends 2026-11-01 (Energy Policy Act of 2005; IANA tz database): CDT UTC−5 → CST UTC−6.
-    expect(ok.body.section.meetings.map((m: any) => m.start)).toEqual(['2026-10-23T14:00:00.000Z', '2026-10-30T14:00:00.000Z', '2026-11-06T15:00:00.000Z'])
+    expect(ok.body.section.meetings.map((m) => m.start)).toEqual(['2026-10-23T14:00:00.000Z', '2026-10-30T14:00:00.000Z', '2026-11-06T15:00:00.000Z'])
   })
 
   it('refuses a TA double-booked across courses with 409 until the instructor confirms', async () => {
@@ -99,8 +99,8 @@ describe('courses and sections', () => {
     const clash = sectionBody({ code: 'B1', weekday: 1, startTime: '10:00', endTime: '12:00', room: `Room B ${ta.id}`, taIds: [ta.id] })
     const refused = await second.post(`/api/courses/${courseB.body.id}/sections`, clash)
     expect(refused.status).toBe(409)
-    expect(refused.body.data.conflicts[0]).toMatchObject({ kind: 'ta-overlap', sectionIds: expect.arrayContaining([a.body.section.id]) })
-    expect(refused.body.data.conflicts[0].message).toContain('Odile Fairweather')
+    expect(refused.refusal.data?.conflicts?.[0]).toMatchObject({ kind: 'ta-overlap', sectionIds: expect.arrayContaining([a.body.section.id]) })
+    expect(refused.refusal.data?.conflicts?.[0]?.message).toContain('Odile Fairweather')
     const count = await testDb().selectFrom('sections').select('id').where('courseId', '=', courseB.body.id).execute()
     expect(count).toHaveLength(0)
     const confirmed = await second.post(`/api/courses/${courseB.body.id}/sections`, { ...clash, confirmConflicts: true })
@@ -113,13 +113,13 @@ describe('courses and sections', () => {
     const course = await demoCourse()
     const room = await instructor.post(`/api/courses/${course.id}/sections`, sectionBody({ code: 'W2', weekday: 3, startTime: '14:00', endTime: '16:00', room: 'bellweather hall 214', firstDate: w1.firstDate, lastDate: w1.lastDate, skippedDates: [] }))
     expect(room.status).toBe(409)
-    expect(room.body.data.conflicts.map((c: any) => c.kind)).toEqual(['room-overlap'])
+    expect(room.refusal.data?.conflicts?.map((c) => c.kind)).toEqual(['room-overlap'])
 
     const t1 = await demoSection('T1') // 16 students
     const view = (await instructor.get(`/api/sections/${t1.id}`)).body
-    const shrink = await instructor.request(`/api/sections/${t1.id}`, { method: 'PATCH', json: { ...view, hoodStations: 6, taIds: view.tas.map((t: any) => t.id) } })
+    const shrink = await instructor.request(`/api/sections/${t1.id}`, { method: 'PATCH', json: { ...view, hoodStations: 6, taIds: view.tas.map((t) => t.id) } })
     expect(shrink.status).toBe(409)
-    expect(shrink.body.data.conflicts[0]).toMatchObject({ kind: 'capacity' })
+    expect(shrink.refusal.data?.conflicts?.[0]).toMatchObject({ kind: 'capacity' })
   })
 
   it('the whole-course check lists the conflicts confirmed earlier, including ones across courses', async () => {
@@ -140,7 +140,7 @@ describe('courses and sections', () => {
     const course = await client.post('/api/courses', { code: 'CHEM 9040', title: 'T', term: 'Fall 2026' })
     const bad = await client.request(`/api/courses/${course.body.id}/settings`, { method: 'PUT', json: { outlierTest: 'dixon', outlierAlpha: 0.05, zscoreLimit: 3.5, accuracyTolerancePercent: 10, releasePolicy: 'manual', rubric: [] } })
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toMatch(/^rubric:/)
+    expect(bad.refusal.statusMessage).toMatch(/^rubric:/)
     const ok = await client.request(`/api/courses/${course.body.id}/settings`, { method: 'PUT', json: { outlierTest: 'dixon', outlierAlpha: 0.1, zscoreLimit: 3.5, accuracyTolerancePercent: 10, releasePolicy: 'manual', rubric: [{ key: 'accuracy', label: 'Accuracy', maxPoints: 10, kind: 'accuracy' }] } })
     expect(ok.status).toBe(204)
     expect((await client.get(`/api/courses/${course.body.id}`)).body).toMatchObject({ outlierTest: 'dixon', outlierAlpha: 0.1, releasePolicy: 'manual' })
@@ -154,7 +154,7 @@ describe('scope of section reads', () => {
     const ta1 = await signedIn(DEMO.ta1)
     const course = await demoCourse()
     const list = await ta1.get(`/api/courses/${course.id}/sections`)
-    expect(list.body.map((s: any) => s.code).sort()).toEqual(['M1', 'W1'])
+    expect(list.body.map((s) => s.code).sort()).toEqual(['M1', 'W1'])
     const t1 = await demoSection('T1')
     expect((await ta1.get(`/api/sections/${t1.id}`)).status).toBe(404)
   })
@@ -163,7 +163,7 @@ describe('scope of section reads', () => {
     const student = await signedIn(DEMO.student(1)) // M1
     const course = await demoCourse()
     const list = await student.get(`/api/courses/${course.id}/sections`)
-    expect(list.body.map((s: any) => s.code)).toEqual(['M1'])
+    expect(list.body.map((s) => s.code)).toEqual(['M1'])
     expect((await student.get(`/api/courses/${course.id}/conflicts`)).status).toBe(403)
     expect((await student.get(`/api/sections/${(await demoSection('R1')).id}`)).status).toBe(404)
   })
@@ -182,12 +182,12 @@ describe('student lab and schedule', () => {
     const lab = await student.get('/api/me/lab')
     expect(lab.status).toBe(200)
     const [e] = lab.body.enrollments
-    expect(e.section.code).toBe('R1')
-    expect(e.station).toBe(1)
-    expect(e.partners).toHaveLength(1)
+    expect(e!.section.code).toBe('R1')
+    expect(e!.station).toBe(1)
+    expect(e!.partners).toHaveLength(1)
     const r1 = await demoSection('R1')
     expect(r1.skippedDates).toHaveLength(1)
-    expect(e.meetings.map((m: any) => m.date)).not.toContain(r1.skippedDates[0])
+    expect(e!.meetings.map((m) => m.date)).not.toContain(r1.skippedDates[0])
     expect((await (await signedIn(DEMO.ta1)).get('/api/me/lab')).status).toBe(403)
   })
 
@@ -195,10 +195,10 @@ describe('student lab and schedule', () => {
     const m1 = await demoSection('M1')
     const range = `from=${m1.firstDate}&to=${m1.lastDate}`
     const all = await (await signedIn(DEMO.coordinator)).get(`/api/schedule?${range}`)
-    const demo = all.body.filter((e: any) => e.courseCode === 'CHEM 2240')
-    expect(new Set(demo.map((e: any) => e.sectionCode))).toEqual(new Set(['M1', 'T1', 'W1', 'R1']))
+    const demo = all.body.filter((e) => e.courseCode === 'CHEM 2240')
+    expect(new Set(demo.map((e) => e.sectionCode))).toEqual(new Set(['M1', 'T1', 'W1', 'R1']))
     const ta2 = await (await signedIn(DEMO.ta2)).get(`/api/schedule?${range}`)
-    expect(new Set(ta2.body.map((e: any) => e.sectionCode))).toEqual(new Set(['T1', 'R1']))
+    expect(new Set(ta2.body.map((e) => e.sectionCode))).toEqual(new Set(['T1', 'R1']))
     const bad = await (await signedIn(DEMO.ta2)).get('/api/schedule?from=2026-12-01&to=2026-11-01')
     expect(bad.status).toBe(400)
   })

@@ -1,7 +1,7 @@
 import { request as httpRequest } from 'node:http'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
-import { Client, signedIn } from '../support/http'
+import { Client, signedIn, type Refusal } from '../support/http'
 import { closeTestDb, TEST_PASSWORD } from '../support/db'
 import { insertResult, makeCourse } from '../support/fixtures'
 
@@ -29,7 +29,8 @@ beforeAll(async () => {
 })
 afterAll(closeTestDb)
 
-interface Raw { status: number, statusMessage: string, body: any }
+/** The reply with the status line's reason phrase; `refusal` is the JSON body of a 4xx or 5xx. */
+interface Raw { status: number, statusMessage: string, body: unknown, refusal: Refusal }
 
 /** A request through node:http, which hands over the status line's reason phrase as sent. */
 async function raw(path: string, init: { method?: string, body?: Uint8Array, headers?: Record<string, string> }): Promise<Raw> {
@@ -40,7 +41,8 @@ async function raw(path: string, init: { method?: string, body?: Uint8Array, hea
       res.on('data', (c) => chunks.push(c))
       res.on('end', () => {
         const text = Buffer.concat(chunks).toString('utf8')
-        resolve({ status: res.statusCode!, statusMessage: res.statusMessage ?? '', body: res.headers['content-type']?.includes('json') ? JSON.parse(text) : text })
+        const body: unknown = res.headers['content-type']?.includes('json') ? JSON.parse(text) : text
+        resolve({ status: res.statusCode!, statusMessage: res.statusMessage ?? '', body, refusal: body as Refusal })
       })
     })
     req.on('error', reject)
@@ -65,15 +67,15 @@ describe('the status line and the message of an error', () => {
     expect(reply.statusMessage.length).toBeLessThanOrEqual(200)
     expect(reply.statusMessage).toMatch(PRINTABLE_ASCII)
     expect(reply.statusMessage).toMatch(/^file: Row 4: the area "9{10,}\.\.\." is not a number\.$/)
-    expect(reply.body.statusMessage.length).toBeLessThanOrEqual(500)
-    expect(reply.body.message.length).toBeLessThanOrEqual(500)
+    expect(reply.refusal.statusMessage.length).toBeLessThanOrEqual(500)
+    expect(reply.refusal.message.length).toBeLessThanOrEqual(500)
     expect(JSON.stringify(reply.body).length).toBeLessThan(20_000)
   })
 
   it('a 100 kB quoted cell is quoted in at most 40 characters', async () => {
     const reply = await previewUpload(`Peak,RT,Area\n1,2.10,1000\n2,3.20,"${'a'.repeat(100_000)}"\n`)
     expect(reply.status).toBe(422)
-    const quoted = /"([^"]*)"/.exec(reply.body.statusMessage)![1]!
+    const quoted = /"([^"]*)"/.exec(reply.refusal.statusMessage)![1]!
     expect(quoted.length).toBeLessThanOrEqual(40)
     expect(quoted.endsWith('…')).toBe(true)
     expect(reply.statusMessage.length).toBeLessThanOrEqual(200)
@@ -84,7 +86,7 @@ describe('the status line and the message of an error', () => {
     const reply = await previewUpload('Peak,RT,Area\n1,2.10,1000\n2,3.20,<img src=x onerror=alert(1)>\n')
     expect(reply.status).toBe(422)
     expect(JSON.stringify(reply.body)).not.toMatch(/<img/i)
-    expect(reply.body.statusMessage).toContain('‹img src=x onerror=alert(1)›')
+    expect(reply.refusal.statusMessage).toContain('‹img src=x onerror=alert(1)›')
     expect(reply.statusMessage).not.toMatch(/[<>]/)
     expect(reply.statusMessage).toMatch(PRINTABLE_ASCII)
   })
@@ -93,7 +95,7 @@ describe('the status line and the message of an error', () => {
     const form = JSON.stringify({ name: 'Too hot', reagent: 'cl2-light', temperatureC: 500, reactivity: { primary: 1, secondary: 3.8, tertiary: 5 }, source: 'From memory' })
     const reply = await raw('/api/methods', { method: 'POST', body: new TextEncoder().encode(form), headers: { 'content-type': 'application/json', 'cookie': owner.cookieHeader } })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toBe('temperatureC: At most 400 °C')
+    expect(reply.refusal.statusMessage).toBe('temperatureC: At most 400 °C')
     expect(reply.statusMessage).toBe('temperatureC: At most 400 degC')
   })
 
@@ -101,14 +103,14 @@ describe('the status line and the message of an error', () => {
     const key = 'k'.repeat(10_000)
     const reply = await ta.post(`/api/submissions/${submissionId}/review`, { decision: 'accept', scores: { [key]: 1 } })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage.length).toBeLessThan(120)
-    expect(reply.body.statusMessage).toMatch(/^scores\.k{20,}…: Not a criterion key$/)
+    expect(reply.refusal.statusMessage.length).toBeLessThan(120)
+    expect(reply.refusal.statusMessage).toMatch(/^scores\.k{20,}…: Not a criterion key$/)
   })
 
   it('a body of 200 bad items answers with the first and at most 50 issues', async () => {
     const reply = await owner.post(`/api/practicals/${practicalId}/digests`, { sectionIds: Array.from({ length: 200 }, () => 'x') })
     expect(reply.status).toBe(400)
-    expect(reply.body.data.issues).toHaveLength(50)
-    expect(reply.body.statusMessage).toBe('sectionIds.0: Pick a section from the list')
+    expect(reply.refusal.data?.issues).toHaveLength(50)
+    expect(reply.refusal.statusMessage).toBe('sectionIds.0: Pick a section from the list')
   })
 })

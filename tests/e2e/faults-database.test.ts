@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
-import { Client } from '../support/http'
+import { Client, type Reply } from '../support/http'
 import { closeTestDb, testDb, TEST_PASSWORD } from '../support/db'
 import { gcTable, makeGcPractical, uploadGc, type GcPractical } from '../support/gc'
 import { eventually, startDatabase, stopDatabase } from '../support/services'
@@ -68,7 +68,7 @@ describe('PostgreSQL restarted during concurrent uploads', () => {
     try {
       // While it is down, routes that need it say so (a short 503 with a message), never 500.
       const probe = clients[0]!
-      const reply = async (p: Promise<{ status: number, body: any }>) => p.then((r) => ({ status: r.status, message: r.body?.message ?? r.body?.statusMessage }))
+      const reply = async (p: Promise<Reply<unknown>>) => p.then((r) => ({ status: r.status, message: r.refusal?.message ?? r.refusal?.statusMessage }))
       outage = {
         health: { status: await health() },
         upload: await reply(uploadGc(probe, practical.practicalId, gcTable(practical, { seed: 99 }).text, { key: randomUUID() })),

@@ -46,59 +46,59 @@ describe('dates', () => {
     ]
     for (const [over, message] of cases) {
       const reply = await owner.post(`/api/courses/${courseId}/sections`, section(over))
-      expect([reply.status, reply.body.statusMessage], JSON.stringify(over).slice(0, 80)).toEqual([400, message])
+      expect([reply.status, reply.refusal.statusMessage], JSON.stringify(over).slice(0, 80)).toEqual([400, message])
     }
     expect(await sectionCount()).toBe(before)
     const edit = await owner.request(`/api/sections/${sectionId}`, { method: 'PATCH', json: section({ code: 'S1', lastDate: '9999-12-31' }) })
-    expect([edit.status, edit.body.statusMessage]).toEqual([400, 'lastDate: Use a date from 2000-01-01 to 2100-12-31'])
+    expect([edit.status, edit.refusal.statusMessage]).toEqual([400, 'lastDate: Use a date from 2000-01-01 to 2100-12-31'])
     // A year of meetings is still a term.
     expect((await owner.post(`/api/courses/${courseId}/sections`, section({ firstDate: '2027-01-13', lastDate: '2028-01-12' }))).status).toBe(201)
   })
 
   it('the schedule says once that "to" must not come before "from"', async () => {
     const reversed = await owner.get('/api/schedule?from=2027-02-01&to=2027-01-01')
-    expect([reversed.status, reversed.body.statusMessage]).toEqual([400, 'to: Must be on or after from'])
+    expect([reversed.status, reversed.refusal.statusMessage]).toEqual([400, 'to: Must be on or after from'])
     const long = await owner.get('/api/schedule?from=2000-01-01&to=2100-12-31')
-    expect([long.status, long.body.statusMessage]).toEqual([400, 'to: At most 366 days after from'])
+    expect([long.status, long.refusal.statusMessage]).toEqual([400, 'to: At most 366 days after from'])
     const far = await owner.get('/api/schedule?from=0999-01-01&to=2027-01-01')
-    expect([far.status, far.body.statusMessage]).toEqual([400, 'from: Use a date from 2000-01-01 to 2100-12-31'])
+    expect([far.status, far.refusal.statusMessage]).toEqual([400, 'from: Use a date from 2000-01-01 to 2100-12-31'])
     expect((await owner.get('/api/schedule?from=2027-01-01&to=2027-01-31')).status).toBe(200)
   })
 
   it('the forecast and order sheets name the field once', async () => {
     const reversed = await coordinator.get('/api/stockroom/forecast?from=2027-02-01&to=2027-01-01')
-    expect([reversed.status, reversed.body.statusMessage]).toEqual([400, 'to: Must be on or after from'])
+    expect([reversed.status, reversed.refusal.statusMessage]).toEqual([400, 'to: Must be on or after from'])
     const format = await coordinator.get('/api/stockroom/forecast?from=1/2/2027&to=2027-01-01')
-    expect([format.status, format.body.statusMessage]).toEqual([400, 'from: Use YYYY-MM-DD'])
+    expect([format.status, format.refusal.statusMessage]).toEqual([400, 'from: Use YYYY-MM-DD'])
     const order = await coordinator.post('/api/stockroom/orders', { from: '2027-01-01', to: '2029-01-01' })
-    expect([order.status, order.body.statusMessage]).toEqual([400, 'to: At most 366 days after from'])
+    expect([order.status, order.refusal.statusMessage]).toEqual([400, 'to: At most 366 days after from'])
   })
 
   it('a due date in the year 9999 and a lot received in 1900 are refused', async () => {
     const due = await owner.request(`/api/practicals/${practicalId}/sessions`, { method: 'PUT', json: { sessions: [{ sectionId, meetingDate: '2026-10-05', dueAt: '9999-12-31T23:59:00Z' }] } })
-    expect([due.status, due.body.statusMessage]).toEqual([400, 'sessions.0.dueAt: Use a date from 2000-01-01 to 2100-12-31'])
+    expect([due.status, due.refusal.statusMessage]).toEqual([400, 'sessions.0.dueAt: Use a date from 2000-01-01 to 2100-12-31'])
     const reagent = await coordinator.post('/api/stockroom/reagents', { name: `Bounds ${practicalId}`, physicalState: 'solid', containerSize: 100, unit: 'g' })
     expect(reagent.status).toBe(201)
     const lot = await coordinator.post(`/api/stockroom/reagents/${reagent.body.id}/lots`, { quantity: 10, unit: 'g', receivedOn: '1900-01-01' })
-    expect([lot.status, lot.body.statusMessage]).toEqual([400, 'receivedOn: Use a date from 2000-01-01 to 2100-12-31'])
+    expect([lot.status, lot.refusal.statusMessage]).toEqual([400, 'receivedOn: Use a date from 2000-01-01 to 2100-12-31'])
   })
 })
 
 describe('lists, ids and lengths', () => {
   it('10,000 section ids are "at most 200 sections"; none is "pick at least one"', async () => {
     const many = await owner.post(`/api/practicals/${practicalId}/digests`, { sectionIds: Array.from({ length: 10_000 }, (_, i) => i + 1) })
-    expect([many.status, many.body.statusMessage]).toEqual([400, 'sectionIds: At most 200 sections'])
+    expect([many.status, many.refusal.statusMessage]).toEqual([400, 'sectionIds: At most 200 sections'])
     const none = await owner.post(`/api/practicals/${practicalId}/digests`, { sectionIds: [] })
-    expect([none.status, none.body.statusMessage]).toEqual([400, 'sectionIds: Pick at least one section'])
+    expect([none.status, none.refusal.statusMessage]).toEqual([400, 'sectionIds: Pick at least one section'])
   })
 
   it('an id beyond PostgreSQL\'s integer in a body names its field', async () => {
     const reply = await owner.post(`/api/courses/${courseId}/practicals`, { title: 'Too far', substrateId: 2 ** 31, methodId: 1 })
-    expect([reply.status, reply.body.statusMessage]).toEqual([400, 'substrateId: Pick a substrate'])
+    expect([reply.status, reply.refusal.statusMessage]).toEqual([400, 'substrateId: Pick a substrate'])
   })
 
   it('a text over its length names the limit', async () => {
     const reply = await owner.request(`/api/courses/${courseId}`, { method: 'PATCH', json: { code: 'B', title: 't'.repeat(1000), term: 'Spring 2027' } })
-    expect([reply.status, reply.body.statusMessage]).toEqual([400, 'title: Use at most 120 characters'])
+    expect([reply.status, reply.refusal.statusMessage]).toEqual([400, 'title: Use at most 120 characters'])
   })
 })

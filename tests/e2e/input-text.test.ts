@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { readdirSync, readFileSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { Client, DEMO, signedIn } from '../support/http'
+import { Client, DEMO, signedIn, type Answer, type Reply } from '../support/http'
 import { closeTestDb, createUser, testDb, TEST_PASSWORD } from '../support/db'
 import { insertResult, makeCourse } from '../support/fixtures'
 
@@ -30,7 +30,8 @@ const NO_TEXT = new Set(['enrollments/[id].patch.ts', 'stockroom/items/[id]/reag
 // Fields where several lines are legitimate (notes, comments, reasons, an address).
 const MULTI_LINE = new Set(['notes', 'storageNotes', 'comment', 'reason', 'deliverTo', 'source@methods', 'currentPassword', 'newPassword', 'password'])
 
-interface JsonCase { kind: 'json', method: string, path: string, client: () => Client, body: Record<string, unknown>, area?: string }
+type Sent = 'POST' | 'PATCH' | 'PUT' | 'DELETE'
+interface JsonCase { kind: 'json', method: Sent, path: string, client: () => Client, body: Record<string, unknown>, area?: string }
 interface UploadCase { kind: 'upload', path: string, client: () => Client, content: string, fields?: Record<string, string> }
 type Case = JsonCase | UploadCase
 
@@ -52,7 +53,7 @@ beforeAll(async () => {
   const shared = await db.selectFrom('substrates').select('id').where('ownerId', 'is', null).where('name', '=', '1-chlorobutane').executeTakeFirstOrThrow()
   const sharedMethod = await db.selectFrom('methods').select('id').where('ownerId', 'is', null).where('reagent', '=', 'cl2-light').executeTakeFirstOrThrow()
 
-  const created = async (reply: Promise<{ status: number, body: any }>) => {
+  const created = async <T>(reply: Promise<Reply<T>>) => {
     const r = await reply
     if (r.status >= 300) throw new Error(`set-up failed: ${r.status} ${JSON.stringify(r.body)}`)
     return r.body
@@ -73,7 +74,7 @@ beforeAll(async () => {
   const c = course.course.id
   const p = course.practicalId
   practicalId = p
-  const json = (method: string, path: string, client: () => Client, body: Record<string, unknown>, area?: string): JsonCase => ({ kind: 'json', method, path, client, body, area })
+  const json = (method: Sent, path: string, client: () => Client, body: Record<string, unknown>, area?: string): JsonCase => ({ kind: 'json', method, path, client, body, area })
   const upload = (path: string, client: () => Client, content: string, fields?: Record<string, string>): UploadCase => ({ kind: 'upload', path, client, content, fields })
   const roster = 'email,name,section\nsweep-student@test.example,Sweep Student,S1\n'
   const peaks = 'RT,Area\n2.10,1000\n3.20,2000\n'
@@ -119,7 +120,7 @@ beforeAll(async () => {
     'stockroom/lots/[id]/usage.post.ts': json('POST', `/api/stockroom/lots/${lot.id}/usage`, () => coordinator, { usedOn: '2026-02-02', amount: 1, note: 'GC dilution' }),
     'stockroom/orders/index.post.ts': json('POST', '/api/stockroom/orders', () => coordinator, { title: 'Sweep order' }),
     'stockroom/orders/[id].patch.ts': json('PATCH', `/api/stockroom/orders/${draft.id}`, () => coordinator, { title: 'Sweep draft', notes: 'Quote by Friday', lines: [line] }),
-    'stockroom/orders/[id]/receive.post.ts': json('POST', `/api/stockroom/orders/${sent.id}/receive`, () => coordinator, { receivedOn: '2026-12-01', lines: [{ lineId: sentLines.lines[0].id, containers: 1, lotCode: 'R-1', location: 'Shelf 1', expiresOn: '2027-12-01' }] }),
+    'stockroom/orders/[id]/receive.post.ts': json('POST', `/api/stockroom/orders/${sent.id}/receive`, () => coordinator, { receivedOn: '2026-12-01', lines: [{ lineId: sentLines.lines[0]!.id, containers: 1, lotCode: 'R-1', location: 'Shelf 1', expiresOn: '2027-12-01' }] }),
     'stockroom/settings.put.ts': json('PUT', '/api/stockroom/settings', () => coordinator, { deliverTo: 'Stockroom, Bellweather Hall', rinseMlPerUnit: 10 }),
   }
 })
@@ -134,8 +135,10 @@ function stringLeaves(value: unknown, path: string[] = []): Array<{ path: string
 }
 function replaced(body: unknown, path: string[], text: string): unknown {
   if (!path.length) return text
-  const copy: any = Array.isArray(body) ? [...body] : { ...(body as object) }
-  copy[path[0]!] = replaced(copy[path[0]!], path.slice(1), text)
+  const [key, ...rest] = path as [string, ...string[]]
+  if (Array.isArray(body)) return body.map((v: unknown, i) => (String(i) === key ? replaced(v, rest, text) : v))
+  const copy = { ...(body as Record<string, unknown>) }
+  copy[key] = replaced(copy[key], rest, text)
   return copy
 }
 /** The character after the first one, where trimming cannot take it away. */
@@ -175,7 +178,7 @@ describe('control characters in text input', () => {
         for (const [bad, name] of [['\u0000', 'U+0000'], [char, label]] as Array<[string, string]>) {
           const reply = await send(c, replaced(c.body, leaf.path, inside(leaf.value, bad)))
           const expected = `${leaf.path.join('.')}: Remove the control character ${name}`
-          if (reply.status !== 400 || reply.body?.statusMessage !== expected) failures.push(`${file} ${leaf.path.join('.')} ${name}: ${reply.status} ${reply.body?.statusMessage}`)
+          if (reply.status !== 400 || reply.refusal?.statusMessage !== expected) failures.push(`${file} ${leaf.path.join('.')} ${name}: ${reply.status} ${reply.refusal?.statusMessage}`)
         }
       }
     }
@@ -192,8 +195,8 @@ describe('control characters in text input', () => {
         for (const br of ['\n', '\t']) {
           const reply = await send(c, replaced(c.body, leaf.path, inside(leaf.value, br)))
           // A SMILES string is read by the chemistry engine, which answers in its own sentence.
-          const named = reply.body?.statusMessage?.startsWith(`${leaf.path.join('.')}: `) || key === 'smiles'
-          if (reply.status !== 400 || !named) failures.push(`${file} ${leaf.path.join('.')} ${JSON.stringify(br)}: ${reply.status} ${reply.body?.statusMessage}`)
+          const named = reply.refusal?.statusMessage?.startsWith(`${leaf.path.join('.')}: `) || key === 'smiles'
+          if (reply.status !== 400 || !named) failures.push(`${file} ${leaf.path.join('.')} ${JSON.stringify(br)}: ${reply.status} ${reply.refusal?.statusMessage}`)
         }
       }
     }
@@ -204,7 +207,7 @@ describe('control characters in text input', () => {
     const c = cases['practicals/[id]/queue/accept.post.ts'] as JsonCase
     const reply = await send(c, { ...c.body, scores: { 'chroma\u0000togram': 5 } })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toBe('scores: Remove the control character U+0000 from a key')
+    expect(reply.refusal.statusMessage).toBe('scores: Remove the control character U+0000 from a key')
   })
 
   it('several lines stay allowed where they make sense: practical notes keep tabs and line breaks', async () => {
@@ -215,7 +218,7 @@ describe('control characters in text input', () => {
     expect(row.notes).toBe(notes)
     const refused = await send(c, { title: 'Two\nlines' })
     expect(refused.status).toBe(400)
-    expect(refused.body.statusMessage).toBe('title: Use one line: no tabs or line breaks')
+    expect(refused.refusal.statusMessage).toBe('title: Use one line: no tabs or line breaks')
   })
 
   it('an uploaded file whose name holds a control character is a 400 naming the file; the student upload included', async () => {
@@ -225,7 +228,7 @@ describe('control characters in text input', () => {
       for (const [bad, label] of [['\u0000', 'U+0000'], ['\u0007', 'U+0007'], ['\n', 'U+000A']]) {
         const reply = await sendUpload(c, `run${bad}1.csv`)
         const expected = `file: Rename the file: its name holds the control character ${label}`
-        if (reply.status !== 400 || reply.body?.statusMessage !== expected) failures.push(`${file} ${label}: ${reply.status} ${reply.body?.statusMessage}`)
+        if (reply.status !== 400 || reply.refusal?.statusMessage !== expected) failures.push(`${file} ${label}: ${reply.status} ${reply.refusal?.statusMessage}`)
       }
     }
     expect(failures).toEqual([])
@@ -237,16 +240,16 @@ describe('control characters in text input', () => {
     const c = cases['courses/[id]/roster/import.post.ts'] as UploadCase
     const reply = await sendUpload(c, 'roster.csv', { mapping: '{"email":"e\u0000mail"}' })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toBe('mapping: Remove the control character U+0000')
+    expect(reply.refusal.statusMessage).toBe('mapping: Remove the control character U+0000')
   })
 
   it('a query string with a NUL is a 400 naming the parameter', async () => {
     const schedule = await owner.get('/api/schedule?from=2026-10-01%00&to=2026-10-31')
     expect(schedule.status).toBe(400)
-    expect(schedule.body.statusMessage).toBe('from: Remove the control character U+0000')
+    expect(schedule.refusal.statusMessage).toBe('from: Remove the control character U+0000')
     const queue = await ta.get(`/api/practicals/${practicalId}/queue?flag=%00`)
     expect(queue.status).toBe(400)
-    expect(queue.body.statusMessage).toBe('flag: Remove the control character U+0000')
+    expect(queue.refusal.statusMessage).toBe('flag: Remove the control character U+0000')
   })
 })
 
@@ -275,12 +278,14 @@ describe('control characters inside an uploaded roster', () => {
     const content = 'email,name,section\nbell-student@test.example,Bell\u0007 Student,S1\nfine-student@test.example,Fine Student,S1\n'
     const seen = await sendUpload({ ...roster(), content }, 'roster.csv', {})
     expect(seen.status).toBe(200)
-    expect(seen.body.rows[0].outcome).toBe('error')
-    expect(seen.body.rows[0].errors).toEqual([{ field: 'name', message: 'Remove the control character U+0007' }])
-    expect(seen.body.rows[1].outcome).toBe('new')
+    // The sweep's paths are data, so the reply is read as the roster preview the route declares.
+    const rows = (seen.body as Answer<'/api/courses/:id/roster/preview', 'post'>).rows
+    expect(rows[0]!.outcome).toBe('error')
+    expect(rows[0]!.errors).toEqual([{ field: 'name', message: 'Remove the control character U+0007' }])
+    expect(rows[1]!.outcome).toBe('new')
     const done = await sendUpload({ ...importCase(), content }, 'roster.csv', {})
     expect(done.status).toBe(422)
-    expect(done.body.statusMessage).toBe('Row 2: Remove the control character U+0007')
+    expect(done.refusal.statusMessage).toBe('Row 2: Remove the control character U+0007')
     expect(await testDb().selectFrom('users').select('id').where('email', 'in', ['bell-student@test.example', 'fine-student@test.example']).execute()).toEqual([])
   })
 })

@@ -50,7 +50,7 @@ describe('invitations', () => {
     expect((await visitor.post('/api/invitations/accept', { token, password: 'short' })).status).toBe(400)
     const common = await visitor.post('/api/invitations/accept', { token, password: 'password1234' })
     expect(common.status).toBe(422)
-    expect(common.body.data.field).toBe('password')
+    expect(common.refusal.data?.field).toBe('password')
 
     const accepted = await visitor.post('/api/invitations/accept', { token, password: GOOD_PASSWORD })
     expect(accepted.status).toBe(200)
@@ -65,7 +65,7 @@ describe('invitations', () => {
     const signed = await signedIn(email, GOOD_PASSWORD)
     expect((await signed.get('/api/overview/student')).status).toBe(200)
     const roster = await instructor.get(`/api/sections/${sections.A1}/roster`)
-    expect(roster.body.students[0].invitation).toEqual({ state: 'accepted', expiresAt: null })
+    expect(roster.body.students[0]!.invitation).toEqual({ state: 'accepted', expiresAt: null })
   })
 
   it('an expired link fails with 410 and sets no password', async () => {
@@ -73,12 +73,12 @@ describe('invitations', () => {
     await testDb().updateTable('invitations').set({ expiresAt: new Date(Date.now() - 60_000) }).where('userId', '=', userId).execute()
     const shown = await new Client().get(`/api/invitations/${token}`)
     expect(shown.status).toBe(410)
-    expect(shown.body.data.reason).toBe('expired')
+    expect(shown.refusal.data?.reason).toBe('expired')
     expect((await new Client().post('/api/invitations/accept', { token, password: GOOD_PASSWORD })).status).toBe(410)
     const user = await testDb().selectFrom('users').select('passwordHash').where('id', '=', userId).executeTakeFirstOrThrow()
     expect(user.passwordHash).toBeNull()
     const roster = await client.get(`/api/sections/${sections.A1}/roster`)
-    expect(roster.body.students[0].invitation.state).toBe('expired')
+    expect(roster.body.students[0]!.invitation.state).toBe('expired')
   })
 
   it('a resend makes a fresh link and retires the old one; only the owning instructor may send it', async () => {
@@ -111,6 +111,6 @@ describe('invitations', () => {
     expect((await visitor.post('/api/invitations/accept', { token: 'A'.repeat(43), password: GOOD_PASSWORD })).status).toBe(404)
     const bad = await visitor.post('/api/invitations/accept', { token: 'x', password: GOOD_PASSWORD })
     expect(bad.status).toBe(400)
-    expect(bad.body.data.field).toBe('token')
+    expect(bad.refusal.data?.field).toBe('token')
   })
 })

@@ -22,7 +22,7 @@ async function freshInstructor() {
   return { user, client: await signedIn(user.email, user.password) }
 }
 
-function upload(client: Client, path: string, bytes: Buffer, name: string) {
+function upload<Path extends string>(client: Client, path: Path, bytes: Buffer, name: string) {
   const form = new FormData()
   form.append('file', new Blob([new Uint8Array(bytes)], { type: 'text/csv' }), name)
   return client.request(path, { method: 'POST', body: form })
@@ -64,15 +64,15 @@ describe('who may use the library', () => {
     const ta = await signedIn(DEMO.ta1)
     const list = await ta.get('/api/substrates')
     expect(list.status).toBe(200)
-    const chlorobutane = list.body.find((s: any) => s.name === '1-chlorobutane')
+    const chlorobutane = list.body.find((s) => s.name === '1-chlorobutane')
     expect(chlorobutane).toMatchObject({ shared: true, mine: false })
-    const detail = await ta.get(`/api/substrates/${chlorobutane.id}`)
+    const detail = await ta.get(`/api/substrates/${chlorobutane!.id}`)
     expect(detail.status).toBe(200)
     expect(detail.body.windows.length).toBeGreaterThan(0)
     expect((await ta.post('/api/substrates', { name: 'x', smiles: 'CCC' })).status).toBe(403)
     expect((await ta.post('/api/substrates/preview', { smiles: 'CCC' })).status).toBe(403)
-    expect((await ta.request(`/api/substrates/${chlorobutane.id}`, { method: 'PATCH', json: { name: 'x' } })).status).toBe(403)
-    expect((await ta.request(`/api/substrates/${chlorobutane.id}/windows`, { method: 'PUT', json: { windows: [] } })).status).toBe(403)
+    expect((await ta.request(`/api/substrates/${chlorobutane!.id}`, { method: 'PATCH', json: { name: 'x' } })).status).toBe(403)
+    expect((await ta.request(`/api/substrates/${chlorobutane!.id}/windows`, { method: 'PUT', json: { windows: [] } })).status).toBe(403)
     expect((await ta.post('/api/methods', { name: 'x' })).status).toBe(403)
     expect((await ta.get('/api/methods')).status).toBe(200)
   })
@@ -81,18 +81,18 @@ describe('who may use the library', () => {
     const coordinator = await signedIn(DEMO.coordinator)
     const reply = await coordinator.get('/api/substrates')
     expect(reply.status).toBe(200)
-    const dmb = reply.body.find((s: any) => s.name === '2,3-dimethylbutane')
+    const dmb = reply.body.find((s) => s.name === '2,3-dimethylbutane')
     // Molar mass from IUPAC standard atomic weights, density CRC Handbook from memory (PRODUCT.md).
-    expect(dmb.molarMass).toBeCloseTo(86.18, 2)
-    expect(dmb.density).toBeCloseTo(0.662, 3)
-    expect((await coordinator.post(`/api/substrates/${dmb.id}/copy`)).status).toBe(403)
+    expect(dmb!.molarMass).toBeCloseTo(86.18, 2)
+    expect(dmb!.density).toBeCloseTo(0.662, 3)
+    expect((await coordinator.post(`/api/substrates/${dmb!.id}/copy`)).status).toBe(403)
   })
 
   it('another instructor’s own entries are not listed and answer 404', async () => {
     const mine = await createSubstrate(instructor, { name: 'private draft' })
     const other = (await freshInstructor()).client
     expect((await other.get(`/api/substrates/${mine.id}`)).status).toBe(404)
-    expect((await other.get('/api/substrates')).body.some((s: any) => s.id === mine.id)).toBe(false)
+    expect((await other.get('/api/substrates')).body.some((s) => s.id === mine.id)).toBe(false)
     expect((await other.request(`/api/substrates/${mine.id}`, { method: 'PATCH', json: { name: 'mine now' } })).status).toBe(404)
   })
 })
@@ -100,13 +100,13 @@ describe('who may use the library', () => {
 describe('the seeded library', () => {
   it('has the four methods, each with its source', async () => {
     const reply = await instructor.get('/api/methods')
-    const shared = reply.body.filter((m: any) => m.shared)
-    expect(shared.map((m: any) => m.reagent).sort()).toEqual(['br2-light', 'cl2-light', 'nbs', 'so2cl2-azo'])
+    const shared = reply.body.filter((m) => m.shared)
+    expect(shared.map((m) => m.reagent).sort()).toEqual(['br2-light', 'cl2-light', 'nbs', 'so2cl2-azo'])
     for (const m of shared) expect(m.source.length, m.name).toBeGreaterThan(10)
-    const chlorine = shared.find((m: any) => m.reagent === 'cl2-light')
+    const chlorine = shared.find((m) => m.reagent === 'cl2-light')
     // 1 : 3.8 : 5.0 per H at 25 °C (NCERT Chemistry class XI worked example).
     expect(chlorine).toMatchObject({ halogen: 'Cl', temperatureC: 25, reactivity: { primary: 1, secondary: 3.8, tertiary: 5 } })
-    expect(shared.find((m: any) => m.reagent === 'nbs').halogen).toBe('Br')
+    expect(shared.find((m) => m.reagent === 'nbs')!.halogen).toBe('Br')
   })
 
   it.each([
@@ -114,13 +114,13 @@ describe('the seeded library', () => {
     ['2,3-dimethylbutane', 2, [canonicalSmiles('CC(C)C(C)(C)Cl'), canonicalSmiles('CC(C)C(C)CCl')]],
   ])('%s has a window for every product, solvent and starting material, none overlapping', async (name, productCount, elutionOrder) => {
     const list = await instructor.get('/api/substrates')
-    const entry = list.body.find((s: any) => s.name === name && s.shared)
-    const detail = (await instructor.get(`/api/substrates/${entry.id}`)).body
+    const entry = list.body.find((s) => s.name === name && s.shared)
+    const detail = (await instructor.get(`/api/substrates/${entry!.id}`)).body
     expect(detail.products).toHaveLength(productCount)
-    const windows = [...detail.windows].sort((a: any, b: any) => a.rtMin - b.rtMin)
-    expect(windows.map((w: any) => w.kind)).toEqual(['solvent', 'starting-material', ...Array(productCount).fill('product')])
-    expect(windows.slice(2).map((w: any) => w.productSmiles)).toEqual(elutionOrder)
-    for (let i = 1; i < windows.length; i++) expect(windows[i].rtMin, `${windows[i - 1].label} / ${windows[i].label}`).toBeGreaterThanOrEqual(windows[i - 1].rtMax)
+    const windows = [...detail.windows].sort((a, b) => a.rtMin - b.rtMin)
+    expect(windows.map((w) => w.kind)).toEqual(['solvent', 'starting-material', ...Array(productCount).fill('product')])
+    expect(windows.slice(2).map((w) => w.productSmiles)).toEqual(elutionOrder)
+    for (let i = 1; i < windows.length; i++) expect(windows[i]!.rtMin, `${windows[i - 1]!.label} / ${windows[i]!.label}`).toBeGreaterThanOrEqual(windows[i - 1]!.rtMax)
     for (const w of windows) expect(w.responseFactor).toBe(1)
     expect(windows[0]).toMatchObject({ label: 'dichloromethane', rtMin: 1.2, rtMax: 1.6 })
   })
@@ -154,7 +154,7 @@ describe('substrates from SMILES', () => {
     const reply = await instructor.post('/api/substrates/preview', { smiles: 'CC(C)C(C)C' })
     expect(reply.status).toBe(200)
     // 2,3-dimethylbutane: 12 primary H and 2 tertiary H (count from the structure).
-    expect(reply.body.products.map((p: any) => [p.label, p.hydrogens, p.carbonClass])).toEqual([['a', 12, 'primary'], ['b', 2, 'tertiary']])
+    expect(reply.body.products.map((p) => [p.label, p.hydrogens, p.carbonClass])).toEqual([['a', 12, 'primary'], ['b', 2, 'tertiary']])
     expect(reply.body.depictionSvg).toMatch(/^<svg/)
     const after = await testDb().selectFrom('substrates').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()
     expect(after.n).toBe(before.n)
@@ -166,8 +166,8 @@ describe('substrates from SMILES', () => {
     expect(created.formula).toBe('C4H9Cl')
     // IUPAC standard atomic weights (PRODUCT.md): 1-chlorobutane 92.57 g/mol.
     expect(created.molarMass).toBeCloseTo(92.57, 2)
-    expect(created.products.map((p: any) => p.hydrogens).sort()).toEqual([2, 2, 2, 3])
-    expect(new Set(created.products.map((p: any) => p.smiles))).toEqual(new Set(Object.values(DICHLORO)))
+    expect(created.products.map((p) => p.hydrogens).sort()).toEqual([2, 2, 2, 3])
+    expect(new Set(created.products.map((p) => p.smiles))).toEqual(new Set(Object.values(DICHLORO)))
     const row = await testDb().selectFrom('substrates').selectAll().where('id', '=', created.id).executeTakeFirstOrThrow()
     expect(row).toMatchObject({ smiles: 'CCCCCl', ownerId: instructorId, formula: 'C4H9Cl' })
     const audited = await testDb().selectFrom('auditLog').select('action').where('entity', '=', 'substrate').where('entityId', '=', String(created.id)).execute()
@@ -181,19 +181,19 @@ describe('substrates from SMILES', () => {
     for (const path of ['/api/substrates/preview', '/api/substrates']) {
       const reply = await instructor.post(path, { name: 'bad', smiles })
       expect(reply.status, path).toBe(400)
-      expect(reply.body.statusMessage, path).toBe(engineMessage)
+      expect(reply.refusal.statusMessage, path).toBe(engineMessage)
     }
   })
 
   it('wants a source for physical data and names the field', async () => {
     const reply = await instructor.post('/api/substrates', { name: 'hexane', smiles: 'CCCCCC', density: 0.659 })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toMatch(/^source:/)
+    expect(reply.refusal.statusMessage).toMatch(/^source:/)
   })
 })
 
 describe('retention-time windows', () => {
-  let substrate: any
+  let substrate: Awaited<ReturnType<typeof createSubstrate>>
   beforeAll(async () => { substrate = await createSubstrate(instructor) })
   const put = (windows: unknown[]) => instructor.request(`/api/substrates/${substrate.id}/windows`, { method: 'PUT', json: { windows } })
 
@@ -211,25 +211,25 @@ describe('retention-time windows', () => {
     expect(stored.map((w) => w.productSmiles)).toEqual([null, null, DICHLORO['1,1'], DICHLORO['1,2'], DICHLORO['1,3'], DICHLORO['1,4']])
     expect(stored[3]!.responseFactor).toBeCloseTo(1.05, 6)
     const detail = (await instructor.get(`/api/substrates/${substrate.id}`)).body
-    const letters = Object.fromEntries(detail.products.map((p: any) => [p.smiles, p.label]))
-    for (const w of detail.windows.filter((x: any) => x.kind === 'product')) expect(w.position).toBe(letters[w.productSmiles])
+    const letters = Object.fromEntries(detail.products.map((p) => [p.smiles, p.label]))
+    for (const w of detail.windows.filter((x) => x.kind === 'product')) expect(w.position).toBe(letters[w.productSmiles!])
   })
 
   it('refuses a product the substrate does not give, naming it', async () => {
     const reply = await put([{ kind: 'product', productSmiles: 'CCCCBr', rtMin: 3, rtMax: 3.2 }])
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toContain('windows.0.productSmiles')
-    expect(reply.body.statusMessage).toContain('CCCCBr')
+    expect(reply.refusal.statusMessage).toContain('windows.0.productSmiles')
+    expect(reply.refusal.statusMessage).toContain('CCCCBr')
   })
 
   it('takes bromination products too, apart from the chlorination windows', async () => {
-    const bromo = substrate.products[0].brominated
+    const bromo = substrate.products[0]!.brominated
     const reply = await put([
-      { kind: 'product', productSmiles: substrate.products[0].smiles, rtMin: 3.3, rtMax: 3.5 },
+      { kind: 'product', productSmiles: substrate.products[0]!.smiles, rtMin: 3.3, rtMax: 3.5 },
       { kind: 'product', productSmiles: bromo, rtMin: 3.4, rtMax: 3.6 },
     ])
     expect(reply.status, JSON.stringify(reply.body)).toBe(200)
-    expect(reply.body.windows.map((w: any) => w.halogen).sort()).toEqual(['Br', 'Cl'])
+    expect(reply.body.windows.map((w) => w.halogen).sort()).toEqual(['Br', 'Cl'])
   })
 
   it('refuses overlapping windows naming both, and keeps what was saved', async () => {
@@ -240,10 +240,10 @@ describe('retention-time windows', () => {
       { kind: 'product', productSmiles: 'CCC(Cl)CCl', rtMin: 4.1, rtMax: 4.3 },
     ])
     expect(reply.status).toBe(400)
-    const [one, two] = ['ClCCCCCl', 'CCC(Cl)CCl'].map((s) => substrate.products.find((p: any) => p.smiles === canonicalSmiles(s)))
-    expect(reply.body.statusMessage).toContain(`${one.label} (${one.smiles})`)
-    expect(reply.body.statusMessage).toContain(`${two.label} (${two.smiles})`)
-    expect(reply.body.data.issues.map((i: any) => i.field).sort()).toEqual(['windows.1', 'windows.2'])
+    const [one, two] = ['ClCCCCCl', 'CCC(Cl)CCl'].map((s) => substrate.products.find((p) => p.smiles === canonicalSmiles(s)))
+    expect(reply.refusal.statusMessage).toContain(`${one!.label} (${one!.smiles})`)
+    expect(reply.refusal.statusMessage).toContain(`${two!.label} (${two!.smiles})`)
+    expect(reply.refusal.data?.issues?.map((i) => i.field).sort()).toEqual(['windows.1', 'windows.2'])
     const stored = await testDb().selectFrom('substrateWindows').select('kind').where('substrateId', '=', substrate.id).execute()
     expect(stored.map((w) => w.kind)).toEqual(['solvent'])
   })
@@ -251,7 +251,7 @@ describe('retention-time windows', () => {
   it('refuses a window that ends before it starts, naming the row', async () => {
     const reply = await put([{ kind: 'solvent', rtMin: 1.6, rtMax: 1.2 }])
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toMatch(/^windows\.0\.rtMax:/)
+    expect(reply.refusal.statusMessage).toMatch(/^windows\.0\.rtMax:/)
   })
 })
 
@@ -262,7 +262,7 @@ describe('standard runs', () => {
     const reply = await upload(instructor, `/api/substrates/${substrate.id}/standard-runs`, bytes, '1-chlorobutane-standard.csv')
     expect(reply.status, JSON.stringify(reply.body)).toBe(201)
     expect(reply.body.peaks).toHaveLength(6)
-    const windows = reply.body.suggestions.map((s: any) => [s.rt, s.suggestedWindow.rtMin, s.suggestedWindow.rtMax])
+    const windows = reply.body.suggestions.map((s) => [s.rt, s.suggestedWindow.rtMin, s.suggestedWindow.rtMax])
     // ± 0.08 min (common practice), or half the distance to the next peak: 3.902 and 4.012 are 0.110 apart.
     expect(windows[0]).toEqual([1.405, 1.325, 1.485])
     expect(windows[3]).toEqual([3.902, 3.847, 3.957])
@@ -275,22 +275,22 @@ describe('standard runs', () => {
     expect(run).toMatchObject({ sha256, byteSize: bytes.length, originalName: '1-chlorobutane-standard.csv', substrateId: substrate.id })
     expect(Buffer.compare(run.content, bytes)).toBe(0)
     const detail = (await instructor.get(`/api/substrates/${substrate.id}`)).body
-    expect(detail.standardRuns.map((r: any) => r.sha256)).toEqual([sha256])
+    expect(detail.standardRuns.map((r) => r.sha256)).toEqual([sha256])
   })
 
   it('says which saved window holds a peak already', async () => {
     const substrate = await createSubstrate(instructor)
     await instructor.request(`/api/substrates/${substrate.id}/windows`, { method: 'PUT', json: { windows: [{ kind: 'solvent', rtMin: 1.3, rtMax: 1.5 }] } })
     const reply = await upload(instructor, `/api/substrates/${substrate.id}/standard-runs`, fixture('1-chlorobutane-standard.csv'), 'again.csv')
-    expect(reply.body.suggestions[0].current).toEqual({ kind: 'solvent', productSmiles: null })
-    expect(reply.body.suggestions[1].current).toBeNull()
+    expect(reply.body.suggestions[0]!.current).toEqual({ kind: 'solvent', productSmiles: null })
+    expect(reply.body.suggestions[1]!.current).toBeNull()
   })
 
   it('refuses a table without areas with the parser’s row message and stores nothing', async () => {
     const substrate = await createSubstrate(instructor)
     const reply = await upload(instructor, `/api/substrates/${substrate.id}/standard-runs`, fixture('no-area-column.csv'), 'heights.csv')
     expect(reply.status).toBe(422)
-    expect(reply.body.statusMessage).toMatch(/^file: Row 1: the header has no area column/)
+    expect(reply.refusal.statusMessage).toMatch(/^file: Row 1: the header has no area column/)
     const runs = await testDb().selectFrom('standardRuns').select('id').where('substrateId', '=', substrate.id).execute()
     expect(runs).toEqual([])
   })
@@ -302,13 +302,13 @@ describe('methods', () => {
   it('need a source', async () => {
     const reply = await instructor.post('/api/methods', { ...body, source: '  ' })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toMatch(/^source:/)
+    expect(reply.refusal.statusMessage).toMatch(/^source:/)
   })
 
   it('refuse a halogen the reagent does not give', async () => {
     const reply = await instructor.post('/api/methods', { ...body, reagent: 'nbs', halogen: 'Cl' })
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage).toMatch(/^halogen:/)
+    expect(reply.refusal.statusMessage).toMatch(/^halogen:/)
   })
 
   it('are created, read, changed and deleted, each change audited', async () => {
@@ -341,9 +341,9 @@ describe('deleting what a practical uses', () => {
 
     const refused = await instructor.request(`/api/substrates/${substrate.id}`, { method: 'DELETE' })
     expect(refused.status).toBe(409)
-    expect(refused.body.statusMessage).toMatch(/used by 1 practical/)
+    expect(refused.refusal.statusMessage).toMatch(/used by 1 practical/)
     expect((await instructor.request(`/api/methods/${method.id}`, { method: 'DELETE' })).status).toBe(409)
-    expect((await instructor.get('/api/substrates')).body.find((s: any) => s.id === substrate.id).usedBy).toBe(1)
+    expect((await instructor.get('/api/substrates')).body.find((s) => s.id === substrate.id)!.usedBy).toBe(1)
     // A new structure would orphan the practical's results.
     expect((await instructor.request(`/api/substrates/${substrate.id}`, { method: 'PATCH', json: { smiles: 'CCCCBr' } })).status).toBe(409)
 

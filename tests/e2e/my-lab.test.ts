@@ -15,7 +15,7 @@ describe('my lab and the timing of uploads', () => {
   it('gives the course time zone with each enrolment, so due times read as on the procedure card', async () => {
     const lab = await (await signedIn(DEMO.student(4))).get('/api/me/lab')
     expect(lab.status).toBe(200)
-    expect(lab.body.enrollments[0].course.timezone).toBe('America/Chicago')
+    expect(lab.body.enrollments[0]!.course.timezone).toBe('America/Chicago')
   })
 
   it('says when the section has not met yet, and not after the meeting', async () => {
@@ -23,7 +23,7 @@ describe('my lab and the timing of uploads', () => {
     const upcoming = await client.get(`/api/practicals/${await practicalId('Photochlorination of 2,3-dimethylbutane')}/my-submissions`)
     expect(upcoming.status).toBe(200)
     expect(upcoming.body.beforeMeeting).toBe(true)
-    expect(upcoming.body.meetingDate > new Date().toISOString().slice(0, 10)).toBe(true)
+    expect(upcoming.body.meetingDate! > new Date().toISOString().slice(0, 10)).toBe(true)
     const past = await client.get(`/api/practicals/${await practicalId('Chlorination of 1-chlorobutane')}/my-submissions`)
     expect(past.body.beforeMeeting).toBe(false)
   })

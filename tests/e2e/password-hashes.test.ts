@@ -53,7 +53,7 @@ describe('password hashes', () => {
     const wrong = await login(user.email, 'not-the-old-passphrase')
     const unknown = await login(`nobody-${randomUUID().slice(0, 8)}@test.example`, 'not-the-old-passphrase')
     expect(wrong.status).toBe(401)
-    expect(wrong.body.statusMessage).toBe(unknown.body.statusMessage)
+    expect(wrong.refusal.statusMessage).toBe(unknown.refusal.statusMessage)
     expect(await storedHash(user.id)).toBe(legacyScryptHash())
     const attempts = await testDb().selectFrom('loginAttempts').select('succeeded').where('email', '=', user.email).execute()
     expect(attempts.map((a) => a.succeeded)).toEqual([false])

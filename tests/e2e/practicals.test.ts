@@ -42,16 +42,16 @@ describe('contract routes', () => {
   it('GET /api/courses/:id/practicals lists the demo practicals with exactly the contract fields (and additions)', async () => {
     const reply = await instructor.get(`/api/courses/${courseId}/practicals`)
     expect(reply.status).toBe(200)
-    const demo = reply.body.filter((p: any) => ['Chlorination of 1-chlorobutane', 'Photochlorination of 2,3-dimethylbutane'].includes(p.title))
+    const demo = reply.body.filter((p) => ['Chlorination of 1-chlorobutane', 'Photochlorination of 2,3-dimethylbutane'].includes(p.title))
     expect(demo).toHaveLength(2)
     for (const p of demo) {
       expect(p).toEqual(expect.objectContaining({ id: expect.any(Number), title: expect.any(String), substrateSmiles: expect.any(String), method: expect.any(String) }))
       expect(p.sectionIds.sort()).toEqual(Object.values(sections).sort())
       expect(p.meetingDates).toHaveLength(4)
     }
-    const first = demo.find((p: any) => p.id === p1)
-    expect(first.substrateSmiles).toBe('CCCCCl')
-    expect(first.method).toMatch(/sulfuryl chloride/i)
+    const first = demo.find((p) => p.id === p1)
+    expect(first!.substrateSmiles).toBe('CCCCCl')
+    expect(first!.method).toMatch(/sulfuryl chloride/i)
   })
 
   it('GET /api/practicals/:id gives a student the windows and their own due date', async () => {
@@ -64,9 +64,9 @@ describe('contract routes', () => {
     for (const w of reply.body.windows) expect(Object.keys(w).sort()).toEqual(['productSmiles', 'responseFactor', 'rtMax', 'rtMin'])
     const session = await testDb().selectFrom('practicalSessions').select(['dueAt', 'meetingDate']).where('practicalId', '=', p1).where('sectionId', '=', sections.M1!).executeTakeFirstOrThrow()
     expect(reply.body.dueAt).toBe(session.dueAt.toISOString())
-    expect(reply.body.sessions.map((s: any) => s.sectionId)).toEqual([sections.M1])
+    expect(reply.body.sessions.map((s) => s.sectionId)).toEqual([sections.M1])
     // Seven days after the meeting at 23:59 in America/Chicago (the course zone).
-    const local = new Intl.DateTimeFormat('en-CA', { timeZone: 'America/Chicago', dateStyle: 'short', timeStyle: 'short', hourCycle: 'h23' }).format(new Date(reply.body.dueAt))
+    const local = new Intl.DateTimeFormat('en-CA', { timeZone: 'America/Chicago', dateStyle: 'short', timeStyle: 'short', hourCycle: 'h23' }).format(new Date(reply.body.dueAt!))
     const due = new Date(Date.parse(`${session.meetingDate}T00:00:00Z`) + 7 * 86_400_000).toISOString().slice(0, 10)
     expect(local).toBe(`${due}, 23:59`)
   })
@@ -81,11 +81,11 @@ describe('scope', () => {
   it('a TA sees only their own sections’ sessions (ta1 has M1 and W1)', async () => {
     const ta = await signedIn(DEMO.ta1)
     const list = await ta.get(`/api/courses/${courseId}/practicals`)
-    const first = list.body.find((p: any) => p.id === p1)
-    expect(first.sectionIds.sort()).toEqual([sections.M1, sections.W1].sort())
-    expect(first.meetingDates).toHaveLength(2)
+    const first = list.body.find((p) => p.id === p1)
+    expect(first!.sectionIds.sort()).toEqual([sections.M1, sections.W1].sort())
+    expect(first!.meetingDates).toHaveLength(2)
     const detail = await ta.get(`/api/practicals/${p1}`)
-    expect(detail.body.sessions.map((s: any) => s.sectionCode).sort()).toEqual(['M1', 'W1'])
+    expect(detail.body.sessions.map((s) => s.sectionCode).sort()).toEqual(['M1', 'W1'])
   })
 
   it('a student gets 404 for another section’s or another course’s practical', async () => {
@@ -99,7 +99,7 @@ describe('scope', () => {
     expect((await m1Student.get(`/api/practicals/${created.body.id}`)).status).toBe(404)
     expect((await m1Student.get(`/api/practicals/${created.body.id}/card`)).status).toBe(404)
     expect((await t1Student.get(`/api/practicals/${created.body.id}`)).status).toBe(200)
-    expect((await m1Student.get(`/api/courses/${courseId}/practicals`)).body.map((p: any) => p.id)).not.toContain(created.body.id)
+    expect((await m1Student.get(`/api/courses/${courseId}/practicals`)).body.map((p) => p.id)).not.toContain(created.body.id)
 
     const db = testDb()
     const other = await db.insertInto('courses').values({ code: 'CHEM 9990', title: 'Another course', term: 'Test term', rubric: '[]' }).returning('id').executeTakeFirstOrThrow()
@@ -130,13 +130,13 @@ describe('setting up a practical', () => {
     const { substrateId, methodId } = await libraryIds()
     const bad = await instructor.post(`/api/courses/${courseId}/practicals`, { title: '', substrateId, methodId })
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toMatch(/^title:/)
+    expect(bad.refusal.statusMessage).toMatch(/^title:/)
 
     const created = await instructor.post(`/api/courses/${courseId}/practicals`, { title: 'Scale test', substrateId, methodId })
     expect(created.status).toBe(201)
     const id = created.body.id
     expect(created.body.workUnit).toBe('pair')
-    expect(created.body.items.map((i: any) => [i.role, i.basis, i.amount])).toEqual([
+    expect(created.body.items.map((i) => [i.role, i.basis, i.amount])).toEqual([
       ['substrate', 'mmol', 10], ['halogenating-agent', 'equivalents', 1], ['initiator', 'mol-percent', 2], ['wash', 'mL', 20], ['drying-agent', 'g', 1],
     ])
     expect(created.body.items[1]).toMatchObject({ smiles: 'O=S(=O)(Cl)Cl', density: 1.67 })
@@ -146,14 +146,14 @@ describe('setting up a practical', () => {
     const holiday = (await testDb().selectFrom('sections').select('skippedDates').where('id', '=', sections.R1!).executeTakeFirstOrThrow()).skippedDates[0]!
     const notAMeeting = await instructor.request(`/api/practicals/${id}/sessions`, { method: 'PUT', json: { sessions: [{ sectionId: sections.M1, meetingDate: m1 }, { sectionId: sections.R1, meetingDate: holiday }] } })
     expect(notAMeeting.status).toBe(400)
-    expect(notAMeeting.body.statusMessage).toBe(`sessions.1.meetingDate: ${holiday} is not a meeting of section R1`)
+    expect(notAMeeting.refusal.statusMessage).toBe(`sessions.1.meetingDate: ${holiday} is not a meeting of section R1`)
     const foreign = await instructor.request(`/api/practicals/${id}/sessions`, { method: 'PUT', json: { sessions: [{ sectionId: 999_999, meetingDate: m1 }] } })
-    expect(foreign.body.statusMessage).toMatch(/^sessions\.0\.sectionId:/)
+    expect(foreign.refusal.statusMessage).toMatch(/^sessions\.0\.sectionId:/)
 
     const ok = await instructor.request(`/api/practicals/${id}/sessions`, { method: 'PUT', json: { sessions: [{ sectionId: sections.M1, meetingDate: m1 }, { sectionId: sections.R1, meetingDate: rDates[1], dueAt: '2099-01-01T12:00:00Z' }] } })
     expect(ok.status).toBe(200)
-    expect(ok.body.map((s: any) => s.sectionCode).sort()).toEqual(['M1', 'R1'])
-    expect(ok.body.find((s: any) => s.sectionCode === 'R1').dueAt).toBe('2099-01-01T12:00:00.000Z')
+    expect(ok.body.map((s) => s.sectionCode).sort()).toEqual(['M1', 'R1'])
+    expect(ok.body.find((s) => s.sectionCode === 'R1')!.dueAt).toBe('2099-01-01T12:00:00.000Z')
 
     const items = [
       { role: 'substrate', name: '2,3-dimethylbutane', smiles: 'CC(C)C(C)C', molarMass: 86.18, density: 0.662, basis: 'mmol', amount: 5 },
@@ -161,12 +161,12 @@ describe('setting up a practical', () => {
     ]
     const badItems = await instructor.request(`/api/practicals/${id}/items`, { method: 'PUT', json: { items: [items[0], { ...items[1], smiles: 'not a smiles((' }] } })
     expect(badItems.status).toBe(400)
-    expect(badItems.body.statusMessage).toMatch(/^items\.1\.smiles:/)
+    expect(badItems.refusal.statusMessage).toMatch(/^items\.1\.smiles:/)
     const saved = await instructor.request(`/api/practicals/${id}/items`, { method: 'PUT', json: { items } })
     expect(saved.status).toBe(200)
     // The molar mass came from the SMILES: SO2Cl2 134.96 g/mol (IUPAC); 1.2 × 5 mmol = 6 mmol = 0.8098 g.
-    expect(saved.body.items[1].molarMass).toBeCloseTo(M.so2cl2, 1)
-    expect(saved.body.quantities.items[1].grams).toBeCloseTo((6 * M.so2cl2) / 1000, 3)
+    expect(saved.body.items[1]!.molarMass).toBeCloseTo(M.so2cl2, 1)
+    expect(saved.body.quantities.items[1]!.grams).toBeCloseTo((6 * M.so2cl2) / 1000, 3)
 
     const patched = await instructor.request(`/api/practicals/${id}`, { method: 'PATCH', json: { title: 'Scale test, renamed', workUnit: 'student' } })
     expect(patched.status).toBe(200)
@@ -192,21 +192,21 @@ describe('procedure card', () => {
     expect(card.audience).toBe('student')
     // Demo roster order pairs student01 and student02 on station 1 of M1.
     expect(card.student).toMatchObject({ sectionCode: 'M1', station: 1, seat: 1 })
-    expect(card.student.partners).toHaveLength(1)
+    expect(card.student!.partners).toHaveLength(1)
     expect(card.sessions).toHaveLength(1)
     expect(card.sessions[0]).toMatchObject({ sectionCode: 'M1', room: 'Bellweather Hall 214' })
     const [substrate, agent, initiator] = card.quantities.items
     // 10 mmol 1-chlorobutane: 10 × 92.57 / 1000 = 0.926 g; ÷ 0.886 g/mL = 1.045 mL.
-    expect(substrate.grams).toBeCloseTo((10 * M.chlorobutane) / 1000, 3)
-    expect(substrate.millilitres).toBeCloseTo((10 * M.chlorobutane) / 1000 / RHO.chlorobutane, 3)
+    expect(substrate!.grams).toBeCloseTo((10 * M.chlorobutane) / 1000, 3)
+    expect(substrate!.millilitres).toBeCloseTo((10 * M.chlorobutane) / 1000 / RHO.chlorobutane, 3)
     // 1.0 equiv SO2Cl2: 10 mmol × 134.96 = 1.350 g; ÷ 1.67 g/mL = 0.808 mL.
-    expect(agent.grams).toBeCloseTo((10 * M.so2cl2) / 1000, 3)
-    expect(agent.millilitres).toBeCloseTo((10 * M.so2cl2) / 1000 / RHO.so2cl2, 3)
+    expect(agent!.grams).toBeCloseTo((10 * M.so2cl2) / 1000, 3)
+    expect(agent!.millilitres).toBeCloseTo((10 * M.so2cl2) / 1000 / RHO.so2cl2, 3)
     // 2 mol % AIBN: 0.2 mmol × 164.21 = 32.8 mg, a solid: no volume.
-    expect(initiator.grams * 1000).toBeCloseTo(0.2 * M.aibn, 1)
-    expect(initiator.millilitres).toBeNull()
+    expect(initiator!.grams! * 1000).toBeCloseTo(0.2 * M.aibn, 1)
+    expect(initiator!.millilitres).toBeNull()
     expect(card.products).toHaveLength(4)
-    expect(card.products.reduce((s: number, p: any) => s + p.percent, 0)).toBeCloseTo(100, 6)
+    expect(card.products.reduce((s, p) => s + p.percent, 0)).toBeCloseTo(100, 6)
     expect(card.hazards).toEqual(['sulfuryl-chloride', 'azo-initiator', 'halogenated-waste'])
     expect(card.planningNote).toMatch(/planning aids/)
     expect(card.planningNote).toMatch(/chemical hygiene plan/)
@@ -218,17 +218,17 @@ describe('procedure card', () => {
     const card = (await ta.get(`/api/practicals/${p1}/card`)).body
     expect(card.audience).toBe('staff')
     expect(card.student).toBeNull()
-    expect(card.sessions.map((s: any) => s.sectionCode).sort()).toEqual(['R1', 'T1'])
-    expect(card.quantities.items[0].mmol).toBe(10)
+    expect(card.sessions.map((s) => s.sectionCode).sort()).toEqual(['R1', 'T1'])
+    expect(card.quantities.items[0]!.mmol).toBe(10)
   })
 
   it('shows chlorine for practical 2 in grams only, at 0.5 equiv', async () => {
     const p2 = (await testDb().selectFrom('practicals').select('id').where('title', '=', 'Photochlorination of 2,3-dimethylbutane').executeTakeFirstOrThrow()).id
     const card = (await instructor.get(`/api/practicals/${p2}/card`)).body
-    const chlorine = card.quantities.items.find((i: any) => i.role === 'halogenating-agent')
+    const chlorine = card.quantities.items.find((i) => i.role === 'halogenating-agent')
     // 0.5 equiv of 10 mmol = 5 mmol × 70.90 g/mol (2 × 35.45, IUPAC conventional weight) = 0.3545 g.
     expect(chlorine).toMatchObject({ gas: true, millilitres: null, basis: 'equivalents', amount: 0.5 })
-    expect(chlorine.grams).toBeCloseTo(0.3545, 2)
+    expect(chlorine!.grams).toBeCloseTo(0.3545, 2)
     expect(card.hazards).toContain('chlorine')
   })
 })

@@ -32,21 +32,21 @@ describe('GET /api/results/cross-term', () => {
     const reply = await client.get(`/api/results/cross-term?practicalId=${later.practicalId}`)
     expect(reply.status).toBe(200)
     expect(reply.body.keyFactor).toBe('secondaryToPrimary')
-    const rows = reply.body.rows as any[]
-    const mine = rows.find((r) => r.practicalId === later.practicalId)
-    const theirs = rows.find((r) => r.practicalId === earlier.practicalId)
+    const rows = reply.body.rows
+    const mine = rows.find((r) => r.practicalId === later.practicalId)!
+    const theirs = rows.find((r) => r.practicalId === earlier.practicalId)!
     expect(mine).toMatchObject({ courseCode: later.course.code, term: 'Fall 2026 (fixture)', n: 3, current: true, sectionCodes: ['S1'] })
     expect(mine.mean).toBeCloseTo(mean(b), 9)
     expect(mine.headline.value).toBeCloseTo(Math.exp(mean(b.map(Math.log))), 9)
     expect(mine.median).toBeCloseTo(median(b), 9)
-    expect(mine.ci95[1] - mine.mean).toBeCloseTo(T_0975[2]! * sd(b) / Math.sqrt(3), 3)
+    expect(mine.ci95![1] - mine.mean!).toBeCloseTo(T_0975[2]! * sd(b) / Math.sqrt(3), 3)
     // Another instructor's course in another term: aggregates only.
     expect(theirs).toMatchObject({ courseCode: earlier.course.code, term: 'Spring 2026 (fixture)', n: 4, current: false, sectionCodes: ['S1', 'S2'] })
     expect(theirs.mean).toBeCloseTo(mean(a), 9)
-    expect(theirs.ci95[0]).toBeCloseTo(mean(a) - T_0975[3]! * sd(a) / Math.sqrt(4), 3)
+    expect(theirs.ci95![0]).toBeCloseTo(mean(a) - T_0975[3]! * sd(a) / Math.sqrt(4), 3)
     // Students 0–2 are in S1, 3 is in S2 (the excluded and the returned runs do not count).
-    expect(theirs.sections.map((s: any) => [s.code, s.n])).toEqual([['S1', 3], ['S2', 1]])
-    expect(theirs.sections[0].mean).toBeCloseTo(mean(a.slice(0, 3)), 9)
+    expect(theirs.sections.map((s) => [s.code, s.n])).toEqual([['S1', 3], ['S2', 1]])
+    expect(theirs.sections[0]!.mean).toBeCloseTo(mean(a.slice(0, 3)), 9)
     const json = JSON.stringify(reply.body)
     for (const s of [...earlier.students, ...later.students]) {
       expect(json).not.toContain(s.name)
@@ -65,7 +65,7 @@ describe('GET /api/results/cross-term', () => {
     const owner = await signedIn(later.owner.email, later.owner.password)
     const bad = await owner.get('/api/results/cross-term?practicalId=abc')
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toMatch(/^practicalId:/)
+    expect(bad.refusal.statusMessage).toMatch(/^practicalId:/)
   })
 })
 
@@ -77,15 +77,15 @@ describe('GET /api/results and /api/results/practicals/:id', () => {
     expect(list.status).toBe(200)
     expect(list.body).toHaveLength(1)
     expect(list.body[0]).toMatchObject({ practicalId: earlier.practicalId, n: 4, keyFactor: 'secondaryToPrimary' })
-    expect(list.body[0].mean).toBeCloseTo(mean(a), 9)
+    expect(list.body[0]!.mean).toBeCloseTo(mean(a), 9)
     // The list leads with the same figure as the class page: the geometric mean, exp(mean of ln x).
-    expect(list.body[0].headline.statistic).toBe('geometric-mean')
-    expect(list.body[0].headline.value).toBeCloseTo(Math.exp(mean(a.map(Math.log))), 9)
+    expect(list.body[0]!.headline.statistic).toBe('geometric-mean')
+    expect(list.body[0]!.headline.value).toBeCloseTo(Math.exp(mean(a.map(Math.log))), 9)
     const ta = earlier.sections[1]!.ta
     const taList = await (await signedIn(ta.email, ta.password)).get('/api/results')
-    expect(taList.body.map((p: any) => p.practicalId)).toEqual([earlier.practicalId])
+    expect(taList.body.map((p) => p.practicalId)).toEqual([earlier.practicalId])
     const demoTa = await (await signedIn(DEMO.ta1)).get('/api/results')
-    expect(demoTa.body.map((p: any) => p.practicalId)).not.toContain(earlier.practicalId)
+    expect(demoTa.body.map((p) => p.practicalId)).not.toContain(earlier.practicalId)
     const student = await (await signedIn(DEMO.student(3))).get('/api/results')
     expect(student.status).toBe(403)
   })
@@ -97,9 +97,9 @@ describe('GET /api/results and /api/results/practicals/:id', () => {
     expect(detail.status).toBe(200)
     expect(detail.body.role).toBe('ta')
     expect(detail.body.canSendDigests).toBe(false)
-    expect(detail.body.sections.map((s: any) => s.code)).toEqual(['S2'])
+    expect(detail.body.sections.map((s) => s.code)).toEqual(['S2'])
     // S2 holds students 3–5: one counted, one excluded (still pending or accepted), one returned (left out).
-    expect(detail.body.units.map((u: any) => u.label).sort()).toEqual([earlier.students[3]!.name, earlier.students[4]!.name].sort())
+    expect(detail.body.units.map((u) => u.label).sort()).toEqual([earlier.students[3]!.name, earlier.students[4]!.name].sort())
     const owner = await (await signedIn(earlier.owner.email, earlier.owner.password)).get(`/api/results/practicals/${earlier.practicalId}`)
     expect(owner.body.units).toHaveLength(5)
     expect(owner.body.outlier.test).toBe('gesd')

@@ -32,8 +32,8 @@ describe('who may review', () => {
     expect((await ta2.get(`/submissions/${mine}/file`)).status).toBe(404)
     const queue = await ta2.get(`/api/practicals/${world.practicalId}/queue`)
     expect(queue.status).toBe(200)
-    expect(queue.body.rows.map((r: any) => r.id)).toEqual([theirs])
-    expect(queue.body.sections.map((s: any) => s.code)).toEqual(['R2'])
+    expect(queue.body.rows.map((r) => r.id)).toEqual([theirs])
+    expect(queue.body.sections.map((s) => s.code)).toEqual(['R2'])
     const csv = await ta2.get(`/practicals/${world.practicalId}/grades.csv`)
     expect(csv.status).toBe(200)
     for (const s of world.sections[0]!.students) expect(csv.body).not.toContain(s.email)
@@ -81,7 +81,7 @@ describe('who may review', () => {
 
   it('the owner sees every section and the review list counts them', async () => {
     const queue = await owner.get(`/api/practicals/${world.practicalId}/queue`)
-    expect(queue.body.rows.map((r: any) => r.id).sort()).toEqual([mine, theirs].sort())
+    expect(queue.body.rows.map((r) => r.id).sort()).toEqual([mine, theirs].sort())
     expect(queue.body.role).toBe('owner')
     const list = await owner.get('/api/review/practicals')
     expect(list.body).toEqual([expect.objectContaining({ id: world.practicalId, sections: ['R1', 'R2'], counts: expect.objectContaining({ pending: 2, accepted: 0 }) })])
@@ -90,7 +90,7 @@ describe('who may review', () => {
   it('a practical with submissions cannot be deleted (409)', async () => {
     const reply = await owner.request(`/api/practicals/${world.practicalId}`, { method: 'DELETE' })
     expect(reply.status).toBe(409)
-    expect(reply.body.statusMessage).toMatch(/uploaded results/)
+    expect(reply.refusal.statusMessage).toMatch(/uploaded results/)
   })
 })
 
@@ -127,10 +127,10 @@ describe('a review', () => {
     const id = await insertUnitVersion(world, { section: world.sections[0]!, station: 2, factor: 3.4 })
     const missing = await ta.post(`/api/submissions/${id}/review`, { decision: 'return', comment: 'See me.' })
     expect(missing.status).toBe(400)
-    expect(missing.body.statusMessage).toMatch(/^reason: /)
+    expect(missing.refusal.statusMessage).toMatch(/^reason: /)
     const blank = await ta.post(`/api/submissions/${id}/review`, { decision: 'return', reason: '   ' })
     expect(blank.status).toBe(400)
-    expect(blank.body.data.issues[0].field).toBe('reason')
+    expect(blank.refusal.data?.issues?.[0]?.field).toBe('reason')
     const ok = await ta.post(`/api/submissions/${id}/review`, { decision: 'return', reason: 'Peak b is integrated twice; integrate again.', scores: { accuracy: 3 } })
     expect(ok.status).toBe(200)
     expect(ok.body).toMatchObject({ status: 'returned', total: null, scores: {} })
@@ -141,15 +141,15 @@ describe('a review', () => {
     const id = await insertUnitVersion(world, { section: world.sections[0]!, station: 3, factor: 3.0 })
     const high = await ta.post(`/api/submissions/${id}/review`, { decision: 'accept', scores: { ...FULL, chromatogram: 7 } })
     expect(high.status).toBe(400)
-    expect(high.body.statusMessage).toBe('scores.chromatogram: Chromatogram and peak assignment: give 0 to 6 points')
+    expect(high.refusal.statusMessage).toBe('scores.chromatogram: Chromatogram and peak assignment: give 0 to 6 points')
     const negative = await ta.post(`/api/submissions/${id}/review`, { decision: 'accept', scores: { ...FULL, analysis: -1 } })
     expect(negative.status).toBe(400)
-    expect(negative.body.statusMessage).toMatch(/^scores\.analysis: /)
+    expect(negative.refusal.statusMessage).toMatch(/^scores\.analysis: /)
     const unknown = await ta.post(`/api/submissions/${id}/review`, { decision: 'accept', scores: { ...FULL, style: 2 } })
-    expect(unknown.body.statusMessage).toBe('scores.style: Not a criterion of this course’s rubric')
+    expect(unknown.refusal.statusMessage).toBe('scores.style: Not a criterion of this course’s rubric')
     const partial = await ta.post(`/api/submissions/${id}/review`, { decision: 'accept', scores: { accuracy: 10 } })
     expect(partial.status).toBe(400)
-    expect(partial.body.data.issues.map((i: any) => i.field)).toEqual(['scores.chromatogram', 'scores.analysis'])
+    expect(partial.refusal.data?.issues?.map((i) => i.field)).toEqual(['scores.chromatogram', 'scores.analysis'])
     expect((await testDb().selectFrom('submissions').select('status').where('id', '=', id).executeTakeFirstOrThrow()).status).toBe('pending')
   })
 
@@ -158,7 +158,7 @@ describe('a review', () => {
     const v2 = await insertUnitVersion(world, { section: world.sections[0]!, station: 4, factor: 3.1, version: 2 })
     const old = await ta.post(`/api/submissions/${v1}/review`, { decision: 'accept', scores: FULL })
     expect(old.status).toBe(409)
-    expect(old.body.statusMessage).toMatch(/latest version/)
+    expect(old.refusal.statusMessage).toMatch(/latest version/)
     expect((await ta.post(`/api/submissions/${v2}/review`, { decision: 'accept', scores: FULL })).status).toBe(200)
   })
 
@@ -168,7 +168,7 @@ describe('a review', () => {
     const id = await insertUnitVersion(world, { section, station: 3, factor: 3.0, version: 2, flags: [DANGER] })
     const bare = await ta.post(`/api/submissions/${id}/review`, { decision: 'accept', scores: FULL })
     expect(bare.status).toBe(400)
-    expect(bare.body.statusMessage).toMatch(/^comment: /)
+    expect(bare.refusal.statusMessage).toMatch(/^comment: /)
     const explained = await ta.post(`/api/submissions/${id}/review`, { decision: 'accept', scores: FULL, comment: 'Product b co-elutes with a on this column; checked the trace by hand.' })
     expect(explained.status).toBe(200)
   })
@@ -200,29 +200,29 @@ describe('the queue', () => {
   it('sorts blocking flags, then warnings and outliers, then other pending (oldest first), returned, accepted', async () => {
     const reply = await owner.get(`/api/practicals/${world.practicalId}/queue`)
     expect(reply.status).toBe(200)
-    expect(reply.body.rows.map((r: any) => r.id)).toEqual([
+    expect(reply.body.rows.map((r) => r.id)).toEqual([
       ids.danger, ids.outlier, ids.warning, ids.oldest, ids.older, ids.newest, ids.returned, ids.acceptedA, ids.acceptedB,
     ])
     expect(reply.body.counts).toEqual({ total: 9, pending: 6, accepted: 2, returned: 1, flagged: 3, excluded: 0 })
     const first = reply.body.rows[0]
     expect(first).toMatchObject({ version: 1, status: 'pending', keyFactor: NIST[0], attention: 2, clean: false, section: { code: 'R1' }, unit: { station: 1 } })
-    expect(first.unit.members).toHaveLength(2)
-    expect(first.unit.label).toBe(`${world.sections[0]!.students[0]!.name} & ${world.sections[0]!.students[1]!.name}`)
+    expect(first!.unit.members).toHaveLength(2)
+    expect(first!.unit.label).toBe(`${world.sections[0]!.students[0]!.name} & ${world.sections[0]!.students[1]!.name}`)
     expect(reply.body.practical).toMatchObject({ keyFactor: 'secondaryToPrimary' })
   })
 
   it('flags the outlier by the course’s test (Grubbs, NIST data) with its statistic and critical value', async () => {
     const reply = await owner.get(`/api/practicals/${world.practicalId}/queue?flag=outlier`)
-    expect(reply.body.rows.map((r: any) => r.id)).toEqual([ids.outlier])
-    const flag = reply.body.rows[0].flags.find((f: any) => f.code === 'outlier')
+    expect(reply.body.rows.map((r) => r.id)).toEqual([ids.outlier])
+    const flag = reply.body.rows[0]!.flags.find((f) => f.code === 'outlier')
     expect(flag).toMatchObject({ severity: 'warning', test: 'grubbs' })
     // NIST/SEMATECH e-Handbook §1.3.5.17.1: G = 2.4687, critical 2.1266 (α = 0.05, two-sided).
-    expect(flag.statistic).toBeCloseTo(2.4687, 3)
-    expect(flag.critical).toBeCloseTo(2.1266, 3)
+    expect(flag!.statistic).toBeCloseTo(2.4687, 3)
+    expect(flag!.critical).toBeCloseTo(2.1266, 3)
     expect(reply.body.outliers).toMatchObject({ test: 'grubbs', applied: true, n: 8 })
-    expect(reply.body.rows[0].clean).toBe(false)
+    expect(reply.body.rows[0]!.clean).toBe(false)
     const detail = await owner.get(`/api/submissions/${ids.outlier}`)
-    expect(detail.body.flags.find((f: any) => f.code === 'outlier').statistic).toBeCloseTo(2.4687, 3)
+    expect(detail.body.flags.find((f) => f.code === 'outlier')!.statistic).toBeCloseTo(2.4687, 3)
   })
 
   it('flags with the generalized ESD test when the course uses it: R_1 = G, λ_1 = the Grubbs critical value (NIST data)', async () => {
@@ -230,13 +230,13 @@ describe('the queue', () => {
     await courses.set({ outlierTest: 'gesd' }).execute()
     try {
       const reply = await owner.get(`/api/practicals/${world.practicalId}/queue?flag=outlier`)
-      expect(reply.body.rows.map((r: any) => r.id)).toEqual([ids.outlier])
-      const flag = reply.body.rows[0].flags.find((f: any) => f.code === 'outlier')
+      expect(reply.body.rows.map((r) => r.id)).toEqual([ids.outlier])
+      const flag = reply.body.rows[0]!.flags.find((f) => f.code === 'outlier')
       expect(flag).toMatchObject({ severity: 'warning', test: 'gesd', step: 1 })
       // NIST/SEMATECH e-Handbook §1.3.5.17.1 and §1.3.5.17.3: with one outlier, R_1 = G = 2.4687, λ_1 = 2.1266.
-      expect(flag.statistic).toBeCloseTo(2.4687, 3)
-      expect(flag.critical).toBeCloseTo(2.1266, 3)
-      expect(flag.message).toMatch(/generalized ESD test \(α = 0\.05, up to 2 outliers\): removed at step 1/)
+      expect(flag!.statistic).toBeCloseTo(2.4687, 3)
+      expect(flag!.critical).toBeCloseTo(2.1266, 3)
+      expect(flag!.message).toMatch(/generalized ESD test \(α = 0\.05, up to 2 outliers\): removed at step 1/)
       expect(reply.body.outliers).toMatchObject({ test: 'gesd', applied: true, n: 8, maxOutliers: 2 })
     } finally {
       await courses.set({ outlierTest: 'grubbs' }).execute()
@@ -245,21 +245,21 @@ describe('the queue', () => {
 
   it('filters by section, status and flag; bad filters are 400 naming the field', async () => {
     const r2 = await owner.get(`/api/practicals/${world.practicalId}/queue?section=${world.sections[1]!.id}`)
-    expect(r2.body.rows.map((r: any) => r.id)).toEqual([ids.oldest, ids.older, ids.newest, ids.acceptedB])
+    expect(r2.body.rows.map((r) => r.id)).toEqual([ids.oldest, ids.older, ids.newest, ids.acceptedB])
     expect(r2.body.counts.total).toBe(4)
     const accepted = await owner.get(`/api/practicals/${world.practicalId}/queue?status=accepted`)
-    expect(accepted.body.rows.map((r: any) => r.id)).toEqual([ids.acceptedA, ids.acceptedB])
+    expect(accepted.body.rows.map((r) => r.id)).toEqual([ids.acceptedA, ids.acceptedB])
     const drift = await owner.get(`/api/practicals/${world.practicalId}/queue?flag=retention-drift`)
-    expect(drift.body.rows.map((r: any) => r.id)).toEqual([ids.warning])
+    expect(drift.body.rows.map((r) => r.id)).toEqual([ids.warning])
     expect(drift.body.flagCodes).toEqual(expect.arrayContaining([{ code: 'outlier', count: 1 }, { code: 'missing-product', count: 1 }]))
     // "any": every run that needs attention (a blocking flag, a warning or a class outlier), none of the clean ones.
-    const any = (await owner.get(`/api/practicals/${world.practicalId}/queue?status=pending&flag=any`)).body.rows.map((r: any) => r.id)
+    const any = (await owner.get(`/api/practicals/${world.practicalId}/queue?status=pending&flag=any`)).body.rows.map((r) => r.id)
     expect(any).toEqual(expect.arrayContaining([ids.danger, ids.outlier, ids.warning]))
     expect(any).not.toContain(ids.oldest)
     expect(any).not.toContain(ids.newest)
     const bad = await owner.get(`/api/practicals/${world.practicalId}/queue?status=done`)
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toMatch(/^status: /)
+    expect(bad.refusal.statusMessage).toMatch(/^status: /)
   })
 
   it('bulk accept takes only the clean rows, with the suggested accuracy score, each audited', async () => {
@@ -267,10 +267,10 @@ describe('the queue', () => {
       submissionIds: [ids.oldest, ids.danger, ids.outlier, ids.warning, ids.acceptedA, ids.older, 999_999_999],
     })
     expect(reply.status).toBe(200)
-    expect(reply.body.accepted.map((a: any) => a.id)).toEqual([ids.oldest, ids.older])
+    expect(reply.body.accepted.map((a) => a.id)).toEqual([ids.oldest, ids.older])
     // A factor of ~200 against the expected 2.78 (the seeded reference distribution) is far beyond 3 × 15 %: no accuracy points.
     expect(reply.body.accepted[0]).toMatchObject({ scores: { accuracy: 0, chromatogram: 6, analysis: 4 }, total: 10 })
-    const skipped = Object.fromEntries(reply.body.skipped.map((s: any) => [s.id, s.reason]))
+    const skipped = Object.fromEntries(reply.body.skipped.map((s) => [s.id, s.reason]))
     expect(Object.keys(skipped).map(Number).sort()).toEqual([ids.danger, ids.outlier, ids.warning, ids.acceptedA, 999_999_999].sort())
     expect(skipped[ids.outlier]).toMatch(/outlier/)
     expect(skipped[ids.acceptedA]).toMatch(/Already accepted/)
@@ -283,17 +283,17 @@ describe('the queue', () => {
   it('excluding a run is audited, shown in the queue and takes it out of the class test', async () => {
     const short = await owner.post(`/api/submissions/${ids.outlier}/exclusion`, { reason: 'no' })
     expect(short.status).toBe(400)
-    expect(short.body.statusMessage).toMatch(/^reason: /)
+    expect(short.refusal.statusMessage).toMatch(/^reason: /)
     const reason = 'Reflux ran dry; the mixture is mostly trichlorides'
     const reply = await owner.post(`/api/submissions/${ids.outlier}/exclusion`, { reason })
     expect(reply.status).toBe(200)
     expect(reply.body.excluded).toMatchObject({ reason, by: world.owner.name })
     expect((await auditOf(ids.outlier)).at(-1)).toMatchObject({ action: 'submission.exclude', before: { excluded: false, reason: null }, after: { excluded: true, reason } })
     const queue = await owner.get(`/api/practicals/${world.practicalId}/queue`)
-    const row = queue.body.rows.find((r: any) => r.id === ids.outlier)
-    expect(row.excluded).toMatchObject({ reason, by: world.owner.name })
+    const row = queue.body.rows.find((r) => r.id === ids.outlier)
+    expect(row!.excluded).toMatchObject({ reason, by: world.owner.name })
     // Seven values left: none is an outlier now.
-    expect(row.flags.map((f: any) => f.code)).not.toContain('outlier')
+    expect(row!.flags.map((f) => f.code)).not.toContain('outlier')
     expect(queue.body.outliers.n).toBe(7)
     expect(queue.body.counts.excluded).toBe(1)
 
@@ -310,16 +310,16 @@ describe('the queue', () => {
     const client = await signInAs(small.owner)
     const reply = await client.get(`/api/practicals/${small.practicalId}/queue`)
     expect(reply.body.outliers).toMatchObject({ test: 'dixon', applied: false, n: 2 })
-    expect(reply.body.rows.flatMap((r: any) => r.flags)).toEqual([])
-    expect(reply.body.rows.every((r: any) => r.clean)).toBe(true)
+    expect(reply.body.rows.flatMap((r) => r.flags)).toEqual([])
+    expect(reply.body.rows.every((r) => r.clean)).toBe(true)
   })
 })
 
 describe('the detail and the original file', () => {
   let world: ReviewWorld
   let ta: Client
-  let v1: any
-  let v2: any
+  let v1: Awaited<ReturnType<typeof uploadAs>>
+  let v2: Awaited<ReturnType<typeof uploadAs>>
   const fileName = `=cmd|' /C calc'!A0.csv`
   beforeAll(async () => {
     world = await makeReviewWorld({ sections: 1, studentsPerSection: 4 })
@@ -343,27 +343,27 @@ describe('the detail and the original file', () => {
     expect(reply.status).toBe(200)
     const d = reply.body
     expect(d).toMatchObject({ id: v2.body.id, version: 2, isLatest: true, latestId: v2.body.id, status: 'pending', fileName })
-    expect(d.unit.members.map((m: any) => m.id).sort()).toEqual(world.sections[0]!.students.slice(0, 2).map((s) => s.id).sort())
+    expect(d.unit.members.map((m) => m.id).sort()).toEqual(world.sections[0]!.students.slice(0, 2).map((s) => s.id).sort())
     expect(d.peaks.length).toBeGreaterThanOrEqual(6)
-    expect(d.peaks.filter((p: any) => p.assignedTo === 'solvent')).toHaveLength(1)
+    expect(d.peaks.filter((p) => p.assignedTo === 'solvent')).toHaveLength(1)
     expect(d.distribution).toHaveLength(4)
     for (const row of d.distribution) expect(row).toEqual(expect.objectContaining({ label: expect.any(String), statistical: expect.any(Number), predicted: expect.any(Number), observed: expect.any(Number) }))
     // Statistical: per H; 1-chlorobutane has 2 + 2 + 2 + 3 H at its four positions.
-    expect(d.distribution.map((r: any) => r.statistical).reduce((a: number, b: number) => a + b, 0)).toBeCloseTo(100, 6)
-    expect(d.versions.map((v: any) => [v.id, v.version, v.fileName])).toEqual([[v1.body.id, 1, 'first run.csv'], [v2.body.id, 2, fileName]])
+    expect(d.distribution.map((r) => r.statistical).reduce((a: number, b: number) => a + b, 0)).toBeCloseTo(100, 6)
+    expect(d.versions.map((v) => [v.id, v.version, v.fileName])).toEqual([[v1.body.id, 1, 'first run.csv'], [v2.body.id, 2, fileName]])
     expect(d.diff).toMatchObject({ fromId: v1.body.id, toId: v2.body.id, fromVersion: 1, toVersion: 2 })
-    const dRow = d.diff.molePercents.find((m: any) => m.smiles === 'ClCCCCCl')
-    expect(dRow.delta).toBeGreaterThan(2)
-    expect(d.diff.peaks.some((p: any) => p.assignedTo === 'ClCCCCCl' && p.change === 'changed')).toBe(true)
-    expect(d.diff.factors[0]).toMatchObject({ name: 'secondaryToPrimary', before: v1.body.result.factors.secondaryToPrimary, after: v2.body.result.factors.secondaryToPrimary })
-    expect(d.rubric.map((c: any) => c.key)).toEqual(['accuracy', 'chromatogram', 'analysis'])
+    const dRow = d.diff!.molePercents.find((m) => m.smiles === 'ClCCCCCl')
+    expect(dRow!.delta).toBeGreaterThan(2)
+    expect(d.diff!.peaks.some((p) => p.assignedTo === 'ClCCCCCl' && p.change === 'changed')).toBe(true)
+    expect(d.diff!.factors[0]).toMatchObject({ name: 'secondaryToPrimary', before: v1.body.result.factors.secondaryToPrimary, after: v2.body.result.factors.secondaryToPrimary })
+    expect(d.rubric.map((c) => c.key)).toEqual(['accuracy', 'chromatogram', 'analysis'])
     expect(d.suggestion).toMatchObject({ tolerancePercent: 15, observed: d.keyFactor })
     // The shared 1-chlorobutane has a reference distribution for sulfuryl chloride, 6 / 23 / 46 / 25 %
     // (seeded, from memory): its pooled 2°:1° is ((23 + 46) / 4) / ((6 + 25) / 5) = 17.25 / 6.2.
     expect(d.suggestion.expected).toBeCloseTo(17.25 / 6.2, 6)
     expect(d.suggestion.comparedWith).toMatch(/^the reference distribution from /)
-    expect(d.distribution.map((r: any) => r.name).sort()).toEqual(['1,1-dichlorobutane', '1,2-dichlorobutane', '1,3-dichlorobutane', '1,4-dichlorobutane'])
-    expect(d.distribution.map((r: any) => r.reference).reduce((a: number, b: number) => a + b, 0)).toBeCloseTo(100, 6)
+    expect(d.distribution.map((r) => r.name).sort()).toEqual(['1,1-dichlorobutane', '1,2-dichlorobutane', '1,3-dichlorobutane', '1,4-dichlorobutane'])
+    expect(d.distribution.map((r) => r.reference ?? 0).reduce((a, b) => a + b, 0)).toBeCloseTo(100, 6)
     expect(d.nextPendingId).toBeNull()
   })
 
@@ -374,7 +374,7 @@ describe('the detail and the original file', () => {
     const other = await insertUnitVersion(world, { section: world.sections[0]!, station: 2, factor: 3 })
     const bad = await ta.get(`/api/submissions/${v2.body.id}?compare=${other}`)
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toBe('compare: Not a version of this work unit')
+    expect(bad.refusal.statusMessage).toBe('compare: Not a version of this work unit')
     expect((await ta.get(`/api/submissions/${v1.body.id}`)).body.diff).toBeNull()
   })
 

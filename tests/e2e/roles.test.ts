@@ -54,7 +54,7 @@ describe('unknown API routes', () => {
   it('answer a JSON 404, and known routes beside them still work', async () => {
     const reply = await new Client().get('/api/no-such-thing/here')
     expect(reply.status).toBe(404)
-    expect(reply.body.statusMessage).toBe('No such API route')
+    expect(reply.refusal.statusMessage).toBe('No such API route')
     const client = await signedIn(DEMO.student(4))
     expect((await client.get('/api/_auth/session')).body.user.role).toBe('student')
     expect((await client.get('/api/me/lab')).status).toBe(200)
@@ -79,12 +79,12 @@ describe('requests the server must refuse cleanly', () => {
     const instructor = await signedIn(DEMO.instructor)
     const big = await instructor.get('/api/courses/2147483648')
     expect(big.status).toBe(400)
-    expect(big.body.statusMessage).toMatch(/out of range/)
+    expect(big.refusal.statusMessage).toMatch(/out of range/)
     expect((await instructor.get('/api/submissions/2147483648')).status).toBe(400)
     expect((await instructor.get('/api/courses/2147483647')).status).toBe(404)
     const date = await instructor.get('/api/schedule?from=2026-02-31&to=2026-03-01')
     expect(date.status).toBe(400)
-    expect(date.body.statusMessage).toMatch(/^from: Not a calendar date/)
+    expect(date.refusal.statusMessage).toMatch(/^from: Not a calendar date/)
   })
 
   it('a JSON body over 1 MB is refused with 413 unread, declared or chunked, even before sign-in', async () => {
@@ -98,7 +98,7 @@ describe('requests the server must refuse cleanly', () => {
         controller.close()
       },
     })
-    const chunked = await new Client().request('/api/auth/login', { method: 'POST', body: stream, headers: { 'content-type': 'application/json' }, duplex: 'half' } as RequestInit)
+    const chunked = await new Client().request('/api/auth/login', { method: 'POST', body: stream, headers: { 'content-type': 'application/json' }, duplex: 'half' })
     expect(chunked.status).toBe(413)
     // The connection closes after the refusal, so no later request lands on a half-read socket.
     expect(chunked.headers.get('connection')).toBe('close')
@@ -117,7 +117,7 @@ describe('requests the server must refuse cleanly', () => {
     const student = await signedIn(DEMO.student(4))
     const huge = await student.post('/api/chemistry/analyze', { smiles: 'CCC', reactivity: { primary: 1e308, secondary: 1e308, tertiary: 1e308 } })
     expect(huge.status).toBe(400)
-    expect(huge.body.statusMessage).toMatch(/^reactivity\.primary: /)
+    expect(huge.refusal.statusMessage).toMatch(/^reactivity\.primary: /)
     const zero = await student.post('/api/chemistry/analyze', { smiles: 'CCC', reactivity: { primary: 0, secondary: 0, tertiary: 0 } })
     expect(zero.status).toBe(400)
   })

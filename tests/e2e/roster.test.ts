@@ -25,7 +25,7 @@ describe('roster import', () => {
     expect(seen.status).toBe(200)
     expect(seen.body.columns).toEqual(['First name', 'Last name', 'E-mail', 'Section'])
     expect(seen.body.mapping).toEqual({ email: 'E-mail', name: null, firstName: 'First name', lastName: 'Last name', section: 'Section' })
-    expect(seen.body.rows.map((r: any) => [r.row, r.name, r.sectionCode, r.outcome])).toEqual([
+    expect(seen.body.rows.map((r) => [r.row, r.name, r.sectionCode, r.outcome])).toEqual([
       [2, 'Marisol Quenby', 'A1', 'new'], [3, 'Teodor Vashti', 'A1', 'new'], [4, 'Wren Oakhurst', 'B1', 'new'], [6, 'Isidore Pemberly', 'B1', 'new'],
     ])
     expect(seen.body.summary).toEqual({ new: 4, enrol: 0, move: 0, unchanged: 0, errors: 0 })
@@ -74,13 +74,13 @@ describe('roster import', () => {
 
     const refused = await importFile(client, course.id, file)
     expect(refused.status).toBe(422)
-    expect(refused.body.data.rows).toEqual([
+    expect(refused.refusal.data?.rows).toEqual([
       { row: 3, field: 'email', message: 'Not an e-mail address' },
       { row: 4, field: 'email', message: 'Same e-mail as row 2' },
       { row: 5, field: 'name', message: 'No name' },
       { row: 6, field: 'section', message: 'No section “Z9” in this course' },
     ])
-    expect(refused.body.statusMessage).toBe('Row 3: Not an e-mail address')
+    expect(refused.refusal.statusMessage).toBe('Row 3: Not an e-mail address')
     expect(await usersWithEmailsLike('%@bad.example')).toEqual([])
     expect(await courseCounts(course.id)).toEqual({ enrollments: 0, imports: 0 })
   })
@@ -107,7 +107,7 @@ describe('roster import', () => {
     expect(formula!.name).toBe('=HYPERLINK("http://x.example","y")')
     expect(plain!.name).toBe('+Plain Cell')
     const roster = await client.get(`/api/sections/${sections.A1}/roster`)
-    expect(roster.body.students.map((s: any) => s.name)).toContain('=HYPERLINK("http://x.example","y")')
+    expect(roster.body.students.map((s) => s.name)).toContain('=HYPERLINK("http://x.example","y")')
   })
 
   it('answers 409 when a section would pass its hood capacity, and imports once that is confirmed', async () => {
@@ -118,7 +118,7 @@ describe('roster import', () => {
 
     const refused = await importFile(client, course.id, file)
     expect(refused.status).toBe(409)
-    expect(refused.body.data.conflicts).toHaveLength(1)
+    expect(refused.refusal.data?.conflicts).toHaveLength(1)
     expect(await courseCounts(course.id)).toEqual({ enrollments: 0, imports: 0 })
 
     const accepted = await importFile(client, course.id, file, { confirmConflicts: 'true' })
@@ -131,7 +131,7 @@ describe('roster import', () => {
     const file = fixture('unusual-headers.csv')
     const first = await preview(client, course.id, file)
     expect(first.status).toBe(200)
-    expect(first.body.mappingIssues.map((i: any) => i.field)).toEqual(['mapping.email', 'mapping.name', 'mapping.section'])
+    expect(first.body.mappingIssues.map((i) => i.field)).toEqual(['mapping.email', 'mapping.name', 'mapping.section'])
     expect((await importFile(client, course.id, file)).status).toBe(422)
 
     const mapping = JSON.stringify({ email: 'Preferred contact', name: 'Person', section: 'Lab slot' })
@@ -158,7 +158,7 @@ describe('roster import', () => {
     expect(binary.status).toBe(415)
     const headerOnly = await preview(client, course.id, 'Email,Name,Section\n')
     expect(headerOnly.status).toBe(422)
-    expect(headerOnly.body.statusMessage).toBe('file: The file has a header but no students')
+    expect(headerOnly.refusal.statusMessage).toBe('file: The file has a header but no students')
   })
 })
 
@@ -169,10 +169,10 @@ describe('roster scope', () => {
     const own = await ta1.get(`/api/sections/${demo.M1}/roster`)
     expect(own.status).toBe(200)
     expect(own.body.students).toHaveLength(16)
-    const first = own.body.students.find((s: any) => s.email === DEMO.student(1))
+    const first = own.body.students.find((s) => s.email === DEMO.student(1))
     // Seeded pairs: students 01 and 02 share station 1.
     expect(first).toMatchObject({ station: 1, seat: 1, status: 'active', invitation: { state: 'accepted' } })
-    expect(first.partners).toHaveLength(1)
+    expect(first!.partners).toHaveLength(1)
     const other = await ta1.get(`/api/sections/${demo.T1}/roster`)
     expect([403, 404]).toContain(other.status)
     expect(JSON.stringify(other.body)).not.toContain('@larkspur.example')
@@ -238,10 +238,10 @@ describe('students one by one', () => {
     expect(staff.status).toBe(422)
     const twice = await client.post(`/api/sections/${sections.B1}/enrollments`, { email: existing.email, name: 'Existing Student' })
     expect(twice.status).toBe(409)
-    expect(twice.body.statusMessage).toMatch(/already in section A1/)
+    expect(twice.refusal.statusMessage).toMatch(/already in section A1/)
     const bad = await client.post(`/api/sections/${sections.A1}/enrollments`, { email: 'nope', name: '' })
     expect(bad.status).toBe(400)
-    expect(bad.body.data.issues.map((i: any) => i.field)).toEqual(['email', 'name'])
+    expect(bad.refusal.data?.issues?.map((i) => i.field)).toEqual(['email', 'name'])
   })
 
   it('moves a student to another section of the same course only, and withdraws them for the record', async () => {
@@ -291,17 +291,17 @@ describe('hood stations', () => {
     const { sections, client } = await sectionWith(['Esker Vale', 'Cora Lind', 'Amos Brill', 'Dana Holt', 'Bea Marsh'])
     const assigned = await client.post(`/api/sections/${sections.S1}/stations/assign`)
     expect(assigned.status).toBe(200)
-    const place = (body: any) => body.students.map((s: any) => [s.name, s.station, s.seat, s.partners.join('+')])
+    const place = (body: typeof assigned.body) => body.students.map((s) => [s.name, s.station, s.seat, s.partners.join('+')])
     expect(place(assigned.body)).toEqual([
       ['Amos Brill', 1, 1, 'Bea Marsh'], ['Bea Marsh', 1, 2, 'Amos Brill'],
       ['Cora Lind', 2, 1, 'Dana Holt'], ['Dana Holt', 2, 2, 'Cora Lind'],
       ['Esker Vale', 3, 1, ''],
     ])
-    const esker = assigned.body.students.find((s: any) => s.name === 'Esker Vale')
-    const amos = assigned.body.students.find((s: any) => s.name === 'Amos Brill')
-    const swap = await client.request(`/api/enrollments/${esker.id}`, { method: 'PATCH', json: { station: 1, seat: 1 } })
+    const esker = assigned.body.students.find((s) => s.name === 'Esker Vale')
+    const amos = assigned.body.students.find((s) => s.name === 'Amos Brill')
+    const swap = await client.request(`/api/enrollments/${esker!.id}`, { method: 'PATCH', json: { station: 1, seat: 1 } })
     expect(swap.status).toBe(200)
-    expect(swap.body.swappedWith).toBe(amos.id)
+    expect(swap.body.swappedWith).toBe(amos!.id)
     const roster = await client.get(`/api/sections/${sections.S1}/roster`)
     expect(place(roster.body)).toEqual([
       ['Amos Brill', 3, 1, ''], ['Bea Marsh', 1, 2, 'Esker Vale'],
@@ -309,18 +309,18 @@ describe('hood stations', () => {
       ['Esker Vale', 1, 1, 'Bea Marsh'],
     ])
     // A free seat is simply taken; a seat past the section's stations is refused, naming the field.
-    expect((await client.request(`/api/enrollments/${amos.id}`, { method: 'PATCH', json: { station: 3, seat: 2 } })).body).toMatchObject({ station: 3, seat: 2 })
-    const far = await client.request(`/api/enrollments/${amos.id}`, { method: 'PATCH', json: { station: 4, seat: 1 } })
+    expect((await client.request(`/api/enrollments/${amos!.id}`, { method: 'PATCH', json: { station: 3, seat: 2 } })).body).toMatchObject({ station: 3, seat: 2 })
+    const far = await client.request(`/api/enrollments/${amos!.id}`, { method: 'PATCH', json: { station: 4, seat: 1 } })
     expect(far.status).toBe(422)
-    expect(far.body.data.field).toBe('station')
-    expect((await client.request(`/api/enrollments/${amos.id}`, { method: 'PATCH', json: { station: 1 } })).status).toBe(400)
+    expect(far.refusal.data?.field).toBe('station')
+    expect((await client.request(`/api/enrollments/${amos!.id}`, { method: 'PATCH', json: { station: 1 } })).status).toBe(400)
   })
 
   it('refuses to auto-assign more students than places', async () => {
     const { sections, client } = await sectionWith(['One A', 'Two B', 'Three C'], 1, 2)
     const refused = await client.post(`/api/sections/${sections.S1}/stations/assign`)
     expect(refused.status).toBe(409)
-    expect(refused.body.statusMessage).toBe('S1 has 3 students but 2 places at its hood stations')
+    expect(refused.refusal.statusMessage).toBe('S1 has 3 students but 2 places at its hood stations')
     const placed = await testDb().selectFrom('enrollments').select('station').where('sectionId', '=', sections.S1!).where('station', 'is not', null).execute()
     expect(placed).toEqual([])
   })
@@ -330,7 +330,7 @@ describe('hood stations', () => {
     expect((await client.post(`/api/sections/${sections.S1}/enrollments`, { email: 'cap1@stations.example', name: 'Cap One' })).status).toBe(201)
     const over = await client.post(`/api/sections/${sections.S1}/enrollments`, { email: 'cap2@stations.example', name: 'Cap Two' })
     expect(over.status).toBe(409)
-    expect(over.body.data.conflicts[0].kind).toBe('capacity')
+    expect(over.refusal.data?.conflicts?.[0]?.kind).toBe('capacity')
     expect(await usersWithEmailsLike('cap2@stations.example')).toEqual([])
     expect((await client.post(`/api/sections/${sections.S1}/enrollments`, { email: 'cap2@stations.example', name: 'Cap Two', confirmConflicts: true })).status).toBe(201)
   })

@@ -18,7 +18,7 @@ describe('sign-in and the app shell in Chromium', () => {
   it('the sign-in page passes axe and has no console errors (CSP included)', async () => {
     const tab = await openTab(browser)
     await tab.page.goto('/login')
-    await expect(tab.page.getByRole('heading', { name: 'Sign in' })).toBeTruthy()
+    await tab.page.getByRole('heading', { name: 'Sign in' }).waitFor({ state: 'visible' })
     const violations = await seriousViolations(tab.page)
     expect(violations, describeViolations(violations)).toEqual([])
     await screenshot(tab.page, 'sign-in')

@@ -13,7 +13,7 @@ const ADDRESS_LIMIT = 100
 
 const login = (email: string, password: string) => new Client().post('/api/auth/login', { email, password })
 
-function tally(replies: Reply[]) {
+function tally(replies: Reply<unknown>[]) {
   const checked = replies.filter((r) => r.status === 401)
   const refused = replies.filter((r) => r.status === 429)
   return { checked: checked.length, refused }
@@ -33,7 +33,7 @@ describe('sign-in limits hold for simultaneous attempts', () => {
     expect(refused.length).toBeGreaterThanOrEqual(2)
     for (const reply of refused) {
       expect(Number(reply.headers.get('retry-after'))).toBeGreaterThan(0)
-      expect(reply.body.statusMessage).toMatch(/^Too many sign-in attempts\. Try again in \d+ min\.$/)
+      expect(reply.refusal.statusMessage).toMatch(/^Too many sign-in attempts\. Try again in \d+ min\.$/)
     }
     // One settled row per checked attempt: none left pending, none for the refused ones.
     expect((await attemptsOf('email', victim.email)).map((r) => r.succeeded)).toEqual(Array(checked).fill(false))
@@ -77,6 +77,6 @@ describe('sign-in limits hold for simultaneous attempts', () => {
       login(invited.email, 'not-the-password'),
     ])
     expect(replies.map((r) => r.status)).toEqual([401, 401, 401])
-    expect(new Set(replies.map((r) => r.body.statusMessage)).size).toBe(1)
+    expect(new Set(replies.map((r) => r.refusal.statusMessage)).size).toBe(1)
   })
 })

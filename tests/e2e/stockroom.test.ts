@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { Client, DEMO, signedIn } from '../support/http'
+import { Client, DEMO, signedIn, type Answer, type Reply } from '../support/http'
 import { closeTestDb, createUser, testDb } from '../support/db'
-import { eventually, mailTo } from '../support/services'
+import { allSent, eventually, mailTo } from '../support/services'
 
 // Molar mass: IUPAC standard atomic weights (2,3-dimethylbutane 86.18 g/mol, as in PRODUCT.md).
 // Density: CRC Handbook, from memory (2,3-dimethylbutane 0.662 g/mL).
@@ -26,7 +26,7 @@ const uid = randomUUID().slice(0, 8)
 beforeAll(async () => { coordinator = await signedIn(DEMO.coordinator) })
 afterAll(closeTestDb)
 
-async function expectOk<T = any>(reply: Promise<{ status: number, body: T }>, status = 200): Promise<T> {
+async function expectOk<T>(reply: Promise<Reply<T>>, status = 200): Promise<T> {
   const r = await reply
   expect(r.status, JSON.stringify(r.body)).toBe(status)
   return r.body
@@ -40,8 +40,8 @@ describe('who may use the stockroom', () => {
     const lot = await testDb().selectFrom('reagentLots').select('id').orderBy('id').executeTakeFirstOrThrow()
     const order = await testDb().selectFrom('orderSheets').select('id').orderBy('id').executeTakeFirstOrThrow()
     const item = await testDb().selectFrom('practicalItems').select('id').orderBy('id').executeTakeFirstOrThrow()
-    const calls: Array<[string, string, unknown?]> = [
-      ...READS.map((path): [string, string] => ['GET', path]),
+    const calls: Array<['GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE', string, unknown?]> = [
+      ...READS.map((path): ['GET', string] => ['GET', path]),
       ['GET', `/api/stockroom/reagents/${reagent.id}`],
       ['GET', `/api/stockroom/orders/${order.id}`],
       ['GET', `/stockroom/orders/${order.id}/sheet.csv`],
@@ -120,24 +120,24 @@ describe('the demo stockroom', () => {
     const enrolled = await testDb().selectFrom('enrollments').select(['sectionId', 'station']).where('sectionId', 'in', counted.map((s) => s.sectionId)).where('status', '=', 'active').execute()
     const units = counted.reduce((n, s) => n + new Set(enrolled.filter((e) => e.sectionId === s.sectionId).map((e) => e.station)).size, 0)
     expect(units).toBeGreaterThan(0)
-    const line = forecast.lines.find((l: any) => l.name === '2,3-dimethylbutane')
+    const line = forecast.lines.find((l) => l.name === '2,3-dimethylbutane')
     // units × (10 mmol × 86.18 g/mol ÷ 0.662 g/mL) × 1.15; on hand only the opened 25 mL bottle's
     // 12 mL left (the other bottle expires first); 25 mL bottles.
     const required = units * (10 * M_DMB / 1000 / RHO_DMB) * 1.15
-    expect(line.required).toBeCloseTo(required, 2)
-    expect(line.onHand).toBeCloseTo(12, 3)
-    expect(line.notCounted).toBeCloseTo(25, 3)
-    expect(line.containers).toBe(Math.ceil((required - 12) / 25))
+    expect(line!.required).toBeCloseTo(required, 2)
+    expect(line!.onHand).toBeCloseTo(12, 3)
+    expect(line!.notCounted).toBeCloseTo(25, 3)
+    expect(line!.containers).toBe(Math.ceil((required - 12) / 25))
     // Every item of the demo practicals is linked to the catalog by the seed.
-    expect(forecast.unlinkedItems.filter((i: any) => i.practicalId === p2.id)).toEqual([])
+    expect(forecast.unlinkedItems.filter((i) => i.practicalId === p2.id)).toEqual([])
   })
 
   it('the overview lists the shortfalls, low stock, the expired sulfuryl chloride and the order in play', async () => {
     const overview = await expectOk(coordinator.get('/api/stockroom/overview'))
-    expect(overview.shortfalls.map((l: any) => l.name)).toContain('2,3-dimethylbutane')
-    expect(overview.lowStock.map((r: any) => r.name)).toEqual(expect.arrayContaining(['chlorine', 'magnesium sulfate, anhydrous']))
+    expect(overview.shortfalls.map((l) => l.name)).toContain('2,3-dimethylbutane')
+    expect(overview.lowStock.map((r) => r.name)).toEqual(expect.arrayContaining(['chlorine', 'magnesium sulfate, anhydrous']))
     expect(overview.expiring).toContainEqual(expect.objectContaining({ reagentName: 'sulfuryl chloride', expired: true, remaining: 40 }))
-    expect(overview.orders.map((o: any) => o.status)).toContain('sent')
+    expect(overview.orders.map((o) => o.status)).toContain('sent')
   })
 })
 
@@ -205,7 +205,7 @@ async function buildHandCase(): Promise<HandCase> {
 
 describe('the forecast on a hand-computed case, through the server', () => {
   let hand: HandCase
-  let forecast: any
+  let forecast: Answer<'/api/stockroom/forecast'>
   const from = () => base
   const to = () => plusDays(base, 13)
   beforeAll(async () => {
@@ -215,12 +215,12 @@ describe('the forecast on a hand-computed case, through the server', () => {
   const perPair = (10 * M_DMB / 1000) / RHO_DMB // 1.301813 mL
 
   it('counts 6 pairs in A and 4 in B, and leaves out C’s skipped date', () => {
-    expect(forecast.sessions.map((s: any) => [s.sectionCode, s.meetingDate, s.students, s.units])).toEqual([['A', base, 12, 6], ['B', plusDays(base, 9), 7, 4]])
+    expect(forecast.sessions.map((s) => [s.sectionCode, s.meetingDate, s.students, s.units])).toEqual([['A', base, 12, 6], ['B', plusDays(base, 9), 7, 4]])
     expect(forecast.skippedSessions).toEqual([expect.objectContaining({ sectionCode: 'C', meetingDate: plusDays(base, 3) })])
   })
 
   it('the alkane: required, the lot that expires between the meetings, the expired lot, 25 mL bottles', () => {
-    const line = forecast.lines.find((l: any) => l.reagentId === hand.alkaneId)
+    const line = forecast.lines.find((l) => l.reagentId === hand.alkaneId)!
     // A: 6 × 1.301813 × 1.15 = 8.98251 mL; B: 4 × 1.301813 × 1.15 = 5.98834 mL; together 14.97085.
     expect(line.weeks).toEqual([{ week: base, required: 8.983 }, { week: plusDays(base, 7), required: 5.988 }])
     expect(line.required).toBeCloseTo(10 * perPair * 1.15, 3)
@@ -232,7 +232,7 @@ describe('the forecast on a hand-computed case, through the server', () => {
   })
 
   it('the drying agent: 10 pairs × 1 g × 1.10 with nothing in stock is one 500 g container', () => {
-    const line = forecast.lines.find((l: any) => l.reagentId === hand.dryingId)
+    const line = forecast.lines.find((l) => l.reagentId === hand.dryingId)!
     expect(line).toMatchObject({ required: 11, onHand: 0, shortfall: 11, containers: 1, containerSize: 500, unit: 'g' })
   })
 
@@ -245,17 +245,17 @@ describe('the forecast on a hand-computed case, through the server', () => {
   it('an instructor sees only the forecast of their own courses', async () => {
     const owner = await signedIn(hand.owner.email, hand.owner.password)
     const own = await expectOk(owner.get(`/api/stockroom/forecast?from=${from()}&to=${to()}`))
-    expect(own.lines.map((l: any) => l.reagentId).sort()).toEqual([hand.alkaneId, hand.dryingId].sort())
+    expect(own.lines.map((l) => l.reagentId).sort()).toEqual([hand.alkaneId, hand.dryingId].sort())
     const other = await signedIn(DEMO.instructor)
     expect((await other.get(`/api/stockroom/forecast?from=${from()}&to=${to()}&courseId=${hand.courseId}`)).status).toBe(404)
     const theirs = await expectOk(other.get(`/api/stockroom/forecast?from=${from()}&to=${to()}`))
-    expect(theirs.lines.map((l: any) => l.reagentId)).not.toContain(hand.alkaneId)
+    expect(theirs.lines.map((l) => l.reagentId)).not.toContain(hand.alkaneId)
   })
 
   it('refuses a bad range and names the field', async () => {
     const reply = await coordinator.get(`/api/stockroom/forecast?from=${to()}&to=${from()}`)
     expect(reply.status).toBe(400)
-    expect(reply.body.statusMessage ?? reply.body.message).toMatch(/^to:/)
+    expect(reply.refusal.statusMessage ?? reply.refusal.message).toMatch(/^to:/)
     expect((await coordinator.get('/api/stockroom/forecast?from=soon&to=2027-01-01')).status).toBe(400)
   })
 })
@@ -264,10 +264,10 @@ describe('catalog and stock', () => {
   it('checks hazard statements, units and usage against what a lot holds', async () => {
     const bad = await coordinator.post('/api/stockroom/reagents', { name: `bad ${uid}`, physicalState: 'liquid', containerSize: 1, unit: 'mL', hazardCodes: ['H225', 'H999'] })
     expect(bad.status).toBe(400)
-    expect(bad.body.statusMessage).toMatch(/^hazardCodes\.1:/)
+    expect(bad.refusal.statusMessage).toMatch(/^hazardCodes\.1:/)
     const gas = await coordinator.post('/api/stockroom/reagents', { name: `gas ${uid}`, physicalState: 'gas', containerSize: 450, unit: 'mL' })
     expect(gas.status).toBe(400)
-    expect(gas.body.statusMessage).toMatch(/^unit:/)
+    expect(gas.refusal.statusMessage).toMatch(/^unit:/)
     const reagent = await expectOk(coordinator.post('/api/stockroom/reagents', { name: `solvent ${uid}`, smiles: 'ClCCl', physicalState: 'liquid', density: 1.33, containerSize: 1000, unit: 'mL', shelfLifeMonths: 36 }), 201)
     expect(reagent.formula).toBe('CH2Cl2')
     expect((await coordinator.post('/api/stockroom/reagents', { name: `SOLVENT ${uid}`, physicalState: 'liquid', containerSize: 1, unit: 'mL' })).status).toBe(409)
@@ -278,7 +278,7 @@ describe('catalog and stock', () => {
     expect(used).toMatchObject({ remaining: 70, openedOn: '2026-02-02' })
     const tooMuch = await coordinator.post(`/api/stockroom/lots/${lot.id}/usage`, { usedOn: '2026-02-03', amount: 70.5 })
     expect(tooMuch.status).toBe(422)
-    expect(tooMuch.body.statusMessage).toMatch(/^amount: More than the lot holds \(70 mL left\)/)
+    expect(tooMuch.refusal.statusMessage).toMatch(/^amount: More than the lot holds \(70 mL left\)/)
     expect((await coordinator.request(`/api/stockroom/reagents/${reagent.id}`, { method: 'PATCH', json: { unit: 'g', physicalState: 'solid' } })).status).toBe(409)
     expect((await coordinator.request(`/api/stockroom/reagents/${reagent.id}`, { method: 'DELETE' })).status).toBe(409)
     const detail = await expectOk(coordinator.get(`/api/stockroom/reagents/${reagent.id}`))
@@ -298,15 +298,16 @@ describe('order sheets', () => {
 
     const draft = await expectOk(coordinator.post('/api/stockroom/orders', { from: base, to: plusDays(base, 13) }), 201)
     expect(draft.status).toBe('draft')
-    const alkaneLine = draft.lines.find((l: any) => l.reagentId === hand.alkaneId)
+    const alkaneLine = draft.lines.find((l) => l.reagentId === hand.alkaneId)
     expect(alkaneLine).toMatchObject({ containers: 1, containerSize: 25, unit: 'mL', supplierEmail: expect.stringMatching(/^alkane-/) })
     // Keep this test's lines, add the formula-named reagent, change a count.
-    const lines = draft.lines.filter((l: any) => [hand.alkaneId, hand.dryingId].includes(l.reagentId)).map(({ id, position, hazards, ...l }: any) => l)
-    lines[0].containers = 2
+    const lines: Array<Record<string, unknown>> = draft.lines
+      .filter((l) => l.reagentId === hand.alkaneId || l.reagentId === hand.dryingId).map(({ id, position, hazards, ...l }) => l)
+    lines[0]!.containers = 2
     lines.push({ reagentId: formula.id, name: FORMULA, supplierName: 'Formula Supplies', supplierEmail: supplier, containers: 3, containerSize: 100, unit: 'g', note: '@SUM(1+1)' })
     const wrongUnit = await coordinator.request(`/api/stockroom/orders/${draft.id}`, { method: 'PATCH', json: { lines: [{ ...lines[2], unit: 'mL' }] } })
     expect(wrongUnit.status).toBe(400)
-    expect(wrongUnit.body.statusMessage).toMatch(/^lines\.0\.unit:/)
+    expect(wrongUnit.refusal.statusMessage).toMatch(/^lines\.0\.unit:/)
     const edited = await expectOk(coordinator.request(`/api/stockroom/orders/${draft.id}`, { method: 'PATCH', json: { lines, notes: 'Please quote by Friday.' } }))
     expect(edited.lines).toHaveLength(3)
 
@@ -321,7 +322,7 @@ describe('order sheets', () => {
 
     const send = await expectOk(coordinator.post(`/api/stockroom/orders/${draft.id}/send`))
     expect(send.status).toBe('sent')
-    expect(send.requests.map((r: any) => r.supplierEmail).sort()).toEqual([alkaneLine.supplierEmail, supplier].sort())
+    expect(send.requests.map((r) => r.supplierEmail).sort()).toEqual([alkaneLine!.supplierEmail, supplier].sort())
     expect((await coordinator.post(`/api/stockroom/orders/${draft.id}/send`)).status).toBe(409)
     expect((await coordinator.request(`/api/stockroom/orders/${draft.id}`, { method: 'PATCH', json: { title: 'late change' } })).status).toBe(409)
 
@@ -333,24 +334,24 @@ describe('order sheets', () => {
     expect(attachment.content.toString('utf8')).toContain(`"'${FORMULA}"`)
     expect(attachment.content.toString('utf8')).not.toContain('test alkane')
     // Once: the second send was refused, and the queue keys each request by order and supplier.
-    await new Promise((r) => setTimeout(r, 1500))
+    await allSent(`order:${draft.id}:${supplier}`, 1)
     expect(await mailTo(supplier)).toHaveLength(1)
     const rows = await testDb().selectFrom('mailMessages').select('dedupeKey').where('dedupeKey', 'like', `order:${draft.id}:%`).execute()
-    expect(rows.map((r) => r.dedupeKey).sort()).toEqual([`order:${draft.id}:${alkaneLine.supplierEmail}`, `order:${draft.id}:${supplier}`].sort())
+    expect(rows.map((r) => r.dedupeKey).sort()).toEqual([`order:${draft.id}:${alkaneLine!.supplierEmail}`, `order:${draft.id}:${supplier}`].sort())
 
     const sent = await expectOk(coordinator.get(`/api/stockroom/orders/${draft.id}`))
-    const byReagent = (id: number) => sent.lines.find((l: any) => l.reagentId === id)
+    const byReagent = (id: number) => sent.lines.find((l) => l.reagentId === id)
     const receivedOn = today
     const received = await expectOk(coordinator.post(`/api/stockroom/orders/${draft.id}/receive`, {
       receivedOn,
       lines: [
-        { lineId: byReagent(hand.alkaneId).id, containers: 2, lotCode: 'NEW-1', location: 'Cabinet F2', expiresOn: plusDays(today, 400) },
-        { lineId: byReagent(formula.id).id, containers: 3, lotCode: 'NEW-2', location: 'Shelf S1' },
-        { lineId: byReagent(hand.dryingId).id, containers: 0 },
+        { lineId: byReagent(hand.alkaneId)!.id, containers: 2, lotCode: 'NEW-1', location: 'Cabinet F2', expiresOn: plusDays(today, 400) },
+        { lineId: byReagent(formula.id)!.id, containers: 3, lotCode: 'NEW-2', location: 'Shelf S1' },
+        { lineId: byReagent(hand.dryingId)!.id, containers: 0 },
       ],
     }))
     expect(received.status).toBe('received')
-    expect(received.lots.map((l: any) => [l.reagentId, l.quantity, l.unit]).sort()).toEqual([[formula.id, 300, 'g'], [hand.alkaneId, 50, 'mL']].sort())
+    expect(received.lots.map((l) => [l.reagentId, l.quantity, l.unit]).sort()).toEqual([[formula.id, 300, 'g'], [hand.alkaneId, 50, 'mL']].sort())
     const formulaLot = await testDb().selectFrom('reagentLots').selectAll().where('reagentId', '=', formula.id).executeTakeFirstOrThrow()
     expect(formulaLot).toMatchObject({ containers: 3, lotCode: 'NEW-2', receivedOn })
     // Shelf life 12 months from the received date.
@@ -361,7 +362,7 @@ describe('order sheets', () => {
 
     // The forecast now counts the new bottles: nothing short of the alkane in that range.
     const after = await expectOk(coordinator.get(`/api/stockroom/forecast?from=${base}&to=${plusDays(base, 13)}&courseId=${hand.courseId}`))
-    expect(after.lines.find((l: any) => l.reagentId === hand.alkaneId)).toMatchObject({ shortfall: 0, containers: 0 })
+    expect(after.lines.find((l) => l.reagentId === hand.alkaneId)).toMatchObject({ shortfall: 0, containers: 0 })
   })
 
   it('a sheet cannot be sent while a line has no supplier e-mail, and an empty range makes no sheet', async () => {
@@ -372,7 +373,7 @@ describe('order sheets', () => {
     ] } }))
     const refused = await coordinator.post(`/api/stockroom/orders/${empty.id}/send`)
     expect(refused.status).toBe(422)
-    expect(refused.body.statusMessage).toMatch(/^lines\.1\.supplierEmail: Line 2 \(Spill pillows\)/)
+    expect(refused.refusal.statusMessage).toMatch(/^lines\.1\.supplierEmail: Line 2 \(Spill pillows\)/)
     expect((await testDb().selectFrom('orderSheets').select('status').where('id', '=', empty.id).executeTakeFirstOrThrow()).status).toBe('draft')
     expect(await mailTo(`waste-${uid}@supplier.example`)).toHaveLength(0)
     const far = plusDays(today, 3000)

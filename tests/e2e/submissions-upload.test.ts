@@ -49,10 +49,10 @@ describe('a good file', () => {
     expect(reply.body.result.factors.tertiaryToPrimary).toBeGreaterThan(4.75)
     expect(reply.body.result.factors.tertiaryToPrimary).toBeLessThan(5.25)
     expect(reply.body.result.factors.secondaryToPrimary).toBeNull()
-    expect(reply.body.flags.filter((f: any) => f.severity !== 'info')).toEqual([])
+    expect(reply.body.flags.filter((f) => f.severity !== 'info')).toEqual([])
     const row = await testDb().selectFrom('submissions').selectAll().where('id', '=', reply.body.id).executeTakeFirstOrThrow()
     expect(row.attention).toBe(0)
-    expect(row.factorTertiary).toBeCloseTo(reply.body.result.factors.tertiaryToPrimary, 6)
+    expect(row.factorTertiary).toBeCloseTo(reply.body.result.factors.tertiaryToPrimary!, 6)
   })
 
   it('the preview computes the same and stores nothing', async () => {
@@ -61,10 +61,10 @@ describe('a good file', () => {
     const preview = await uploadGc(flagger, dmb.practicalId, text, { preview: true })
     expect(preview.status).toBe(200)
     expect(preview.body.kind).toBe('peak-table')
-    expect(preview.body.peaks.filter((p: any) => p.assignedTo === 'solvent')).toHaveLength(1)
-    expect(preview.body.peaks.filter((p: any) => p.assignedTo === 'starting-material')).toHaveLength(1)
-    expect(preview.body.products.map((p: any) => p.label).sort()).toEqual(['a', 'b'])
-    expect(preview.body.predicted.map((p: any) => p.percent).reduce((s: number, v: number) => s + v, 0)).toBeCloseTo(100, 6)
+    expect(preview.body.peaks.filter((p) => p.assignedTo === 'solvent')).toHaveLength(1)
+    expect(preview.body.peaks.filter((p) => p.assignedTo === 'starting-material')).toHaveLength(1)
+    expect(preview.body.products.map((p) => p.label).sort()).toEqual(['a', 'b'])
+    expect(preview.body.predicted.map((p) => p.percent).reduce((s: number, v: number) => s + v, 0)).toBeCloseTo(100, 6)
     expect(await rowCount(dmb.practicalId)).toBe(before)
   })
 })
@@ -107,7 +107,7 @@ describe('each flag has its trigger', () => {
     const student = await cb.signIn(cb.students[0]!)
     const reply = await uploadGc(student, cb.practicalId, gcTable(cb, { seed: 12, fault: 'solvent-as-product', faultProduct: lowest }).text)
     expect(reply.status).toBe(201)
-    const flag = reply.body.flags.find((f: any) => f.code === 'solvent-counted')
+    const flag = reply.body.flags.find((f) => f.code === 'solvent-counted')
     expect(flag?.severity).toBe('danger')
     expect(flag?.message).toMatch(/solvent/)
     const row = await testDb().selectFrom('submissions').select('attention').where('id', '=', reply.body.id).executeTakeFirstOrThrow()
@@ -133,7 +133,7 @@ describe('what comes in', () => {
     const before = await rowCount(dmb.practicalId)
     const empty = await uploadGc(flagger, dmb.practicalId, '', { name: 'empty.csv' })
     expect(empty.status).toBe(422)
-    expect(empty.body.statusMessage).toMatch(/^file: /)
+    expect(empty.refusal.statusMessage).toMatch(/^file: /)
     // A PNG signature and header: NUL bytes, so not a text table whatever the name says.
     const png = Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0x0d, 0x49, 0x48, 0x44, 0x52, 0, 0, 0, 1])
     const binary = await uploadGc(flagger, dmb.practicalId, png, { name: 'results.csv' })
@@ -146,7 +146,7 @@ describe('what comes in', () => {
   it('refuses an unreadable table with the row named (422, data.rows)', async () => {
     const reply = await uploadGc(flagger, dmb.practicalId, 'RT [min],Area\n3.10,12000\n3.60,abc\n')
     expect(reply.status).toBe(422)
-    expect(reply.body.data.rows[0]).toEqual(expect.objectContaining({ row: 3, message: expect.stringMatching(/Row 3/) }))
+    expect(reply.refusal.data?.rows?.[0]).toEqual(expect.objectContaining({ row: 3, message: expect.stringMatching(/Row 3/) }))
   })
 
   it('reads thousands separators by the file\'s own decimal mark, and refuses one it cannot tell by row (422)', async () => {
@@ -159,7 +159,7 @@ describe('what comes in', () => {
     expect(grouped.body.molePercents).toEqual(plain.body.molePercents)
     const ambiguous = await uploadGc(flagger, dmb.practicalId, 'RT [s],Area\n171,987\n208,"45,769"\n')
     expect(ambiguous.status).toBe(422)
-    expect(ambiguous.body.data.rows[0]).toEqual(expect.objectContaining({ row: 3, message: expect.stringMatching(/45,769 could be 45769 or 45\.769/) }))
+    expect(ambiguous.refusal.data?.rows?.[0]).toEqual(expect.objectContaining({ row: 3, message: expect.stringMatching(/45,769 could be 45769 or 45\.769/) }))
   })
 
   const formulaCells = () => {
@@ -178,7 +178,7 @@ describe('what comes in', () => {
     expect(stored.originalName).toBe(name)
     expect(stored.content.toString('utf8')).toBe(text)
     const mine = await flagger.get(`/api/practicals/${dmb.practicalId}/my-submissions`)
-    expect(mine.body.versions.find((v: any) => v.id === reply.body.id).fileName).toBe(name)
+    expect(mine.body.versions.find((v) => v.id === reply.body.id)!.fileName).toBe(name)
   }
 
   it('keeps formula-looking cells as they are, computes the result and evaluates nothing', async () => {
@@ -264,25 +264,25 @@ describe('nothing is lost', () => {
     const a = await pairA.get(`/api/practicals/${dmb.practicalId}/my-submissions`)
     const b = await pairB.get(`/api/practicals/${dmb.practicalId}/my-submissions`)
     expect(a.status).toBe(200)
-    expect(a.body.versions.map((v: any) => v.version)).toEqual([2, 1])
-    expect(b.body.versions.map((v: any) => v.id)).toEqual(a.body.versions.map((v: any) => v.id))
+    expect(a.body.versions.map((v) => v.version)).toEqual([2, 1])
+    expect(b.body.versions.map((v) => v.id)).toEqual(a.body.versions.map((v) => v.id))
     const [v2, v1] = a.body.versions
     expect(v1).toEqual(expect.objectContaining({ id: first.id, fileName: 'first.csv', status: 'pending', kind: 'peak-table' }))
-    expect(v2.fileName).toBe('second.tsv')
-    expect(v2.uploadedBy).toEqual({ name: expect.stringMatching(/-2$/), you: false })
-    expect(b.body.versions[0].uploadedBy.you).toBe(true)
+    expect(v2!.fileName).toBe('second.tsv')
+    expect(v2!.uploadedBy).toEqual({ name: expect.stringMatching(/-2$/), you: false })
+    expect(b.body.versions[0]!.uploadedBy.you).toBe(true)
     expect(a.body.partners).toEqual([expect.stringMatching(/-2$/)])
     for (const v of [v1, v2]) {
-      expect(v.peaks.length).toBeGreaterThanOrEqual(4)
-      expect(v.peaks.some((p: any) => p.assignedTo === 'solvent')).toBe(true)
-      expect(v.result.keyFactor).toBe('tertiaryToPrimary')
-      expect(v.result.factors.tertiaryToPrimary).toBeGreaterThan(4.5)
-      expect(v.review).toBeNull()
+      expect(v!.peaks.length).toBeGreaterThanOrEqual(4)
+      expect(v!.peaks.some((p) => p.assignedTo === 'solvent')).toBe(true)
+      expect(v!.result.keyFactor).toBe('tertiaryToPrimary')
+      expect(v!.result.factors.tertiaryToPrimary).toBeGreaterThan(4.5)
+      expect(v!.review).toBeNull()
     }
     // The other pair (station 2) sees only its own versions.
     const c = await flagger.get(`/api/practicals/${dmb.practicalId}/my-submissions`)
-    expect(c.body.versions.map((v: any) => v.id)).not.toContain(first.id)
-    expect(a.body.chemistry.products.map((p: any) => p.label)).toEqual(['a', 'b'])
+    expect(c.body.versions.map((v) => v.id)).not.toContain(first.id)
+    expect(a.body.chemistry.products.map((p) => p.label)).toEqual(['a', 'b'])
     expect(a.body.practical.method.reagent).toBe('cl2-light')
   })
 })
@@ -305,7 +305,7 @@ describe('late submissions', () => {
       const mine = await student.get(`/api/practicals/${dmb.practicalId}/my-submissions`)
       expect(mine.body.pastDue).toBe(true)
       expect(mine.body.uploadsOpen).toBe(true)
-      expect(mine.body.versions.map((v: any) => v.late)).toEqual([true, false])
+      expect(mine.body.versions.map((v) => v.late)).toEqual([true, false])
     } finally {
       await db.updateTable('practicalSessions').set({ dueAt: session.dueAt }).where('id', '=', session.id).execute()
     }
@@ -334,16 +334,16 @@ describe('reviews as the student sees them', () => {
       const hidden = await student.get(`/api/practicals/${manual.practicalId}/my-submissions`)
       expect(hidden.body.releasePolicy).toBe('manual')
       const [h2, h1] = hidden.body.versions
-      expect(h1.status).toBe('returned')
-      expect(h1.review).toEqual(expect.objectContaining({ decision: 'return', reason: expect.stringMatching(/^Peak a is missing/), released: false, feedback: null }))
-      expect(h2.review).toEqual(expect.objectContaining({ decision: 'accept', released: false, feedback: null }))
+      expect(h1!.status).toBe('returned')
+      expect(h1!.review).toEqual(expect.objectContaining({ decision: 'return', reason: expect.stringMatching(/^Peak a is missing/), released: false, feedback: null }))
+      expect(h2!.review).toEqual(expect.objectContaining({ decision: 'accept', released: false, feedback: null }))
       expect(JSON.stringify(hidden.body)).not.toMatch(/Good separation|Otherwise tidy/)
 
       await db.updateTable('practicals').set({ resultsReleasedAt: new Date() }).where('id', '=', manual.practicalId).execute()
       const shown = await student.get(`/api/practicals/${manual.practicalId}/my-submissions`)
-      const accepted = shown.body.versions[0].review
-      expect(accepted.released).toBe(true)
-      expect(accepted.feedback).toEqual({
+      const accepted = shown.body.versions[0]!.review
+      expect(accepted!.released).toBe(true)
+      expect(accepted!.feedback).toEqual({
         scores: [
           { key: 'accuracy', label: expect.any(String), maxPoints: 10, score: 10 },
           { key: 'chromatogram', label: expect.any(String), maxPoints: 6, score: 6 },
@@ -353,10 +353,10 @@ describe('reviews as the student sees them', () => {
         maxTotal: 20,
         comment: 'Good separation.',
       })
-      expect(shown.body.versions[1].review.feedback.comment).toBe('Otherwise tidy.')
+      expect(shown.body.versions[1]!.review!.feedback!.comment).toBe('Otherwise tidy.')
       // The partner reads the same decisions.
       const partner = await manual.signIn(manual.students[1]!)
-      expect((await partner.get(`/api/practicals/${manual.practicalId}/my-submissions`)).body.versions[1].review.reason).toMatch(/^Peak a is missing/)
+      expect((await partner.get(`/api/practicals/${manual.practicalId}/my-submissions`)).body.versions[1]!.review!.reason).toMatch(/^Peak a is missing/)
     } finally {
       await manual.cleanup()
     }

@@ -95,7 +95,8 @@ describe('.xlsx peak tables', () => {
     expect(asNumbers.status).toBe(200)
     expect(asText.body.molePercents).toEqual(asNumbers.body.molePercents)
     // Rows 1-5 are the report's head: the first peak is on sheet row 6.
-    expect(asNumbers.body.peaks[0].row).toBe(6)
+    // `row` is sent beside the declared peak view, for the page's row references.
+    expect(asNumbers.body.peaks[0]).toMatchObject({ row: 6 })
   })
 
   it('a cell that is not a number is refused with its sheet row (422, data.rows)', async () => {
@@ -103,7 +104,7 @@ describe('.xlsx peak tables', () => {
     const bytes = await peakTableWorkbook(peaks.map((p, i) => (i === 2 ? { ...p, area: 'n/a' } : p)))
     const reply = await uploadGc(student, gc.practicalId, bytes, { name: 'bad.xlsx' })
     expect(reply.status).toBe(422)
-    expect(reply.body.data.rows[0]).toEqual(expect.objectContaining({ row: 8, message: expect.stringMatching(/^Row 8: the area "n\/a" is not a number/) }))
+    expect(reply.refusal.data?.rows?.[0]).toEqual(expect.objectContaining({ row: 8, message: expect.stringMatching(/^Row 8: the area "n\/a" is not a number/) }))
   })
 })
 
@@ -154,7 +155,7 @@ describe('ANDI/AIA netCDF chromatograms', () => {
     const bytes = andiTrace({ peaks: gaussians(), points: 1800 })
     const reply = await uploadGc(student, gc.practicalId, bytes.subarray(0, bytes.length - 500), { name: 'cut.cdf' })
     expect(reply.status).toBe(422)
-    expect(reply.body.statusMessage).toMatch(/^file: netCDF: .*cut short/)
+    expect(reply.refusal.statusMessage).toMatch(/^file: netCDF: .*cut short/)
     expect(await rowCount()).toBe(before)
   })
 })
@@ -173,7 +174,7 @@ describe('what is refused by its bytes', () => {
     for (const [bytes, name, status, message] of cases) {
       const reply = await uploadGc(student, gc.practicalId, bytes, { name })
       expect(reply.status, name).toBe(status)
-      expect(reply.body.statusMessage, name).toMatch(message)
+      expect(reply.refusal.statusMessage, name).toMatch(message)
       expect((await uploadGc(student, gc.practicalId, bytes, { name, preview: true })).status, `${name} preview`).toBe(status)
     }
     expect(await rowCount()).toBe(before)
@@ -192,17 +193,17 @@ describe('standard runs and rosters read the same encodings and formats', () => 
     }
     const fromCsv = await send(readFileSync(new URL('./fixtures/standard-runs/1-chlorobutane-standard.csv', import.meta.url)), 'standard.csv')
     expect(fromCsv.status).toBe(201)
-    const peaks = fromCsv.body.peaks.map((p: any) => ({ retentionTime: p.retentionTime, area: p.area }))
+    const peaks = fromCsv.body.peaks.map((p) => ({ retentionTime: p.retentionTime, area: p.area }))
     const fromXlsx = await send(await peakTableWorkbook(peaks), 'standard.xlsx')
     expect(fromXlsx.status, JSON.stringify(fromXlsx.body)).toBe(201)
-    expect(fromXlsx.body.peaks.map((p: any) => [p.retentionTime, p.area])).toEqual(peaks.map((p: any) => [p.retentionTime, p.area]))
-    const stored = peaks.map((p: any) => ({ retentionTimeSeconds: p.retentionTime * 60, area: p.area }))
+    expect(fromXlsx.body.peaks.map((p) => [p.retentionTime, p.area])).toEqual(peaks.map((p) => [p.retentionTime, p.area]))
+    const stored = peaks.map((p) => ({ retentionTimeSeconds: p.retentionTime * 60, area: p.area }))
     const fromCdf = await send(andiTrace({ peaks: [], points: 600, storedPeaks: stored }), 'standard.cdf')
     expect(fromCdf.status, JSON.stringify(fromCdf.body)).toBe(201)
     // netCDF stores 32-bit floats: about 7 significant digits.
-    fromCdf.body.peaks.forEach((p: any, i: number) => {
-      expect(p.retentionTime).toBeCloseTo(peaks[i].retentionTime, 4)
-      expect(p.area / peaks[i].area).toBeCloseTo(1, 6)
+    fromCdf.body.peaks.forEach((p, i) => {
+      expect(p.retentionTime).toBeCloseTo(peaks[i]!.retentionTime, 4)
+      expect(p.area / peaks[i]!.area).toBeCloseTo(1, 6)
     })
     const files = await testDb().selectFrom('standardRuns').innerJoin('files', 'files.id', 'standardRuns.fileId').select('files.mediaType')
       .where('standardRuns.substrateId', '=', substrate.id).orderBy('standardRuns.id').execute()

@@ -3,6 +3,12 @@ import { createRequire } from 'node:module'
 import { join } from 'node:path'
 import { expect, inject } from 'vitest'
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core'
+import type AxeCore from 'axe-core'
+
+// axe-core's script, once evaluated in the page, sets `window.axe`.
+declare global {
+  interface Window { axe: typeof AxeCore }
+}
 
 const require = createRequire(import.meta.url)
 const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8')
@@ -54,9 +60,8 @@ export interface AxeViolation {
 export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
   await page.evaluate(`${axeSource}\n;0`)
   const result = await page.evaluate(async () => {
-    const axe = (window as any).axe
-    const { violations } = await axe.run(document, { resultTypes: ['violations'] })
-    return violations.map((v: any) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n: any) => ({ target: n.target })) }))
+    const { violations } = await window.axe.run(document, { resultTypes: ['violations'] })
+    return violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n) => ({ target: n.target })) }))
   })
   return (result as AxeViolation[]).filter((v) => v.impact === 'serious' || v.impact === 'critical')
 }

@@ -3,7 +3,7 @@ import { DEFAULT_RUBRIC } from '../../shared/types/course'
 import { analyzeSubstrate, predictDistribution } from '../../shared/utils/halogenation'
 import { simulatePeakTable, type SimulatePeakTableInput, type SimulatedPeakTable } from '../../shared/utils/simulation'
 import type { MethodReagent, ReleasePolicy } from '../../server/database/schema'
-import { Client, signedIn, type Reply } from './http'
+import { Client, signedIn, type Answer, type Reply } from './http'
 import { createUser, testDb, TEST_PASSWORD } from './db'
 
 // A practical of its own for a GC-upload test: a course owned by a fresh instructor, a section
@@ -146,13 +146,18 @@ export function gcTable(p: Pick<GcPractical, 'windows' | 'truth' | 'solvent' | '
 
 export const sha256 = (bytes: string | Uint8Array) => createHash('sha256').update(bytes).digest('hex')
 
+type Stored = Answer<'/api/practicals/:id/submissions', 'post'>
+type Previewed = Answer<'/api/practicals/:id/submissions/preview', 'post'>
+interface UploadOptions { name?: string, key?: string, preview?: boolean }
+
 /** Sends a file as multipart `file` to the upload route (or its preview), as the page does. */
-export async function uploadGc<T = any>(client: Client, practicalId: number, content: string | Uint8Array, options: { name?: string, key?: string, preview?: boolean } = {}): Promise<Reply<T>> {
+export function uploadGc(client: Client, practicalId: number, content: string | Uint8Array, options: UploadOptions & { preview: true }): Promise<Reply<Previewed>>
+export function uploadGc(client: Client, practicalId: number, content: string | Uint8Array, options?: UploadOptions & { preview?: false }): Promise<Reply<Stored>>
+export async function uploadGc(client: Client, practicalId: number, content: string | Uint8Array, options: UploadOptions = {}): Promise<Reply<Stored | Previewed>> {
   const form = new FormData()
   form.append('file', new Blob([content as BlobPart], { type: 'text/csv' }), options.name ?? 'gc-run.csv')
-  return client.request<T>(`/api/practicals/${practicalId}/submissions${options.preview ? '/preview' : ''}`, {
-    method: 'POST',
-    body: form,
-    headers: options.key ? { 'Idempotency-Key': options.key } : {},
-  })
+  const init = { method: 'POST' as const, body: form, headers: options.key ? { 'Idempotency-Key': options.key } : undefined }
+  return options.preview
+    ? client.request(`/api/practicals/${practicalId}/submissions/preview`, init)
+    : client.request(`/api/practicals/${practicalId}/submissions`, init)
 }

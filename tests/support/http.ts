@@ -1,9 +1,45 @@
 import { inject } from 'vitest'
+import type { TypedInternalResponse } from 'nitropack/types'
 
-export interface Reply<T = any> {
+type Method = 'get' | 'head' | 'post' | 'put' | 'patch' | 'delete'
+
+/**
+ * What a route answers to a method, typed from its handler's return (Nitro's InternalApi, the
+ * same table `$fetch` in the app is typed from): `Answer<'/api/courses'>` is the course list.
+ * A path no route declares gives `unknown`.
+ */
+export type Answer<Path extends string, M extends Method = 'get'> = TypedInternalResponse<Path, unknown, M>
+
+/** The body of a refusal, as server/error-handler.ts writes it. */
+export interface Refusal {
+  statusCode: number
+  statusMessage: string
+  message: string
+  data?: {
+    field?: string
+    issues?: Array<{ field: string, message: string }>
+    rows?: Array<{ row: number, message: string }>
+    conflicts?: Array<{ kind: string, message: string, sectionIds?: number[] }>
+    reason?: string
+    code?: string
+    [key: string]: unknown
+  }
+}
+
+export interface Reply<T> {
   status: number
   headers: Headers
+  /** The answer as the route's handler returns it: check `status` first. */
   body: T
+  /** The same answer read as a refusal (4xx, 5xx): its sentence and data. */
+  refusal: Refusal
+  /** The answer as text, for routes that send a file (iCalendar, CSV) rather than JSON. */
+  text: string
+}
+
+/** A reply whose body is read as JSON by the caller: a route no handler types (`unknown`). */
+export function replyOf<T>(status: number, headers: Headers, text: string, parsed: unknown): Reply<T> {
+  return { status, headers, body: parsed as T, refusal: parsed as Refusal, text }
 }
 
 /** A tiny cookie-keeping client: one instance is one browser-like session. */
@@ -15,7 +51,8 @@ export class Client {
     return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
   }
 
-  async request<T = any>(path: string, init: RequestInit & { json?: unknown } = {}): Promise<Reply<T>> {
+  /** Any method; the answer is typed by the route and the method given in `init`. */
+  async request<Path extends string, M extends Uppercase<Method> = 'GET'>(path: Path, init: Omit<RequestInit, 'method'> & { method?: M, json?: unknown, duplex?: 'half' } = {}): Promise<Reply<Answer<Path, Lowercase<M>>>> {
     const headers = new Headers(init.headers)
     if (this.cookies.size) headers.set('cookie', this.cookieHeader)
     let body = init.body
@@ -34,15 +71,15 @@ export class Client {
     const text = await response.text()
     let parsed: unknown = text
     if (response.headers.get('content-type')?.includes('json') && text) parsed = JSON.parse(text)
-    return { status: response.status, headers: response.headers, body: parsed as T }
+    return replyOf(response.status, response.headers, text, parsed)
   }
 
-  get<T = any>(path: string, init: RequestInit = {}) {
-    return this.request<T>(path, { ...init, method: 'GET' })
+  get<Path extends string>(path: Path, init: Omit<RequestInit, 'method'> = {}) {
+    return this.request(path, { ...init, method: 'GET' })
   }
 
-  post<T = any>(path: string, json?: unknown, init: RequestInit = {}) {
-    return this.request<T>(path, { ...init, method: 'POST', json })
+  post<Path extends string>(path: Path, json?: unknown, init: Omit<RequestInit, 'method'> = {}) {
+    return this.request(path, { ...init, method: 'POST', json })
   }
 
   async login(email: string, password = 'halocline-demo') {

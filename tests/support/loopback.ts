@@ -1,13 +1,13 @@
 import { request } from 'node:http'
 import { inject } from 'vitest'
-import type { Reply } from './http'
+import { replyOf, type Answer, type Reply } from './http'
 
 /**
  * POSTs JSON from another loopback address (127.0.0.2, 127.0.0.3, …): Linux routes all of
  * 127/8 to the loopback device, so the server sees a client of its own. Per-address limits can
  * then be tested without spending the address every other test signs in from.
  */
-export function postFrom<T = any>(localAddress: string, path: string, json: unknown): Promise<Reply<T>> {
+export function postFrom<Path extends string>(localAddress: string, path: Path, json: unknown): Promise<Reply<Answer<Path, 'post'>>> {
   const url = new URL(path, inject('baseUrl'))
   const body = JSON.stringify(json)
   return new Promise((resolve, reject) => {
@@ -28,7 +28,7 @@ export function postFrom<T = any>(localAddress: string, path: string, json: unkn
           if (value !== undefined) headers.set(name, Array.isArray(value) ? value.join(', ') : value)
         }
         const parsed = res.headers['content-type']?.includes('json') && text ? JSON.parse(text) : text
-        resolve({ status: res.statusCode ?? 0, headers, body: parsed as T })
+        resolve(replyOf(res.statusCode ?? 0, headers, text, parsed))
       })
     })
     req.on('error', reject)

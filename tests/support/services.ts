@@ -1,6 +1,7 @@
 import { readdirSync, readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { inject } from 'vitest'
+import { testDb } from './db'
 import { simpleParser, type ParsedMail } from 'mailparser'
 import { clusterPaths, startCluster, stopCluster } from '../../scripts/lib/postgres.mjs'
 import { killPidFile, startSmtpFake } from '../../scripts/lib/processes.mjs'
@@ -22,7 +23,7 @@ export function stopSmtp() {
 
 export async function startSmtp() {
   const child = await startSmtpFake({ root: inject('root'), port: inject('smtpPort'), dir: inject('mailDir'), pidFile: inject('smtpPidFile') })
-  ;(child as unknown as import('node:child_process').ChildProcess).unref()
+  child.unref()
 }
 
 /** Every message the SMTP fake holds, parsed back with mailparser. */
@@ -49,4 +50,18 @@ export async function eventually<T>(check: () => Promise<T | undefined | false>,
     await new Promise((r) => setTimeout(r, intervalMs))
   }
   throw new Error(`condition not met within ${timeoutMs} ms${last ? `: ${String(last)}` : ''}`)
+}
+
+/**
+ * Waits until the outbox holds `count` rows whose dedupe key is like `keyLike`, each 'sent', and
+ * returns them. The worker hands a row's copy to SMTP before it marks the row sent, and never
+ * claims a sent row again, so once this returns every copy the fake will ever receive of those
+ * messages is in: a count of received mail taken after it cannot pass because a duplicate is late.
+ */
+export async function allSent(keyLike: string, count: number, timeoutMs = 30_000) {
+  return eventually(async () => {
+    const rows = await testDb().selectFrom('mailMessages').select(['id', 'dedupeKey', 'status', 'attempts'])
+      .where('dedupeKey', 'like', keyLike).execute()
+    return rows.length === count && rows.every((r) => r.status === 'sent') && rows
+  }, timeoutMs)
 }

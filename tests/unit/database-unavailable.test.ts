@@ -1,7 +1,7 @@
 import { createServer, type Server, type Socket } from 'node:net'
 import { afterEach, describe, expect, it } from 'vitest'
 import pg from 'pg'
-import type { H3Error } from 'h3'
+import { createError } from 'h3'
 import { createPool } from '../../server/database/connection'
 import { isDatabaseUnavailable } from '../../server/utils/errors'
 import errorHandler from '../../server/error-handler'
@@ -89,7 +89,7 @@ describe('errors that mean "PostgreSQL is unavailable", as pg makes them', () =>
     expect(String((error as Error).message)).toMatch(text)
     expect(isDatabaseUnavailable(error)).toBe(true)
     // The route throws it; h3 wraps it; our handler runs first and makes it a 503.
-    const wrapped = Object.assign(new Error('wrapped', { cause: error }), { statusCode: 500 }) as unknown as H3Error
+    const wrapped = createError({ statusCode: 500, message: 'wrapped', cause: error })
     // An event already answered: the handler only rewrites the error's words, sends nothing.
     await errorHandler(wrapped, { handled: true } as never, {} as never)
     expect(wrapped.statusCode).toBe(503)
@@ -118,7 +118,9 @@ describe('the pool', () => {
     await client.query('begin')
     // The server ends the session while the client sits checked out, as a fast shutdown does.
     // Without a listener on the client this 'error' event would be thrown out of the event loop.
-    const socket = (client as unknown as { connection: { stream: Socket } }).connection.stream
+    // The pool's clients are pg.Client, whose connection holds the socket.
+    if (!(client instanceof pg.Client)) throw new Error('the pool gave something other than a pg.Client')
+    const socket = client.connection.stream
     socket.emit('data', errorResponse('57P01', 'terminating connection due to administrator command'))
     await expect.poll(() => reported.length).toBe(1)
     expect(isDatabaseUnavailable(reported[0])).toBe(true)

@@ -76,7 +76,7 @@ describe('work units', () => {
     expect(workUnitsOf(Array.from({ length: 16 }, (_, i) => ({ station: Math.floor(i / 2) + 1 })), 'pair', 2)).toBe(8)
     // 10 placed (four full pairs, two students alone at stations 5 and 6) and one unplaced: 6 + 1 = 7,
     // where ceil(11 / 2) would say 6.
-    const partly = [1, 1, 2, 2, 3, 3, 4, 4, 5, 6].map((station) => ({ station })).concat([{ station: null as unknown as number }])
+    const partly: Array<{ station: number | null }> = [...[1, 1, 2, 2, 3, 3, 4, 4, 5, 6].map((station) => ({ station })), { station: null }]
     expect(workUnitsOf(partly, 'pair', 2)).toBe(7)
     expect(workUnitsOf([{ station: null }, { station: null }, { station: null }], 'pair', 2)).toBe(2)
   })

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { analyzeSubstrate, predictDistribution } from '../../shared/utils/halogenation'
-import { simulatePeakTable, simulateTrace, formatTrace } from '../../shared/utils/simulation'
+import { simulatePeakTable, simulateTrace, formatTrace, type BadRun } from '../../shared/utils/simulation'
 import { attentionOf, evaluateRun, RunInputError, type RunInput } from '../../shared/utils/submission'
 import { keyFactorOf } from '../../shared/utils/key-factor'
 
@@ -27,7 +27,7 @@ function input(text: string, over: Partial<RunInput> = {}): RunInput {
 }
 
 const truth = predicted.map((p) => ({ smiles: p.smiles, percent: p.percent }))
-const table = (fault: any = 'none', seed = 7) => simulatePeakTable({
+const table = (fault: BadRun = 'none', seed = 7) => simulatePeakTable({
   seed, windows, distribution: truth, areaNoise: 0.01, fault, faultProduct: 3,
   solvent: { retentionTime: 1.4, area: 900_000 }, startingMaterial: { retentionTime: 2.3, area: 300_000 },
 }).text
