@@ -68,7 +68,9 @@ export function recordId(message = 'Pick an item from the list') {
 
 /** `:id` in a path or `?id=` in a query: digits only. */
 export function recordIdParam(message = 'Not an id') {
-  return z.coerce.number({ error: message }).int(message).min(1, message).max(MAX_RECORD_ID, message)
+  // Past PostgreSQL's integer range is still a well-formed number: say so rather than "not an id".
+  return z.coerce.number({ error: message }).int(message).min(1, message)
+    .max(MAX_RECORD_ID, `This id is out of range (the largest is ${MAX_RECORD_ID})`)
 }
 
 /** The `:id` of every route that names a stored row in its path. */
