@@ -10,8 +10,8 @@ import { SMTPServer } from 'smtp-server'
 
 const { values } = parseArgs({
   options: {
-    port: { type: 'string', default: process.env.HALOCLINE_SMTP_PORT ?? '2525' },
-    dir: { type: 'string', default: '.data/mail' },
+    'port': { type: 'string', default: process.env.HALOCLINE_SMTP_PORT ?? '2525' },
+    'dir': { type: 'string', default: '.data/mail' },
     'pid-file': { type: 'string' },
     'hold-file': { type: 'string' },
   },

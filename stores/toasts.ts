@@ -26,7 +26,7 @@ export const useToastStore = defineStore('toasts', () => {
     const timer = timers.get(id)
     if (timer) clearTimeout(timer)
     timers.delete(id)
-    toasts.value = toasts.value.filter(toast => toast.id !== id)
+    toasts.value = toasts.value.filter((toast) => toast.id !== id)
   }
 
   function push(input: ToastInput): number {
@@ -48,7 +48,7 @@ export const useToastStore = defineStore('toasts', () => {
   }
 
   function release(id: number) {
-    const toast = toasts.value.find(item => item.id === id)
+    const toast = toasts.value.find((item) => item.id === id)
     if (toast && toast.timeout > 0 && import.meta.client && !timers.has(id)) {
       timers.set(id, setTimeout(() => dismiss(id), toast.timeout))
     }

@@ -44,10 +44,10 @@ export function analyzeRequest(input: AnalyzeRequest): AnalyzeResponse {
 }
 
 export function reactivityRequest(input: ReactivityRequest): ReactivityResponse {
-  const analysis = analysisMatching(input.smiles, input.observed.map(o => o.smiles), input.halogen)
+  const analysis = analysisMatching(input.smiles, input.observed.map((o) => o.smiles), input.halogen)
   const result = relativeReactivities(analysis, input.observed, { reference: input.reference })
   return {
-    products: result.products.map(p => ({
+    products: result.products.map((p) => ({
       smiles: p.smiles,
       hydrogens: p.hydrogens,
       carbonClass: p.carbonClass,
@@ -66,8 +66,8 @@ export function reactivityRequest(input: ReactivityRequest): ReactivityResponse 
 function analysisMatching(smiles: string, observed: string[], halogen?: Halogen) {
   if (halogen) return analyzeSubstrate(smiles, { halogen })
   const chlorination = analyzeSubstrate(smiles, { halogen: 'Cl' })
-  const wanted = observed.map(o => { try { return canonicalSmiles(o) } catch { return o } })
-  const covers = (a: typeof chlorination) => wanted.every(w => a.products.some(p => p.smiles === w))
+  const wanted = observed.map((o) => { try { return canonicalSmiles(o) } catch { return o } })
+  const covers = (a: typeof chlorination) => wanted.every((w) => a.products.some((p) => p.smiles === w))
   if (covers(chlorination)) return chlorination
   const bromination = analyzeSubstrate(smiles, { halogen: 'Br' })
   return covers(bromination) ? bromination : chlorination

@@ -129,4 +129,3 @@ export function messageIdFor(id: number, key: string) {
   const host = new URL(useRuntimeConfig().public.appUrl).hostname || 'halocline.local'
   return `<halocline.${id}.${createHash('sha256').update(key).digest('hex').slice(0, 12)}@${host}>`
 }
-

@@ -92,10 +92,10 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
 ]
 
 export function findMethod(id: string): HalogenationMethod | undefined {
-  return HALOGENATION_METHODS.find(m => m.id === id)
+  return HALOGENATION_METHODS.find((m) => m.id === id)
 }
 
 /** The reference method of a database reagent key. */
 export function methodForReagent(reagent: string): HalogenationMethod | undefined {
-  return HALOGENATION_METHODS.find(m => m.reagent === reagent)
+  return HALOGENATION_METHODS.find((m) => m.reagent === reagent)
 }

@@ -30,5 +30,5 @@ export const TEACHING_SUBSTRATES: readonly TeachingSubstrate[] = [
 ]
 
 export function findTeachingSubstrate(id: string): TeachingSubstrate | undefined {
-  return TEACHING_SUBSTRATES.find(s => s.id === id)
+  return TEACHING_SUBSTRATES.find((s) => s.id === id)
 }

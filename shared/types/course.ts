@@ -16,7 +16,7 @@ export const OUTLIER_TEST_LABELS: Record<OutlierTestName, string> = {
 /** One line each on when a test fits, for the settings form. */
 export const OUTLIER_TEST_HINTS: Record<OutlierTestName, string> = {
   'gesd': 'Looks for up to one result in five (at least 2) at once, so two bad runs cannot hide each other. Suits a class of any size from 3.',
-  'grubbs': "One outlier at a time, repeated. Two similar bad runs can mask each other, and with 6 or fewer results it is unreliable.",
+  'grubbs': 'One outlier at a time, repeated. Two similar bad runs can mask each other, and with 6 or fewer results it is unreliable.',
   'dixon': 'Only for 3 to 10 results; with more or fewer it does not run (and says so).',
   'modified-z': 'Scores each result against the median and MAD, which a few far-off runs barely move.',
 }

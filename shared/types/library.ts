@@ -6,7 +6,6 @@ import { cautionsForMethod } from '../data/cautions'
 import { blockText, lineText, recordIdParam } from './fields'
 import { productSmilesSchema, substrateSmilesSchema } from './smiles'
 
-
 const notes = blockText(4000)
 
 // ── Substrates ────────────────────────────────────────────────────────────────────────────

@@ -13,7 +13,6 @@ export const KEY_FACTOR_LABELS: Record<KeyFactor, string> = {
   tertiaryToPrimary: '3°:1°',
 }
 
-
 export const queueQuerySchema = z.object({
   section: recordIdParam().optional(),
   status: z.enum(['pending', 'accepted', 'returned']).optional(),

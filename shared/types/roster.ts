@@ -102,7 +102,6 @@ export const rosterUploadFieldsSchema = z.object({
   confirmConflicts: z.enum(['true', 'false']).default('false'),
 })
 
-
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254, 'At most 254 characters')
 const personName = lineText(120, 'Enter the student’s name')
 

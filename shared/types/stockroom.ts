@@ -61,7 +61,6 @@ const text = (max: number) => lineText(max)
 const positive = (what: string, max: number) => z.number({ error: `Enter ${what} as a number` }).finite().gt(0, `${what[0]!.toUpperCase()}${what.slice(1)} must be above zero`).max(max, `At most ${max}`)
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254)
 
-
 // ── Reagents ────────────────────────────────────────────────────────────────────────────
 
 const reagentShape = {

@@ -114,7 +114,7 @@ export function windowProductLabel(w: Pick<ProductWindow, 'productSmiles' | 'nam
 }
 
 function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: boolean } {
-  const inside = slots.filter(s => rt >= s.window.rtMin && rt <= s.window.rtMax)
+  const inside = slots.filter((s) => rt >= s.window.rtMin && rt <= s.window.rtMax)
   if (inside.length === 0) return { slot: null, ambiguous: false }
   const centre = (s: Slot) => Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
   return { slot: inside.sort((a, b) => centre(a) - centre(b))[0]!, ambiguous: inside.length > 1 }
@@ -150,11 +150,11 @@ const sumArea = (peaks: Peak[]) => peaks.reduce((s, p) => s + p.area, 0)
  */
 function sharesOf(values: number[]): (number | null)[] {
   const total = values.reduce((s, v) => s + v, 0)
-  if (Number.isFinite(total)) return values.map(v => (total > 0 ? (v / total) * 100 : null))
+  if (Number.isFinite(total)) return values.map((v) => (total > 0 ? (v / total) * 100 : null))
   if (values.every(Number.isFinite)) {
     const max = Math.max(...values)
     const scaled = values.reduce((s, v) => s + v / max, 0)
-    return values.map(v => (v / max / scaled) * 100)
+    return values.map((v) => (v / max / scaled) * 100)
   }
   return values.map(() => null)
 }
@@ -172,10 +172,10 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   const drift = rescueDriftedPeaks(slots, outside, { ...DEFAULT_DRIFT_TOLERANCE, ...options.driftTolerance })
   const unassigned = drift.unassigned
   const products = productResults(slots.slice(0, windows.length), windows, flags)
-  for (const d of drift.drifted) products.find(p => p.smiles === d.slot.productSmiles)!.driftMinutes = d.minutes
+  for (const d of drift.drifted) products.find((p) => p.smiles === d.slot.productSmiles)!.driftMinutes = d.minutes
   const productTotal = products.reduce((s, p) => s + p.correctedArea, 0)
   const group = (key: string, rf: number | undefined): ReferencePeakGroup | null => {
-    const slot = slots.find(x => x.key === key)
+    const slot = slots.find((x) => x.key === key)
     return slot ? { area: sumArea(slot.peaks), correctedArea: rf ? sumArea(slot.peaks) / rf : null, peaks: slot.peaks } : null
   }
   const solvent = group('solvent', options.solvent?.responseFactor)
@@ -187,7 +187,7 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   const unassignedPercent = nonSolvent > 0 ? (sumArea(unassigned) / nonSolvent) * 100 : 0
   const threshold = options.unassignedThresholdPercent ?? 5
   if (unassignedPercent > threshold) {
-    flags.push({ code: 'unassigned-area', severity: 'warning', retentionTimes: unassigned.map(p => p.retentionTime), message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); look for products of a second halogenation, impurities or drifted peaks.` })
+    flags.push({ code: 'unassigned-area', severity: 'warning', retentionTimes: unassigned.map((p) => p.retentionTime), message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); look for products of a second halogenation, impurities or drifted peaks.` })
   }
   flags.push(...areaPercentFlags(usable, options.areaPercentTolerance ?? 0.5))
   flags.push(...driftFlags(slots, drift, options.edgeFraction ?? 0.1))
@@ -196,11 +196,11 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   const converted = smCorrected !== null && productTotal > 0 ? (productTotal / (productTotal + smCorrected)) * 100 : null
   const conversion = converted !== null && Number.isFinite(converted) ? converted : null
   return {
-    molePercents: products.map(p => ({ smiles: p.smiles, percent: p.percent })),
+    molePercents: products.map((p) => ({ smiles: p.smiles, percent: p.percent })),
     products,
     solvent,
     startingMaterial,
-    unassigned: unassigned.map(p => ({ ...p, percentOfTotal: nonSolvent > 0 ? (p.area / nonSolvent) * 100 : 0 })),
+    unassigned: unassigned.map((p) => ({ ...p, percentOfTotal: nonSolvent > 0 ? (p.area / nonSolvent) * 100 : 0 })),
     unassignedPercent,
     conversion,
     flags,
@@ -220,7 +220,7 @@ function validateWindows(windows: ProductWindow[], options: AssignOptions): void
 }
 
 function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOptions, flags: Flag[]) {
-  const slots: Slot[] = windows.map(w => ({ key: `p:${w.productSmiles}`, name: windowProductLabel(w), product: true, productSmiles: w.productSmiles, window: w, peaks: [] }))
+  const slots: Slot[] = windows.map((w) => ({ key: `p:${w.productSmiles}`, name: windowProductLabel(w), product: true, productSmiles: w.productSmiles, window: w, peaks: [] }))
   if (options.solvent) slots.push({ key: 'solvent', name: 'the solvent', product: false, window: options.solvent, peaks: [] })
   if (options.startingMaterial) slots.push({ key: 'sm', name: 'the starting material', product: false, window: options.startingMaterial, peaks: [] })
   const unassigned: Peak[] = []
@@ -240,7 +240,7 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     const largest = [...s.peaks].sort((a, b) => b.area - a.area)[0]
     return { smiles: windows[i]!.productSmiles, percent: null, area, correctedArea: area / rf, responseFactor: rf, retentionTime: largest?.retentionTime ?? null, peaks: s.peaks, driftMinutes: null }
   })
-  const shares = sharesOf(products.map(p => p.correctedArea))
+  const shares = sharesOf(products.map((p) => p.correctedArea))
   products.forEach((p, i) => { p.percent = shares[i]! })
   const total = products.reduce((s, p) => s + p.correctedArea, 0)
   slots.forEach((s, i) => {
@@ -249,7 +249,7 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     if (s.peaks.length === 0) {
       flags.push({ code: 'missing-product', severity: 'warning', productSmiles: w.productSmiles, message: `No peak was found for ${s.name} (${range}); it was counted as 0 %. If the product formed, check the integration or whether its peak has moved.` })
     } else if (s.peaks.length > 1) {
-      flags.push({ code: 'split-peak', severity: 'warning', productSmiles: w.productSmiles, retentionTimes: s.peaks.map(p => p.retentionTime), message: `${s.peaks.length} peaks fall in the window for ${s.name} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.` })
+      flags.push({ code: 'split-peak', severity: 'warning', productSmiles: w.productSmiles, retentionTimes: s.peaks.map((p) => p.retentionTime), message: `${s.peaks.length} peaks fall in the window for ${s.name} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.` })
     }
   })
   if (total <= 0) flags.push({ code: 'no-product-peaks', severity: 'error', message: 'No product peak has any area, so no mole percentages can be given; check that the right file and windows were used.' })
@@ -257,7 +257,7 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
 }
 
 function areaPercentFlags(peaks: Peak[], tolerance: number): Flag[] {
-  const withPct = peaks.filter(p => typeof p.areaPercent === 'number' && Number.isFinite(p.areaPercent))
+  const withPct = peaks.filter((p) => typeof p.areaPercent === 'number' && Number.isFinite(p.areaPercent))
   if (withPct.length === 0) return []
   const sum = withPct.reduce((s, p) => s + p.areaPercent!, 0)
   if (Math.abs(sum - 100) <= tolerance && withPct.length === peaks.length) return []
@@ -271,7 +271,7 @@ function areaPercentFlags(peaks: Peak[], tolerance: number): Flag[] {
 
 /** Parser row errors as result flags, so a refused table and a flagged one read alike. */
 export function flagsFromParseErrors(errors: RowError[]): Flag[] {
-  return errors.map(e => ({
+  return errors.map((e) => ({
     code: e.code === 'negative-value' || e.code === 'non-numeric' ? e.code : 'parse-error',
     severity: 'error' as const,
     message: e.message,

@@ -82,8 +82,8 @@ function placeTags(atomPos: Point[], bonds: [number, number][], labels: Position
       const p = atomPos[atom]
       if (!p) continue
       // An atom drawn as text (a lone carbon as CH4, a halogen) needs room for its label.
-      const own = texts.filter(t => Math.hypot(t.x - p.x, t.y - p.y) < t.size)
-      const d = Math.max(distance, ...own.map(t => 1.1 * t.size))
+      const own = texts.filter((t) => Math.hypot(t.x - p.x, t.y - p.y) < t.size)
+      const d = Math.max(distance, ...own.map((t) => 1.1 * t.size))
       let best: Point = { x: p.x, y: p.y - d }
       let bestScore = -Infinity
       for (let k = 0; k < 24; k++) {
@@ -130,13 +130,13 @@ export function depictSubstrate(smiles: string, options: DepictOptions = {}): st
     texts.push({ x: Number(m[1]) + 0.3 * size * m[4]!.length, y: Number(m[2]) - 0.35 * size, size })
   }
   const tags = placeTags(atomPos, bonds, labels, 0.62 * bondLength, texts)
-  const xs = [...atomPos.map(p => p.x), ...tags.map(t => t.x)]
-  const ys = [...atomPos.map(p => p.y), ...tags.map(t => t.y)]
+  const xs = [...atomPos.map((p) => p.x), ...tags.map((t) => t.x)]
+  const ys = [...atomPos.map((p) => p.y), ...tags.map((t) => t.y)]
   const pad = radius + 0.5 * bondLength
-  const box = [Math.min(...xs) - pad, Math.min(...ys) - pad, Math.max(...xs) - Math.min(...xs) + 2 * pad, Math.max(...ys) - Math.min(...ys) + 2 * pad].map(v => v.toFixed(2))
-  const used = labels.filter(l => l.atoms.length).map(l => l.label)
+  const box = [Math.min(...xs) - pad, Math.min(...ys) - pad, Math.max(...xs) - Math.min(...xs) + 2 * pad, Math.max(...ys) - Math.min(...ys) + 2 * pad].map((v) => v.toFixed(2))
+  const used = labels.filter((l) => l.atoms.length).map((l) => l.label)
   const title = options.title ?? `Structure of ${analysis?.formula ?? 'the substrate'}${used.length ? `; the letters ${used.join(', ')} mark the carbons whose C–H substitution gives each product` : ''}`
-  const tagMarkup = tags.map(t => `<g><circle cx="${t.x.toFixed(2)}" cy="${t.y.toFixed(2)}" r="${radius.toFixed(2)}" fill="rgb(255,255,255)" stroke="rgb(30,64,175)" stroke-width="1.4"/><text x="${t.x.toFixed(2)}" y="${t.y.toFixed(2)}" text-anchor="middle" dominant-baseline="central" font-family="sans-serif" font-size="${(1.15 * radius).toFixed(1)}" font-weight="600" fill="rgb(30,64,175)">${escapeXml(t.label)}</text></g>`)
+  const tagMarkup = tags.map((t) => `<g><circle cx="${t.x.toFixed(2)}" cy="${t.y.toFixed(2)}" r="${radius.toFixed(2)}" fill="rgb(255,255,255)" stroke="rgb(30,64,175)" stroke-width="1.4"/><text x="${t.x.toFixed(2)}" y="${t.y.toFixed(2)}" text-anchor="middle" dominant-baseline="central" font-family="sans-serif" font-size="${(1.15 * radius).toFixed(1)}" font-weight="600" fill="rgb(30,64,175)">${escapeXml(t.label)}</text></g>`)
   const svg = [
     `<svg xmlns="http://www.w3.org/2000/svg" version="1.1" width="${width}" height="${height}" viewBox="${box.join(' ')}" role="img" aria-labelledby="${prefix}-title">`,
     `<title id="${prefix}-title">${escapeXml(title)}</title>`,

@@ -1,7 +1,7 @@
 // Free-radical halogenation: which monohalogenation products a substrate gives, what the
 // per-H model predicts for them, and what observed product ratios say about reactivity.
 // Method: PRODUCT.md, "The computation". Pure: no I/O, no clock.
-import { Molecule } from 'openchemlib'
+import type { Molecule } from 'openchemlib'
 import {
   ChemistryInputError,
   canonicalSmiles,
@@ -151,7 +151,7 @@ export function predictDistribution(
   const r = options.temperatureC === undefined
     ? reactivity
     : scaleReactivity(reactivity, options.temperatureC, options.referenceTemperatureC ?? 25)
-  const weights = analysis.products.map(p => p.hydrogens * r[p.carbonClass])
+  const weights = analysis.products.map((p) => p.hydrogens * r[p.carbonClass])
   const total = weights.reduce((s, w) => s + w, 0)
   if (!(total > 0)) {
     throw new ReactivityInputError('invalid-reactivity', 'Every C–H site of this substrate has zero reactivity, so no distribution can be predicted.')
@@ -191,7 +191,7 @@ function matchObserved(analysis: Pick<SubstrateAnalysis, 'products'>, observed: 
   if (!Array.isArray(observed) || observed.length === 0) {
     throw new ReactivityInputError('no-observed', 'Enter the observed percentage of at least one product.')
   }
-  const known = new Set(analysis.products.map(p => p.smiles))
+  const known = new Set(analysis.products.map((p) => p.smiles))
   const percents = new Map<string, number>()
   for (const o of observed) {
     let smiles: string
@@ -213,7 +213,7 @@ function matchObserved(analysis: Pick<SubstrateAnalysis, 'products'>, observed: 
 }
 
 function pooled(products: ReactivityProduct[], cls: CarbonClass): { x: number, n: number } | null {
-  const members = products.filter(p => p.carbonClass === cls)
+  const members = products.filter((p) => p.carbonClass === cls)
   if (members.length === 0) return null
   return { x: members.reduce((s, p) => s + p.percent, 0), n: members.reduce((s, p) => s + p.hydrogens, 0) }
 }
@@ -231,7 +231,6 @@ function classFactor(products: ReactivityProduct[], cls: 'secondary' | 'tertiary
     ? { value: null, note: 'The primary product is too small against the others for the ratio to be a number.' }
     : { value, note: null }
 }
-
 
 /**
  * Per-H reactivities from observed percentages: ρ_p = x_p / n_p, relative to a reference
@@ -254,7 +253,7 @@ export function relativeReactivities(
   for (const p of analysis.products) {
     if (!percents.has(p.smiles)) warnings.push(`No percentage was given for ${p.smiles}; it was counted as 0 %.`)
   }
-  const products = analysis.products.map(p => {
+  const products = analysis.products.map((p) => {
     const percent = ((percents.get(p.smiles) ?? 0) / scale / total) * 100
     return { ...p, percent, perHydrogen: percent / 100 / p.hydrogens, relativeReactivity: null as number | null }
   })
@@ -265,7 +264,7 @@ export function relativeReactivities(
     const smiles = (() => {
       try { return canonicalSmiles(options.reference!) } catch { return '' }
     })()
-    const site = products.find(p => p.smiles === smiles)
+    const site = products.find((p) => p.smiles === smiles)
     if (!site) throw new ReactivityInputError('invalid-reference', `The reference "${options.reference}" is not one of this substrate's products.`)
     reference = { kind: 'site', smiles: site.smiles, description: `per-H reactivity at the ${site.carbonClass} site giving ${site.smiles}` }
     refValue = site.perHydrogen
@@ -280,7 +279,7 @@ export function relativeReactivities(
   if (refValue > 0) {
     // A reference far smaller than a site overflows the ratio: no number beats Infinity.
     for (const p of products) p.relativeReactivity = finiteOrNull(p.perHydrogen / refValue)
-    if (products.some(p => p.relativeReactivity === null)) warnings.push('The reference product is too small against the others for a relative reactivity to be given.')
+    if (products.some((p) => p.relativeReactivity === null)) warnings.push('The reference product is too small against the others for a relative reactivity to be given.')
   } else {
     warnings.push('The reference product was not observed, so relative reactivities cannot be given.')
   }
@@ -313,7 +312,7 @@ export function convertAmount(amount: AmountInput, substance: { molarMass: numbe
   if (hasDensity && (typeof density !== 'number' || !Number.isFinite(density) || density <= 0)) {
     throw new ReactivityInputError('invalid-amount', 'The density must be a positive number (g/mL).')
   }
-  const given = (['mmol', 'grams', 'millilitres'] as const).filter(k => k in (amount ?? {}))
+  const given = (['mmol', 'grams', 'millilitres'] as const).filter((k) => k in (amount ?? {}))
   if (given.length !== 1) throw new ReactivityInputError('invalid-amount', 'Give exactly one of mmol, grams or millilitres.')
   const key = given[0]!
   const value = (amount as Record<string, unknown>)[key]

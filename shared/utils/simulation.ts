@@ -74,8 +74,8 @@ function productPeaks(input: SimulatePeakTableInput, gauss: () => number): Peak[
   const cv = input.areaNoise ?? 0.02
   const jitter = input.rtJitter ?? 0.15
   const sum = input.distribution.reduce((s, d) => s + d.percent, 0) || 1
-  return input.windows.map(w => {
-    const pct = input.distribution.find(d => d.smiles === w.productSmiles)?.percent ?? 0
+  return input.windows.map((w) => {
+    const pct = input.distribution.find((d) => d.smiles === w.productSmiles)?.percent ?? 0
     const offset = Math.max(-0.7, Math.min(0.7, gauss() * jitter)) * halfWidth(w)
     const area = (pct / sum) * total * (w.responseFactor ?? 1) * Math.exp(gauss() * cv - (cv * cv) / 2)
     return area > 0 ? [{ retentionTime: centre(w) + offset, area }] : []
@@ -86,7 +86,7 @@ function applyFault(perWindow: Peak[][], input: SimulatePeakTableInput, rng: () 
   const fault = input.fault ?? 'none'
   const n = input.windows.length
   const pick = input.faultProduct ?? Math.floor(rng() * n)
-  const out = perWindow.map(list => list.map(p => ({ ...p })))
+  const out = perWindow.map((list) => list.map((p) => ({ ...p })))
   if (fault === 'missing-product') out[pick] = []
   if (fault === 'swapped-peaks' && n > 1) {
     const other = (pick + 1) % n
@@ -104,7 +104,7 @@ function applyFault(perWindow: Peak[][], input: SimulatePeakTableInput, rng: () 
   }
   if (fault === 'solvent-as-product') {
     // The solvent co-elutes inside a product window, so nothing sits in the solvent window.
-    const solventIdx = others.findIndex(p => p.area === input.solvent?.area)
+    const solventIdx = others.findIndex((p) => p.area === input.solvent?.area)
     const area = input.solvent?.area ?? 20 * perWindow.flat().reduce((s, p) => s + p.area, 0)
     if (solventIdx >= 0) others.splice(solventIdx, 1)
     const w = input.windows[pick]!

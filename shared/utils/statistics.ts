@@ -68,7 +68,7 @@ export function summarize(values: readonly number[], options: { confidence?: num
   const n = xs.length
   const empty: Summary = { n, scale: logScale ? 'log' : 'linear', mean: null, sd: null, sem: null, ci: null, confidence, median: null, mad: null, q1: null, q3: null, iqr: null, min: null, max: null, cv: null, notes: [] }
   if (n === 0) return { ...empty, notes: ['No values.'] }
-  if (logScale && xs.some(v => v <= 0)) return { ...empty, notes: ['A log-scale summary needs values above zero.'] }
+  if (logScale && xs.some((v) => v <= 0)) return { ...empty, notes: ['A log-scale summary needs values above zero.'] }
   // Linear figures are computed on tamed values and multiplied back; logs never overflow.
   // Order statistics come from the values themselves (quantile() cannot overflow).
   const { values: tamed, scale } = logScale ? { values: xs, scale: 1 } : tameScale(xs)
@@ -142,7 +142,7 @@ export function grubbsTest(
   let remaining = tamed.map((value, index) => ({ value, index }))
   while (remaining.length >= 3) {
     const n = remaining.length
-    const vals = remaining.map(r => r.value)
+    const vals = remaining.map((r) => r.value)
     const m = mean(vals)
     const sd = sampleSd(vals)
     if (sd === 0) { result.note = 'All remaining values are equal, so none can be an outlier.'; break }
@@ -156,7 +156,7 @@ export function grubbsTest(
     if (!outlier) break
     result.outliers.push(suspect.index)
     if (!iterative) break
-    remaining = remaining.filter(r => r !== suspect)
+    remaining = remaining.filter((r) => r !== suspect)
   }
   if (xs.length < 3) result.note = "Grubbs' test needs at least 3 values."
   else if (xs.length <= GRUBBS_SMALL_N) result.note = [GRUBBS_SMALL_NOTE, result.note].filter(Boolean).join(' ')
@@ -169,8 +169,8 @@ export function grubbsTest(
  * simulation of r10 under normality. 99 % is left out: the recalled values could not be confirmed.
  */
 export const DIXON_R10_CRITICAL: Readonly<Record<string, readonly number[]>> = {
-  '0.9': [0.941, 0.765, 0.642, 0.56, 0.507, 0.468, 0.437, 0.412],
-  '0.95': [0.970, 0.829, 0.710, 0.625, 0.568, 0.526, 0.493, 0.466],
+  0.9: [0.941, 0.765, 0.642, 0.56, 0.507, 0.468, 0.437, 0.412],
+  0.95: [0.970, 0.829, 0.710, 0.625, 0.568, 0.526, 0.493, 0.466],
 }
 
 export interface DixonResult {
@@ -192,7 +192,7 @@ export function dixonQTest(values: readonly number[], options: { confidence?: nu
   const xs = finiteValues(values)
   const confidence = options.confidence ?? 0.95
   const table = DIXON_R10_CRITICAL[String(confidence)]
-  if (!table) throw new StatisticsError(`Dixon's Q test is available at ${Object.keys(DIXON_R10_CRITICAL).map(k => `${Number(k) * 100} %`).join(' and ')} confidence.`)
+  if (!table) throw new StatisticsError(`Dixon's Q test is available at ${Object.keys(DIXON_R10_CRITICAL).map((k) => `${Number(k) * 100} %`).join(' and ')} confidence.`)
   const n = xs.length
   if (n < 3 || n > 10) throw new StatisticsError(`Dixon's Q test (r10) needs 3 to 10 values; there are ${n}. Use Grubbs' test or the modified z-score for other sizes.`)
   // Q is a ratio of gaps: tamed values keep the range finite (lib/moments.ts).
@@ -238,12 +238,12 @@ export function modifiedZScores(values: readonly number[], options: { threshold?
   let method: ModifiedZResult['method']
   let note: string | null = null
   if (mad > 0) {
-    scores = xs.map(v => (0.6745 * (v - med)) / mad)
+    scores = xs.map((v) => (0.6745 * (v - med)) / mad)
     method = 'mad'
   } else {
-    const meanAd = mean(xs.map(v => Math.abs(v - med)))
+    const meanAd = mean(xs.map((v) => Math.abs(v - med)))
     if (meanAd > 0) {
-      scores = xs.map(v => (0.7979 * (v - med)) / meanAd)
+      scores = xs.map((v) => (0.7979 * (v - med)) / meanAd)
       method = 'mean-ad'
       note = 'More than half of the values are identical, so the MAD is 0; scores use the mean absolute deviation from the median instead.'
     } else {

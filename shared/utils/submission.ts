@@ -213,7 +213,7 @@ function farFromPrediction(input: RunInput, factors: RunResult['factors'], moleP
 
 export function evaluateRun(input: RunInput): RunResult {
   // The last window's end tells seconds from minutes when a file does not say (a 65 s peak is not a 65 min one).
-  const ends = [...input.windows.map(w => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
+  const ends = [...input.windows.map((w) => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
   const expectedMaxMinutes = input.windows.length ? Math.max(...ends) : undefined
   const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.source ?? { kind: 'text', text: input.text ?? '' }, expectedMaxMinutes)
   if (!peaks.length) throw new RunInputError('No peaks were found in the file')
@@ -250,7 +250,6 @@ export function evaluateRun(input: RunInput): RunResult {
     flags,
   }
 }
-
 
 export interface PracticalChemistry {
   products: Array<RunProduct & { label: string, name: string | null }>

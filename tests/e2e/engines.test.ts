@@ -1,6 +1,5 @@
 import type { ChildProcess } from 'node:child_process'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import { startServer } from '../../scripts/lib/processes.mjs'
 import { freePort } from '../../scripts/lib/ports.mjs'
 import { randomSecret } from '../../scripts/lib/env.mjs'

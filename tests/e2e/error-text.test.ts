@@ -1,7 +1,7 @@
 import { request as httpRequest } from 'node:http'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
-import { Client, signedIn, type Refusal } from '../support/http'
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
+import type { Client, Refusal } from '../support/http'
+import { signedIn } from '../support/http'
 import { closeTestDb, TEST_PASSWORD } from '../support/db'
 import { insertResult, makeCourse } from '../support/fixtures'
 

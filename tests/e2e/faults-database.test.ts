@@ -1,6 +1,5 @@
 import { randomUUID } from 'node:crypto'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import { Client, type Reply } from '../support/http'
 import { closeTestDb, testDb, TEST_PASSWORD } from '../support/db'
 import { gcTable, makeGcPractical, uploadGc, type GcPractical } from '../support/gc'

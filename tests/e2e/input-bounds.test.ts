@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { Client, DEMO, signedIn } from '../support/http'
+import type { Client } from '../support/http'
+import { DEMO, signedIn } from '../support/http'
 import { closeTestDb, testDb, TEST_PASSWORD } from '../support/db'
 import { makeCourse } from '../support/fixtures'
 

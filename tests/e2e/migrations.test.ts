@@ -1,6 +1,5 @@
 import { createHash } from 'node:crypto'
-import { afterAll, describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { afterAll, describe, expect, it, inject } from 'vitest'
 import { sql } from 'kysely'
 import { createDatabase } from '../../server/database/connection'
 import { migrateToLatest } from '../../server/database/migrator'

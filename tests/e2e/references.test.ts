@@ -85,7 +85,7 @@ describe('PUT and DELETE /api/substrates/:id/references/:reagent', () => {
     const short = await put(owner, copyId, 'cl2-light', body({ ...REFERENCE, [D['1,3']]: 36 }))
     expect(short.status).toBe(400)
     expect(short.refusal.data?.issues?.[0]).toMatchObject({ field: 'percents', message: expect.stringMatching(/add up to 90\.0 %/) })
-    const stranger = await put(owner, copyId, 'cl2-light', body({ [D['1,1']]: 6, [D['1,2']]: 23, [D['1,3']]: 46, 'CCCCCCl': 25 }))
+    const stranger = await put(owner, copyId, 'cl2-light', body({ [D['1,1']]: 6, [D['1,2']]: 23, [D['1,3']]: 46, CCCCCCl: 25 }))
     expect(stranger.status).toBe(400)
     expect(stranger.refusal.data?.issues?.[0]?.field).toBe('percents.3.productSmiles')
     const missing = await put(owner, copyId, 'cl2-light', body({ [D['1,1']]: 6, [D['1,2']]: 23, [D['1,3']]: 71 }))

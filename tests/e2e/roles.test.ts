@@ -35,7 +35,7 @@ describe('same-origin rule for changes', () => {
     expect(foreign.status).toBe(403)
     const crossSite = await client.post('/api/outbox/test', undefined, { headers: { 'sec-fetch-site': 'cross-site' } })
     expect(crossSite.status).toBe(403)
-    const own = await client.post('/api/outbox/test', undefined, { headers: { origin: client.baseUrl, 'sec-fetch-site': 'same-origin' } })
+    const own = await client.post('/api/outbox/test', undefined, { headers: { 'origin': client.baseUrl, 'sec-fetch-site': 'same-origin' } })
     expect(own.status).toBe(202)
     // No Origin, but a Referer from elsewhere (an older browser): refused too; our own Referer passes.
     const referred = await client.post('/api/outbox/test', undefined, { headers: { referer: 'https://attacker.example/page' } })

@@ -14,7 +14,7 @@ describe('BaseField', () => {
 
     const describedBy = input.attributes('aria-describedby')!.split(' ')
     expect(describedBy).toHaveLength(2)
-    const texts = describedBy.map(id => wrapper.get(`[id="${id}"]`).text())
+    const texts = describedBy.map((id) => wrapper.get(`[id="${id}"]`).text())
     expect(texts).toEqual(['Per student pair.', 'Use a positive number.'])
   })
 

@@ -19,7 +19,7 @@ async function mountTable(props: Record<string, unknown> = {}) {
 }
 
 function firstColumn(wrapper: Awaited<ReturnType<typeof mountTable>>) {
-  return wrapper.findAll('[data-test="table-row"]').map(row => row.find('td').text())
+  return wrapper.findAll('[data-test="table-row"]').map((row) => row.find('td').text())
 }
 
 describe('BaseTable sorting', () => {
@@ -46,7 +46,7 @@ describe('BaseTable sorting', () => {
   it('sorts numbers by value, not as text', async () => {
     const wrapper = await mountTable({ rows: [...rows, { id: 6, student: 'Lio Tanaka', ratio: 12.5 }] })
     await wrapper.get('[data-test="sort-ratio"]').trigger('click')
-    const ratios = wrapper.findAll('[data-test="table-row"]').map(row => row.findAll('td')[1]!.text())
+    const ratios = wrapper.findAll('[data-test="table-row"]').map((row) => row.findAll('td')[1]!.text())
     expect(ratios).toEqual(['2.8', '3.1', '3.6', '3.9', '4.4', '12.5'])
     expect(wrapper.findAll('th')[0]!.attributes('aria-sort')).toBeUndefined()
     expect(wrapper.findAll('th')[1]!.attributes('aria-sort')).toBe('ascending')

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { isNavActive, navigationFor } from '~/utils/navigation'
 
-const routes = (role: string, demo = false) => navigationFor(role, { demo }).map(item => `${item.label} ${item.to}`)
+const routes = (role: string, demo = false) => navigationFor(role, { demo }).map((item) => `${item.label} ${item.to}`)
 
 describe('navigationFor', () => {
   it('instructor', () => {
@@ -37,7 +37,7 @@ describe('navigationFor', () => {
   })
 
   it('keeps students away from staff pages', () => {
-    const studentPaths = navigationFor('student').map(item => item.to)
+    const studentPaths = navigationFor('student').map((item) => item.to)
     for (const path of ['/review', '/courses', '/stockroom', '/outbox', '/sections', '/schedule']) {
       expect(studentPaths).not.toContain(path)
     }

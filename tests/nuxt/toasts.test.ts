@@ -34,6 +34,6 @@ describe('toasts', () => {
   it('shows at most four at once, dropping the oldest', () => {
     const { push } = useToast()
     for (let i = 1; i <= 6; i++) push({ title: `Saved ${i}` })
-    expect(useToastStore().toasts.map(t => t.title)).toEqual(['Saved 3', 'Saved 4', 'Saved 5', 'Saved 6'])
+    expect(useToastStore().toasts.map((t) => t.title)).toEqual(['Saved 3', 'Saved 4', 'Saved 5', 'Saved 6'])
   })
 })

@@ -3,7 +3,8 @@ import { DEFAULT_RUBRIC } from '../../shared/types/course'
 import { analyzeSubstrate, predictDistribution } from '../../shared/utils/halogenation'
 import { simulatePeakTable, type SimulatePeakTableInput, type SimulatedPeakTable } from '../../shared/utils/simulation'
 import type { MethodReagent, ReleasePolicy } from '../../server/database/schema'
-import { Client, signedIn, type Answer, type Reply } from './http'
+import type { Client, Answer, Reply } from './http'
+import { signedIn } from './http'
 import { createUser, testDb, TEST_PASSWORD } from './db'
 
 // A practical of its own for a GC-upload test: a course owned by a fresh instructor, a section

@@ -41,6 +41,7 @@ class Bytes {
     this.raw(b)
     this.pad()
   }
+
   toArray() { return Uint8Array.from(this.parts) }
 }
 

@@ -3,7 +3,8 @@ import { DEFAULT_RUBRIC } from '../../shared/types/course'
 import { analyzeSubstrate, predictDistribution } from '../../shared/utils/halogenation'
 import { simulatePeakTable, type BadRun } from '../../shared/utils/simulation'
 import type { OutlierTest, ReleasePolicy, StoredFlag, SubmissionStatus } from '../../server/database/schema'
-import { Client, signedIn } from './http'
+import type { Client } from './http'
+import { signedIn } from './http'
 import { createUser, testDb } from './db'
 
 // A course of its own for the review tests: a fresh instructor, sections each with its own TA,

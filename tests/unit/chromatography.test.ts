@@ -49,31 +49,31 @@ describe('parsePeakTable on messy but valid exports', () => {
   it.each(VALID)('%s', (name, expected) => {
     const r = parsePeakTable(fixture(name))
     expect(r.errors).toEqual([])
-    expect(r.peaks.map(p => p.retentionTime)).toEqual(RTS.map(v => expect.closeTo(v, 6)))
-    expect(r.peaks.map(p => p.area)).toEqual(AREAS.map(v => expect.closeTo(v, 6)))
-    if (expected.areaPercent) expect(r.peaks.map(p => p.areaPercent)).toEqual(PCTS.map(v => expect.closeTo(v, 6)))
-    else expect(r.peaks.every(p => p.areaPercent === undefined)).toBe(true)
-    expect(r.peaks.every(p => (p.height !== undefined) === !!expected.height)).toBe(true)
+    expect(r.peaks.map((p) => p.retentionTime)).toEqual(RTS.map((v) => expect.closeTo(v, 6)))
+    expect(r.peaks.map((p) => p.area)).toEqual(AREAS.map((v) => expect.closeTo(v, 6)))
+    if (expected.areaPercent) expect(r.peaks.map((p) => p.areaPercent)).toEqual(PCTS.map((v) => expect.closeTo(v, 6)))
+    else expect(r.peaks.every((p) => p.areaPercent === undefined)).toBe(true)
+    expect(r.peaks.every((p) => (p.height !== undefined) === !!expected.height)).toBe(true)
     expect(r.meta!.timeUnit).toBe(expected.unit ?? 'min')
     if (expected.warning) expect(r.warnings.join(' ')).toMatch(expected.warning)
   })
 
   it('reports file line numbers for peaks (preamble counted)', () => {
-    expect(parsePeakTable(fixture('valid-06-preamble.csv')).peaks.map(p => p.row)).toEqual([7, 8, 9, 10])
+    expect(parsePeakTable(fixture('valid-06-preamble.csv')).peaks.map((p) => p.row)).toEqual([7, 8, 9, 10])
   })
 
   it('detects decimal commas in semicolon files even with three decimals ("1,234")', () => {
     const r = parsePeakTable('RT;Area\n1,234;500\n2,345;600\n')
     expect(r.meta!.decimalComma).toBe(true)
-    expect(r.peaks.map(p => p.retentionTime)).toEqual([1.234, 2.345])
+    expect(r.peaks.map((p) => p.retentionTime)).toEqual([1.234, 2.345])
   })
 
   it('reads one decimal mark per column, taking the file\'s when a column alone cannot tell (common practice)', () => {
     // "1,5" can only be a decimal comma, so "2,498" is one too, and the dots in the areas group thousands.
     const r = parsePeakTable('RT;Area\n1,5;1.234\n2,498;15.678\n')
-    expect(r.peaks.map(p => [p.retentionTime, p.area])).toEqual([[1.5, 1234], [2.498, 15678]])
+    expect(r.peaks.map((p) => [p.retentionTime, p.area])).toEqual([[1.5, 1234], [2.498, 15678]])
     // A quoted "1,234.5" in a comma file is a thousands comma beside a decimal point.
-    expect(parsePeakTable('RT,Area\n1.502,"1,234.5"\n2.498,"12,345"\n').peaks.map(p => p.area)).toEqual([1234.5, 12345])
+    expect(parsePeakTable('RT,Area\n1.502,"1,234.5"\n2.498,"12,345"\n').peaks.map((p) => p.area)).toEqual([1234.5, 12345])
   })
 
   it('refuses a decimal mark that contradicts the rest of its column instead of guessing', () => {
@@ -82,7 +82,7 @@ describe('parsePeakTable on messy but valid exports', () => {
   })
 
   it('does not take a ratio column ("Area/Height") for the area', () => {
-    expect(parsePeakTable('RT,Area/Height,Area\n1.5,20,1000\n2.5,25,2000\n').peaks.map(p => p.area)).toEqual([1000, 2000])
+    expect(parsePeakTable('RT,Area/Height,Area\n1.5,20,1000\n2.5,25,2000\n').peaks.map((p) => p.area)).toEqual([1000, 2000])
   })
 
   it('skips text-only lines after the table, but refuses one between peaks', () => {
@@ -104,7 +104,7 @@ describe('parsePeakTable on messy but valid exports', () => {
     const fast = 'RT,Area\n45.0,10\n62.0,20\n80.0,30\n'
     expect(parsePeakTable(fast).meta!.timeUnit).toBe('min') // below the 90 threshold: read as minutes
     expect(parsePeakTable(fast, { expectedMaxMinutes: 2 }).peaks[2]!.retentionTime).toBeCloseTo(80 / 60, 10)
-    expect(parsePeakTable('Time [ms],Area\n60000,1\n120000,2\n').peaks.map(p => p.retentionTime)).toEqual([1, 2])
+    expect(parsePeakTable('Time [ms],Area\n60000,1\n120000,2\n').peaks.map((p) => p.retentionTime)).toEqual([1, 2])
   })
 
   it('accepts header spellings: R.Time, tR (min), RT/min, Area [pA*s], % Area, Height', () => {
@@ -117,7 +117,7 @@ describe('parsePeakTable on messy but valid exports', () => {
 
   it('reads only the first of repeated tables, skips a Σ row and reads typographic minus signs', () => {
     const two = parsePeakTable('Signal 1\nRT,Area\n1.0,10\n2.0,20\n\nSignal 2\nRT,Area\n1.1,5\n')
-    expect(two.peaks.map(p => p.area)).toEqual([10, 20])
+    expect(two.peaks.map((p) => p.area)).toEqual([10, 20])
     expect(two.warnings.join(' ')).toMatch(/second table starts at row 7/)
     expect(parsePeakTable('RT;Area\n1,0;10\n2,0;20\nΣ;;30\n').peaks).toHaveLength(2)
     expect(parsePeakTable('RT,Area\n1.0,\u221210\n').errors[0]!.code).toBe('negative-value')
@@ -160,7 +160,7 @@ describe('parsePeakTable refusals', () => {
 
   it('lists every bad row, not only the first', () => {
     const r = parsePeakTable('RT,Area\n1.0,-5\n2.0,abc\nx,3\n')
-    expect(r.errors.map(e => [e.row, e.code])).toEqual([[2, 'negative-value'], [3, 'non-numeric'], [4, 'non-numeric']])
+    expect(r.errors.map((e) => [e.row, e.code])).toEqual([[2, 'negative-value'], [3, 'non-numeric'], [4, 'non-numeric']])
   })
 
   it('refuses more than 5,000 data rows at the first row beyond the limit', () => {
@@ -200,7 +200,7 @@ describe('assignPeaks', () => {
     expect(r.molePercents).toEqual([{ smiles: 'A', percent: expect.closeTo(100 / 3, 10) }, { smiles: 'B', percent: expect.closeTo(200 / 3, 10) }])
     expect(r.solvent!.area).toBe(99999)
     expect(r.startingMaterial!.area).toBe(50)
-    expect(r.unassigned.map(p => p.retentionTime)).toEqual([5])
+    expect(r.unassigned.map((p) => p.retentionTime)).toEqual([5])
     expect(r.unassignedPercent).toBeCloseTo((40 / 490) * 100, 10)
     expect(r.conversion).toBeCloseTo((300 / 350) * 100, 10)
     expect(r.flags).toEqual([])
@@ -221,22 +221,22 @@ describe('assignPeaks', () => {
   it('flags a split peak and adds the areas', () => {
     const r = assignPeaks([peak(2.45, 6), peak(2.55, 4), peak(3.05, 10), peak(3.45, 10)], W)
     expect(r.products[0]!.area).toBe(10)
-    expect(r.flags.map(f => f.code)).toEqual(['split-peak'])
+    expect(r.flags.map((f) => f.code)).toEqual(['split-peak'])
     expect(r.flags[0]!.retentionTimes).toEqual([2.45, 2.55])
   })
 
   it('flags unassigned area above the threshold (solvent excluded)', () => {
     const base = [peak(0.6, 1e6), peak(2.5, 40), peak(3.05, 30), peak(3.45, 24)]
-    expect(assignPeaks([...base, peak(5, 6)], W, { solvent: { rtMin: 0.4, rtMax: 0.8 } }).flags.map(f => f.code)).toEqual(['unassigned-area'])
+    expect(assignPeaks([...base, peak(5, 6)], W, { solvent: { rtMin: 0.4, rtMax: 0.8 } }).flags.map((f) => f.code)).toEqual(['unassigned-area'])
     expect(assignPeaks([...base, peak(5, 4)], W, { solvent: { rtMin: 0.4, rtMax: 0.8 } }).flags).toEqual([])
-    expect(assignPeaks([...base, peak(5, 4)], W, { solvent: { rtMin: 0.4, rtMax: 0.8 }, unassignedThresholdPercent: 3 }).flags.map(f => f.code)).toEqual(['unassigned-area'])
+    expect(assignPeaks([...base, peak(5, 4)], W, { solvent: { rtMin: 0.4, rtMax: 0.8 }, unassignedThresholdPercent: 3 }).flags.map((f) => f.code)).toEqual(['unassigned-area'])
   })
 
   it('flags area % that does not sum to 100 ± 0.5', () => {
     const ok = [peak(2.5, 40, { areaPercent: 40.2 }), peak(3.05, 30, { areaPercent: 30 }), peak(3.45, 30, { areaPercent: 30.2 })]
     expect(assignPeaks(ok, W).flags).toEqual([])
     const off = [peak(2.5, 40, { areaPercent: 40 }), peak(3.05, 30, { areaPercent: 30 }), peak(3.45, 30, { areaPercent: 29 })]
-    expect(assignPeaks(off, W).flags.map(f => f.code)).toEqual(['area-percent-sum'])
+    expect(assignPeaks(off, W).flags.map((f) => f.code)).toEqual(['area-percent-sum'])
   })
 
   it('flags retention drift at a window edge and just outside it', () => {
@@ -248,26 +248,26 @@ describe('assignPeaks', () => {
 
   it('leaves out negative and non-numeric peaks with an error flag', () => {
     const r = assignPeaks([peak(2.5, -3), peak(Number.NaN, 3), peak(2.5, 10), peak(3.05, 10), peak(3.45, 10)], W)
-    expect(r.flags.map(f => f.code).sort()).toEqual(['negative-value', 'non-numeric'])
-    expect(r.molePercents.map(m => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map(v => expect.closeTo(v, 10)))
+    expect(r.flags.map((f) => f.code).sort()).toEqual(['negative-value', 'non-numeric'])
+    expect(r.molePercents.map((m) => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map((v) => expect.closeTo(v, 10)))
   })
 
   it('leaves out absurd peaks and keeps every share finite', () => {
     const r = assignPeaks([peak(2.5, 1e308), peak(3.05, 10), peak(3.45, 10), peak(2.45, 10)], W)
-    expect(r.flags.map(f => f.code)).toContain('out-of-range')
-    expect(r.molePercents.map(m => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map(v => expect.closeTo(v, 10)))
-    expect(assignPeaks([peak(2.5, 10), peak(3.05, 10), peak(3.45, 10), peak(40_000, 5)], W).flags.map(f => f.code)).toContain('out-of-range')
+    expect(r.flags.map((f) => f.code)).toContain('out-of-range')
+    expect(r.molePercents.map((m) => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map((v) => expect.closeTo(v, 10)))
+    expect(assignPeaks([peak(2.5, 10), peak(3.05, 10), peak(3.45, 10), peak(40_000, 5)], W).flags.map((f) => f.code)).toContain('out-of-range')
     // A response factor near zero makes a corrected area overflow: no share is then better than NaN or a guess.
     const tinyRf = assignPeaks([peak(2.5, 1e15), peak(3.05, 1e15)], [{ ...W[0]!, responseFactor: 1e-300 }, { ...W[1]!, responseFactor: 1e-300 }])
-    expect(tinyRf.molePercents.every(m => m.percent === null)).toBe(true)
+    expect(tinyRf.molePercents.every((m) => m.percent === null)).toBe(true)
     const largeRf = assignPeaks([peak(2.5, 1e15), peak(3.05, 1e15)], [{ ...W[0]!, responseFactor: 1e-293 }, { ...W[1]!, responseFactor: 1e-293 }])
-    expect(largeRf.molePercents.map(m => m.percent)).toEqual([50, 50])
+    expect(largeRf.molePercents.map((m) => m.percent)).toEqual([50, 50])
   })
 
   it('flags a table with no product area at all', () => {
     const r = assignPeaks([peak(7, 100)], W)
-    expect(r.molePercents.every(m => m.percent === null)).toBe(true)
-    expect(r.flags.map(f => f.code)).toContain('no-product-peaks')
+    expect(r.molePercents.every((m) => m.percent === null)).toBe(true)
+    expect(r.flags.map((f) => f.code)).toContain('no-product-peaks')
   })
 
   it('refuses unusable windows', () => {
@@ -278,7 +278,7 @@ describe('assignPeaks', () => {
     expect(() => assignPeaks([], W, { solvent: { rtMin: Number.NaN, rtMax: 1 } })).toThrow(/solvent/)
   })
 
-  const inWindow = fc.constantFrom(...W).chain(w => fc.double({ min: w.rtMin, max: w.rtMax, noNaN: true }))
+  const inWindow = fc.constantFrom(...W).chain((w) => fc.double({ min: w.rtMin, max: w.rtMax, noNaN: true }))
   const anyPeak = fc.record({ retentionTime: fc.oneof(inWindow, fc.double({ min: 0, max: 5, noNaN: true })), area: fc.double({ min: 0, max: 1e7, noNaN: true }) })
   const peakList = fc.tuple(fc.record({ retentionTime: inWindow, area: fc.double({ min: 1, max: 1e7, noNaN: true }) }), fc.array(anyPeak, { maxLength: 11 }))
     .map(([first, rest]) => [first, ...rest])
@@ -286,18 +286,18 @@ describe('assignPeaks', () => {
   it('scaling every area by a constant leaves the mole % unchanged (property)', () => {
     fc.assert(fc.property(peakList, fc.double({ min: 1e-3, max: 1e3, noNaN: true }), (peaks, k) => {
       const a = assignPeaks(peaks, W).molePercents
-      const b = assignPeaks(peaks.map(p => ({ ...p, area: p.area * k })), W).molePercents
+      const b = assignPeaks(peaks.map((p) => ({ ...p, area: p.area * k })), W).molePercents
       b.forEach((m, i) => expect(m.percent).toBeCloseTo(a[i]!.percent!, 8))
     }), { numRuns: 200 })
   })
 
   it('the order of peaks does not matter (property)', () => {
     fc.assert(fc.property(peakList, fc.integer(), (peaks, seed) => {
-      const shuffled = [...peaks].map((p, i) => ({ p, k: Math.sin(seed + i * 12.9898) })).sort((x, y) => x.k - y.k).map(x => x.p)
+      const shuffled = [...peaks].map((p, i) => ({ p, k: Math.sin(seed + i * 12.9898) })).sort((x, y) => x.k - y.k).map((x) => x.p)
       const a = assignPeaks(peaks, W)
       const b = assignPeaks(shuffled, W)
       b.molePercents.forEach((m, i) => expect(m.percent).toBeCloseTo(a.molePercents[i]!.percent!, 8))
-      expect(b.flags.map(f => f.code).sort()).toEqual(a.flags.map(f => f.code).sort())
+      expect(b.flags.map((f) => f.code).sort()).toEqual(a.flags.map((f) => f.code).sort())
     }), { numRuns: 200 })
   })
 })
@@ -312,19 +312,19 @@ describe('end to end with simulated runs (invented data)', () => {
   const distribution = [{ smiles: 'ClCCCCCl', percent: 25 }, { smiles: 'CC(Cl)CCCl', percent: 45 }, { smiles: 'CCC(Cl)CCl', percent: 23 }, { smiles: 'CCCC(Cl)Cl', percent: 7 }]
   const solvent = { rtMin: 1.0, rtMax: 1.4 }
 
-  it.each(['csv', 'semicolon-decimal-comma', 'tab', 'aligned', 'csv-seconds'] as const)('recovers the mole %% from a %s export', style => {
+  it.each(['csv', 'semicolon-decimal-comma', 'tab', 'aligned', 'csv-seconds'] as const)('recovers the mole %% from a %s export', (style) => {
     const sim = simulatePeakTable({ seed: 11, windows, distribution, areaNoise: 0, style, solvent: { retentionTime: 1.2, area: 5e6 } })
     const parsed = parsePeakTable(sim.text)
     expect(parsed.errors).toEqual([])
     const r = assignPeaks(parsed.peaks, windows, { solvent })
-    for (const d of distribution) expect(r.molePercents.find(m => m.smiles === d.smiles)!.percent).toBeCloseTo(d.percent, 1)
-    expect(r.flags.filter(f => f.severity !== 'info')).toEqual([])
+    for (const d of distribution) expect(r.molePercents.find((m) => m.smiles === d.smiles)!.percent).toBeCloseTo(d.percent, 1)
+    expect(r.flags.filter((f) => f.severity !== 'info')).toEqual([])
   })
 
   it('catches the classic bad runs', () => {
     const run = (fault: 'solvent-as-product' | 'missing-product' | 'split-peak', faultProduct = 1) => {
       const sim = simulatePeakTable({ seed: 5, windows, distribution, fault, faultProduct, solvent: { retentionTime: 1.2, area: 5e6 } })
-      return assignPeaks(parsePeakTable(sim.text).peaks, windows, { solvent }).flags.map(f => f.code)
+      return assignPeaks(parsePeakTable(sim.text).peaks, windows, { solvent }).flags.map((f) => f.code)
     }
     expect(run('solvent-as-product')).toEqual(expect.arrayContaining(['split-peak', 'missing-solvent']))
     expect(run('missing-product')).toContain('missing-product')

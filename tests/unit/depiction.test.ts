@@ -3,7 +3,7 @@ import { depictSubstrate, positionLetter } from '../../shared/utils/depiction'
 import { SubstrateError } from '../../shared/utils/halogenation'
 
 const tags = (svg: string) => [...svg.matchAll(/<g><circle cx="([-\d.]+)" cy="([-\d.]+)" r="([\d.]+)"[^>]*\/><text[^>]*>([^<]+)<\/text><\/g>/g)]
-  .map(m => ({ x: Number(m[1]), y: Number(m[2]), r: Number(m[3]), label: m[4]! }))
+  .map((m) => ({ x: Number(m[1]), y: Number(m[2]), r: Number(m[3]), label: m[4]! }))
 
 describe('positionLetter', () => {
   it('letters a … z, then aa, ab', () => {
@@ -15,7 +15,7 @@ describe('depictSubstrate', () => {
   it('draws 2-methylbutane with one tag per carbon, lettered in product order', () => {
     const svg = depictSubstrate('CCC(C)C')
     expect(svg.startsWith('<svg xmlns="http://www.w3.org/2000/svg"')).toBe(true)
-    expect(tags(svg).map(t => t.label)).toEqual(['a', 'b', 'c', 'd', 'd'])
+    expect(tags(svg).map((t) => t.label)).toEqual(['a', 'b', 'c', 'd', 'd'])
     expect((svg.match(/<line /g) ?? []).length).toBe(4)
   })
 
@@ -45,12 +45,12 @@ describe('depictSubstrate', () => {
 
   it('draws halogen labels and a lone carbon', () => {
     expect(depictSubstrate('CCCCCl')).toMatch(/>Cl<\/text>/)
-    expect(tags(depictSubstrate('C')).map(t => t.label)).toEqual(['a'])
+    expect(tags(depictSubstrate('C')).map((t) => t.label)).toEqual(['a'])
   })
 
   it('takes explicit labels or none', () => {
     expect(tags(depictSubstrate('CCC', { labels: false }))).toEqual([])
-    expect(tags(depictSubstrate('CCC', { labels: [{ atoms: [1], label: 'x' }] })).map(t => t.label)).toEqual(['x'])
+    expect(tags(depictSubstrate('CCC', { labels: [{ atoms: [1], label: 'x' }] })).map((t) => t.label)).toEqual(['x'])
   })
 
   it('is deterministic', () => {

@@ -1,9 +1,8 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import { createEnginePool, EngineBusyError, EngineTimeoutError, type EnginePool, type EnginePoolOptions } from '../../server/engines/pool'
 import { SubstrateError } from '../../shared/utils/halogenation'
-import { RunInputError } from '../../shared/utils/submission'
+import { RunInputError, practicalChemistryOf } from '../../shared/utils/submission'
 import { UploadFormatError } from '../../shared/utils/lib/upload-content'
-import { practicalChemistryOf } from '../../shared/utils/submission'
 
 // The worker-thread pool the server runs its engines in, driven with the real worker module.
 // "Slow" below is the explorer's heaviest valid request: a 40-carbon chain with a drawing of

@@ -92,9 +92,9 @@ const GOOD: Good[] = [
 
 /** Mole % straight from the listed numbers: the area in each window over the area in all windows. */
 function molePercentFrom(rts: number[], areas: number[], products: ProductWindow[]): number[] {
-  const inWindow = products.map(w => rts.reduce((s, rt, i) => (rt >= w.rtMin && rt <= w.rtMax ? s + areas[i]! : s), 0))
+  const inWindow = products.map((w) => rts.reduce((s, rt, i) => (rt >= w.rtMin && rt <= w.rtMax ? s + areas[i]! : s), 0))
   const total = inWindow.reduce((s, a) => s + a, 0)
-  return inWindow.map(a => (a / total) * 100)
+  return inWindow.map((a) => (a / total) * 100)
 }
 
 describe('invented exports read right', () => {
@@ -105,16 +105,16 @@ describe('invented exports read right', () => {
   it.each(GOOD)('$file', (f) => {
     const r = parsePeakTable(read(f.file))
     expect(r.errors).toEqual([])
-    expect(r.peaks.map(p => p.retentionTime)).toEqual(f.rts.map(v => expect.closeTo(v, 6)))
-    expect(r.peaks.map(p => p.area)).toEqual(f.areas.map(v => expect.closeTo(v, 6)))
-    expect(r.peaks.every(p => (p.height !== undefined) === !!f.heights)).toBe(true)
-    if (f.percent) expect(r.peaks.every(p => typeof p.areaPercent === 'number')).toBe(true)
+    expect(r.peaks.map((p) => p.retentionTime)).toEqual(f.rts.map((v) => expect.closeTo(v, 6)))
+    expect(r.peaks.map((p) => p.area)).toEqual(f.areas.map((v) => expect.closeTo(v, 6)))
+    expect(r.peaks.every((p) => (p.height !== undefined) === !!f.heights)).toBe(true)
+    if (f.percent) expect(r.peaks.every((p) => typeof p.areaPercent === 'number')).toBe(true)
     expect(r.meta!.areaSource).toBe(f.areaSource ?? 'area')
     if (f.warning) expect(r.warnings.join(' ')).toMatch(f.warning)
     const { products, options } = WINDOWS[f.windows]!
     const expected = molePercentFrom(f.rts, f.areas, products)
     const got = assignPeaks(r.peaks, products, options).molePercents
-    expect(got.map(m => m.percent)).toEqual(expected.map(v => expect.closeTo(v, 6)))
+    expect(got.map((m) => m.percent)).toEqual(expected.map((v) => expect.closeTo(v, 6)))
   })
 
   it('reads the reported tab and semicolon files as the 0.5 % of 1,1-dichlorobutane their numbers give', () => {

@@ -21,7 +21,7 @@ const NCERT: Reactivity = { primary: 1, secondary: 3.8, tertiary: 5.0 }
 const SUBSTRATES = ['CCC', 'CCCC', 'CC(C)C', 'CCC(C)C', 'CCCCCl', 'CC(C)C(C)C', 'C1CCCCC1', 'CCCCCCC', 'CC1CCCCC1', 'C', 'ClCCl', 'CC(C)(C)C', 'C1CC2CCC1C2', 'CC(Br)CC', 'FC(F)(F)CC']
 
 const bySmiles = (smiles: string, halogen: 'Cl' | 'Br' = 'Cl') =>
-  new Map(analyzeSubstrate(smiles, { halogen }).products.map(p => [p.smiles, p]))
+  new Map(analyzeSubstrate(smiles, { halogen }).products.map((p) => [p.smiles, p]))
 
 describe('analyzeSubstrate', () => {
   it('propane gives two products: 1-chloro (6 primary H) and 2-chloro (2 secondary H)', () => {
@@ -40,22 +40,22 @@ describe('analyzeSubstrate', () => {
 
   it('1-chlorobutane gives the four dichlorobutanes (PRODUCT.md), C1 classed by its carbons', () => {
     const a = analyzeSubstrate('CCCCCl')
-    expect(new Set(a.products.map(p => p.smiles))).toEqual(new Set(['ClC(Cl)CCC', 'ClCC(Cl)CC', 'ClCCC(Cl)C', 'ClCCCCCl'].map(canonicalSmiles)))
-    expect(a.products.find(p => p.smiles === canonicalSmiles('ClC(Cl)CCC'))).toMatchObject({ hydrogens: 2, carbonClass: 'primary', atoms: [3] })
-    expect(a.products.find(p => p.smiles === canonicalSmiles('ClCCCCCl'))).toMatchObject({ hydrogens: 3, carbonClass: 'primary', atoms: [0] })
+    expect(new Set(a.products.map((p) => p.smiles))).toEqual(new Set(['ClC(Cl)CCC', 'ClCC(Cl)CC', 'ClCCC(Cl)C', 'ClCCCCCl'].map(canonicalSmiles)))
+    expect(a.products.find((p) => p.smiles === canonicalSmiles('ClC(Cl)CCC'))).toMatchObject({ hydrogens: 2, carbonClass: 'primary', atoms: [3] })
+    expect(a.products.find((p) => p.smiles === canonicalSmiles('ClCCCCCl'))).toMatchObject({ hydrogens: 3, carbonClass: 'primary', atoms: [0] })
     expect(a.formula).toBe('C4H9Cl')
   })
 
   it("treats the two methyls of 2-methylbutane's isopropyl end as one site", () => {
     const a = analyzeSubstrate('CCC(C)C')
     expect(a.products).toHaveLength(4)
-    expect(a.products.find(p => p.smiles === canonicalSmiles('ClCC(C)CC'))).toMatchObject({ hydrogens: 6, atoms: [3, 4] })
-    expect(a.products.find(p => p.smiles === canonicalSmiles('CCC(C)(C)Cl'))).toMatchObject({ hydrogens: 1, carbonClass: 'tertiary' })
+    expect(a.products.find((p) => p.smiles === canonicalSmiles('ClCC(C)CC'))).toMatchObject({ hydrogens: 6, atoms: [3, 4] })
+    expect(a.products.find((p) => p.smiles === canonicalSmiles('CCC(C)(C)Cl'))).toMatchObject({ hydrogens: 1, carbonClass: 'tertiary' })
   })
 
   it('ignores stereo: 2-chlorobutane written with a stereocentre gives the constitutional products', () => {
-    expect(analyzeSubstrate('C[C@H](Cl)CC').products.map(p => p.smiles).sort())
-      .toEqual(analyzeSubstrate('CC(Cl)CC').products.map(p => p.smiles).sort())
+    expect(analyzeSubstrate('C[C@H](Cl)CC').products.map((p) => p.smiles).sort())
+      .toEqual(analyzeSubstrate('CC(Cl)CC').products.map((p) => p.smiles).sort())
     expect(analyzeSubstrate('C[C@H](Cl)CC').products).toHaveLength(4)
   })
 
@@ -70,7 +70,7 @@ describe('analyzeSubstrate', () => {
 
   it('distinguishes bridgehead, exo/endo-equivalent and bridge carbons of norbornane', () => {
     const a = analyzeSubstrate('C1CC2CCC1C2')
-    expect(a.products.map(p => [p.hydrogens, p.carbonClass])).toEqual([[8, 'secondary'], [2, 'tertiary'], [2, 'secondary']])
+    expect(a.products.map((p) => [p.hydrogens, p.carbonClass])).toEqual([[8, 'secondary'], [2, 'tertiary'], [2, 'secondary']])
   })
 
   it('molar masses match IUPAC standard atomic weights (PRODUCT.md check values)', () => {
@@ -109,7 +109,7 @@ function randomSmiles(mol: Molecule, rand: () => number): string {
   const n = mol.getAtoms()
   const order = (a: number) => {
     const ns = Array.from({ length: mol.getConnAtoms(a) }, (_, i) => mol.getConnAtom(a, i))
-    return ns.map(v => [v, rand()] as const).sort((x, y) => x[1] - y[1]).map(x => x[0])
+    return ns.map((v) => [v, rand()] as const).sort((x, y) => x[1] - y[1]).map((x) => x[0])
   }
   const neighbours = Array.from({ length: n }, (_, a) => order(a))
   const start = Math.floor(rand() * n)
@@ -137,10 +137,10 @@ function randomSmiles(mol: Molecule, rand: () => number): string {
   }
   visit(start, -1)
   const write = (a: number): string => {
-    const digits = [...(opens.get(a) ?? []), ...(closes.get(a) ?? [])].map(l => (l < 10 ? String(l) : `%${l}`)).join('')
-    const children = neighbours[a]!.filter(v => parent[v] === a)
+    const digits = [...(opens.get(a) ?? []), ...(closes.get(a) ?? [])].map((l) => (l < 10 ? String(l) : `%${l}`)).join('')
+    const children = neighbours[a]!.filter((v) => parent[v] === a)
     const parts = children.map(write)
-    return mol.getAtomLabel(a) + digits + parts.slice(0, -1).map(s => `(${s})`).join('') + (parts[parts.length - 1] ?? '')
+    return mol.getAtomLabel(a) + digits + parts.slice(0, -1).map((s) => `(${s})`).join('') + (parts[parts.length - 1] ?? '')
   }
   return write(start)
 }
@@ -161,7 +161,7 @@ describe('canonicalSmiles', () => {
     const rand = () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 2 ** 32)
     const variants = new Set(Array.from({ length: 30 }, () => randomSmiles(Molecule.fromSmiles('CC1CCC(Cl)CC1'), rand)))
     expect(variants.size).toBeGreaterThan(5)
-    expect([...variants].every(v => canonicalSmiles(v) === canonicalSmiles('CC1CCC(Cl)CC1'))).toBe(true)
+    expect([...variants].every((v) => canonicalSmiles(v) === canonicalSmiles('CC1CCC(Cl)CC1'))).toBe(true)
   })
 
   it('drops stereo and explicit hydrogens', () => {
@@ -176,7 +176,7 @@ describe('canonicalSmiles', () => {
 
 describe('predictDistribution', () => {
   it('2-methylbutane at 1 : 3.8 : 5.0 gives 27.8 / 23.1 / 35.2 / 13.9 % (NCERT Chemistry class XI worked example)', () => {
-    const pred = new Map(predictDistribution(analyzeSubstrate('CCC(C)C'), NCERT).map(p => [p.smiles, p]))
+    const pred = new Map(predictDistribution(analyzeSubstrate('CCC(C)C'), NCERT).map((p) => [p.smiles, p]))
     expect(pred.get(canonicalSmiles('ClCC(C)CC'))!.percent.toFixed(1)).toBe('27.8') // 1-chloro-2-methylbutane
     expect(pred.get(canonicalSmiles('CCC(C)(C)Cl'))!.percent.toFixed(1)).toBe('23.1') // 2-chloro-2-methylbutane
     expect(pred.get(canonicalSmiles('CC(Cl)C(C)C'))!.percent.toFixed(1)).toBe('35.2') // 2-chloro-3-methylbutane
@@ -186,7 +186,7 @@ describe('predictDistribution', () => {
   it('2-methylbutane class totals 41.7 % primary, 35.2 % secondary, 23.1 % tertiary (same NCERT example)', () => {
     const totals = { primary: 0, secondary: 0, tertiary: 0 }
     for (const p of predictDistribution(analyzeSubstrate('CCC(C)C'), NCERT)) totals[p.carbonClass] += p.percent
-    expect([totals.primary, totals.secondary, totals.tertiary].map(v => v.toFixed(1))).toEqual(['41.7', '35.2', '23.1'])
+    expect([totals.primary, totals.secondary, totals.tertiary].map((v) => v.toFixed(1))).toEqual(['41.7', '35.2', '23.1'])
   })
 
   it('percentages sum to 100 for any substrate and reactivity (property)', () => {
@@ -208,7 +208,7 @@ describe('predictDistribution', () => {
     expect(hot.tertiary).toBeCloseTo(5 ** (298.15 / 353.15), 10)
     expect(scaleReactivity(NCERT, 25, 25)).toEqual(NCERT)
     const a = analyzeSubstrate('CC(C)C')
-    const tertiary = (t: number) => predictDistribution(a, NCERT, { temperatureC: t }).find(p => p.carbonClass === 'tertiary')!.percent
+    const tertiary = (t: number) => predictDistribution(a, NCERT, { temperatureC: t }).find((p) => p.carbonClass === 'tertiary')!.percent
     expect(tertiary(25)).toBeGreaterThan(tertiary(100))
     expect(tertiary(100)).toBeGreaterThan(tertiary(300))
   })
@@ -233,7 +233,7 @@ describe('relativeReactivities', () => {
     expect(r.factors.secondaryToPrimary).toBeCloseTo(3.67, 2)
     expect(r.factors.tertiaryToPrimary).toBeNull()
     expect(r.factorNotes.tertiaryToPrimary).toMatch(/no tertiary/)
-    expect(r.products.find(p => p.carbonClass === 'secondary')!.relativeReactivity).toBeCloseTo(3.667, 3)
+    expect(r.products.find((p) => p.carbonClass === 'secondary')!.relativeReactivity).toBeCloseTo(3.667, 3)
     expect(r.warnings).toEqual([])
   })
 
@@ -244,14 +244,14 @@ describe('relativeReactivities', () => {
       (smiles, r) => {
         const reactivity = { primary: 1, ...r }
         const analysis = analyzeSubstrate(smiles)
-        const observed = predictDistribution(analysis, reactivity).map(p => ({ smiles: p.smiles, percent: p.percent }))
+        const observed = predictDistribution(analysis, reactivity).map((p) => ({ smiles: p.smiles, percent: p.percent }))
         const back = relativeReactivities(analysis, observed)
-        const primaries = analysis.products.some(p => p.carbonClass === 'primary')
+        const primaries = analysis.products.some((p) => p.carbonClass === 'primary')
         for (const p of back.products) {
           if (primaries) expect(p.relativeReactivity).toBeCloseTo(reactivity[p.carbonClass], 6)
         }
-        if (primaries && analysis.products.some(p => p.carbonClass === 'secondary')) expect(back.factors.secondaryToPrimary).toBeCloseTo(reactivity.secondary, 6)
-        if (primaries && analysis.products.some(p => p.carbonClass === 'tertiary')) expect(back.factors.tertiaryToPrimary).toBeCloseTo(reactivity.tertiary, 6)
+        if (primaries && analysis.products.some((p) => p.carbonClass === 'secondary')) expect(back.factors.secondaryToPrimary).toBeCloseTo(reactivity.secondary, 6)
+        if (primaries && analysis.products.some((p) => p.carbonClass === 'tertiary')) expect(back.factors.tertiaryToPrimary).toBeCloseTo(reactivity.tertiary, 6)
       },
     ), { numRuns: 150 })
   })
@@ -276,7 +276,7 @@ describe('relativeReactivities', () => {
     const r = relativeReactivities(analyzeSubstrate('CC(C)C'), [{ smiles: 'CC(C)(C)Cl', percent: 100 }])
     expect(r.factors.tertiaryToPrimary).toBeNull()
     expect(r.factorNotes.tertiaryToPrimary).toMatch(/No primary product/)
-    expect(r.products.every(p => p.relativeReactivity === null)).toBe(true)
+    expect(r.products.every((p) => p.relativeReactivity === null)).toBe(true)
   })
 
   it('uses the first site as reference for a substrate without primary C–H (cyclohexane)', () => {
@@ -288,7 +288,7 @@ describe('relativeReactivities', () => {
 
   it('accepts an explicit reference site and rescales percentages that do not sum to 100', () => {
     const r = relativeReactivities(analyzeSubstrate('CCC'), [{ smiles: 'ClCCC', percent: 9 }, { smiles: 'CC(C)Cl', percent: 11 }], { reference: 'CC(Cl)C' })
-    expect(r.products.find(p => p.carbonClass === 'primary')!.relativeReactivity).toBeCloseTo(1 / 3.667, 3)
+    expect(r.products.find((p) => p.carbonClass === 'primary')!.relativeReactivity).toBeCloseTo(1 / 3.667, 3)
     expect(r.warnings.join(' ')).toMatch(/rescaled/)
     expect(() => relativeReactivities(analyzeSubstrate('CCC'), [{ smiles: 'ClCCC', percent: 50 }], { reference: 'CCCCCl' })).toThrow(/reference/)
   })
@@ -303,7 +303,7 @@ describe('relativeReactivities', () => {
     const tiny = relativeReactivities(a, [{ smiles: 'C(Cl)C(C)C', percent: 1e-306 }, { smiles: 'ClC(C)(C)C', percent: 50 }])
     expect(tiny.factors.tertiaryToPrimary).toBeNull()
     expect(tiny.factorNotes.tertiaryToPrimary).toMatch(/too small/)
-    expect(tiny.products.every(p => p.relativeReactivity === null || Number.isFinite(p.relativeReactivity))).toBe(true)
+    expect(tiny.products.every((p) => p.relativeReactivity === null || Number.isFinite(p.relativeReactivity))).toBe(true)
   })
 
   it('refuses duplicates, negative and empty observations', () => {
@@ -377,7 +377,7 @@ describe('seed data', () => {
       expect(analyzeSubstrate(s.smiles).products.length).toBeGreaterThan(0)
       expect(s.source).toMatch(/from memory/)
     }
-    expect(TEACHING_SUBSTRATES.find(s => s.id === '1-chlorobutane')!.density).toBe(0.886) // CRC Handbook, from memory
-    expect(TEACHING_SUBSTRATES.find(s => s.id === '2,3-dimethylbutane')!.density).toBe(0.662) // CRC Handbook, from memory
+    expect(TEACHING_SUBSTRATES.find((s) => s.id === '1-chlorobutane')!.density).toBe(0.886) // CRC Handbook, from memory
+    expect(TEACHING_SUBSTRATES.find((s) => s.id === '2,3-dimethylbutane')!.density).toBe(0.662) // CRC Handbook, from memory
   })
 })

@@ -13,11 +13,11 @@ const TRUTH = [
 ]
 
 function match<T extends { retentionTime: number }>(found: T[], rt: number): T[] {
-  return found.filter(p => Math.abs(p.retentionTime - rt) < 0.03)
+  return found.filter((p) => Math.abs(p.retentionTime - rt) < 0.03)
 }
 
 describe('detectPeaks on synthetic Gaussian peaks', () => {
-  it.each([1, 2, 3, 4])('recovers every area within 1 %% on a sloping noisy baseline, 100,000 points (seed %i)', seed => {
+  it.each([1, 2, 3, 4])('recovers every area within 1 %% on a sloping noisy baseline, 100,000 points (seed %i)', (seed) => {
     const trace = simulateTrace({ seed, peaks: TRUTH, duration: 20, points: 100_000, baseline: { offset: 50, slope: 3 }, noise: 0.2 })
     const r = detectPeaks(trace)
     expect(r.peaks).toHaveLength(TRUTH.length)
@@ -40,19 +40,19 @@ describe('detectPeaks on synthetic Gaussian peaks', () => {
 
   it('is exact on a noiseless trace', () => {
     const r = detectPeaks(simulateTrace({ seed: 1, peaks: [{ retentionTime: 3, area: 1, sigma: 0.02 }, { retentionTime: 6, area: 2, sigma: 0.03 }], duration: 10, points: 20_000, baseline: { offset: 10, slope: 1 }, noise: 0 }))
-    expect(r.peaks.map(p => p.area)).toEqual([expect.closeTo(1, 4), expect.closeTo(2, 4)])
+    expect(r.peaks.map((p) => p.area)).toEqual([expect.closeTo(1, 4), expect.closeTo(2, 4)])
     expect(r.peaks[0]!.widthAtHalfHeight).toBeCloseTo(2.3548 * 0.02, 3)
   })
 
   it('works with few points per peak', () => {
     const r = detectPeaks(simulateTrace({ seed: 2, peaks: [{ retentionTime: 3, area: 1, sigma: 0.05 }, { retentionTime: 6, area: 2, sigma: 0.05 }], duration: 10, points: 800, noise: 0.01 }))
-    expect(r.peaks.map(p => p.area)).toEqual([expect.closeTo(1, 1), expect.closeTo(2, 1)])
+    expect(r.peaks.map((p) => p.area)).toEqual([expect.closeTo(1, 1), expect.closeTo(2, 1)])
   })
 
   it('finds nothing in baseline noise, and says so', () => {
     const r = detectPeaks(simulateTrace({ seed: 4, peaks: [], duration: 10, points: 20_000, baseline: { offset: 5, slope: 2 }, noise: 0.3 }))
     expect(r.peaks).toEqual([])
-    expect(r.flags.map(f => f.code)).toEqual(['no-peaks'])
+    expect(r.flags.map((f) => f.code)).toEqual(['no-peaks'])
   })
 
   it('drops peaks under minHeight', () => {
@@ -71,7 +71,7 @@ describe('detectPeaks overlap', () => {
 
   it('splits a resolved pair (resolution 1.5) without a flag', () => {
     const r = detectPeaks(pair(6))
-    expect(r.peaks.map(p => p.area)).toEqual([expect.closeTo(1, 2), expect.closeTo(1, 2)])
+    expect(r.peaks.map((p) => p.area)).toEqual([expect.closeTo(1, 2), expect.closeTo(1, 2)])
     expect(r.flags).toEqual([])
   })
 
@@ -79,13 +79,13 @@ describe('detectPeaks overlap', () => {
     const r = detectPeaks(pair(3))
     expect(r.peaks).toHaveLength(2)
     expect(r.flags).toEqual([expect.objectContaining({ code: 'overlap', retentionTimes: [expect.closeTo(3, 2), expect.closeTo(3.06, 2)] })])
-    expect(r.peaks.every(p => p.overlapped)).toBe(true)
+    expect(r.peaks.every((p) => p.overlapped)).toBe(true)
   })
 
   it('flags an unresolved shoulder (no valley)', () => {
     const r = detectPeaks(pair(2.4, 0.4))
     expect(r.peaks).toHaveLength(1)
-    expect(r.flags.map(f => f.code)).toEqual(['overlap'])
+    expect(r.flags.map((f) => f.code)).toEqual(['overlap'])
     expect(r.flags[0]!.message).toMatch(/shoulder/)
   })
 })

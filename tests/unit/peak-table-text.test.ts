@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import { parsePeakTable, parseTrace, type ParsedPeakTable } from '../../shared/utils/chromatography'
 
-const areas = (r: ParsedPeakTable) => r.peaks.map(p => p.area)
-const rts = (r: ParsedPeakTable) => r.peaks.map(p => p.retentionTime)
+const areas = (r: ParsedPeakTable) => r.peaks.map((p) => p.area)
+const rts = (r: ParsedPeakTable) => r.peaks.map((p) => p.retentionTime)
 
 describe('thousands separators and decimal marks', () => {
   it('reads a comma as a thousands separator when the retention times use decimal points', () => {
@@ -30,7 +30,7 @@ describe('thousands separators and decimal marks', () => {
   it('refuses a mark nothing in the file explains, naming both readings', () => {
     const r = parsePeakTable('RT [s];Area\n206;987\n236;45,769\n272;96,376\n')
     expect(r.peaks).toEqual([])
-    expect(r.errors.map(e => [e.row, e.code])).toEqual([[3, 'ambiguous-number'], [4, 'ambiguous-number']])
+    expect(r.errors.map((e) => [e.row, e.code])).toEqual([[3, 'ambiguous-number'], [4, 'ambiguous-number']])
     expect(r.errors[0]!.message).toMatch(/^Row 3: the area 45,769 could be 45769 or 45\.769/)
     expect(parsePeakTable('RT [s];Area\n206;987\n236;45.292\n').errors[0]!.message).toMatch(/45\.292 could be 45292 or 45\.292/)
   })
@@ -69,12 +69,12 @@ describe('thousands separators and decimal marks', () => {
   // Grouping a column's numbers never changes what is read: the same run written plain, with
   // "1,234.5" grouping, with "1.234,5" grouping (semicolon file) and with space groups.
   // Peak sizes spread over orders of magnitude, as in a run with a solvent peak and traces.
-  const sized = (maxDigits: number) => fc.integer({ min: 1, max: maxDigits }).chain(k => fc.integer({ min: 10 ** (k - 1), max: 10 ** k - 1 }))
+  const sized = (maxDigits: number) => fc.integer({ min: 1, max: maxDigits }).chain((k) => fc.integer({ min: 10 ** (k - 1), max: 10 ** k - 1 }))
   const run = fc.array(fc.record({
-    rt: fc.integer({ min: 5, max: 59_999 }).map(v => v / 1000),
-    area: sized(10).map(v => v / 10),
+    rt: fc.integer({ min: 5, max: 59_999 }).map((v) => v / 1000),
+    area: sized(10).map((v) => v / 10),
     height: sized(8),
-  }), { minLength: 1, maxLength: 12 }).map(rows => rows.filter((r, i) => rows.findIndex(x => x.rt === r.rt) === i))
+  }), { minLength: 1, maxLength: 12 }).map((rows) => rows.filter((r, i) => rows.findIndex((x) => x.rt === r.rt) === i))
 
   const group = (digits: string, sep: string) => digits.replace(/\B(?=(\d{3})+(?!\d))/g, sep)
   const write = (v: number, decimals: number, decimal: string, sep: string) => {
@@ -88,16 +88,16 @@ describe('thousands separators and decimal marks', () => {
       const table = (decimal: string, sep: string, delimiter: string, grouped: boolean) => {
         const g = (col: 'area' | 'height') => (grouped && (which === col || which === 'both') ? sep : '')
         const cell = (s: string) => (delimiter === ',' && s.includes(',') ? `"${s}"` : s)
-        return [['RT [min]', 'Area', 'Height'].join(delimiter), ...rows.map(r => [
+        return [['RT [min]', 'Area', 'Height'].join(delimiter), ...rows.map((r) => [
           r.rt.toFixed(3).replace('.', decimal), cell(write(r.area, d, decimal, g('area'))), cell(write(r.height, 0, decimal, g('height'))),
         ].join(delimiter))].join('\n')
       }
-      const expected = rows.map(r => [r.rt, Number(r.area.toFixed(d)), r.height])
+      const expected = rows.map((r) => [r.rt, Number(r.area.toFixed(d)), r.height])
       for (const [decimal, sep, delimiter] of [['.', ',', ','], ['.', ',', '\t'], [',', '.', ';'], [',', ' ', ';'], ['.', '\u00a0', '\t'], ['.', '\'', ',']]) {
         for (const grouped of [false, true]) {
           const r = parsePeakTable(table(decimal!, sep!, delimiter!, grouped))
           expect(r.errors).toEqual([])
-          expect(r.peaks.map(p => [p.retentionTime, p.area, p.height])).toEqual(expected)
+          expect(r.peaks.map((p) => [p.retentionTime, p.area, p.height])).toEqual(expected)
         }
       }
     }), { numRuns: 150 })
@@ -150,19 +150,19 @@ describe('header spellings', () => {
   ])('reads "%s" / "%s" / "%s"', (rt, area, height) => {
     const r = parsePeakTable(body(rt, area, height))
     expect(r.errors).toEqual([])
-    expect(r.peaks.map(p => [p.retentionTime, p.area, p.height])).toEqual([[2.514, 15234.5, 40], [3.087, 41020.1, 60]])
+    expect(r.peaks.map((p) => [p.retentionTime, p.area, p.height])).toEqual([[2.514, 15234.5, 40], [3.087, 41020.1, 60]])
   })
 
   it.each(['Area %', 'Fläche %', 'Area%', '% Area', 'Aire %', 'Área %', 'Area [%]', 'Rel. Area %', 'Oppervlakte %'])('reads "%s" as the area %%', (pct) => {
     const r = parsePeakTable(body('RT', 'Area', pct))
-    expect(r.peaks.map(p => p.areaPercent)).toEqual([40, 60])
+    expect(r.peaks.map((p) => p.areaPercent)).toEqual([40, 60])
   })
 
   it('does not take Name, Type, Amount or their translations for data columns', () => {
     for (const head of ['Name;RT;Type;Amount;Area', 'Nombre;TR;Tipo;Cantidad;Área', 'Nom;TR;Type;Quantité;Aire', 'Naam;Retentietijd;Type;Hoeveelheid;Oppervlakte']) {
       const r = parsePeakTable(`${head}\nA;2,514;BB;3,2;15234,5\nB;3,087;VV;4,1;41020,1\n`)
       expect(r.errors).toEqual([])
-      expect(r.peaks.map(p => [p.retentionTime, p.area])).toEqual([[2.514, 15234.5], [3.087, 41020.1]])
+      expect(r.peaks.map((p) => [p.retentionTime, p.area])).toEqual([[2.514, 15234.5], [3.087, 41020.1]])
     }
     // "Time" in a preamble setting is not a header.
     expect(parsePeakTable('Area reject: 100   Time: 10:42\nRT,Area\n1.5,10\n').peaks).toHaveLength(1)
@@ -171,7 +171,7 @@ describe('header spellings', () => {
   it('reads mm:ss retention times as minutes and seconds', () => {
     const r = parsePeakTable('RT,Area\n3:25.8,15234.5\n03:26,41020.1\n1:02:03,5\n')
     expect(r.errors).toEqual([])
-    expect(rts(r)).toEqual([3 + 25.8 / 60, 3 + 26 / 60, 62 + 3 / 60].map(v => expect.closeTo(v, 10)))
+    expect(rts(r)).toEqual([3 + 25.8 / 60, 3 + 26 / 60, 62 + 3 / 60].map((v) => expect.closeTo(v, 10)))
     expect(r.meta).toMatchObject({ timeUnit: 'min', timeUnitSource: 'cells' })
     expect(rts(parsePeakTable('RT;Area\n3:25,8;15234,5\n'))).toEqual([expect.closeTo(3.43, 10)])
   })
@@ -179,7 +179,7 @@ describe('header spellings', () => {
   it('uses the area % when the file has no absolute areas, and says so', () => {
     const r = parsePeakTable('Peak,RT (min),Area %\n1,2.514,40.5\n2,3.087,59.5\n')
     expect(r.errors).toEqual([])
-    expect(r.peaks.map(p => [p.area, p.areaPercent])).toEqual([[40.5, 40.5], [59.5, 59.5]])
+    expect(r.peaks.map((p) => [p.area, p.areaPercent])).toEqual([[40.5, 40.5], [59.5, 59.5]])
     expect(r.meta!.areaSource).toBe('areaPercent')
     expect(r.warnings.join(' ')).toMatch(/computed from its area % column/)
     // An "Area" whose units row says "%" is an area % too.
@@ -220,14 +220,14 @@ describe('traces', () => {
   const rows = (f: (i: number) => string) => Array.from({ length: 300 }, (_, i) => f(i))
 
   it('reads headers in other languages and decimal commas', () => {
-    const r = parseTrace(['Zeit [s];Signal [pA]', ...rows(i => `${(i / 10).toFixed(1).replace('.', ',')};${(1000 + i).toString()},5`)].join('\n'))
+    const r = parseTrace(['Zeit [s];Signal [pA]', ...rows((i) => `${(i / 10).toFixed(1).replace('.', ',')};${(1000 + i).toString()},5`)].join('\n'))
     expect(r.errors).toEqual([])
     expect(r.meta).toMatchObject({ timeUnit: 's', decimalMark: ',' })
     expect(r.signal[2]).toBe(1002.5)
   })
 
   it('refuses a signal beyond any detector with its row', () => {
-    const lines = ['Time,Signal', ...rows(i => `${i / 100},${i}`)]
+    const lines = ['Time,Signal', ...rows((i) => `${i / 100},${i}`)]
     lines[40] = '0.39,1e300'
     expect(parseTrace(lines.join('\n')).errors[0]).toMatchObject({ row: 41, code: 'out-of-range' })
   })

@@ -16,7 +16,7 @@ describe('mulberry32 and normalRandom', () => {
     const b = mulberry32(42)
     const xs = Array.from({ length: 20_000 }, () => a())
     expect(Array.from({ length: 20_000 }, () => b())).toEqual(xs)
-    expect(xs.every(x => x >= 0 && x < 1)).toBe(true)
+    expect(xs.every((x) => x >= 0 && x < 1)).toBe(true)
     expect(xs.reduce((s, x) => s + x, 0) / xs.length).toBeCloseTo(0.5, 1)
     expect(mulberry32(43)()).not.toBe(mulberry32(42)())
   })
@@ -40,10 +40,10 @@ describe('simulatePeakTable', () => {
   it('puts each product inside its window with the right area ratio', () => {
     const sim = simulatePeakTable({ seed: 3, ...base, areaNoise: 0 })
     const [w0, w1] = windows
-    const p0 = sim.peaks.find(p => p.retentionTime >= w0!.rtMin && p.retentionTime <= w0!.rtMax)!
-    const p1 = sim.peaks.find(p => p.retentionTime >= w1!.rtMin && p.retentionTime <= w1!.rtMax)!
+    const p0 = sim.peaks.find((p) => p.retentionTime >= w0!.rtMin && p.retentionTime <= w0!.rtMax)!
+    const p1 = sim.peaks.find((p) => p.retentionTime >= w1!.rtMin && p.retentionTime <= w1!.rtMax)!
     expect(p0.area / p1.area).toBeCloseTo(1.5, 10)
-    expect(sim.peaks.map(p => p.retentionTime)).toEqual([...sim.peaks.map(p => p.retentionTime)].sort((a, b) => a - b))
+    expect(sim.peaks.map((p) => p.retentionTime)).toEqual([...sim.peaks.map((p) => p.retentionTime)].sort((a, b) => a - b))
     expect(sim.peaks.reduce((s, p) => s + p.areaPercent!, 0)).toBeCloseTo(100, 10)
   })
 
@@ -58,18 +58,18 @@ describe('simulatePeakTable', () => {
     expect(simulatePeakTable({ seed: 4, ...base, fault: 'missing-product', faultProduct: 0 }).peaks).toHaveLength(normal.peaks.length - 1)
     expect(simulatePeakTable({ seed: 4, ...base, fault: 'split-peak', faultProduct: 0 }).peaks).toHaveLength(normal.peaks.length + 1)
     const solvent = simulatePeakTable({ seed: 4, ...base, fault: 'solvent-as-product', faultProduct: 1 })
-    expect(solvent.peaks.some(p => Math.abs(p.retentionTime - 1.2) < 0.01)).toBe(false)
-    expect(solvent.peaks.filter(p => p.retentionTime >= 3.3 && p.retentionTime <= 3.7)).toHaveLength(2)
+    expect(solvent.peaks.some((p) => Math.abs(p.retentionTime - 1.2) < 0.01)).toBe(false)
+    expect(solvent.peaks.filter((p) => p.retentionTime >= 3.3 && p.retentionTime <= 3.7)).toHaveLength(2)
     const swapped = simulatePeakTable({ seed: 4, ...base, areaNoise: 0, fault: 'swapped-peaks', faultProduct: 0 })
-    const inW0 = swapped.peaks.find(p => p.retentionTime >= 3.8 && p.retentionTime <= 4.2)!
-    expect(inW0.area / swapped.peaks.find(p => p.retentionTime >= 3.3 && p.retentionTime <= 3.7)!.area).toBeCloseTo(40 / 60, 10)
+    const inW0 = swapped.peaks.find((p) => p.retentionTime >= 3.8 && p.retentionTime <= 4.2)!
+    expect(inW0.area / swapped.peaks.find((p) => p.retentionTime >= 3.3 && p.retentionTime <= 3.7)!.area).toBeCloseTo(40 / 60, 10)
   })
 
-  it.each(['csv', 'semicolon-decimal-comma', 'tab', 'aligned', 'csv-seconds'] as const)('writes a %s export the parser reads back', style => {
+  it.each(['csv', 'semicolon-decimal-comma', 'tab', 'aligned', 'csv-seconds'] as const)('writes a %s export the parser reads back', (style) => {
     const sim = simulatePeakTable({ seed: 9, ...base, style })
     const parsed = parsePeakTable(sim.text)
     expect(parsed.errors).toEqual([])
-    expect(parsed.peaks.map(p => p.retentionTime)).toEqual(sim.peaks.map(p => expect.closeTo(p.retentionTime, 3)))
+    expect(parsed.peaks.map((p) => p.retentionTime)).toEqual(sim.peaks.map((p) => expect.closeTo(p.retentionTime, 3)))
     parsed.peaks.forEach((p, i) => expect(p.area / sim.peaks[i]!.area).toBeCloseTo(1, 4))
   })
 })

@@ -50,7 +50,7 @@ describe('grubbsTest', () => {
   it('finds a second outlier on the next pass', () => {
     const r = grubbsTest([10.0, 10.1, 9.9, 10.05, 9.95, 10.02, 9.98, 10.03, 20.0, 11.0, 10.01, 9.97])
     expect(r.outliers).toEqual([8, 9])
-    expect(r.steps.map(s => s.n)).toEqual([12, 11, 10])
+    expect(r.steps.map((s) => s.n)).toEqual([12, 11, 10])
   })
 
   it('shows masking: two opposite outliers inflate s so neither is found (a known limit of Grubbs)', () => {
@@ -170,7 +170,7 @@ describe('summarize', () => {
   })
 
   it('keeps the mean inside its interval and the quartiles in order (property)', () => {
-    fc.assert(fc.property(fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 2, maxLength: 60 }), xs => {
+    fc.assert(fc.property(fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 2, maxLength: 60 }), (xs) => {
       const s = summarize(xs)
       expect(s.ci![0]).toBeLessThanOrEqual(s.mean! + 1e-9)
       expect(s.ci![1]).toBeGreaterThanOrEqual(s.mean! - 1e-9)

@@ -1,5 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { deleteLibraryEntry, requireLibraryEntry } from '~~/server/services/library'
+
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor')
   const { id } = readParamsAs(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type PracticalDetail } from '#shared/types/practical'
+import type { PracticalDetail } from '#shared/types/practical'
 import { practicalDetail } from '~~/server/services/practicals'
 
 // One practical with the product windows a student needs to read their chromatogram. dueAt is

@@ -2,7 +2,7 @@ import { idParamsSchema } from '#shared/types/fields'
 import type { SectionView } from '#shared/types/section'
 import { sectionViews } from '~~/server/services/sections'
 
-export default defineEventHandler(async (event): Promise<SectionView & { course: { id: number, code: string, title: string, term: string,
+export default defineEventHandler(async (event): Promise<SectionView & { course: { id: number, code: string, title: string, term: string
   timezone: string }, role: string }> => {
   requireUser(event)
   const { id } = readParamsAs(event, idParamsSchema)

@@ -14,8 +14,10 @@ export default defineEventHandler(async (event): Promise<SectionListItem[]> => {
       .map((r) => r.sectionId)
   } else {
     const courseIds = await visibleCourseIds(me)
-    ids = courseIds.length ? (await db.selectFrom('sections').select('id').where('courseId', 'in', courseIds).execute())
-      .map((r) => r.id) : []
+    ids = courseIds.length
+      ? (await db.selectFrom('sections').select('id').where('courseId', 'in', courseIds).execute())
+          .map((r) => r.id)
+      : []
   }
   const views = await sectionViews({ ids })
   const courses = new Map((await db.selectFrom('courses').select(['id', 'code', 'title', 'term'])

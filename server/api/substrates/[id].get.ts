@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type SubstrateDetail } from '#shared/types/library'
+import type { SubstrateDetail } from '#shared/types/library'
 import { requireLibraryEntry, requireLibraryReader, substrateDetail } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<SubstrateDetail> => {

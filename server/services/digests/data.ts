@@ -10,7 +10,6 @@ import { practicalSummary } from '../results/summary'
 import { practicalChemistry } from '../submissions/practical-chemistry'
 import { useDb } from '../../utils/db'
 
-
 export interface DigestPerson { id: number, name: string, email: string }
 
 export interface DigestVersion {

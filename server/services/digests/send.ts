@@ -102,4 +102,3 @@ function sentView(ctx: DigestContext, row: DigestRow): DigestSent['digests'][num
     scheduledAt: row.scheduledAt?.toISOString() ?? null, recipientCount: row.recipientCount,
   }
 }
-

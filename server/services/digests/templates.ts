@@ -203,7 +203,8 @@ function staffRow(ctx: DigestContext, unit: DigestUnit): StaffRow {
   const v = unit.latest
   const test = ctx.classStats?.test.name ?? DEFAULT_OUTLIER_TEST
   const outlier = unit.outlier && unit.counted?.submissionId === v?.submissionId
-    ? [`outlier (${outlierFigures(test, unit.outlier, 'critical')})`] : []
+    ? [`outlier (${outlierFigures(test, unit.outlier, 'critical')})`]
+    : []
   return {
     station: unit.station === null ? '' : String(unit.station),
     students: unit.members.map((m) => m.name).join(' & ') || unit.unitKey,
@@ -222,10 +223,11 @@ export function staffDigestTemplate(ctx: DigestContext, recipient: DigestRecipie
   const rows = ctx.units.map((u) => staffRow(ctx, u))
   const withResult = ctx.units.filter((u) => u.latest).length
   const test = ctx.classStats?.test
-  const testLine = !test ? 'Outlier test: no results yet.'
+  const testLine = !test
+    ? 'Outlier test: no results yet.'
     : test.applied
       ? `Outlier test: ${OUTLIER_TEST_LABELS[test.name]}; ${ctx.units.filter((u) => u.outlier).length} result(s) flagged in this section.`
-        + (test.note ? ` ${test.note}` : '')
+      + (test.note ? ` ${test.note}` : '')
       : `Outlier test: ${OUTLIER_TEST_LABELS[test.name]} could not run: ${test.note ?? 'not enough results'}.`
   const subject = `${ctx.course.code} ${ctx.section.code} · ${ctx.practical.title}: section results`
   const intro = `Section ${ctx.section.code} results for ${heading(ctx)} ${withResult} of ${ctx.units.length} work units have uploaded.`

@@ -5,7 +5,7 @@ export { canonicalForms, reagentForms, substrateAnalysis, substrateDepiction } f
 export { copyName, libraryScope, libraryUsage, requireLibraryEntry, requireLibraryReader } from './library-access'
 export {
   addStandardRun, copyMethod, copySubstrate, createMethod, createSubstrate, deleteLibraryEntry, deleteSubstrateReference,
-    saveSubstrateWindows,
+  saveSubstrateWindows,
   setSubstrateReference, updateMethod, updateSubstrate,
 } from './library-commands'
 export { toMethodView } from './methods'

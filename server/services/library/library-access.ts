@@ -34,7 +34,7 @@ export function libraryScope(me: SessionUser, courseIds: number[], table: Librar
     eb('ownerId', '=', me.id),
     ...(courseIds.length
       ? [eb('id', 'in', eb.selectFrom('practicals').select(`practicals.${USED_BY_COLUMN[table]}`)
-        .where('practicals.courseId', 'in', courseIds))]
+          .where('practicals.courseId', 'in', courseIds))]
       : []),
   ])
 }

@@ -77,7 +77,7 @@ export async function referenceCandidates(me: SessionUser, substrate: Pick<Subst
     }))
     candidates.push({
       practicalId: p.id, title: p.title, courseCode: p.code, term: p.term, reagent: p.reagent, methodName: p.methodName, n: runs.length,
-        percents,
+      percents,
       source: `Mean of ${runs.length} accepted result${runs.length === 1 ? '' : 's'}, ${p.code} ${p.term}, "${p.title}"`,
     })
   }

@@ -42,7 +42,7 @@ export async function substrateDetail(row: Substrate, me: SessionUser): Promise<
   const [nameOf, references] = await Promise.all([substrateProductNamer(db, row.id), substrateReferenceViews(row.id)])
   const [products,
     depictionSvg] = await Promise.all([libraryProducts(row.smiles, nameOf),
-      substrateDepiction(row.smiles, { idPrefix: `substrate-${row.id}` })])
+    substrateDepiction(row.smiles, { idPrefix: `substrate-${row.id}` })])
   return {
     ...toSubstrateListItem(row, me, { windowCount: windows.length, usedBy: usage.get(row.id) ?? 0 }),
     notes: row.notes,

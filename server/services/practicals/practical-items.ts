@@ -35,7 +35,7 @@ export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reage
  * Items as they will be stored: a SMILES must parse (it is stored as typed), and a missing
  * molar mass comes from it (IUPAC standard atomic weights via openchemlib, in the engine worker).
  */
-export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null,
+export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null
   density: number | null }>): Promise<ItemSpec[]> {
   const forms = await reagentForms(items.flatMap((item) => (item.smiles ? [item.smiles] : [])))
   let next = 0
@@ -71,4 +71,3 @@ export async function replacePracticalItems(trx: Transaction<Database>, practica
 export async function touchPractical(trx: Transaction<Database>, practicalId: number) {
   await trx.updateTable('practicals').set({ updatedAt: new Date() }).where('id', '=', practicalId).execute()
 }
-

@@ -55,7 +55,7 @@ export async function practicalItemViews(practicalId: number): Promise<ItemView[
  * A substrate can carry windows for both its chloro and bromo products; a practical reads only
  * those of its method's halogen.
  */
-export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[],
+export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[]
   referenceWindows: ReferenceWindowView[] }> {
   const rows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).orderBy('rtMin').execute()
   const products = new Set((await substrateAnalysis(substrate.smiles, halogen)).products.map((p) => p.smiles))

@@ -209,10 +209,10 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
   const db = useDb()
   const candidates = me.role === 'instructor'
     ? await db.selectFrom('practicals').innerJoin('courseOwners', 'courseOwners.courseId', 'practicals.courseId')
-      .select('practicals.id').where('courseOwners.userId', '=', me.id).orderBy('practicals.id').execute()
+        .select('practicals.id').where('courseOwners.userId', '=', me.id).orderBy('practicals.id').execute()
     : await db.selectFrom('practicals').innerJoin('practicalSessions', 'practicalSessions.practicalId', 'practicals.id')
-      .innerJoin('sectionTas', 'sectionTas.sectionId', 'practicalSessions.sectionId')
-      .select('practicals.id').distinct().where('sectionTas.userId', '=', me.id).orderBy('practicals.id').execute()
+        .innerJoin('sectionTas', 'sectionTas.sectionId', 'practicalSessions.sectionId')
+        .select('practicals.id').distinct().where('sectionTas.userId', '=', me.id).orderBy('practicals.id').execute()
   const items: ReviewPracticalItem[] = []
   for (const { id } of candidates) {
     const scope = await requireReviewerOf(event, id)

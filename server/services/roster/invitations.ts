@@ -111,7 +111,7 @@ export function invitationGone(status: 'used' | 'expired' | 'missing'): never {
 export type InvitationStateRow = { passwordSet: boolean, lastExpiresAt: Date | null, lastUsedAt: Date | null }
 
 /** accepted: a password is set; invited: an open link; expired: the latest link ran out. */
-export function invitationStateOf(row: InvitationStateRow): { state: 'accepted' | 'invited' | 'expired' | 'none',
+export function invitationStateOf(row: InvitationStateRow): { state: 'accepted' | 'invited' | 'expired' | 'none'
   expiresAt: string | null } {
   if (row.passwordSet) return { state: 'accepted', expiresAt: null }
   if (!row.lastExpiresAt) return { state: 'none', expiresAt: null }

@@ -102,8 +102,8 @@ export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWri
   const fresh = rows.filter((r) => r.outcome === 'new')
   const created = fresh.length
     ? await trx.insertInto('users')
-      .values(fresh.map((r) => ({ email: r.email, name: r.name, role: 'student' as const, passwordHash: null })))
-      .returning(['id', 'email']).execute()
+        .values(fresh.map((r) => ({ email: r.email, name: r.name, role: 'student' as const, passwordHash: null })))
+        .returning(['id', 'email']).execute()
     : []
   const idOf = new Map(created.map((u) => [u.email, u.id]))
   const enrolling = rows.filter((r) => r.outcome === 'new' || r.outcome === 'enrol')

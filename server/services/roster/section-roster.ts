@@ -24,7 +24,7 @@ export async function loadSectionRoster(db: Db, section: Section): Promise<Secti
   const userIds = [...new Set(rows.map((r) => r.userId))]
   const latest = userIds.length
     ? await db.selectFrom('invitations').select(['userId', 'expiresAt', 'usedAt']).distinctOn('userId')
-      .where('userId', 'in', userIds).orderBy('userId').orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
+        .where('userId', 'in', userIds).orderBy('userId').orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
     : []
   const invitationOf = new Map(latest.map((i) => [i.userId, i]))
   const active = rows.filter((r) => r.status === 'active')
@@ -100,7 +100,7 @@ export async function rosterActiveStudents(db: Db, sectionId: number) {
 }
 
 export interface EnrollmentInScope {
-  enrollment: { id: number, courseId: number, sectionId: number, userId: number, status: 'active' | 'withdrawn', station: number | null,
+  enrollment: { id: number, courseId: number, sectionId: number, userId: number, status: 'active' | 'withdrawn', station: number | null
     seat: number | null }
   scope: SectionScope
 }
@@ -124,7 +124,7 @@ export async function rosterPlaceStudent(trx: Transaction<Database>, e: Enrollme
   const occupant = station === null
     ? undefined
     : await trx.selectFrom('enrollments').select(['id']).where('sectionId', '=', e.sectionId).where('status', '=', 'active')
-      .where('station', '=', station).where('seat', '=', seat).where('id', '<>', e.id).executeTakeFirst()
+        .where('station', '=', station).where('seat', '=', seat).where('id', '<>', e.id).executeTakeFirst()
   if (occupant) await trx.updateTable('enrollments').set({ station: null, seat: null }).where('id', '=', occupant.id).execute()
   await trx.updateTable('enrollments').set({ station, seat }).where('id', '=', e.id).execute()
   if (occupant) await trx.updateTable('enrollments').set({ station: e.station, seat: e.seat }).where('id', '=', occupant.id).execute()

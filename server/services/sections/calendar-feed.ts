@@ -123,9 +123,9 @@ export async function calendarFeed(db: Kysely<Database>, user: { id: number, nam
   const sections = await feedSections(db, user)
   const sessions = sections.length
     ? await db.selectFrom('practicalSessions').innerJoin('practicals', 'practicals.id', 'practicalSessions.practicalId')
-      .select(['practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate',
-        'practicalSessions.dueAt'])
-      .where('practicalSessions.sectionId', 'in', sections.map((s) => s.id)).orderBy('practicals.id').execute()
+        .select(['practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate',
+          'practicalSessions.dueAt'])
+        .where('practicalSessions.sectionId', 'in', sections.map((s) => s.id)).orderBy('practicals.id').execute()
     : []
   const byMeeting = new Map<string, typeof sessions>()
   for (const s of sessions) byMeeting.set(`${s.sectionId}|${s.meetingDate}`,

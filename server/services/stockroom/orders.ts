@@ -75,7 +75,7 @@ export async function orderSheetDetail(db: Kysely<Database>, id: number): Promis
   const reagents = new Map(reagentRows.map((r) => [r.id, r]))
   const lots = lines.length
     ? await db.selectFrom('reagentLots').select(['id', 'reagentId', 'orderLineId', 'quantity', 'unit'])
-      .where('orderLineId', 'in', lines.map((l) => l.id)).execute()
+        .where('orderLineId', 'in', lines.map((l) => l.id)).execute()
     : []
   const names = await userNames(db, [sheet.createdBy, sheet.sentBy, sheet.receivedBy])
   const name = (uid: number | null) => (uid === null ? null : names.get(uid) ?? null)
@@ -148,4 +148,3 @@ export function orderSheetCsv(lines: OrderLineView[]): string {
     Math.round(l.containers * l.containerSize * 1000) / 1000, l.note,
   ]))
 }
-

@@ -71,7 +71,7 @@ export function isFillerWord(text: string): boolean {
 }
 
 function compactOf(list: string[]): string {
-  return list.filter(w => !FILLERS.has(w)).join('')
+  return list.filter((w) => !FILLERS.has(w)).join('')
 }
 
 function nameKind(compact: string): ColumnKind | null {
@@ -122,9 +122,9 @@ function classify(raw: string): HeaderName {
     unit = unit ?? list[list.length - 1]!
     list = list.slice(0, -1)
   }
-  const percent = list.some(w => PERCENT_WORDS.has(w)) || unit === '%'
+  const percent = list.some((w) => PERCENT_WORDS.has(w)) || unit === '%'
   if (percent) {
-    const base = compactOf(list.filter(w => !PERCENT_WORDS.has(w) && !RELATIVE_WORDS.has(w)))
+    const base = compactOf(list.filter((w) => !PERCENT_WORDS.has(w) && !RELATIVE_WORDS.has(w)))
     return base === '' || AREA_NAMES.has(base) ? { kind: 'areaPercent', unit: '%' } : { kind: null, unit }
   }
   return { kind: nameKind(compactOf(list)), unit }

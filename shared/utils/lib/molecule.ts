@@ -228,8 +228,8 @@ export function formulaAndMass(mol: Molecule): FormulaAndMass {
     mass += weight * n
   }
   const order = [...counts.keys()].sort((a, b) => a.localeCompare(b, 'en'))
-  const hill = counts.has('C') ? ['C', ...(counts.has('H') ? ['H'] : []), ...order.filter(e => e !== 'C' && e !== 'H')] : order
-  const formula = hill.map(el => el + (counts.get(el) === 1 ? '' : String(counts.get(el)))).join('')
+  const hill = counts.has('C') ? ['C', ...(counts.has('H') ? ['H'] : []), ...order.filter((e) => e !== 'C' && e !== 'H')] : order
+  const formula = hill.map((el) => el + (counts.get(el) === 1 ? '' : String(counts.get(el)))).join('')
   return { formula, molarMass: Math.round(mass * 1000) / 1000 }
 }
 

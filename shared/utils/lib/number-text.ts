@@ -63,7 +63,7 @@ function scan(s: string): Scan | null {
     return null
   }
   runs.push(run)
-  if (runs.every(r => r === '')) return null
+  if (runs.every((r) => r === '')) return null
   return { negative, runs, seps, exponent, leadingMark }
 }
 
@@ -71,9 +71,9 @@ function validGroups(groups: string[]): boolean {
   const head = groups[0]!
   if (head === '' || head[0] === '0') return false
   const tail = groups.slice(1)
-  if (head.length <= 3 && tail.every(g => g.length === 3)) return true
+  if (head.length <= 3 && tail.every((g) => g.length === 3)) return true
   // South Asian grouping: 12,34,567 (the last group three digits, the others two).
-  return head.length <= 2 && tail.length >= 2 && tail[tail.length - 1]!.length === 3 && tail.slice(0, -1).every(g => g.length === 2)
+  return head.length <= 2 && tail.length >= 2 && tail[tail.length - 1]!.length === 3 && tail.slice(0, -1).every((g) => g.length === 2)
 }
 
 export interface NumberReading {
@@ -101,7 +101,7 @@ function readAs(sc: Scan, decimal: Mark): NumberReading | null {
   if (sc.leadingMark && dec !== 0) return null
   const grouped = groupSeps.length > 0
   if (grouped) {
-    if (sc.exponent || groupSeps.some(g => g !== groupSeps[0]) || !validGroups(intRuns)) return null
+    if (sc.exponent || groupSeps.some((g) => g !== groupSeps[0]) || !validGroups(intRuns)) return null
   }
   const whole = intRuns.join('')
   const fraction = dec >= 0 ? runs[dec + 1]! : ''

@@ -325,7 +325,7 @@ function measure(t: Float64Array, y: Float64Array, s: Float64Array, rs: Float64A
 
 function integrate(t: Float64Array, y: Float64Array, pass: ReturnType<typeof pickPeaks>, w: number, noise: number, options: DetectPeaksOptions): DetectPeaksResult {
   const rs = new Float64Array(y.length)
-  const measured = pass.raw.map(p => measure(t, y, pass.s, rs, p, w))
+  const measured = pass.raw.map((p) => measure(t, y, pass.s, rs, p, w))
   const flags = overlapFlags(measured, pass.raw, options.overlapTolerance ?? 0.01)
   measured.forEach((m, j) => {
     if (!hidesShoulder(pass.s, pass.raw[j]!, m, t, pass.sigmaS, options.thresholdSigma ?? 5)) return
@@ -338,7 +338,7 @@ function integrate(t: Float64Array, y: Float64Array, pass: ReturnType<typeof pic
     })
   })
   const peaks: DetectedPeak[] = measured
-    .filter(p => p.height >= (options.minHeight ?? 0) && p.area >= (options.minArea ?? 0))
+    .filter((p) => p.height >= (options.minHeight ?? 0) && p.area >= (options.minArea ?? 0))
     .map(({ leftHalf: _l, rightHalf: _r, ...peak }) => peak)
   if (peaks.length === 0) flags.push({ code: 'no-peaks', severity: 'warning', retentionTimes: [], message: 'No peak rose clearly above the baseline noise.' })
   return { peaks, flags, noise, smoothingPoints: w }

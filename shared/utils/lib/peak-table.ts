@@ -131,11 +131,11 @@ interface Column {
  * so the comma may be a decimal after all. A retention time is never read as grouped.
  */
 function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[]): Column[] {
-  const cells = specs.map(s => rows.map(r => r.cells[s.index] ?? ''))
-  const analyses = cells.map(column => column.map(analyseCell))
+  const cells = specs.map((s) => rows.map((r) => r.cells[s.index] ?? ''))
+  const analyses = cells.map((column) => column.map(analyseCell))
   const styles = decideStyles(analyses.map(tallyColumn), 0)
   return specs.map((spec, k) => {
-    const reads = analyses[k]!.map(a => readCell(a, styles[k]!))
+    const reads = analyses[k]!.map((a) => readCell(a, styles[k]!))
     const regrouped = new Map<number, string>()
     const witness = ungroupedWitness(reads)
     reads.forEach((r, i) => {
@@ -250,7 +250,7 @@ function retentionInMinutes(
 ) {
   const { unit, source } = rtCol.style.clock
     ? { unit: 'min' as const, source: 'cells' as const }
-    : chooseTimeUnit(parsed.map(p => p.retentionTime), declared, options.timeUnit, options.expectedMaxMinutes, warnings)
+    : chooseTimeUnit(parsed.map((p) => p.retentionTime), declared, options.timeUnit, options.expectedMaxMinutes, warnings)
   const factor = toMinutes(unit)
   if (factor !== 1) for (const p of parsed) p.retentionTime *= factor
   for (const p of parsed) {
@@ -300,14 +300,14 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   if (parsed.length === 0) return refuse(header.row, 'no-peaks', `The table under the header on row ${header.row} has no peak rows.`)
   const { unit, source } = retentionInMinutes(parsed, rtCol, declaredTimeUnit(header, unitsRow), options, warnings, errors)
   if (errors.length) return { peaks: [], warnings, errors, meta: null }
-  const decimalMark = rtCol.style.decimal ?? columns.find(c => c.style.decimal)?.style.decimal ?? null
+  const decimalMark = rtCol.style.decimal ?? columns.find((c) => c.style.decimal)?.style.decimal ?? null
   return {
     peaks: parsed,
     warnings,
     errors: [],
     meta: {
       delimiter: header.delimiter, decimalComma: decimalMark === ',', decimalMark, headerRow: header.row, timeUnit: unit, timeUnitSource: source,
-      columns: header.cells.map(c => c.text), areaSource: fromPercent ? 'areaPercent' : 'area',
+      columns: header.cells.map((c) => c.text), areaSource: fromPercent ? 'areaPercent' : 'area',
     },
   }
 }

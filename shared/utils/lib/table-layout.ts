@@ -23,7 +23,7 @@ function candidatesFor(line: string): HeaderCandidate[] {
   const consider = (delimiter: Delimiter, cells: Cell[]) => {
     const kinds = new Map<ColumnKind, { index: number, unit: string | null }>()
     // A header holds names only: "Area reject: 100   Time: 10:42" in a report's preamble is settings.
-    if (cells.some(c => looksNumeric(c.text) || /[:=]$/.test(c.text))) return
+    if (cells.some((c) => looksNumeric(c.text) || /[:=]$/.test(c.text))) return
     cells.forEach((c, index) => {
       const { kind, unit } = classifyHeader(c.text)
       if (kind && !kinds.has(kind)) kinds.set(kind, { index, unit })
@@ -38,9 +38,9 @@ function candidatesFor(line: string): HeaderCandidate[] {
   return out
 }
 
-const tableScore = (c: HeaderCandidate) => ['rt', 'area', 'areaPercent', 'height'].filter(k => c.kinds.has(k as ColumnKind)).length
+const tableScore = (c: HeaderCandidate) => ['rt', 'area', 'areaPercent', 'height'].filter((k) => c.kinds.has(k as ColumnKind)).length
 /** A table needs a retention time and an area, absolute or as area %. */
-const complete = (c: HeaderCandidate, wanted: ColumnKind[]) => wanted.every(k => k === 'area' ? c.kinds.has('area') || c.kinds.has('areaPercent') : c.kinds.has(k))
+const complete = (c: HeaderCandidate, wanted: ColumnKind[]) => wanted.every((k) => k === 'area' ? c.kinds.has('area') || c.kinds.has('areaPercent') : c.kinds.has(k))
 
 /** The header row: the first line naming a time and an area, else the best partial one (for the error). */
 export function findHeader(lines: string[], wanted: ColumnKind[] = ['rt', 'area']): HeaderCandidate | null {
@@ -60,7 +60,7 @@ const TOTALS = /^(grand\s+)?(totals?|totale|totaal|totaux|sum|suma|summe|somme|s
 
 function rowCells(line: string, header: HeaderCandidate): (string | undefined)[] | null {
   const cells = splitCells(line, header.delimiter)
-  if (header.delimiter !== 'whitespace' || cells.length === header.cells.length) return cells.map(c => c.text)
+  if (header.delimiter !== 'whitespace' || cells.length === header.cells.length) return cells.map((c) => c.text)
   return alignCells(cells, header.cells)
 }
 
@@ -154,7 +154,7 @@ export function collectRows(lines: string[], header: HeaderCandidate, warnings: 
     }
     reprinted = false
     const filled = cells.filter((c): c is string => c !== undefined && c.trim() !== '')
-    if (filled.some(c => TOTALS.test(c.trim()))) {
+    if (filled.some((c) => TOTALS.test(c.trim()))) {
       warnings.push(`Row ${i + 1} looks like a totals row and was skipped.`)
       continue
     }
@@ -163,7 +163,7 @@ export function collectRows(lines: string[], header: HeaderCandidate, warnings: 
       continue
     }
     // A text-only line after the peaks ("Printed by,lab3") is a footer, unless more peaks follow it.
-    if (rows.length > 0 && filled.every(c => !looksNumeric(c))) {
+    if (rows.length > 0 && filled.every((c) => !looksNumeric(c))) {
       pending.push({ row: i + 1, cells, text: filled.join(' ') })
       continue
     }
@@ -194,7 +194,7 @@ export function columnsOf(header: HeaderCandidate, unitsRow: (string | undefined
   if (!unitsRow) return kinds
   const unitAt = (i: number) => bare(unitsRow[i])
   const percent = header.cells.map((c, i) => i)
-    .filter(i => unitAt(i) === '%' && classifyHeader(`${header.cells[i]!.text} %`).kind === 'areaPercent')
+    .filter((i) => unitAt(i) === '%' && classifyHeader(`${header.cells[i]!.text} %`).kind === 'areaPercent')
   if (percent.length === 0) return kinds
   const area = kinds.get('area')
   if (area && unitAt(area.index) === '%') {

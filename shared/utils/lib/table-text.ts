@@ -23,8 +23,7 @@ export function utf8Length(text: string): number {
     const c = text.charCodeAt(i)
     if (c < 0x80) bytes += 1
     else if (c < 0x800) bytes += 2
-    else if (c >= 0xd800 && c < 0xdc00) { bytes += 4; i++ }
-    else bytes += 3
+    else if (c >= 0xd800 && c < 0xdc00) { bytes += 4; i++ } else bytes += 3
   }
   return bytes
 }
@@ -95,11 +94,11 @@ export function mergeHeaderTokens(cells: Cell[]): Cell[] {
     let taken = 1
     // In a single-spaced report header a leading "Peak" is the peak-number column, not part of "Peak RetTime".
     for (let j = Math.min(cells.length, i + 4); j > i + 1 && !isFillerWord(cells[i]!.text); j--) {
-      const text = cells.slice(i, j).map(c => c.text).join(' ')
+      const text = cells.slice(i, j).map((c) => c.text).join(' ')
       if (classifyHeader(text).kind) { taken = j - i; break }
     }
     const group = cells.slice(i, i + taken)
-    merged.push({ text: group.map(c => c.text).join(' '), start: group[0]!.start, end: group[group.length - 1]!.end })
+    merged.push({ text: group.map((c) => c.text).join(' '), start: group[0]!.start, end: group[group.length - 1]!.end })
     i += taken
   }
   // A lone unit token ("[min]") belongs to the name before it.
@@ -129,7 +128,7 @@ export function alignCells(cells: Cell[], columns: { start: number, end: number 
     })
     // A word under no header belongs to the text column it trails ("butane A" under "Name").
     if (bestScore <= 0 && !looksNumeric(cell.text)) {
-      const before = columns.findLastIndex(col => col.start <= cell.start)
+      const before = columns.findLastIndex((col) => col.start <= cell.start)
       if (before >= 0) best = before
     }
     const taken = out[best]

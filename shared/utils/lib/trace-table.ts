@@ -34,7 +34,7 @@ const STYLE_SAMPLE = 5000
 function numericCells(line: string, d: Delimiter): number {
   const cells = splitCells(line, d)
   if (cells.length < 2) return 0
-  return cells.every(c => c.text === '' || looksNumeric(c.text)) ? cells.filter(c => c.text !== '').length : 0
+  return cells.every((c) => c.text === '' || looksNumeric(c.text)) ? cells.filter((c) => c.text !== '').length : 0
 }
 
 /** First line from which three consecutive non-blank lines share a delimiter with ≥ 2 numbers each. */
@@ -50,7 +50,7 @@ function findDataStart(lines: string[]): { index: number, delimiter: Delimiter }
         if (numericCells(lines[j]!, d) !== count) break
         ok++
       }
-      if (ok >= Math.min(2, lines.slice(i + 1).filter(l => l.trim() !== '').length)) return { index: i, delimiter: d }
+      if (ok >= Math.min(2, lines.slice(i + 1).filter((l) => l.trim() !== '').length)) return { index: i, delimiter: d }
     }
   }
   return null
@@ -61,8 +61,8 @@ function headerAbove(lines: string[], start: number, delimiter: Delimiter) {
     const line = lines[i]!
     if (line.trim() === '' || SEPARATOR_LINE.test(line)) continue
     const cells = delimiter === 'whitespace' ? mergeHeaderTokens(splitCells(line, delimiter)) : splitCells(line, delimiter)
-    if (cells.length < 2 || cells.some(c => looksNumeric(c.text))) return null
-    return { row: i + 1, names: cells.map(c => classifyHeader(c.text)) }
+    if (cells.length < 2 || cells.some((c) => looksNumeric(c.text))) return null
+    return { row: i + 1, names: cells.map((c) => classifyHeader(c.text)) }
   }
   return null
 }
@@ -78,7 +78,7 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   const start = findDataStart(lines)
   if (!start) return refuse(0, 'no-header', 'No rows with a time and a signal value were found.')
   const header = headerAbove(lines, start.index, start.delimiter)
-  const timeIdx = Math.max(0, header?.names.findIndex(n => n.kind === 'rt') ?? 0)
+  const timeIdx = Math.max(0, header?.names.findIndex((n) => n.kind === 'rt') ?? 0)
   const signalByName = header?.names.findIndex((n, i) => i !== timeIdx && (n.kind === 'signal' || n.kind === 'height')) ?? -1
   const signalIdx = signalByName >= 0 ? signalByName : timeIdx === 0 ? 1 : 0
   // The decimal mark is decided on the first rows; a later cell that contradicts it is refused.
@@ -99,7 +99,7 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
     const line = lines[i]!
     if (line.trim() === '') continue
     const cells = splitCells(line, start.delimiter)
-    const filled = cells.filter(c => c.text !== '')
+    const filled = cells.filter((c) => c.text !== '')
     if (filled.length === 1 && !looksNumeric(filled[0]!.text)) {
       warnings.push(`Row ${i + 1} is not part of the trace and was skipped.`)
       continue

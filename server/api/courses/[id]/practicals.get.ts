@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type PracticalListItem } from '#shared/types/practical'
+import type { PracticalListItem } from '#shared/types/practical'
 import { coursePracticals } from '~~/server/services/practicals'
 
 // A course's practicals, limited to the caller's sections for TAs and students.

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type MethodView } from '#shared/types/library'
+import type { MethodView } from '#shared/types/library'
 import { copyMethod, requireLibraryEntry, toMethodView } from '~~/server/services/library'
 
 export default defineEventHandler(async (event): Promise<MethodView> => {

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type ProcedureCardView } from '#shared/types/practical'
+import type { ProcedureCardView } from '#shared/types/practical'
 import { procedureCard } from '~~/server/services/practicals'
 
 // The printable procedure card: quantities per work unit, expected products, windows, cautions.

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type ReleaseView } from '#shared/types/review'
+import type { ReleaseView } from '#shared/types/review'
 import { setPracticalRelease } from '../../../services/review'
 
 // Withdraw a manual release: students no longer see scores and comments (return reasons stay).

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type ReleaseView } from '#shared/types/review'
+import type { ReleaseView } from '#shared/types/review'
 import { setPracticalRelease } from '../../../services/review'
 
 // Manual release policy: the instructor shows students their scores and comments for a practical.

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type SectionRosterView } from '#shared/types/roster'
+import type { SectionRosterView } from '#shared/types/roster'
 import { loadSectionRoster } from '~~/server/services/roster'
 
 // Who is in a section and where they sit: the course's instructors and this section's TAs only.

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { reviewInputSchema } from '#shared/types/submission'
-import { type ReviewSaved } from '#shared/types/review'
+import type { ReviewSaved } from '#shared/types/review'
 import { requireReviewableSubmission, saveSubmissionReview } from '../../../services/review'
 
 // Accept with rubric scores (total computed here) or return for resubmission with a reason.

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type SubstrateDetail } from '#shared/types/library'
+import type { SubstrateDetail } from '#shared/types/library'
 import { copySubstrate, requireLibraryEntry, substrateDetail } from '~~/server/services/library'
 
 // A shared (or co-owner's) entry becomes the caller's own: windows, standard runs, product

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type ReferenceCandidate } from '#shared/types/library'
+import type { ReferenceCandidate } from '#shared/types/library'
 import { referenceCandidates, requireLibraryEntry } from '~~/server/services/library'
 
 // Practicals of the caller's own courses with this substrate and accepted results, each with the

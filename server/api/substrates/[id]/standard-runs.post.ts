@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type StandardRunUploadResponse } from '#shared/types/library'
+import type { StandardRunUploadResponse } from '#shared/types/library'
 import { RunInputError } from '#shared/utils/submission'
 import { suggestionsForRun } from '#shared/utils/windows'
 import { addStandardRun, requireLibraryEntry } from '~~/server/services/library'

@@ -2,7 +2,7 @@ import { idParamsSchema } from '#shared/types/fields'
 import { windowsInputSchema, type LibraryProduct, type SubstrateWindowView } from '#shared/types/library'
 import {
   libraryProducts, renameLibraryProducts, requireLibraryEntry, resolveProductNames, resolveWindows, saveSubstrateWindows,
-    substrateProductNamer, windowView,
+  substrateProductNamer, windowView,
 } from '~~/server/services/library'
 
 // Replaces every window of the substrate at once: overlaps are judged over the whole set. The

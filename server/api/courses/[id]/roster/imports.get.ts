@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type RosterImportHistoryItem } from '#shared/types/roster'
+import type { RosterImportHistoryItem } from '#shared/types/roster'
 import { rosterImportHistory } from '~~/server/services/roster'
 
 export default defineEventHandler(async (event): Promise<RosterImportHistoryItem[]> => {

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type RosterPreview } from '#shared/types/roster'
+import type { RosterPreview } from '#shared/types/roster'
 import { planRosterImport, rosterPreviewRows } from '~~/server/services/roster'
 
 // What an import of this file would do, row by row, before anything is written.

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { type SectionRosterView } from '#shared/types/roster'
+import type { SectionRosterView } from '#shared/types/roster'
 import { assignStations } from '~~/server/services/roster'
 
 // Everyone active, in name order, onto stations 1, 2, … with seats 1..students per station.
