@@ -1,6 +1,13 @@
 // The usual cautions for the hazards of halogenation practicals. They remind; they do not
 // replace the institution's chemical hygiene plan, the supplier's safety data sheet or local codes.
-export type HazardKey = 'chlorine' | 'sulfuryl-chloride' | 'bromine' | 'azo-initiator' | 'n-bromosuccinimide' | 'halogenated-waste' | 'light-source'
+export type HazardKey =
+  | 'chlorine'
+  | 'sulfuryl-chloride'
+  | 'bromine'
+  | 'azo-initiator'
+  | 'n-bromosuccinimide'
+  | 'halogenated-waste'
+  | 'light-source'
 
 export interface Caution {
   key: HazardKey

@@ -30,7 +30,9 @@ export interface HalogenationMethod {
 }
 
 const CHLORINE: MethodReagent = { name: 'chlorine', smiles: 'ClCl', role: 'halogenating agent', density: null, densitySource: null }
-const AIBN: MethodReagent = { name: 'azobisisobutyronitrile (AIBN)', smiles: 'CC(C)(C#N)N=NC(C)(C)C#N', role: 'initiator', density: null, densitySource: null }
+const AIBN: MethodReagent = {
+  name: 'azobisisobutyronitrile (AIBN)', smiles: 'CC(C)(C#N)N=NC(C)(C)C#N', role: 'initiator', density: null, densitySource: null,
+}
 
 export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
   {
@@ -63,7 +65,10 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
     name: 'Sulfuryl chloride with AIBN',
     halogen: 'Cl',
     reagents: [
-      { name: 'sulfuryl chloride', smiles: 'O=S(=O)(Cl)Cl', role: 'halogenating agent', density: 1.67, densitySource: 'CRC Handbook, from memory' },
+      {
+        name: 'sulfuryl chloride', smiles: 'O=S(=O)(Cl)Cl', role: 'halogenating agent',
+        density: 1.67, densitySource: 'CRC Handbook, from memory',
+      },
       AIBN,
     ],
     // 1 : 3.8 : 5.0 at 25 °C scaled to 80 °C by r(T) = r(T0)^(T0/T).

@@ -24,7 +24,10 @@ export const TEACHING_SUBSTRATES: readonly TeachingSubstrate[] = [
   { id: '2,2-dimethylbutane', name: '2,2-dimethylbutane', smiles: 'CCC(C)(C)C', density: 0.649, boilingPointC: 49.7, source: CRC },
   { id: 'hexane', name: 'hexane', smiles: 'CCCCCC', density: 0.659, boilingPointC: 68.7, source: CRC },
   { id: 'heptane', name: 'heptane', smiles: 'CCCCCCC', density: 0.684, boilingPointC: 98.4, source: CRC },
-  { id: '2,2,4-trimethylpentane', name: '2,2,4-trimethylpentane', smiles: 'CC(C)CC(C)(C)C', density: 0.692, boilingPointC: 99.2, source: CRC },
+  {
+    id: '2,2,4-trimethylpentane', name: '2,2,4-trimethylpentane', smiles: 'CC(C)CC(C)(C)C',
+    density: 0.692, boilingPointC: 99.2, source: CRC,
+  },
   { id: 'cyclohexane', name: 'cyclohexane', smiles: 'C1CCCCC1', density: 0.779, boilingPointC: 80.7, source: CRC },
   { id: 'methylcyclohexane', name: 'methylcyclohexane', smiles: 'CC1CCCCC1', density: 0.769, boilingPointC: 100.9, source: CRC },
 ]

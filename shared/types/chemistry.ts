@@ -25,7 +25,10 @@ export type AnalyzeInput = z.input<typeof analyzeInputSchema>
 
 export const reactivityInputSchema = z.object({
   smiles: substrateSmilesSchema,
-  observed: z.array(z.object({ smiles: productSmilesSchema, percent: z.number().finite().min(0, 'Must be zero or more').max(100_000) })).min(1, 'Enter at least one observed product').max(60),
+  observed: z.array(z.object({
+    smiles: productSmilesSchema,
+    percent: z.number().finite().min(0, 'Must be zero or more').max(100_000),
+  })).min(1, 'Enter at least one observed product').max(60),
   reference: productSmilesSchema.optional(),
   /** Which halogenation; read from the observed products when absent. */
   halogen: z.enum(['Cl', 'Br']).optional(),

@@ -64,7 +64,9 @@ export const courseSettingsSchema = z.object({
 })
 export type CourseSettings = z.infer<typeof courseSettingsSchema>
 
-export const coOwnerSchema = z.object({ email: z.string().trim().toLowerCase().max(254, 'Use at most 254 characters').email('Enter an e-mail address') })
+export const coOwnerSchema = z.object({
+  email: z.string().trim().toLowerCase().max(254, 'Use at most 254 characters').email('Enter an e-mail address'),
+})
 
 /** Points per rubric criterion, keyed by the criterion's key (a course has at most 12). */
 export const rubricScoresSchema = z.record(

@@ -57,7 +57,9 @@ export function instantField(format = 'Use an ISO 8601 date and time with its of
   return z.string({ error: format }).superRefine((value, ctx) => {
     if (!z.iso.datetime({ offset: true }).safeParse(value).success) return void ctx.addIssue({ code: 'custom', message: format })
     const day = isoDateOf(value)
-    if (day < EARLIEST_DATE || day > LATEST_DATE) ctx.addIssue({ code: 'custom', message: `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}` })
+    if (day < EARLIEST_DATE || day > LATEST_DATE) {
+      ctx.addIssue({ code: 'custom', message: `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}` })
+    }
   })
 }
 

@@ -17,8 +17,10 @@ export type SubstratePreviewInput = z.infer<typeof substratePreviewSchema>
 const substrateShape = {
   name: lineText(120, 'Name the substrate'),
   smiles: substrateSmilesSchema,
-  density: z.number({ error: 'Enter the density as a number' }).finite().gt(0, 'The density must be above 0 g/mL').max(25, 'At most 25 g/mL').nullable(),
-  boilingPointC: z.number({ error: 'Enter the boiling point as a number' }).finite().min(-273.15, 'Below absolute zero').max(1000, 'At most 1000 °C').nullable(),
+  density: z.number({ error: 'Enter the density as a number' }).finite()
+    .gt(0, 'The density must be above 0 g/mL').max(25, 'At most 25 g/mL').nullable(),
+  boilingPointC: z.number({ error: 'Enter the boiling point as a number' }).finite()
+    .min(-273.15, 'Below absolute zero').max(1000, 'At most 1000 °C').nullable(),
   notes,
   /** Where the density and boiling point come from. */
   source: lineText(300),
@@ -56,7 +58,8 @@ export const WINDOW_KIND_LABELS: Record<WindowKindName, string> = {
   'starting-material': 'Starting material',
 }
 
-const minutes = (what: string) => z.number({ error: `Enter the ${what} in minutes` }).finite().min(0, 'Must be 0 min or later').max(600, 'At most 600 min')
+const minutes = (what: string) => z.number({ error: `Enter the ${what} in minutes` }).finite()
+  .min(0, 'Must be 0 min or later').max(600, 'At most 600 min')
 
 export const windowInputSchema = z.object({
   kind: z.enum(WINDOW_KINDS),
@@ -65,11 +68,16 @@ export const windowInputSchema = z.object({
   label: lineText(60).optional(),
   rtMin: minutes('window start'),
   rtMax: minutes('window end'),
-  responseFactor: z.number({ error: 'Enter the response factor as a number' }).finite().gt(0, 'Must be above 0').max(100, 'At most 100').default(1),
+  responseFactor: z.number({ error: 'Enter the response factor as a number' }).finite()
+    .gt(0, 'Must be above 0').max(100, 'At most 100').default(1),
 }).superRefine((w, ctx) => {
   if (w.rtMax <= w.rtMin) ctx.addIssue({ code: 'custom', path: ['rtMax'], message: 'The window must end after it starts' })
-  if (w.kind === 'product' && !w.productSmiles) ctx.addIssue({ code: 'custom', path: ['productSmiles'], message: 'Name the product (SMILES)' })
-  if (w.kind !== 'product' && w.productSmiles) ctx.addIssue({ code: 'custom', path: ['productSmiles'], message: 'Only product windows name a product' })
+  if (w.kind === 'product' && !w.productSmiles) {
+    ctx.addIssue({ code: 'custom', path: ['productSmiles'], message: 'Name the product (SMILES)' })
+  }
+  if (w.kind !== 'product' && w.productSmiles) {
+    ctx.addIssue({ code: 'custom', path: ['productSmiles'], message: 'Only product windows name a product' })
+  }
 })
 export type WindowInput = z.input<typeof windowInputSchema>
 
@@ -87,7 +95,10 @@ export const windowsInputSchema = z.object({
 }).superRefine(({ windows }, ctx) => {
   for (const kind of ['solvent', 'starting-material'] as const) {
     const extra = windows.findIndex((w, i) => w.kind === kind && windows.findIndex((o) => o.kind === kind) !== i)
-    if (extra >= 0) ctx.addIssue({ code: 'custom', path: ['windows', extra, 'kind'], message: `Only one ${WINDOW_KIND_LABELS[kind].toLowerCase()} window` })
+    if (extra >= 0) {
+      const message = `Only one ${WINDOW_KIND_LABELS[kind].toLowerCase()} window`
+      ctx.addIssue({ code: 'custom', path: ['windows', extra, 'kind'], message })
+    }
   }
 })
 export type WindowsInput = z.input<typeof windowsInputSchema>
@@ -254,7 +265,9 @@ const halogenMatches = (value: { reagent?: LibraryReagent, halogen?: 'Cl' | 'Br'
 
 export const methodInputSchema = z.object({ ...methodShape, notes: notes.default('') }).superRefine(halogenMatches)
 export type MethodInput = z.input<typeof methodInputSchema>
-export const methodPatchSchema = z.object(methodShape).partial().superRefine(halogenMatches).refine((v) => Object.keys(v).length > 0, 'Change at least one field')
+export const methodPatchSchema = z.object(methodShape).partial()
+  .superRefine(halogenMatches)
+  .refine((v) => Object.keys(v).length > 0, 'Change at least one field')
 
 export interface MethodView {
   id: number
@@ -302,7 +315,13 @@ export const referenceInputSchema = z.object({
   sourceKind: z.enum(REFERENCE_SOURCE_KINDS, { error: 'Choose what kind of source it is' }),
 }).superRefine((value, ctx) => {
   const sum = value.percents.reduce((s, p) => s + p.percent, 0)
-  if (Math.abs(sum - 100) > REFERENCE_SUM_TOLERANCE) ctx.addIssue({ code: 'custom', path: ['percents'], message: `The percentages add up to ${sum.toFixed(1)} %; make them add up to 100 %` })
+  if (Math.abs(sum - 100) > REFERENCE_SUM_TOLERANCE) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['percents'],
+      message: `The percentages add up to ${sum.toFixed(1)} %; make them add up to 100 %`,
+    })
+  }
 })
 export type ReferenceInput = z.input<typeof referenceInputSchema>
 

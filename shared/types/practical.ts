@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
-import { blockText, dateField, instantField, lineText, recordId, recordIdParam } from './fields'
+import { blockText, dateField, instantField, lineText, recordId } from './fields'
 
 // Practicals: which substrate and method, which sections run it at which meeting, and what one
 // work unit (a pair at a hood station, or one student) uses. Forms and routes share these schemas.
@@ -70,7 +70,9 @@ export const sessionsInputSchema = z.object({
 }).superRefine((value, ctx) => {
   const seen = new Set<number>()
   value.sessions.forEach((s, i) => {
-    if (seen.has(s.sectionId)) ctx.addIssue({ code: 'custom', path: ['sessions', i, 'sectionId'], message: 'This section already has a meeting for this practical' })
+    if (seen.has(s.sectionId)) {
+      ctx.addIssue({ code: 'custom', path: ['sessions', i, 'sectionId'], message: 'This section already has a meeting for this practical' })
+    }
     seen.add(s.sectionId)
   })
 })
@@ -99,7 +101,10 @@ export const itemsInputSchema = z.object({
   items: z.array(itemInputSchema).min(1, 'List at least the substrate').max(30, 'At most 30 items'),
 }).superRefine((value, ctx) => {
   const substrates = value.items.filter((i) => i.role === 'substrate').length
-  if (substrates !== 1) ctx.addIssue({ code: 'custom', path: ['items'], message: substrates ? 'Only one item can be the substrate' : 'One item must be the substrate' })
+  if (substrates !== 1) {
+    const message = substrates ? 'Only one item can be the substrate' : 'One item must be the substrate'
+    ctx.addIssue({ code: 'custom', path: ['items'], message })
+  }
 })
 export type ItemsInput = z.input<typeof itemsInputSchema>
 

@@ -25,7 +25,8 @@ export const detailQuerySchema = z.object({
 })
 
 export const bulkAcceptSchema = z.object({
-  submissionIds: z.array(recordId('Pick submissions from the list')).min(1, 'Choose at least one submission').max(500, 'At most 500 at a time'),
+  submissionIds: z.array(recordId('Pick submissions from the list'))
+    .min(1, 'Choose at least one submission').max(500, 'At most 500 at a time'),
   /** Points for criteria other than accuracy; missing ones get full marks. */
   scores: rubricScoresSchema.default({}),
 })

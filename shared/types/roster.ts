@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { newPasswordSchema } from './auth'
-import { lineText, recordId, recordIdParam } from './fields'
+import { lineText, recordId } from './fields'
 
 // Rosters, invitations and hood stations: the schemas the forms and the routes share, and the
 // shapes the routes answer with.
@@ -119,7 +119,8 @@ export const enrollmentPatchSchema = z.object({
   confirmConflicts: z.boolean().default(false),
 }).superRefine((p, ctx) => {
   if ((p.station === undefined) !== (p.seat === undefined)) {
-    ctx.addIssue({ code: 'custom', path: [p.station === undefined ? 'station' : 'seat'], message: 'Give the station and the seat together' })
+    const path = [p.station === undefined ? 'station' : 'seat']
+    ctx.addIssue({ code: 'custom', path, message: 'Give the station and the seat together' })
   } else if ((p.station === null) !== (p.seat === null)) {
     ctx.addIssue({ code: 'custom', path: ['seat'], message: 'Clear the station and the seat together' })
   }

@@ -24,9 +24,13 @@ export const sectionInputSchema = z.object({
   if (s.endTime.slice(0, 5) <= s.startTime.slice(0, 5)) ctx.addIssue({ code: 'custom', path: ['endTime'], message: 'End after the start' })
   if (calendarDateProblem(s.firstDate) || calendarDateProblem(s.lastDate)) return
   if (s.lastDate < s.firstDate) ctx.addIssue({ code: 'custom', path: ['lastDate'], message: 'On or after the first date' })
-  else if (daysBetween(s.firstDate, s.lastDate) > MAX_TERM_DAYS) ctx.addIssue({ code: 'custom', path: ['lastDate'], message: `At most ${MAX_TERM_DAYS} days after the first date` })
+  else if (daysBetween(s.firstDate, s.lastDate) > MAX_TERM_DAYS) {
+    ctx.addIssue({ code: 'custom', path: ['lastDate'], message: `At most ${MAX_TERM_DAYS} days after the first date` })
+  }
   s.skippedDates.forEach((d, i) => {
-    if (!calendarDateProblem(d) && (d < s.firstDate || d > s.lastDate)) ctx.addIssue({ code: 'custom', path: ['skippedDates', i], message: 'Between the first and the last date' })
+    if (!calendarDateProblem(d) && (d < s.firstDate || d > s.lastDate)) {
+      ctx.addIssue({ code: 'custom', path: ['skippedDates', i], message: 'Between the first and the last date' })
+    }
   })
 })
 export type SectionInput = z.input<typeof sectionInputSchema>

@@ -24,7 +24,9 @@ export const SIGNAL_WORDS = ['Danger', 'Warning'] as const
 export type SignalWord = (typeof SIGNAL_WORDS)[number]
 
 /** The caution keys a reagent can carry (shown with <SafetyCautions>). */
-export const REAGENT_HAZARDS = ['chlorine', 'sulfuryl-chloride', 'bromine', 'azo-initiator', 'n-bromosuccinimide', 'halogenated-waste', 'light-source'] as const satisfies readonly HazardKey[]
+export const REAGENT_HAZARDS = [
+  'chlorine', 'sulfuryl-chloride', 'bromine', 'azo-initiator', 'n-bromosuccinimide', 'halogenated-waste', 'light-source',
+] as const satisfies readonly HazardKey[]
 export const REAGENT_HAZARD_LABELS: Record<(typeof REAGENT_HAZARDS)[number], string> = {
   'chlorine': 'Chlorine gas',
   'sulfuryl-chloride': 'Sulfuryl chloride',
@@ -58,7 +60,9 @@ export function parseHazardCodes(text: string): string[] {
 
 const isoDate = () => dateField()
 const text = (max: number) => lineText(max)
-const positive = (what: string, max: number) => z.number({ error: `Enter ${what} as a number` }).finite().gt(0, `${what[0]!.toUpperCase()}${what.slice(1)} must be above zero`).max(max, `At most ${max}`)
+const positive = (what: string, max: number) => z.number({ error: `Enter ${what} as a number` }).finite()
+  .gt(0, `${what[0]!.toUpperCase()}${what.slice(1)} must be above zero`)
+  .max(max, `At most ${max}`)
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254)
 
 // ── Reagents ────────────────────────────────────────────────────────────────────────────
@@ -77,13 +81,18 @@ const reagentShape = {
   supplierEmail: email.nullable().or(z.literal('').transform(() => null)),
   catalogNumber: text(60),
   signalWord: z.enum(SIGNAL_WORDS).nullable(),
-  hazardCodes: z.array(z.string().trim().toUpperCase().max(60, 'Use at most 60 characters').regex(HAZARD_CODE, 'Hazard statements look like H225 or H301+H311')).max(30, 'At most 30 hazard statements')
+  hazardCodes: z.array(z.string().trim().toUpperCase()
+    .max(60, 'Use at most 60 characters')
+    .regex(HAZARD_CODE, 'Hazard statements look like H225 or H301+H311'))
+    .max(30, 'At most 30 hazard statements')
     .transform((codes) => [...new Set(codes)]),
   hazards: z.array(z.enum(REAGENT_HAZARDS)).max(REAGENT_HAZARDS.length).transform((keys) => [...new Set(keys)]),
   storageNotes: blockText(1000),
-  shelfLifeMonths: z.number({ error: 'Enter the shelf life in whole months' }).int('Whole months').min(1, 'At least 1 month').max(240, 'At most 240 months').nullable(),
+  shelfLifeMonths: z.number({ error: 'Enter the shelf life in whole months' }).int('Whole months')
+    .min(1, 'At least 1 month').max(240, 'At most 240 months').nullable(),
   overagePercent: z.number({ error: 'Enter the overage as a number' }).finite().min(0, 'At least 0 %').max(200, 'At most 200 %'),
-  lowStockLevel: z.number({ error: 'Enter the level as a number' }).finite().min(0, 'Zero or more').max(1_000_000, 'At most 1 000 000').nullable(),
+  lowStockLevel: z.number({ error: 'Enter the level as a number' }).finite()
+    .min(0, 'Zero or more').max(1_000_000, 'At most 1 000 000').nullable(),
 }
 
 type ReagentRuleInput = { physicalState?: PhysicalStateName, unit?: StockUnitName, signalWord?: SignalWord | null, hazardCodes?: string[] }
@@ -91,9 +100,13 @@ type ReagentRuleInput = { physicalState?: PhysicalStateName, unit?: StockUnitNam
 /** Rules across fields; also checked by PATCH against the merged row. */
 export function reagentRuleIssues(v: ReagentRuleInput): Array<{ field: string, message: string }> {
   const issues: Array<{ field: string, message: string }> = []
-  if (v.physicalState === 'gas' && v.unit !== 'g') issues.push({ field: 'unit', message: 'A gas cylinder is stocked and weighed by mass: use g' })
+  if (v.physicalState === 'gas' && v.unit !== 'g') {
+    issues.push({ field: 'unit', message: 'A gas cylinder is stocked and weighed by mass: use g' })
+  }
   if (v.physicalState === 'solid' && v.unit === 'mL') issues.push({ field: 'unit', message: 'A solid is stocked by mass: use g' })
-  if (v.signalWord && !v.hazardCodes?.length) issues.push({ field: 'hazardCodes', message: 'A signal word goes with at least one hazard statement' })
+  if (v.signalWord && !v.hazardCodes?.length) {
+    issues.push({ field: 'hazardCodes', message: 'A signal word goes with at least one hazard statement' })
+  }
   return issues
 }
 
@@ -134,8 +147,12 @@ export const lotInputSchema = z.object({
   /** Empty: received date + the reagent's shelf life, when it has one. */
   expiresOn: isoDate().nullable().default(null),
 }).superRefine((lot, ctx) => {
-  if (lot.openedOn && lot.openedOn < lot.receivedOn) ctx.addIssue({ code: 'custom', path: ['openedOn'], message: 'Opened before it was received?' })
-  if (lot.expiresOn && lot.expiresOn < lot.receivedOn) ctx.addIssue({ code: 'custom', path: ['expiresOn'], message: 'The expiry is before the received date' })
+  if (lot.openedOn && lot.openedOn < lot.receivedOn) {
+    ctx.addIssue({ code: 'custom', path: ['openedOn'], message: 'Opened before it was received?' })
+  }
+  if (lot.expiresOn && lot.expiresOn < lot.receivedOn) {
+    ctx.addIssue({ code: 'custom', path: ['expiresOn'], message: 'The expiry is before the received date' })
+  }
 })
 export type LotInput = z.input<typeof lotInputSchema>
 
@@ -178,7 +195,9 @@ export const forecastQuerySchema = z.object({
 function forecastRangeIssue(q: { from?: string, to?: string }, ctx: z.RefinementCtx) {
   if (!q.from || !q.to || calendarDateProblem(q.from) || calendarDateProblem(q.to)) return
   if (q.to < q.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'Must be on or after from' })
-  else if (daysBetween(q.from, q.to) > FORECAST_MAX_DAYS) ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${FORECAST_MAX_DAYS} days after from` })
+  else if (daysBetween(q.from, q.to) > FORECAST_MAX_DAYS) {
+    ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${FORECAST_MAX_DAYS} days after from` })
+  }
 }
 export type ForecastQuery = z.input<typeof forecastQuerySchema>
 
@@ -284,8 +303,11 @@ export const orderCreateSchema = z.object({
   from: isoDate().optional(),
   to: isoDate().optional(),
 }).superRefine((v, ctx) => {
-  if (Boolean(v.from) !== Boolean(v.to)) ctx.addIssue({ code: 'custom', path: [v.from ? 'to' : 'from'], message: 'Give both ends of the range, or neither' })
-  else forecastRangeIssue(v, ctx)
+  if (Boolean(v.from) !== Boolean(v.to)) {
+    ctx.addIssue({ code: 'custom', path: [v.from ? 'to' : 'from'], message: 'Give both ends of the range, or neither' })
+  } else {
+    forecastRangeIssue(v, ctx)
+  }
 })
 export type OrderCreateInput = z.input<typeof orderCreateSchema>
 
@@ -472,7 +494,17 @@ export interface StockroomOverview {
   halogenatedWasteMl: number
   unlinkedItems: number
   lowStock: ReagentListItem[]
-  expiring: Array<{ lotId: number, reagentId: number, reagentName: string, lotCode: string, remaining: number, unit: StockUnitName, expiresOn: string, expired: boolean, location: string }>
+  expiring: Array<{
+    lotId: number
+    reagentId: number
+    reagentName: string
+    lotCode: string
+    remaining: number
+    unit: StockUnitName
+    expiresOn: string
+    expired: boolean
+    location: string
+  }>
   orders: OrderSummary[]
 }
 
@@ -508,5 +540,10 @@ export function reagentFormValues(r?: ReagentFields): ReagentFormFields {
 /** The body the reagent routes take, from the form's values. */
 export function reagentFormBody(values: ReagentFormFields) {
   const { hazardCodesText, ...rest } = values
-  return { ...rest, hazardCodes: parseHazardCodes(hazardCodesText), formula: values.smiles ? '' : values.formula, molarMass: values.smiles ? null : values.molarMass }
+  return {
+    ...rest,
+    hazardCodes: parseHazardCodes(hazardCodesText),
+    formula: values.smiles ? '' : values.formula,
+    molarMass: values.smiles ? null : values.molarMass,
+  }
 }

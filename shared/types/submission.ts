@@ -97,7 +97,9 @@ export const reviewInputSchema = z.object({
   comment: blockText(5000).default(''),
   scores: rubricScoresSchema.default({}),
 }).superRefine((r, ctx) => {
-  if (r.decision === 'return' && !r.reason) ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Say why it is returned, so the student can fix it' })
+  if (r.decision === 'return' && !r.reason) {
+    ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Say why it is returned, so the student can fix it' })
+  }
 })
 export type ReviewInput = z.input<typeof reviewInputSchema>
 

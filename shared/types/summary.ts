@@ -8,7 +8,8 @@ export const summaryQuerySchema = z.object({
   /** Leave the flagged outliers out of the statistics (a preview; nothing is excluded). */
   withoutOutliers: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
   /** Generalized ESD: the most outliers to look for (r); by default one in five, at least 2. */
-  maxOutliers: z.coerce.number({ error: 'Enter a whole number' }).int('Enter a whole number').min(1, 'At least 1').max(1000, 'At most 1000').optional(),
+  maxOutliers: z.coerce.number({ error: 'Enter a whole number' }).int('Enter a whole number')
+    .min(1, 'At least 1').max(1000, 'At most 1000').optional(),
 })
 
 export interface OutlierView {
@@ -64,8 +65,19 @@ export interface PracticalSummary {
   keyFactor: KeyFactor
   literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
   withoutOutliers: boolean
-  /** Mean mole % per product over the included results, for observed vs predicted charts; `reference` is null without a reference distribution. */
-  distribution: Array<{ smiles: string, label: string, name: string | null, observed: number | null, predicted: number, statistical: number, reference: number | null }>
+  /**
+   * Mean mole % per product over the included results, for observed vs predicted charts;
+   * `reference` is null without a reference distribution.
+   */
+  distribution: Array<{
+    smiles: string
+    label: string
+    name: string | null
+    observed: number | null
+    predicted: number
+    statistical: number
+    reference: number | null
+  }>
   /** What the class is compared with: the substrate's reference distribution for the reagent, or the class model. */
   comparison: ComparisonView
 }

@@ -124,16 +124,29 @@ function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
   return peaks.filter((p, i) => {
     const where = p.row ? `row ${p.row}` : `peak ${i + 1}`
     if (!Number.isFinite(p?.retentionTime) || !Number.isFinite(p?.area)) {
-      flags.push({ code: 'non-numeric', severity: 'error', message: `The retention time or area of ${where} is not a number; that peak was left out.` })
+      flags.push({
+        code: 'non-numeric',
+        severity: 'error',
+        message: `The retention time or area of ${where} is not a number; that peak was left out.`,
+      })
       return false
     }
     if (p.area < 0 || p.retentionTime < 0) {
-      flags.push({ code: 'negative-value', severity: 'error', retentionTimes: [p.retentionTime], message: `The ${p.area < 0 ? 'area' : 'retention time'} of ${where} is negative; re-integrate that peak. It was left out.` })
+      flags.push({
+        code: 'negative-value',
+        severity: 'error',
+        retentionTimes: [p.retentionTime],
+        message: `The ${p.area < 0 ? 'area' : 'retention time'} of ${where} is negative; re-integrate that peak. It was left out.`,
+      })
       return false
     }
     if (p.area > MAX_PEAK_AREA || p.retentionTime > MAX_RETENTION_MINUTES) {
       const what = p.area > MAX_PEAK_AREA ? 'area is above 1e15' : `retention time is above ${MAX_RETENTION_MINUTES / 60} hours`
-      flags.push({ code: 'out-of-range', severity: 'error', message: `The ${what} at ${where}, beyond any real measurement; that peak was left out.` })
+      flags.push({
+        code: 'out-of-range',
+        severity: 'error',
+        message: `The ${what} at ${where}, beyond any real measurement; that peak was left out.`,
+      })
       return false
     }
     return true
@@ -180,14 +193,33 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
   }
   const solvent = group('solvent', options.solvent?.responseFactor)
   const startingMaterial = group('sm', options.startingMaterial?.responseFactor)
-  if (solvent && solvent.peaks.length === 0) flags.push({ code: 'missing-solvent', severity: 'info', message: `No solvent peak was found (${fmt(options.solvent!.rtMin)}–${fmt(options.solvent!.rtMax)} min); if solvent was injected, make sure its peak has not been counted as a product.` })
-  if (startingMaterial && startingMaterial.peaks.length === 0) flags.push({ code: 'missing-starting-material', severity: 'info', message: 'No starting-material peak was found, so the conversion cannot be given.' })
+  if (solvent && solvent.peaks.length === 0) {
+    const range = `${fmt(options.solvent!.rtMin)}–${fmt(options.solvent!.rtMax)} min`
+    flags.push({
+      code: 'missing-solvent',
+      severity: 'info',
+      message: `No solvent peak was found (${range}); if solvent was injected, make sure its peak has not been counted as a product.`,
+    })
+  }
+  if (startingMaterial && startingMaterial.peaks.length === 0) {
+    flags.push({
+      code: 'missing-starting-material',
+      severity: 'info',
+      message: 'No starting-material peak was found, so the conversion cannot be given.',
+    })
+  }
   // The solvent dwarfs everything else, so unassigned area is judged against the rest.
   const nonSolvent = sumArea(usable) - (solvent?.area ?? 0)
   const unassignedPercent = nonSolvent > 0 ? (sumArea(unassigned) / nonSolvent) * 100 : 0
   const threshold = options.unassignedThresholdPercent ?? 5
   if (unassignedPercent > threshold) {
-    flags.push({ code: 'unassigned-area', severity: 'warning', retentionTimes: unassigned.map((p) => p.retentionTime), message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); look for products of a second halogenation, impurities or drifted peaks.` })
+    flags.push({
+      code: 'unassigned-area',
+      severity: 'warning',
+      retentionTimes: unassigned.map((p) => p.retentionTime),
+      message: `${unassignedPercent.toFixed(1)} % of the peak area (solvent excluded) is in no window (limit ${threshold} %); `
+        + 'look for products of a second halogenation, impurities or drifted peaks.',
+    })
   }
   flags.push(...areaPercentFlags(usable, options.areaPercentTolerance ?? 0.5))
   flags.push(...driftFlags(slots, drift, options.edgeFraction ?? 0.1))
@@ -220,13 +252,29 @@ function validateWindows(windows: ProductWindow[], options: AssignOptions): void
 }
 
 function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOptions, flags: Flag[]) {
-  const slots: Slot[] = windows.map((w) => ({ key: `p:${w.productSmiles}`, name: windowProductLabel(w), product: true, productSmiles: w.productSmiles, window: w, peaks: [] }))
+  const slots: Slot[] = windows.map((w) => ({
+    key: `p:${w.productSmiles}`,
+    name: windowProductLabel(w),
+    product: true,
+    productSmiles: w.productSmiles,
+    window: w,
+    peaks: [],
+  }))
   if (options.solvent) slots.push({ key: 'solvent', name: 'the solvent', product: false, window: options.solvent, peaks: [] })
-  if (options.startingMaterial) slots.push({ key: 'sm', name: 'the starting material', product: false, window: options.startingMaterial, peaks: [] })
+  if (options.startingMaterial) {
+    slots.push({ key: 'sm', name: 'the starting material', product: false, window: options.startingMaterial, peaks: [] })
+  }
   const unassigned: Peak[] = []
   for (const p of peaks) {
     const { slot, ambiguous } = pickSlot(p.retentionTime, slots)
-    if (ambiguous) flags.push({ code: 'overlapping-windows', severity: 'info', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min falls in more than one window; it was given to the window whose centre is closest.` })
+    if (ambiguous) {
+      flags.push({
+        code: 'overlapping-windows',
+        severity: 'info',
+        retentionTimes: [p.retentionTime],
+        message: `The peak at ${fmt(p.retentionTime)} min falls in more than one window; it was given to the window whose centre is closest.`,
+      })
+    }
     if (slot) slot.peaks.push(p)
     else unassigned.push(p)
   }
@@ -238,7 +286,16 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     const rf = windows[i]!.responseFactor ?? 1
     const area = sumArea(s.peaks)
     const largest = [...s.peaks].sort((a, b) => b.area - a.area)[0]
-    return { smiles: windows[i]!.productSmiles, percent: null, area, correctedArea: area / rf, responseFactor: rf, retentionTime: largest?.retentionTime ?? null, peaks: s.peaks, driftMinutes: null }
+    return {
+      smiles: windows[i]!.productSmiles,
+      percent: null,
+      area,
+      correctedArea: area / rf,
+      responseFactor: rf,
+      retentionTime: largest?.retentionTime ?? null,
+      peaks: s.peaks,
+      driftMinutes: null,
+    }
   })
   const shares = sharesOf(products.map((p) => p.correctedArea))
   products.forEach((p, i) => { p.percent = shares[i]! })
@@ -247,12 +304,29 @@ function productResults(slots: Slot[], windows: ProductWindow[], flags: Flag[]):
     const w = windows[i]!
     const range = `${fmt(w.rtMin)}–${fmt(w.rtMax)} min`
     if (s.peaks.length === 0) {
-      flags.push({ code: 'missing-product', severity: 'warning', productSmiles: w.productSmiles, message: `No peak was found for ${s.name} (${range}); it was counted as 0 %. If the product formed, check the integration or whether its peak has moved.` })
+      flags.push({
+        code: 'missing-product',
+        severity: 'warning',
+        productSmiles: w.productSmiles,
+        message: `No peak was found for ${s.name} (${range}); it was counted as 0 %. If the product formed, check the integration or whether its peak has moved.`,
+      })
     } else if (s.peaks.length > 1) {
-      flags.push({ code: 'split-peak', severity: 'warning', productSmiles: w.productSmiles, retentionTimes: s.peaks.map((p) => p.retentionTime), message: `${s.peaks.length} peaks fall in the window for ${s.name} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.` })
+      flags.push({
+        code: 'split-peak',
+        severity: 'warning',
+        productSmiles: w.productSmiles,
+        retentionTimes: s.peaks.map((p) => p.retentionTime),
+        message: `${s.peaks.length} peaks fall in the window for ${s.name} (${range}) and their areas were added; if one of them is another compound, re-integrate or ask your TA.`,
+      })
     }
   })
-  if (total <= 0) flags.push({ code: 'no-product-peaks', severity: 'error', message: 'No product peak has any area, so no mole percentages can be given; check that the right file and windows were used.' })
+  if (total <= 0) {
+    flags.push({
+      code: 'no-product-peaks',
+      severity: 'error',
+      message: 'No product peak has any area, so no mole percentages can be given; check that the right file and windows were used.',
+    })
+  }
   return products
 }
 

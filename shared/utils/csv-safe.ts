@@ -18,6 +18,10 @@ export function neutraliseCell(value: CsvCell): string | number | boolean | null
 /** Rows of cells to CSV text (CRLF line ends, every text cell quoted, a BOM for spreadsheet apps). */
 export function toSafeCsv(header: string[], rows: CsvCell[][]): string {
   const data = [header.map(neutraliseCell), ...rows.map((row) => row.map(neutraliseCell))]
-  const body = Papa.unparse(data as unknown[][], { newline: '\r\n', quotes: (value: unknown) => typeof value === 'string', escapeFormulae: false })
+  const body = Papa.unparse(data as unknown[][], {
+    newline: '\r\n',
+    quotes: (value: unknown) => typeof value === 'string',
+    escapeFormulae: false,
+  })
   return `\uFEFF${body}\r\n`
 }

@@ -41,7 +41,11 @@ const ALLOWED_ATTRIBUTES = new Set([
 ])
 const SAFE_VALUE = /^[#\w\s.,()%+-]*$/
 // openchemlib's pale element colours fail contrast on white; darker shades of the same hues.
-const COLOUR_FIX: Record<string, string> = { 'rgb(31,240,31)': 'rgb(0,128,0)', 'rgb(144,224,80)': 'rgb(46,125,50)', 'rgb(166,41,41)': 'rgb(140,30,30)' }
+const COLOUR_FIX: Record<string, string> = {
+  'rgb(31,240,31)': 'rgb(0,128,0)',
+  'rgb(144,224,80)': 'rgb(46,125,50)',
+  'rgb(166,41,41)': 'rgb(140,30,30)',
+}
 
 const escapeXml = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;')
 
@@ -75,7 +79,13 @@ function segmentDistance(p: Point, a: Point, b: Point): number {
 }
 
 /** Puts each tag where it is farthest from atoms, bonds and tags already placed. */
-function placeTags(atomPos: Point[], bonds: [number, number][], labels: PositionLabel[], distance: number, texts: (Point & { size: number })[]) {
+function placeTags(
+  atomPos: Point[],
+  bonds: [number, number][],
+  labels: PositionLabel[],
+  distance: number,
+  texts: (Point & { size: number })[],
+) {
   const placed: (Point & { label: string })[] = []
   for (const l of labels) {
     for (const atom of l.atoms) {
@@ -113,7 +123,13 @@ export function depictSubstrate(smiles: string, options: DepictOptions = {}): st
   const height = options.height ?? 260
   const prefix = (options.idPrefix ?? 'substrate').replace(/[^A-Za-z0-9_-]/g, '') || 'substrate'
   mol.inventCoordinates()
-  const raw = mol.toSVG(width, height, prefix, { suppressChiralText: true, noStereoProblem: true, suppressCIPParity: true, suppressESR: true, maxAVBL: 40 })
+  const raw = mol.toSVG(width, height, prefix, {
+    suppressChiralText: true,
+    noStereoProblem: true,
+    suppressCIPParity: true,
+    suppressESR: true,
+    maxAVBL: 40,
+  })
   const atomPos: Point[] = []
   for (const m of raw.matchAll(/<circle id="[^"]*:Atom:(\d+)"[^>]*?cx="([-\d.]+)" cy="([-\d.]+)"/g)) {
     atomPos[Number(m[1])] = { x: Number(m[2]), y: Number(m[3]) }
@@ -133,10 +149,23 @@ export function depictSubstrate(smiles: string, options: DepictOptions = {}): st
   const xs = [...atomPos.map((p) => p.x), ...tags.map((t) => t.x)]
   const ys = [...atomPos.map((p) => p.y), ...tags.map((t) => t.y)]
   const pad = radius + 0.5 * bondLength
-  const box = [Math.min(...xs) - pad, Math.min(...ys) - pad, Math.max(...xs) - Math.min(...xs) + 2 * pad, Math.max(...ys) - Math.min(...ys) + 2 * pad].map((v) => v.toFixed(2))
+  const box = [
+    Math.min(...xs) - pad,
+    Math.min(...ys) - pad,
+    Math.max(...xs) - Math.min(...xs) + 2 * pad,
+    Math.max(...ys) - Math.min(...ys) + 2 * pad,
+  ].map((v) => v.toFixed(2))
   const used = labels.filter((l) => l.atoms.length).map((l) => l.label)
-  const title = options.title ?? `Structure of ${analysis?.formula ?? 'the substrate'}${used.length ? `; the letters ${used.join(', ')} mark the carbons whose C–H substitution gives each product` : ''}`
-  const tagMarkup = tags.map((t) => `<g><circle cx="${t.x.toFixed(2)}" cy="${t.y.toFixed(2)}" r="${radius.toFixed(2)}" fill="rgb(255,255,255)" stroke="rgb(30,64,175)" stroke-width="1.4"/><text x="${t.x.toFixed(2)}" y="${t.y.toFixed(2)}" text-anchor="middle" dominant-baseline="central" font-family="sans-serif" font-size="${(1.15 * radius).toFixed(1)}" font-weight="600" fill="rgb(30,64,175)">${escapeXml(t.label)}</text></g>`)
+  const letters = used.length ? `; the letters ${used.join(', ')} mark the carbons whose C–H substitution gives each product` : ''
+  const title = options.title ?? `Structure of ${analysis?.formula ?? 'the substrate'}${letters}`
+  const tagMarkup = tags.map((t) => {
+    const x = t.x.toFixed(2)
+    const y = t.y.toFixed(2)
+    const circle = `<circle cx="${x}" cy="${y}" r="${radius.toFixed(2)}" fill="rgb(255,255,255)" stroke="rgb(30,64,175)" stroke-width="1.4"/>`
+    const text = `<text x="${x}" y="${y}" text-anchor="middle" dominant-baseline="central" font-family="sans-serif"`
+      + ` font-size="${(1.15 * radius).toFixed(1)}" font-weight="600" fill="rgb(30,64,175)">${escapeXml(t.label)}</text>`
+    return `<g>${circle}${text}</g>`
+  })
   const svg = [
     `<svg xmlns="http://www.w3.org/2000/svg" version="1.1" width="${width}" height="${height}" viewBox="${box.join(' ')}" role="img" aria-labelledby="${prefix}-title">`,
     `<title id="${prefix}-title">${escapeXml(title)}</title>`,

@@ -59,16 +59,33 @@ export function gesdTest(values: readonly number[], options: { alpha?: number, m
   const n = xs.length
   if (n < 3) throw new StatisticsError(`The generalized ESD test needs at least 3 results; there are ${n}.`)
   const asked = options.maxOutliers ?? null
-  if (asked !== null && !(Number.isInteger(asked) && asked >= 1)) throw new StatisticsError('The most outliers to look for (r) must be a whole number of at least 1.')
+  if (asked !== null && !(Number.isInteger(asked) && asked >= 1)) {
+    throw new StatisticsError('The most outliers to look for (r) must be a whole number of at least 1.')
+  }
   const r = asked === null ? gesdDefaultMaxOutliers(n) : Math.min(asked, n - 2)
   const notes: string[] = []
-  if (asked !== null && asked > n - 2) notes.push(`At most ${n - 2} outliers can be tested among ${n} results (each step needs a degree of freedom), so r was lowered from ${asked} to ${r}.`)
+  if (asked !== null && asked > n - 2) {
+    notes.push(
+      `At most ${n - 2} outliers can be tested among ${n} results (each step needs a degree of freedom), so r was lowered from ${asked} to ${r}.`,
+    )
+  }
   if (n < GESD_ACCURATE_N) notes.push(`With fewer than ${GESD_ACCURATE_N} results the critical values are approximate.`)
 
   const steps = extremeSteps(xs, r, alpha, n, notes)
   const count = steps.reduce((k, st) => (st.R > st.lambda ? st.step : k), 0)
-  if (count > 0) notes.push(`Step ${count} is the last whose R exceeds its critical value, so the ${count} most extreme result(s) are outliers (up to ${r} tested).`)
-  return { outliers: steps.slice(0, count).map((st) => st.index), steps, count, maxOutliers: r, alpha, note: notes.length ? notes.join(' ') : null }
+  if (count > 0) {
+    notes.push(
+      `Step ${count} is the last whose R exceeds its critical value, so the ${count} most extreme result(s) are outliers (up to ${r} tested).`,
+    )
+  }
+  return {
+    outliers: steps.slice(0, count).map((st) => st.index),
+    steps,
+    count,
+    maxOutliers: r,
+    alpha,
+    note: notes.length ? notes.join(' ') : null,
+  }
 }
 
 /**
@@ -76,8 +93,9 @@ export function gesdTest(values: readonly number[], options: { alpha?: number, m
  * the highest left, so the values are sorted once and the remaining ones stay a contiguous run
  * whose sums are kept as values leave it. Sums are taken about the median (tamed values, so
  * nothing overflows) and summed afresh whenever what is left has fallen far below what was
- * summed, or the mean has moved far from the shift, so no cancellation creeps in. Among equal deviations the value earliest in the input goes first,
- * as a plain scan of the remaining values would choose.
+ * summed, or the mean has moved far from the shift, so no cancellation creeps in. Among equal
+ * deviations the value earliest in the input goes first, as a plain scan of the remaining
+ * values would choose.
  */
 function extremeSteps(xs: number[], r: number, alpha: number, n: number, notes: string[]): GesdStep[] {
   const tamed = tameScale(xs).values
@@ -117,7 +135,9 @@ function extremeSteps(xs: number[], r: number, alpha: number, n: number, notes: 
   const steps: GesdStep[] = []
   for (let i = 1; i <= r; i++) {
     if (at(lo) === at(hi)) {
-      notes.push(i === 1 ? 'All values are equal, so none can be an outlier.' : `After ${i - 1} removal(s) the remaining values are all equal, so the test stops there.`)
+      notes.push(i === 1
+        ? 'All values are equal, so none can be an outlier.'
+        : `After ${i - 1} removal(s) the remaining values are all equal, so the test stops there.`)
       break
     }
     const k = hi - lo + 1

@@ -65,7 +65,11 @@ export function suggestAccuracyPoints(criterion: Pick<GradingCriterion, 'maxPoin
  * Scores to start a review from: accuracy criteria from the tolerance rule, the others at full
  * marks unless `given` says otherwise. Accuracy criteria without a suggestion are left out.
  */
-export function startingScores(rubric: GradingCriterion[], input: AccuracyInput, given: Record<string, number> = {}): Record<string, number> {
+export function startingScores(
+  rubric: GradingCriterion[],
+  input: AccuracyInput,
+  given: Record<string, number> = {},
+): Record<string, number> {
   const scores: Record<string, number> = {}
   for (const c of rubric) {
     if (given[c.key] !== undefined) scores[c.key] = given[c.key]!
@@ -87,7 +91,11 @@ export interface ScoreIssue {
  * Checks scores against the rubric: known keys only, each within 0…maxPoints, and (for an
  * acceptance) every criterion scored. Each issue names `scores.<key>` and the criterion.
  */
-export function rubricScoreIssues(rubric: GradingCriterion[], scores: Record<string, number>, options: { requireAll?: boolean } = {}): ScoreIssue[] {
+export function rubricScoreIssues(
+  rubric: GradingCriterion[],
+  scores: Record<string, number>,
+  options: { requireAll?: boolean } = {},
+): ScoreIssue[] {
   const issues: ScoreIssue[] = []
   const byKey = new Map(rubric.map((c) => [c.key, c]))
   for (const [key, value] of Object.entries(scores)) {

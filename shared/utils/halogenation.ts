@@ -154,7 +154,10 @@ export function predictDistribution(
   const weights = analysis.products.map((p) => p.hydrogens * r[p.carbonClass])
   const total = weights.reduce((s, w) => s + w, 0)
   if (!(total > 0)) {
-    throw new ReactivityInputError('invalid-reactivity', 'Every C–H site of this substrate has zero reactivity, so no distribution can be predicted.')
+    throw new ReactivityInputError(
+      'invalid-reactivity',
+      'Every C–H site of this substrate has zero reactivity, so no distribution can be predicted.',
+    )
   }
   return analysis.products.map((p, i) => ({ ...p, reactivity: r[p.carbonClass], percent: (weights[i]! / total) * 100 }))
 }
@@ -249,7 +252,10 @@ export function relativeReactivities(
   const scale = largest > 0 && !Number.isFinite([...percents.values()].reduce((s, v) => s + v, 0)) ? largest : 1
   const total = [...percents.values()].reduce((s, v) => s + v / scale, 0)
   if (!(total > 0)) throw new ReactivityInputError('no-observed', 'The observed percentages add up to zero.')
-  if (scale !== 1 || Math.abs(total - 100) > 0.5) warnings.push(`The observed percentages add up to ${scale === 1 ? `${total.toFixed(1)} %` : 'far more than 100 %'}; they were rescaled to 100 %.`)
+  if (scale !== 1 || Math.abs(total - 100) > 0.5) {
+    const sum = scale === 1 ? `${total.toFixed(1)} %` : 'far more than 100 %'
+    warnings.push(`The observed percentages add up to ${sum}; they were rescaled to 100 %.`)
+  }
   for (const p of analysis.products) {
     if (!percents.has(p.smiles)) warnings.push(`No percentage was given for ${p.smiles}; it was counted as 0 %.`)
   }
@@ -265,7 +271,9 @@ export function relativeReactivities(
       try { return canonicalSmiles(options.reference!) } catch { return '' }
     })()
     const site = products.find((p) => p.smiles === smiles)
-    if (!site) throw new ReactivityInputError('invalid-reference', `The reference "${options.reference}" is not one of this substrate's products.`)
+    if (!site) {
+      throw new ReactivityInputError('invalid-reference', `The reference "${options.reference}" is not one of this substrate's products.`)
+    }
     reference = { kind: 'site', smiles: site.smiles, description: `per-H reactivity at the ${site.carbonClass} site giving ${site.smiles}` }
     refValue = site.perHydrogen
   } else if (primary) {
@@ -273,13 +281,19 @@ export function relativeReactivities(
     refValue = primary.x / 100 / primary.n
   } else {
     const first = products[0]!
-    reference = { kind: 'site', smiles: first.smiles, description: `the substrate has no primary C–H; relative to the ${first.carbonClass} site giving ${first.smiles}` }
+    reference = {
+      kind: 'site',
+      smiles: first.smiles,
+      description: `the substrate has no primary C–H; relative to the ${first.carbonClass} site giving ${first.smiles}`,
+    }
     refValue = first.perHydrogen
   }
   if (refValue > 0) {
     // A reference far smaller than a site overflows the ratio: no number beats Infinity.
     for (const p of products) p.relativeReactivity = finiteOrNull(p.perHydrogen / refValue)
-    if (products.some((p) => p.relativeReactivity === null)) warnings.push('The reference product is too small against the others for a relative reactivity to be given.')
+    if (products.some((p) => p.relativeReactivity === null)) {
+      warnings.push('The reference product is too small against the others for a relative reactivity to be given.')
+    }
   } else {
     warnings.push('The reference product was not observed, so relative reactivities cannot be given.')
   }

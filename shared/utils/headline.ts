@@ -52,7 +52,10 @@ export interface ClassHeadline {
  * coverage 1 − 2·P(B ≤ k − 1), B ~ Binomial(n, ½), is at least `confidence`: the sign-test
  * interval (common practice). Needs n ≥ 6 at 95 %; its ends are results, so it stays in the data.
  */
-export function medianInterval(values: readonly number[], confidence = 0.95): { ci: [number, number], coverage: number, ranks: [number, number] } | null {
+export function medianInterval(
+  values: readonly number[],
+  confidence = 0.95,
+): { ci: [number, number], coverage: number, ranks: [number, number] } | null {
   const xs = requireFiniteList(values, (message) => new StatisticsError(message))
   if (!(confidence > 0 && confidence < 1)) throw new StatisticsError('The confidence level must lie strictly between 0 and 1.')
   const n = xs.length
@@ -70,7 +73,10 @@ export function medianInterval(values: readonly number[], confidence = 0.95): { 
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
 
-export function chooseHeadline(values: readonly number[], options: { unreviewedOutliers?: number, confidence?: number } = {}): ClassHeadline {
+export function chooseHeadline(
+  values: readonly number[],
+  options: { unreviewedOutliers?: number, confidence?: number } = {},
+): ClassHeadline {
   const xs = requireFiniteList(values, (message) => new StatisticsError(message))
   const confidence = options.confidence ?? 0.95
   const unreviewed = Math.max(0, options.unreviewedOutliers ?? 0)
@@ -96,13 +102,21 @@ export function chooseHeadline(values: readonly number[], options: { unreviewedO
     notes.push('The values span too many orders of magnitude for the log-scale interval to be represented, so the median leads.')
   }
   const ranks = medianInterval(xs, confidence)
-  if (!ranks) notes.push(`A distribution-free ${Math.round(confidence * 100)} % interval for the median needs at least 6 results; there ${xs.length === 1 ? 'is' : 'are'} ${xs.length}.`)
+  if (!ranks) {
+    const verb = xs.length === 1 ? 'is' : 'are'
+    notes.push(
+      `A distribution-free ${Math.round(confidence * 100)} % interval for the median needs at least 6 results; there ${verb} ${xs.length}.`,
+    )
+  }
   const zeroOrBelow = xs.filter((x) => x <= 0).length
+  const noLogarithm = `${plural(zeroOrBelow, 'result is', 'results are')} zero or below, which has no logarithm`
   return {
     ...base, statistic: 'median', value: linear.median, ci95: ranks?.ci ?? null,
-    interval: ranks ? { method: 'order-statistics', confidence, coverage: ranks.coverage, ranks: ranks.ranks } : null,
+    interval: ranks
+      ? { method: 'order-statistics', confidence, coverage: ranks.coverage, ranks: ranks.ranks }
+      : null,
     reason: zeroOrBelow
-      ? `${plural(zeroOrBelow, 'result is', 'results are')} zero or below, which has no logarithm, so the median leads with an interval from the ranked results.`
+      ? `${noLogarithm}, so the median leads with an interval from the ranked results.`
       : 'The median leads with an interval from the ranked results.',
   }
 }

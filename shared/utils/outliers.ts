@@ -38,23 +38,33 @@ export function findOutliers(values: Array<{ submissionId: number, value: number
   const xs = values.map((v) => v.value)
   const at = (i: number) => values[i]!
   if (settings.test === 'gesd') {
-    if (xs.length < 3) return { test: 'gesd', applied: false, outliers: [], note: `The generalized ESD test needs at least 3 results; there are ${xs.length}.`, maxOutliers: null }
+    if (xs.length < 3) {
+      const note = `The generalized ESD test needs at least 3 results; there are ${xs.length}.`
+      return { test: 'gesd', applied: false, outliers: [], note, maxOutliers: null }
+    }
     const g = gesdTest(xs, { alpha: settings.alpha, maxOutliers: settings.maxOutliers ?? null })
     return {
       test: 'gesd',
       applied: true,
-      outliers: g.steps.slice(0, g.count).map((s) => ({ submissionId: at(s.index).submissionId, value: s.value, statistic: s.R, critical: s.lambda, step: s.step })),
+      outliers: g.steps.slice(0, g.count).map((s) => ({
+        submissionId: at(s.index).submissionId, value: s.value, statistic: s.R, critical: s.lambda, step: s.step,
+      })),
       note: g.note,
       maxOutliers: g.maxOutliers,
     }
   }
   if (settings.test === 'grubbs') {
-    if (xs.length < 3) return { test: 'grubbs', applied: false, outliers: [], note: `Grubbs' test needs at least 3 results; there are ${xs.length}.`, maxOutliers: null }
+    if (xs.length < 3) {
+      const note = `Grubbs' test needs at least 3 results; there are ${xs.length}.`
+      return { test: 'grubbs', applied: false, outliers: [], note, maxOutliers: null }
+    }
     const g = grubbsTest(xs, { alpha: settings.alpha })
     return {
       test: 'grubbs',
       applied: true,
-      outliers: g.steps.filter((s) => s.outlier).map((s) => ({ submissionId: at(s.index).submissionId, value: s.value, statistic: s.G, critical: s.critical })),
+      outliers: g.steps.filter((s) => s.outlier).map((s) => ({
+        submissionId: at(s.index).submissionId, value: s.value, statistic: s.G, critical: s.critical,
+      })),
       note: g.note,
       maxOutliers: null,
     }
@@ -78,7 +88,9 @@ export function findOutliers(values: Array<{ submissionId: number, value: number
   return {
     test: 'modified-z',
     applied: z.method !== 'none',
-    outliers: z.outliers.map((i) => ({ submissionId: at(i).submissionId, value: at(i).value, statistic: z.scores[i]!, critical: settings.zscoreLimit })),
+    outliers: z.outliers.map((i) => ({
+      submissionId: at(i).submissionId, value: at(i).value, statistic: z.scores[i]!, critical: settings.zscoreLimit,
+    })),
     note: z.note,
     maxOutliers: null,
   }

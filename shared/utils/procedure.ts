@@ -33,7 +33,9 @@ function substrateMmolOf(item: ItemSpec | undefined): number | null {
   if (!item || item.molarMass === null) return null
   if (item.basis === 'mmol') return item.amount
   if (item.basis === 'g') return convertAmount({ grams: item.amount }, { molarMass: item.molarMass }).mmol
-  if (item.basis === 'mL' && item.density !== null) return convertAmount({ millilitres: item.amount }, { molarMass: item.molarMass, density: item.density }).mmol
+  if (item.basis === 'mL' && item.density !== null) {
+    return convertAmount({ millilitres: item.amount }, { molarMass: item.molarMass, density: item.density }).mmol
+  }
   return null
 }
 
@@ -153,7 +155,10 @@ const DRYING_AGENT = 'anhydrous magnesium sulfate'
  */
 export function defaultItems(substrate: SubstrateLike, reagent: string): ItemSpec[] {
   const items: ItemSpec[] = [
-    { role: 'substrate', name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density, basis: 'mmol', amount: 10 },
+    {
+      role: 'substrate', name: substrate.name, smiles: substrate.smiles,
+      molarMass: substrate.molarMass, density: substrate.density, basis: 'mmol', amount: 10,
+    },
   ]
   const method = methodForReagent(reagent)
   for (const r of method?.reagents ?? []) {

@@ -85,7 +85,9 @@ export function rosterMappingProblems(mapping: RosterMapping, columns: string[])
     if (column && !columns.includes(column)) problems.push({ field, message: `The file has no column “${messageExcerpt(column, 60)}”` })
   }
   if (!mapping.email) problems.push({ field: 'email', message: 'Choose the column with the e-mail addresses' })
-  if (!mapping.name && !mapping.firstName && !mapping.lastName) problems.push({ field: 'name', message: 'Choose the column with the names (or first and last name)' })
+  if (!mapping.name && !mapping.firstName && !mapping.lastName) {
+    problems.push({ field: 'name', message: 'Choose the column with the names (or first and last name)' })
+  }
   if (!mapping.section) problems.push({ field: 'section', message: 'Choose the column with the section codes' })
   return problems
 }
@@ -154,9 +156,17 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
     if (!r.sectionCode) errors.push({ field: 'section', message: 'No section code' })
     else if (!section) errors.push({ field: 'section', message: `No section “${messageExcerpt(r.sectionCode)}” in this course` })
     const account = r.email ? context.accounts.get(r.email) : undefined
-    if (account && account.role !== 'student') errors.push({ field: 'email', message: 'This e-mail belongs to a staff account, not a student' })
+    if (account && account.role !== 'student') {
+      errors.push({ field: 'email', message: 'This e-mail belongs to a staff account, not a student' })
+    }
 
-    const base = { ...r, sectionCode: section?.code ?? r.sectionCode, errors, sectionId: section?.id ?? null, userId: account?.userId ?? null }
+    const base = {
+      ...r,
+      sectionCode: section?.code ?? r.sectionCode,
+      errors,
+      sectionId: section?.id ?? null,
+      userId: account?.userId ?? null,
+    }
     if (errors.length) return { ...base, outcome: 'error' as const }
     if (!account) return { ...base, outcome: 'new' as const }
     if (account.activeSectionId === null) return { ...base, outcome: 'enrol' as const }

@@ -74,7 +74,8 @@ function overlappingDates(a: Meeting[], b: Meeting[]): string[] {
   const dates: string[] = []
   for (const m of a) {
     // Meetings near midnight in different zones could clash across dates; compare instants too.
-    for (const other of [byDate.get(m.date), ...b.filter((x) => x.date !== m.date && Math.abs(Date.parse(x.start) - Date.parse(m.start)) < DAY_MS)]) {
+    const nearby = b.filter((x) => x.date !== m.date && Math.abs(Date.parse(x.start) - Date.parse(m.start)) < DAY_MS)
+    for (const other of [byDate.get(m.date), ...nearby]) {
       if (other && m.start < other.end && other.start < m.end) { dates.push(m.date); break }
     }
   }

@@ -143,19 +143,26 @@ export function formatPeakTable(peaks: Peak[], style: ExportStyle, includeAreaPe
       return [
         'Sample;simulated run', '',
         `No.;Ret. Time [min];Area${includeAreaPercent ? ';Area %' : ''}`,
-        ...rows.map(({ i, p }) => [i, fixed(p.retentionTime, 3, true), fixed(p.area, 1, true), ...(includeAreaPercent ? [pct(p, true)] : [])].join(';')),
+        ...rows.map(({ i, p }) => [
+          i, fixed(p.retentionTime, 3, true), fixed(p.area, 1, true), ...(includeAreaPercent ? [pct(p, true)] : []),
+        ].join(';')),
       ].join('\r\n')
     case 'tab':
       return [
         `Peak\tRetention Time\tPeak Area${includeAreaPercent ? '\tArea Pct' : ''}\tHeight`,
-        ...rows.map(({ i, p }) => [i, fixed(p.retentionTime, 3), fixed(p.area, 2), ...(includeAreaPercent ? [pct(p)] : []), fixed(p.height ?? 0, 1)].join('\t')),
+        ...rows.map(({ i, p }) => [
+          i, fixed(p.retentionTime, 3), fixed(p.area, 2), ...(includeAreaPercent ? [pct(p)] : []), fixed(p.height ?? 0, 1),
+        ].join('\t')),
       ].join('\n')
     case 'aligned': {
       const head = `${'#'.padStart(4)}  ${'RT [min]'.padStart(9)}  ${'Area'.padStart(12)}${includeAreaPercent ? `  ${'Area %'.padStart(8)}` : ''}`
       const sum = peaks.reduce((s, p) => s + p.area, 0)
       return [
         'Integration report (simulated)', 'Column: 30 m nonpolar, 40-200 C', '', head, '-'.repeat(head.length),
-        ...rows.map(({ i, p }) => `${String(i).padStart(4)}  ${fixed(p.retentionTime, 3).padStart(9)}  ${fixed(p.area, 1).padStart(12)}${includeAreaPercent ? `  ${pct(p).padStart(8)}` : ''}`),
+        ...rows.map(({ i, p }) => {
+          const percent = includeAreaPercent ? `  ${pct(p).padStart(8)}` : ''
+          return `${String(i).padStart(4)}  ${fixed(p.retentionTime, 3).padStart(9)}  ${fixed(p.area, 1).padStart(12)}${percent}`
+        }),
         '-'.repeat(head.length),
         `${'Total'.padStart(4)}  ${''.padStart(9)}  ${fixed(sum, 1).padStart(12)}${includeAreaPercent ? `  ${'100.000'.padStart(8)}` : ''}`,
       ].join('\n')
@@ -212,6 +219,8 @@ export function formatTrace(trace: SimulatedTrace, options: { seconds?: boolean,
   const sep = options.decimalComma ? ';' : ','
   const num = (v: number, d: number) => (options.decimalComma ? v.toFixed(d).replace('.', ',') : v.toFixed(d))
   const lines = options.header === false ? [] : [`Time ${options.seconds ? '(s)' : '(min)'}${sep}Signal (pA)`]
-  for (let i = 0; i < trace.time.length; i++) lines.push(`${num(trace.time[i]! * (options.seconds ? 60 : 1), 5)}${sep}${num(trace.signal[i]!, 4)}`)
+  for (let i = 0; i < trace.time.length; i++) {
+    lines.push(`${num(trace.time[i]! * (options.seconds ? 60 : 1), 5)}${sep}${num(trace.signal[i]!, 4)}`)
+  }
   return lines.join('\n')
 }

@@ -2,7 +2,9 @@
 // distribution. Methods: NIST/SEMATECH e-Handbook §1.3.5.17 (Grubbs, per ASTM E178),
 // Rorabacher, Anal. Chem. 63 (1991) 139 (Dixon r10), Iglewicz & Hoaglin (modified z).
 import jStat from 'jstat'
-import { madOf, meanOf as mean, medianOf, quantileOf as quantile, requireFiniteList, sampleSdOf as sampleSd, tameScale } from './lib/moments'
+import {
+  madOf, meanOf as mean, medianOf, quantileOf as quantile, requireFiniteList, sampleSdOf as sampleSd, tameScale,
+} from './lib/moments'
 
 export class StatisticsError extends Error {
   constructor(message: string) {
@@ -66,7 +68,10 @@ export function summarize(values: readonly number[], options: { confidence?: num
   if (!(confidence > 0 && confidence < 1)) throw new StatisticsError('The confidence level must lie strictly between 0 and 1.')
   const logScale = options.logScale ?? false
   const n = xs.length
-  const empty: Summary = { n, scale: logScale ? 'log' : 'linear', mean: null, sd: null, sem: null, ci: null, confidence, median: null, mad: null, q1: null, q3: null, iqr: null, min: null, max: null, cv: null, notes: [] }
+  const empty: Summary = {
+    n, scale: logScale ? 'log' : 'linear', mean: null, sd: null, sem: null, ci: null, confidence,
+    median: null, mad: null, q1: null, q3: null, iqr: null, min: null, max: null, cv: null, notes: [],
+  }
   if (n === 0) return { ...empty, notes: ['No values.'] }
   if (logScale && xs.some((v) => v <= 0)) return { ...empty, notes: ['A log-scale summary needs values above zero.'] }
   // Linear figures are computed on tamed values and multiplied back; logs never overflow.
@@ -92,7 +97,13 @@ export function summarize(values: readonly number[], options: { confidence?: num
   else if (m !== 0) cv = sd / Math.abs(m)
   else { cv = null; notes.push('The CV is undefined because the mean is zero.') }
   return withoutOverflow({
-    ...base, mean: back(m), sd: logScale ? sd : unit(sd), sem: logScale ? sem : unit(sem), ci: [back(m - t * sem), back(m + t * sem)], cv, notes,
+    ...base,
+    mean: back(m),
+    sd: logScale ? sd : unit(sd),
+    sem: logScale ? sem : unit(sem),
+    ci: [back(m - t * sem), back(m + t * sem)],
+    cv,
+    notes,
   })
 }
 
@@ -146,7 +157,9 @@ export function grubbsTest(
     const m = mean(vals)
     const sd = sampleSd(vals)
     if (sd === 0) { result.note = 'All remaining values are equal, so none can be an outlier.'; break }
-    const score = (v: number) => (twoSided ? Math.abs(v - m) : options.side === 'low' ? m - v : options.side === 'high' ? v - m : Math.abs(v - m))
+    const score = (v: number) => (
+      twoSided ? Math.abs(v - m) : options.side === 'low' ? m - v : options.side === 'high' ? v - m : Math.abs(v - m)
+    )
     const suspect = remaining.reduce((best, r) => (score(r.value) > score(best.value) ? r : best))
     const G = score(suspect.value) / sd
     const t = tCritical(1 - (twoSided ? alpha / (2 * n) : alpha / n), n - 2)
@@ -192,14 +205,27 @@ export function dixonQTest(values: readonly number[], options: { confidence?: nu
   const xs = finiteValues(values)
   const confidence = options.confidence ?? 0.95
   const table = DIXON_R10_CRITICAL[String(confidence)]
-  if (!table) throw new StatisticsError(`Dixon's Q test is available at ${Object.keys(DIXON_R10_CRITICAL).map((k) => `${Number(k) * 100} %`).join(' and ')} confidence.`)
+  if (!table) {
+    const levels = Object.keys(DIXON_R10_CRITICAL).map((k) => `${Number(k) * 100} %`).join(' and ')
+    throw new StatisticsError(`Dixon's Q test is available at ${levels} confidence.`)
+  }
   const n = xs.length
-  if (n < 3 || n > 10) throw new StatisticsError(`Dixon's Q test (r10) needs 3 to 10 values; there are ${n}. Use Grubbs' test or the modified z-score for other sizes.`)
+  if (n < 3 || n > 10) {
+    throw new StatisticsError(
+      `Dixon's Q test (r10) needs 3 to 10 values; there are ${n}. Use Grubbs' test or the modified z-score for other sizes.`,
+    )
+  }
   // Q is a ratio of gaps: tamed values keep the range finite (lib/moments.ts).
   const order = tameScale(xs).values.map((value, index) => ({ value, index })).sort((a, b) => a.value - b.value)
   const range = order[n - 1]!.value - order[0]!.value
   const critical = table[n - 3]!
-  if (range === 0) return { n, q: 0, critical, confidence, index: order[n - 1]!.index, value: xs[order[n - 1]!.index]!, side: 'high', outlier: false, note: 'All values are equal, so none can be an outlier.' }
+  if (range === 0) {
+    const top = order[n - 1]!.index
+    return {
+      n, q: 0, critical, confidence, index: top, value: xs[top]!, side: 'high', outlier: false,
+      note: 'All values are equal, so none can be an outlier.',
+    }
+  }
   const low = (order[1]!.value - order[0]!.value) / range
   const high = (order[n - 1]!.value - order[n - 2]!.value) / range
   const side = high >= low ? 'high' : 'low'

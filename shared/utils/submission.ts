@@ -68,7 +68,10 @@ export interface RunInput {
   expected?: Expectation
   /** Class model: a key factor further than this multiple from the expected value is flagged. Default 2. */
   farFactor?: number
-  /** Reference distribution: a mixture further than this many percentage points from it (half the sum of |observed − reference|) is flagged. Default 15. */
+  /**
+   * Reference distribution: a mixture further than this many percentage points from it (half the
+   * sum of |observed − reference|) is flagged. Default 15.
+   */
   farPoints?: number
 }
 
@@ -103,11 +106,19 @@ export function attentionOf(flags: RunFlag[]): number {
   return flags.reduce((max, f) => Math.max(max, RANK[f.severity]), 0)
 }
 
-function readPeaks(source: RunSource, expectedMaxMinutes: number | undefined): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
+function readPeaks(
+  source: RunSource,
+  expectedMaxMinutes: number | undefined,
+): { kind: RunResult['kind'], peaks: Peak[], warnings: string[], flags: RunFlag[] } {
   const integrate = (time: ArrayLike<number>, signal: ArrayLike<number>, warnings: string[]) => {
     const detected = detectPeaks({ time, signal })
-    const flags = detected.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity === 'warning' ? 'warning' : 'info'], message: f.message }))
-    return { kind: 'trace' as const, peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })), warnings, flags }
+    const flags = detected.flags.map((f) => ({
+      code: f.code,
+      severity: SEVERITY[f.severity === 'warning' ? 'warning' : 'info'],
+      message: f.message,
+    }))
+    const peaks = detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height }))
+    return { kind: 'trace' as const, peaks, warnings, flags }
   }
   if (source.kind === 'trace') return integrate(source.time, source.signal, source.warnings ?? [])
   if (source.kind === 'peaks') return { kind: 'peak-table', peaks: source.peaks, warnings: source.warnings ?? [], flags: [] }
@@ -185,7 +196,11 @@ const CHECK_ASSIGNMENT = 'Check the peak assignment against the retention window
 function farFromPrediction(input: RunInput, factors: RunResult['factors'], molePercents: RunResult['molePercents']): RunFlag[] {
   const expected = expectationOf(input)
   if (expected.basis === 'reference') {
-    const gaps = expected.percents.map((e) => ({ smiles: e.smiles, expected: e.percent, observed: molePercents.find((m) => m.smiles === e.smiles)?.percent ?? 0 }))
+    const gaps = expected.percents.map((e) => ({
+      smiles: e.smiles,
+      expected: e.percent,
+      observed: molePercents.find((m) => m.smiles === e.smiles)?.percent ?? 0,
+    }))
     const distance = gaps.reduce((sum, g) => sum + Math.abs(g.observed - g.expected), 0) / 2
     const limit = input.farPoints ?? 15
     if (!molePercents.some((m) => m.percent > 0) || distance <= limit) return []
@@ -203,7 +218,8 @@ function farFromPrediction(input: RunInput, factors: RunResult['factors'], moleP
   if (observed === null || value === null || !(value > 0)) return []
   if (observed > 0 && Math.abs(Math.log(observed / value)) <= Math.log(limit)) return []
   const name = KEY_FACTOR_LABELS[key]
-  const caveat = expected.substituted ? ' That value comes from the class model, which ignores the effect of the halogen already on the substrate, so treat it as a rough guide.' : ''
+  const modelCaveat = ' That value comes from the class model, which ignores the effect of the halogen already on the substrate, so treat it as a rough guide.'
+  const caveat = expected.substituted ? modelCaveat : ''
   return [{
     code: 'far-from-prediction',
     severity: 'warning',
@@ -215,7 +231,8 @@ export function evaluateRun(input: RunInput): RunResult {
   // The last window's end tells seconds from minutes when a file does not say (a 65 s peak is not a 65 min one).
   const ends = [...input.windows.map((w) => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
   const expectedMaxMinutes = input.windows.length ? Math.max(...ends) : undefined
-  const { kind, peaks, warnings, flags: readFlags } = readPeaks(input.source ?? { kind: 'text', text: input.text ?? '' }, expectedMaxMinutes)
+  const source: RunSource = input.source ?? { kind: 'text', text: input.text ?? '' }
+  const { kind, peaks, warnings, flags: readFlags } = readPeaks(source, expectedMaxMinutes)
   if (!peaks.length) throw new RunInputError('No peaks were found in the file')
   const named = input.windows.map((w) => ({ ...w, name: w.name ?? input.products.find((p) => p.smiles === w.productSmiles)?.name ?? null }))
   const assigned = assignPeaks(peaks, named, {
@@ -229,9 +246,17 @@ export function evaluateRun(input: RunInput): RunResult {
     : null
   // A factor is a finite number or null: Infinity or NaN would poison the class statistics.
   const finiteFactor = (v: number | null | undefined) => (typeof v === 'number' && Number.isFinite(v) ? v : null)
-  const factors = { secondaryToPrimary: finiteFactor(reactivity?.factors.secondaryToPrimary), tertiaryToPrimary: finiteFactor(reactivity?.factors.tertiaryToPrimary) }
+  const factors = {
+    secondaryToPrimary: finiteFactor(reactivity?.factors.secondaryToPrimary),
+    tertiaryToPrimary: finiteFactor(reactivity?.factors.tertiaryToPrimary),
+  }
   const engineFlags: RunFlag[] = assigned.flags.map((f) => ({ code: f.code, severity: SEVERITY[f.severity], message: f.message }))
-  const flags = [...readFlags, ...engineFlags, ...countedAsProduct(input, assigned, molePercents), ...farFromPrediction(input, factors, molePercents)]
+  const flags = [
+    ...readFlags,
+    ...engineFlags,
+    ...countedAsProduct(input, assigned, molePercents),
+    ...farFromPrediction(input, factors, molePercents),
+  ]
   // Peaks are matched by value: the engine may hand back copies.
   const keyOf = (p: Peak) => `${p.retentionTime}|${p.area}`
   const owner = new Map<string, string>()
@@ -315,14 +340,29 @@ export const isSubstituted = (smiles: string) => /Cl|Br|F|I/.test(smiles)
  * The reference distribution over the substrate's products (missing ones at 0 %), normalised to
  * 100, with the class factors it implies; null when it covers none of the products.
  */
-export function referenceExpectation(analysis: { products: Array<RunProduct & { atoms?: number[] }> }, reference: ReferenceDistribution, substituted: boolean): Expectation | null {
-  const raw = analysis.products.map((p) => ({ smiles: p.smiles, percent: Math.max(0, reference.percents.find((r) => r.smiles === p.smiles)?.percent ?? 0) }))
+export function referenceExpectation(
+  analysis: { products: Array<RunProduct & { atoms?: number[] }> },
+  reference: ReferenceDistribution,
+  substituted: boolean,
+): Expectation | null {
+  const raw = analysis.products.map((p) => ({
+    smiles: p.smiles,
+    percent: Math.max(0, reference.percents.find((r) => r.smiles === p.smiles)?.percent ?? 0),
+  }))
   const total = raw.reduce((sum, r) => sum + r.percent, 0)
   if (!(total > 0) || !Number.isFinite(total)) return null
   const percents = raw.map((r) => ({ smiles: r.smiles, percent: (r.percent / total) * 100 }))
   const { factors } = relativeReactivities({ products: analysis.products.map((p) => ({ ...p, atoms: p.atoms ?? [] })) }, percents)
   const memory = reference.sourceKind === 'from-memory' && !/from memory/i.test(reference.source) ? ' (from memory)' : ''
-  return { basis: 'reference', percents, factors, description: `the reference distribution from ${reference.source}${memory}`, source: reference.source, sourceKind: reference.sourceKind, substituted }
+  return {
+    basis: 'reference',
+    percents,
+    factors,
+    description: `the reference distribution from ${reference.source}${memory}`,
+    source: reference.source,
+    sourceKind: reference.sourceKind,
+    substituted,
+  }
 }
 
 /**
@@ -331,7 +371,12 @@ export function referenceExpectation(analysis: { products: Array<RunProduct & { 
  * those products, the method's prediction and class factors, and the expectation runs are
  * judged against.
  */
-export function practicalChemistryOf(substrateSmiles: string, method: MethodFactors, windowRows: WindowRow[], extras: PracticalExtras = {}): PracticalChemistry {
+export function practicalChemistryOf(
+  substrateSmiles: string,
+  method: MethodFactors,
+  windowRows: WindowRow[],
+  extras: PracticalExtras = {},
+): PracticalChemistry {
   const analysis = extras.analysis ?? analyzeSubstrate(substrateSmiles, { halogen: method.halogen })
   const predicted = predictDistribution(analysis, { primary: method.rPrimary, secondary: method.rSecondary, tertiary: method.rTertiary })
   const totalH = analysis.products.reduce((n, p) => n + p.hydrogens, 0)
@@ -349,16 +394,21 @@ export function practicalChemistryOf(substrateSmiles: string, method: MethodFact
   const model = predicted.map((p) => ({ smiles: p.smiles, percent: p.percent }))
   const substituted = isSubstituted(substrateSmiles)
   return {
-    products: analysis.products.map((p, i) => ({ smiles: p.smiles, label: positionLetter(i), name: nameOf(p.smiles), hydrogens: p.hydrogens, carbonClass: p.carbonClass })),
+    products: analysis.products.map((p, i) => ({
+      smiles: p.smiles, label: positionLetter(i), name: nameOf(p.smiles), hydrogens: p.hydrogens, carbonClass: p.carbonClass,
+    })),
     windows: windowRows.filter((r) => r.kind === 'product' && r.productSmiles && productSet.has(r.productSmiles))
-      .map((r) => ({ productSmiles: r.productSmiles!, rtMin: r.rtMin, rtMax: r.rtMax, responseFactor: r.responseFactor, name: nameOf(r.productSmiles!) })),
+      .map((r) => ({
+        productSmiles: r.productSmiles!, rtMin: r.rtMin, rtMax: r.rtMax, responseFactor: r.responseFactor, name: nameOf(r.productSmiles!),
+      })),
     solvent: reference('solvent'),
     startingMaterial: reference('starting-material'),
     predicted: model,
     statistical: analysis.products.map((p) => ({ smiles: p.smiles, percent: (p.hydrogens / totalH) * 100 })),
     literature,
     keyFactor: keyFactorOf(analysis.products),
-    expected: (extras.reference && referenceExpectation(analysis, extras.reference, substituted)) || classModelExpectation({ predicted: model, literature }, substituted),
+    expected: (extras.reference && referenceExpectation(analysis, extras.reference, substituted))
+      || classModelExpectation({ predicted: model, literature }, substituted),
     productKind: productKindWord(substrateSmiles, method.halogen),
   }
 }

@@ -107,7 +107,11 @@ export interface PeakMappingSuggestion extends SuggestedWindow {
 }
 
 /** Suggested windows for a standard run's peaks, each with the saved window it falls in. */
-export function suggestionsForRun(peaks: readonly PeakForMapping[], saved: readonly SavedWindowRef[], options: { halfWidth?: number } = {}): PeakMappingSuggestion[] {
+export function suggestionsForRun(
+  peaks: readonly PeakForMapping[],
+  saved: readonly SavedWindowRef[],
+  options: { halfWidth?: number } = {},
+): PeakMappingSuggestion[] {
   return suggestWindows(peaks.map((p) => p.retentionTime), options).map((s) => {
     const holder = windowHolding(s.rt, saved)
     return { ...s, area: peaks[s.peakIndex]!.area, current: holder ? { kind: holder.kind, productSmiles: holder.productSmiles } : null }
@@ -146,14 +150,34 @@ export interface WindowDraft extends WindowIdentity {
 }
 
 interface DraftProduct { label: string, smiles: string, brominated: string, name?: string | null, brominatedName?: string | null }
-interface DraftSaved { kind: WindowDraft['kind'], productSmiles: string | null, label: string, rtMin: number, rtMax: number, responseFactor: number }
-
+interface DraftProduct {
+  label: string
+  smiles: string
+  brominated: string
+  name?: string | null
+  brominatedName?: string | null
+}
+interface DraftSaved {
+  kind: WindowDraft['kind']
+  productSmiles: string | null
+  label: string
+  rtMin: number
+  rtMax: number
+  responseFactor: number
+}
 export const draftKeyOf = (kind: WindowDraft['kind'], halogen: 'Cl' | 'Br' | null, productSmiles: string | null) =>
   kind === 'product' ? `${halogen}:${productSmiles}` : kind
 
 /** Solvent, starting material, then each product for chlorination and for bromination. */
 export function windowDrafts(products: readonly DraftProduct[], saved: readonly DraftSaved[]): WindowDraft[] {
-  const row = (kind: WindowDraft['kind'], halogen: 'Cl' | 'Br' | null, productSmiles: string | null, position: string | null, fallback: string, name: string | null = null): WindowDraft => {
+  const row = (
+    kind: WindowDraft['kind'],
+    halogen: 'Cl' | 'Br' | null,
+    productSmiles: string | null,
+    position: string | null,
+    fallback: string,
+    name: string | null = null,
+  ): WindowDraft => {
     const s = saved.find((w) => w.kind === kind && (kind !== 'product' || w.productSmiles === productSmiles))
     return {
       key: draftKeyOf(kind, halogen, productSmiles), kind, productSmiles, position, halogen,
@@ -172,7 +196,9 @@ export function windowDrafts(products: readonly DraftProduct[], saved: readonly 
 
 /** The names the editor sends with the windows: one per product row, empty for "no name of its own". */
 export function draftProductNames(drafts: readonly WindowDraft[]): Array<{ productSmiles: string, name: string }> {
-  return drafts.filter((d) => d.kind === 'product' && d.productSmiles).map((d) => ({ productSmiles: d.productSmiles!, name: d.name.trim() }))
+  return drafts
+    .filter((d) => d.kind === 'product' && d.productSmiles)
+    .map((d) => ({ productSmiles: d.productSmiles!, name: d.name.trim() }))
 }
 
 /** A row counts as a window once either end is filled in. */

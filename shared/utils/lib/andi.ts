@@ -129,7 +129,13 @@ function storedPeaks(reader: AndiReader, factor: number): Peak[] | null {
     if (!isValue(rt)) errors.push({ row: i + 1, code: 'non-numeric', message: `${label}: the retention time is missing.` })
     else if (rt < 0) errors.push({ row: i + 1, code: 'negative-value', message: `${label}: the retention time ${rt} is negative.` })
     if (!isValue(area)) errors.push({ row: i + 1, code: 'non-numeric', message: `${label}: the area is missing.` })
-    else if (area < 0) errors.push({ row: i + 1, code: 'negative-value', message: `${label}: the area ${area} is negative; re-integrate the peak or check the baseline.` })
+    else if (area < 0) {
+      errors.push({
+        row: i + 1,
+        code: 'negative-value',
+        message: `${label}: the area ${area} is negative; re-integrate the peak or check the baseline.`,
+      })
+    }
     if (!isValue(rt) || !isValue(area) || rt < 0 || area < 0) continue
     const peak: Peak = { retentionTime: rt * factor, area, row: i + 1 }
     if (isValue(heights[i])) peak.height = heights[i]
@@ -149,7 +155,9 @@ function timeAxis(reader: AndiReader, points: number, factor: number, warnings: 
   const runLength = reader.scalar('actual_run_time_length')
   let interval = reader.scalar('actual_sampling_interval')
   if (interval === null && runLength !== null) interval = runLength / points
-  if (interval === null || !(interval > 0)) throw new AndiFileError('the file gives no time axis: actual_sampling_interval is missing or not positive.')
+  if (interval === null || !(interval > 0)) {
+    throw new AndiFileError('the file gives no time axis: actual_sampling_interval is missing or not positive.')
+  }
   let delay = reader.scalar('actual_delay_time')
   if (delay === null) {
     warnings.push('The file gives no delay time (actual_delay_time); the trace was taken to start at 0.')
@@ -157,7 +165,9 @@ function timeAxis(reader: AndiReader, points: number, factor: number, warnings: 
   }
   // The run length is the points times the interval; a large mismatch means one of them is off.
   if (runLength !== null && runLength > 0 && Math.abs(points * interval - runLength) > Math.max(2 * interval, 0.05 * runLength)) {
-    warnings.push(`The file's run length (${runLength}) does not match its ${points} points at ${interval} each; the time axis follows the sampling interval.`)
+    warnings.push(
+      `The file's run length (${runLength}) does not match its ${points} points at ${interval} each; the time axis follows the sampling interval.`,
+    )
   }
   const time = new Array<number>(points)
   for (let i = 0; i < points; i++) time[i] = (delay + i * interval) * factor
@@ -176,11 +186,17 @@ export function readAndiChromatogram(bytes: Uint8Array): AndiContent {
   const peaks = storedPeaks(reader, factor)
   if (peaks) {
     if (!peaks.length) throw new AndiFileError('the file\'s peak table has no peaks.')
-    warnings.unshift(`The file holds the instrument's own peak table (${peaks.length} peaks): it was used as stored, not integrated again here.`)
+    warnings.unshift(
+      `The file holds the instrument's own peak table (${peaks.length} peaks): it was used as stored, not integrated again here.`,
+    )
     return { kind: 'peaks', peaks, warnings }
   }
   const signalVar = reader.variable('ordinate_values')
-  if (!signalVar) throw new AndiFileError('the file holds neither a detector trace (ordinate_values) nor a peak table (peak_retention_time, peak_area).')
+  if (!signalVar) {
+    throw new AndiFileError(
+      'the file holds neither a detector trace (ordinate_values) nor a peak table (peak_retention_time, peak_area).',
+    )
+  }
   const signal = reader.numbers(signalVar)
   if (signal.length > MAX_TRACE_POINTS) throw new AndiFileError(`the trace has more than ${MAX_TRACE_POINTS} points.`)
   if (signal.length < 10) throw new AndiFileError('the trace has fewer than 10 points.')

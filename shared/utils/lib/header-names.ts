@@ -136,5 +136,6 @@ export function isColumnName(text: string): boolean {
   const compact = compactOf(list)
   const kind = nameKind(compact)
   // Signal names double as units ("pA", "mV"): "Height/µV" is a height with a unit.
-  return (kind !== null && kind !== 'signal') || ['width', 'name', 'type', 'conc', 'amount', 'breite', 'largeur', 'anchura', 'larghezza', 'breedte', 'szerokosc'].includes(compact)
+  return (kind !== null && kind !== 'signal')
+    || ['width', 'name', 'type', 'conc', 'amount', 'breite', 'largeur', 'anchura', 'larghezza', 'breedte', 'szerokosc'].includes(compact)
 }

@@ -110,13 +110,16 @@ function readMolecule(input: string, limit: SmilesLimit = SMILES_LIMITS.reagent)
   const problem = smilesSyntaxProblem(smiles)
   if (problem) throw new SubstrateError('unparsable', `That SMILES could not be read: ${problem}`)
   // openchemlib reads the wildcard atom as a carbon query atom.
-  if (smiles.includes('*')) throw new SubstrateError('unsupported-element', 'The wildcard atom "*" is not supported: enter a complete structure.')
+  if (smiles.includes('*')) {
+    throw new SubstrateError('unsupported-element', 'The wildcard atom "*" is not supported: enter a complete structure.')
+  }
   let mol: Molecule
   try {
     // Constitutional products are wanted, so stereo is dropped at the door.
     mol = Molecule.fromSmiles(smiles, { noStereo: true })
   } catch (error) {
-    throw new SubstrateError('unparsable', `That SMILES could not be read: ${parserProblemInWords(String((error as Error)?.message ?? error))}`)
+    const problem = parserProblemInWords(String((error as Error)?.message ?? error))
+    throw new SubstrateError('unparsable', `That SMILES could not be read: ${problem}`)
   }
   if (mol.getAllAtoms() === 0) throw new SubstrateError('unparsable', 'That SMILES contains no atoms.')
   mol.stripStereoInformation()
@@ -153,16 +156,25 @@ function assertSubstrateAtoms(mol: Molecule): void {
     }
   }
   for (let a = 0; a < mol.getAllAtoms(); a++) {
-    if (mol.getAtomCharge(a) !== 0) throw new SubstrateError('charged', `Atom ${a + 1} (${label(mol, a)}) carries a charge: enter the neutral substrate.`)
-    if (mol.getAtomRadical(a) !== 0) throw new SubstrateError('radical', `Atom ${a + 1} (${label(mol, a)}) is a radical or carbene: enter a closed-shell substrate (check the hydrogen count in brackets).`)
-    if (mol.getAtomMass(a) !== 0) throw new SubstrateError('isotope', `Atom ${a + 1} (${label(mol, a)}) is isotope-labelled: isotope labels are not supported.`)
+    const atom = `Atom ${a + 1} (${label(mol, a)})`
+    if (mol.getAtomCharge(a) !== 0) throw new SubstrateError('charged', `${atom} carries a charge: enter the neutral substrate.`)
+    if (mol.getAtomRadical(a) !== 0) {
+      throw new SubstrateError(
+        'radical',
+        `${atom} is a radical or carbene: enter a closed-shell substrate (check the hydrogen count in brackets).`,
+      )
+    }
+    if (mol.getAtomMass(a) !== 0) throw new SubstrateError('isotope', `${atom} is isotope-labelled: isotope labels are not supported.`)
   }
 }
 
 function assertValencesAndBonds(mol: Molecule): void {
   for (let b = 0; b < mol.getAllBonds(); b++) {
     if (mol.getBondOrder(b) !== 1 || mol.isAromaticBond(b)) {
-      throw new SubstrateError('unsaturated', 'The substrate has a double, triple or aromatic bond: only saturated substrates (alkanes, cycloalkanes, haloalkanes) follow the per-H model.')
+      throw new SubstrateError(
+        'unsaturated',
+        'The substrate has a double, triple or aromatic bond: only saturated substrates (alkanes, cycloalkanes, haloalkanes) follow the per-H model.',
+      )
     }
   }
   for (let a = 0; a < mol.getAtoms(); a++) {
@@ -170,7 +182,11 @@ function assertValencesAndBonds(mol: Molecule): void {
     const valence = mol.getConnAtoms(a) + mol.getAllHydrogens(a)
     const expected = mol.getAtomicNo(a) === 6 ? 4 : 1
     if (valence !== expected) {
-      throw new SubstrateError('valence', `Atom ${a + 1} (${label(mol, a)}) has ${valence} bond${valence === 1 ? '' : 's'} but ${label(mol, a)} needs ${expected}: check the hydrogen count or the branches.`)
+      const bonds = `${valence} bond${valence === 1 ? '' : 's'}`
+      throw new SubstrateError(
+        'valence',
+        `Atom ${a + 1} (${label(mol, a)}) has ${bonds} but ${label(mol, a)} needs ${expected}: check the hydrogen count or the branches.`,
+      )
     }
   }
 }
@@ -188,7 +204,10 @@ export function parseSubstrateMolecule(smiles: string, limit: SmilesLimit = SMIL
   mol.removeExplicitHydrogens()
   mol.ensureHelperArrays(Molecule.cHelperSymmetrySimple)
   if (mol.getAtoms() > limit.heavyAtoms) {
-    throw new SubstrateError('too-large', `The substrate is too large: it has ${mol.getAtoms()} heavy atoms; the limit is ${limit.heavyAtoms}.`)
+    throw new SubstrateError(
+      'too-large',
+      `The substrate is too large: it has ${mol.getAtoms()} heavy atoms; the limit is ${limit.heavyAtoms}.`,
+    )
   }
   let hasCarbon = false
   for (let a = 0; a < mol.getAtoms(); a++) if (mol.getAtomicNo(a) === 6) hasCarbon = true

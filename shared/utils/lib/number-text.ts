@@ -170,8 +170,12 @@ function quickAnalysis(s: string): CellAnalysis | null {
   const fraction = s.slice(mark + 1)
   const c = s[mark] as Mark
   const groupable = whole.length <= 3 && whole[0] !== '0' && fraction.length === 3
-  const asDecimal: NumberReading = { value: Number(`${s.slice(0, mark)}.${fraction}`), grouped: false, intDigits: digitsOf(whole), ambiguous: groupable }
-  const asGroup: NumberReading | null = groupable ? { value: Number(s.slice(0, mark) + fraction), grouped: true, intDigits: whole.length + 3, ambiguous: true } : null
+  const asDecimal: NumberReading = {
+    value: Number(`${s.slice(0, mark)}.${fraction}`), grouped: false, intDigits: digitsOf(whole), ambiguous: groupable,
+  }
+  const asGroup: NumberReading | null = groupable
+    ? { value: Number(s.slice(0, mark) + fraction), grouped: true, intDigits: whole.length + 3, ambiguous: true }
+    : null
   return c === '.'
     ? { kind: 'number', dot: asDecimal, comma: asGroup, mark: c }
     : { kind: 'number', dot: asGroup, comma: asDecimal, mark: c }

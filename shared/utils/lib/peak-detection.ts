@@ -319,11 +319,23 @@ function measure(t: Float64Array, y: Float64Array, s: Float64Array, rs: Float64A
   const unsmooth = (half: number | null) => (half === null ? null : Math.sqrt(Math.max(half * half - added, 0.25 * half * half)))
   const leftHalf = unsmooth(left === null ? null : rt - left)
   const rightHalf = unsmooth(right === null ? null : right - rt)
-  const fwhm = leftHalf !== null && rightHalf !== null ? leftHalf + rightHalf : leftHalf !== null ? 2 * leftHalf : rightHalf !== null ? 2 * rightHalf : null
-  return { retentionTime: rt, area, height, startTime: t[p.from]!, endTime: t[p.to]!, widthAtHalfHeight: fwhm, overlapped: false, leftHalf, rightHalf }
+  const fwhm = leftHalf !== null && rightHalf !== null
+    ? leftHalf + rightHalf
+    : leftHalf !== null ? 2 * leftHalf : rightHalf !== null ? 2 * rightHalf : null
+  return {
+    retentionTime: rt, area, height, startTime: t[p.from]!, endTime: t[p.to]!,
+    widthAtHalfHeight: fwhm, overlapped: false, leftHalf, rightHalf,
+  }
 }
 
-function integrate(t: Float64Array, y: Float64Array, pass: ReturnType<typeof pickPeaks>, w: number, noise: number, options: DetectPeaksOptions): DetectPeaksResult {
+function integrate(
+  t: Float64Array,
+  y: Float64Array,
+  pass: ReturnType<typeof pickPeaks>,
+  w: number,
+  noise: number,
+  options: DetectPeaksOptions,
+): DetectPeaksResult {
   const rs = new Float64Array(y.length)
   const measured = pass.raw.map((p) => measure(t, y, pass.s, rs, p, w))
   const flags = overlapFlags(measured, pass.raw, options.overlapTolerance ?? 0.01)
@@ -340,7 +352,9 @@ function integrate(t: Float64Array, y: Float64Array, pass: ReturnType<typeof pic
   const peaks: DetectedPeak[] = measured
     .filter((p) => p.height >= (options.minHeight ?? 0) && p.area >= (options.minArea ?? 0))
     .map(({ leftHalf: _l, rightHalf: _r, ...peak }) => peak)
-  if (peaks.length === 0) flags.push({ code: 'no-peaks', severity: 'warning', retentionTimes: [], message: 'No peak rose clearly above the baseline noise.' })
+  if (peaks.length === 0) {
+    flags.push({ code: 'no-peaks', severity: 'warning', retentionTimes: [], message: 'No peak rose clearly above the baseline noise.' })
+  }
   return { peaks, flags, noise, smoothingPoints: w }
 }
 

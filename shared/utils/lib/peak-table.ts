@@ -1,6 +1,9 @@
 // Peak-table reader for integration reports exported as CSV, TSV, semicolon or aligned text.
 import type { TimeUnit } from './header-names'
-import { type Mark, type CellRead, type ColumnStyle, type ReadProblem, analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness } from './number-text'
+import {
+  type Mark, type CellRead, type ColumnStyle, type ReadProblem,
+  analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness,
+} from './number-text'
 import { type ColumnMap, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
 import { type Delimiter, splitLines, utf8Length } from './table-text'
 import { MAX_UPLOAD_BYTES } from '../limits'
@@ -74,7 +77,11 @@ export const MAX_PEAK_AREA = 1e15
 export const MAX_RETENTION_MINUTES = 600
 
 export function chooseTimeUnit(
-  values: number[], declared: TimeUnit | null, option: PeakTableOptions['timeUnit'], expectedMaxMinutes: number | undefined, warnings: string[],
+  values: number[],
+  declared: TimeUnit | null,
+  option: PeakTableOptions['timeUnit'],
+  expectedMaxMinutes: number | undefined,
+  warnings: string[],
 ): { unit: TimeUnit, source: 'header' | 'option' | 'detected' | 'assumed' } {
   if (option && option !== 'auto') return { unit: option, source: 'option' }
   if (declared) return { unit: declared, source: 'header' }
@@ -105,9 +112,10 @@ export function describeProblem(what: string, raw: string, p: ReadProblem): stri
     case 'too-large':
       return `the ${what} "${cell}" is not a number (it is too large to be a number)`
     case 'mixed':
-      return p.decimal === null
-        ? `the ${what} "${cell}" is not a number (the column mixes decimal commas and points, so it cannot be read safely: export it with one decimal mark)`
-        : `the ${what} "${cell}" is not a number (this column uses decimal ${MARK_NAME[p.decimal]}s elsewhere, so a ${MARK_NAME[p.decimal === ',' ? '.' : ',']} here is ambiguous)`
+      if (p.decimal === null) {
+        return `the ${what} "${cell}" is not a number (the column mixes decimal commas and points, so it cannot be read safely: export it with one decimal mark)`
+      }
+      return `the ${what} "${cell}" is not a number (this column uses decimal ${MARK_NAME[p.decimal]}s elsewhere, so a ${MARK_NAME[p.decimal === ',' ? '.' : ',']} here is ambiguous)`
     case 'clock-mix':
       return `the ${what} "${cell}" is not a number (the column writes times as minutes:seconds elsewhere)`
     default:
@@ -142,8 +150,15 @@ function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 're
       if (!r || 'problem' in r || !r.grouped || !r.ambiguous) return
       const readings = `the ${spec.what} ${excerpt(cells[k]![i]!)} could be ${r.value} or ${String(r.value / 1000)}`
       // Retention times are never grouped by thousands, so a grouped reading is the file's marks disagreeing.
-      if (spec.key === 'rt') regrouped.set(i, `${readings}: retention times are not written with thousands separators, so this mark disagrees with the file's decimal mark`)
-      else if (witness >= 0) regrouped.set(i, `${readings}: the column does not group thousands elsewhere (row ${rows[witness]!.row} reads ${excerpt(cells[k]![witness]!)}), so the mark may be a decimal`)
+      if (spec.key === 'rt') {
+        regrouped.set(
+          i,
+          `${readings}: retention times are not written with thousands separators, so this mark disagrees with the file's decimal mark`,
+        )
+      } else if (witness >= 0) {
+        const elsewhere = `row ${rows[witness]!.row} reads ${excerpt(cells[k]![witness]!)}`
+        regrouped.set(i, `${readings}: the column does not group thousands elsewhere (${elsewhere}), so the mark may be a decimal`)
+      }
     })
     return { ...spec, style: styles[k]!, reads, regrouped }
   })
@@ -156,7 +171,11 @@ function valueAt(col: Column, i: number, row: number, raw: string): number | Row
   const regrouped = col.regrouped.get(i)
   if (regrouped) return { row, code: 'ambiguous-number', message: `Row ${row}: ${regrouped}.` }
   if ('problem' in r) {
-    return { row, code: r.problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric', message: `Row ${row}: ${describeProblem(col.what, raw, r.problem)}.` }
+    return {
+      row,
+      code: r.problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric',
+      message: `Row ${row}: ${describeProblem(col.what, raw, r.problem)}.`,
+    }
   }
   return r.value
 }
@@ -268,28 +287,46 @@ function retentionInMinutes(
 export function parsePeakTable(text: string, options: PeakTableOptions = {}): ParsedPeakTable {
   const warnings: string[] = []
   const errors: RowError[] = []
-  const refuse = (row: number, code: ParseErrorCode, message: string): ParsedPeakTable => ({ peaks: [], warnings, errors: [...errors, { row, code, message }], meta: null })
+  const refuse = (row: number, code: ParseErrorCode, message: string): ParsedPeakTable => (
+    { peaks: [], warnings, errors: [...errors, { row, code, message }], meta: null }
+  )
   const maxBytes = options.maxBytes ?? MAX_UPLOAD_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
   if (text.length > maxBytes || utf8Length(text) > maxBytes) {
-    return refuse(0, 'too-large', `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`)
+    return refuse(
+      0,
+      'too-large',
+      `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`,
+    )
   }
   const lines = splitLines(text)
   const header = findHeader(lines)
   if (!header) return refuse(0, 'no-header', 'No header row naming the retention time and area columns was found.')
   if (!header.kinds.has('rt')) {
-    return refuse(header.row, 'no-rt-column', `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`)
+    return refuse(
+      header.row,
+      'no-rt-column',
+      `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`,
+    )
   }
   const { rows, unitsRow, errors: layout } = collectRows(lines, header, warnings)
   errors.push(...layout)
   const kinds = columnsOf(header, unitsRow)
   if (!kinds.has('area') && !kinds.has('areaPercent')) {
     const hint = header.kinds.has('signal') ? ' It looks like a raw detector trace: upload it as a trace instead.' : ''
-    return refuse(header.row, 'no-area-column', `Row ${header.row}: the header has no area column; export the table with peak areas ("Area") or area %, not only heights.${hint}`)
+    return refuse(
+      header.row,
+      'no-area-column',
+      `Row ${header.row}: the header has no area column; export the table with peak areas ("Area") or area %, not only heights.${hint}`,
+    )
   }
   const maxRows = options.maxRows ?? MAX_PEAK_ROWS
   if (rows.length > maxRows) {
-    return refuse(rows[maxRows]!.row, 'too-many-rows', `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`)
+    return refuse(
+      rows[maxRows]!.row,
+      'too-many-rows',
+      `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`,
+    )
   }
   const fromPercent = !kinds.has('area')
   if (fromPercent) warnings.push('The file has no absolute peak areas, so the mole % were computed from its area % column.')
@@ -306,7 +343,8 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
     warnings,
     errors: [],
     meta: {
-      delimiter: header.delimiter, decimalComma: decimalMark === ',', decimalMark, headerRow: header.row, timeUnit: unit, timeUnitSource: source,
+      delimiter: header.delimiter, decimalComma: decimalMark === ',', decimalMark, headerRow: header.row,
+      timeUnit: unit, timeUnitSource: source,
       columns: header.cells.map((c) => c.text), areaSource: fromPercent ? 'areaPercent' : 'area',
     },
   }

@@ -25,7 +25,11 @@ export interface DriftTolerance {
   minimumMinutes: number
 }
 
-/** Defaults: half the window's width, at least 0.15 min (judgement, common practice: the drift seen between sessions on a packed or capillary teaching column is a few hundredths to about a tenth of a minute). */
+/**
+ * Defaults: half the window's width, at least 0.15 min (judgement, common practice: the drift
+ * seen between sessions on a packed or capillary teaching column is a few hundredths to about a
+ * tenth of a minute).
+ */
 export const DEFAULT_DRIFT_TOLERANCE: DriftTolerance = { fraction: 0.5, minimumMinutes: 0.15 }
 
 export interface DriftedPeak {
@@ -124,12 +128,17 @@ export function driftFlags(slots: readonly DriftSlot[], outcome: DriftOutcome, e
   }
   for (const c of outcome.contested) {
     flags.push({
-      code: 'retention-drift', severity: 'warning', productSmiles: c.slot.productSmiles, retentionTimes: c.peaks.map((p) => p.retentionTime),
+      code: 'retention-drift',
+      severity: 'warning',
+      productSmiles: c.slot.productSmiles,
+      retentionTimes: c.peaks.map((p) => p.retentionTime),
       message: `${c.peaks.length} peaks (${c.peaks.map((p) => fmt(p.retentionTime)).join(', ')} min) lie just outside the empty window for ${c.slot.name} (${range(c.slot)}); none was counted, because only one of them can be that product. ${CHECK.charAt(0).toUpperCase()}${CHECK.slice(1)}.`,
     })
   }
   for (const b of outcome.beside) {
-    const why = b.slot.product ? 'That window already has its peak, so this one is probably another compound (an impurity or a shoulder)' : 'If it is that compound, the retention times have drifted'
+    const why = b.slot.product
+      ? 'That window already has its peak, so this one is probably another compound (an impurity or a shoulder)'
+      : 'If it is that compound, the retention times have drifted'
     flags.push({
       code: 'retention-drift', severity: 'warning', retentionTimes: [b.peak.retentionTime],
       message: `The peak at ${fmt(b.peak.retentionTime)} min lies just outside the window for ${b.slot.name} (${range(b.slot)}) and was not counted. ${why}: ask your TA to check the windows.`,
@@ -150,7 +159,12 @@ export function driftFlags(slots: readonly DriftSlot[], outcome: DriftOutcome, e
       if (!late && p.retentionTime - s.window.rtMin >= margin) continue
       // Inside the window the direction is what counts: from its centre toward the edge.
       shifts.push(p.retentionTime - (s.window.rtMin + s.window.rtMax) / 2)
-      flags.push({ code: 'retention-drift', severity: 'info', retentionTimes: [p.retentionTime], message: `The peak at ${fmt(p.retentionTime)} min sits at the ${late ? 'end' : 'start'} of the window for ${s.name} (${range(s)}); retention times may have drifted, so compare with the standard run.` })
+      flags.push({
+        code: 'retention-drift',
+        severity: 'info',
+        retentionTimes: [p.retentionTime],
+        message: `The peak at ${fmt(p.retentionTime)} min sits at the ${late ? 'end' : 'start'} of the window for ${s.name} (${range(s)}); retention times may have drifted, so compare with the standard run.`,
+      })
     }
   }
   const agreement = shiftAgreement(shifts, outcome.drifted.length)

@@ -55,7 +55,9 @@ const isXmlPart = (name: string) => name.endsWith('.xml') || name.endsWith('.xml
 function checkWorkbook(entries: ZipEntry[]): number {
   const names = new Set(entries.map((e) => e.name))
   if (names.has('xl/workbook.bin')) throw new SpreadsheetError(415, 'this is a binary Excel workbook (.xlsb): save it as .xlsx or CSV')
-  if (names.has('mimetype') && names.has('content.xml')) throw new SpreadsheetError(415, 'this is an OpenDocument file (.ods): save it as .xlsx or CSV')
+  if (names.has('mimetype') && names.has('content.xml')) {
+    throw new SpreadsheetError(415, 'this is an OpenDocument file (.ods): save it as .xlsx or CSV')
+  }
   if (!names.has('[Content_Types].xml') || ![...names].some((n) => n.startsWith('xl/'))) {
     throw new SpreadsheetError(415, 'this is a zip archive, not an Excel workbook (.xlsx): upload the peak table itself')
   }

@@ -40,7 +40,8 @@ function candidatesFor(line: string): HeaderCandidate[] {
 
 const tableScore = (c: HeaderCandidate) => ['rt', 'area', 'areaPercent', 'height'].filter((k) => c.kinds.has(k as ColumnKind)).length
 /** A table needs a retention time and an area, absolute or as area %. */
-const complete = (c: HeaderCandidate, wanted: ColumnKind[]) => wanted.every((k) => k === 'area' ? c.kinds.has('area') || c.kinds.has('areaPercent') : c.kinds.has(k))
+const complete = (c: HeaderCandidate, wanted: ColumnKind[]) =>
+  wanted.every((k) => k === 'area' ? c.kinds.has('area') || c.kinds.has('areaPercent') : c.kinds.has(k))
 
 /** The header row: the first line naming a time and an area, else the best partial one (for the error). */
 export function findHeader(lines: string[], wanted: ColumnKind[] = ['rt', 'area']): HeaderCandidate | null {
@@ -51,7 +52,8 @@ export function findHeader(lines: string[], wanted: ColumnKind[] = ['rt', 'area'
     const best = candidatesFor(line).sort((a, b) => tableScore(b) - tableScore(a))[0]!
     best.row = i + 1
     if (complete(best, wanted)) return best
-    if ((best.kinds.has('rt') || best.kinds.has('area')) && best.cells.length >= 2 && (!partial || tableScore(best) > tableScore(partial))) partial = best
+    const usable = (best.kinds.has('rt') || best.kinds.has('area')) && best.cells.length >= 2
+    if (usable && (!partial || tableScore(best) > tableScore(partial))) partial = best
   }
   return partial
 }
@@ -100,7 +102,11 @@ interface TextLine { row: number, cells: (string | undefined)[] | null, text: st
  * signature lines) is skipped wherever it is; text after the last peak is a footer; text
  * between peaks is kept as a row so that it is refused.
  */
-export function collectRows(lines: string[], header: HeaderCandidate, warnings: string[]): { rows: RawRow[], unitsRow: (string | undefined)[] | null, errors: LayoutError[] } {
+export function collectRows(
+  lines: string[],
+  header: HeaderCandidate,
+  warnings: string[],
+): { rows: RawRow[], unitsRow: (string | undefined)[] | null, errors: LayoutError[] } {
   const errors: LayoutError[] = []
   const rows: RawRow[] = []
   let pending: TextLine[] = []
@@ -173,7 +179,11 @@ export function collectRows(lines: string[], header: HeaderCandidate, warnings: 
     }
     pending = []
     if (header.delimiter === ',' && filled.length > header.cells.length) {
-      errors.push({ row: i + 1, code: 'misaligned', message: `Row ${i + 1} has more values than the header has columns: a name or number containing a comma must be quoted (or export with semicolons or tabs if the file uses decimal commas).` })
+      errors.push({
+        row: i + 1,
+        code: 'misaligned',
+        message: `Row ${i + 1} has more values than the header has columns: a name or number containing a comma must be quoted (or export with semicolons or tabs if the file uses decimal commas).`,
+      })
       continue
     }
     rows.push({ row: i + 1, cells })

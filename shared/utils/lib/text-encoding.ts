@@ -73,13 +73,20 @@ function utf16Pattern(bytes: Uint8Array): 'utf-16le' | 'utf-16be' | null {
 function utf16(bytes: Uint8Array, encoding: 'utf-16le' | 'utf-16be', withBom: boolean): DecodedText {
   const body = withBom ? bytes.subarray(2) : bytes
   if (body.length % 2 === 1) {
-    return { ok: false, reason: 'broken-utf16', message: 'this looks like UTF-16 ("Unicode") text, but the file is cut short (an odd number of bytes): export it again' }
+    return {
+      ok: false,
+      reason: 'broken-utf16',
+      message: 'this looks like UTF-16 ("Unicode") text, but the file is cut short (an odd number of bytes): export it again',
+    }
   }
   const text = decode(body, encoding, true)
   if (text === null || FOREIGN_CONTROLS.test(text)) {
-    return withBom
-      ? { ok: false, reason: 'broken-utf16', message: 'this file starts like UTF-16 ("Unicode") text but holds characters no text table has: export it again' }
-      : { ok: false, reason: 'binary', message: BINARY_MESSAGE }
+    if (!withBom) return { ok: false, reason: 'binary', message: BINARY_MESSAGE }
+    return {
+      ok: false,
+      reason: 'broken-utf16',
+      message: 'this file starts like UTF-16 ("Unicode") text but holds characters no text table has: export it again',
+    }
   }
   return { ok: true, text, encoding }
 }

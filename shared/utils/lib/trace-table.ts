@@ -70,10 +70,14 @@ function headerAbove(lines: string[], start: number, delimiter: Delimiter) {
 /** Reads a two-column (or wider) time/signal trace; tolerates preambles, BOM, decimal commas and footers. */
 export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrace {
   const warnings: string[] = []
-  const refuse = (row: number, code: RowError['code'], message: string): ParsedTrace => ({ time: [], signal: [], warnings, errors: [{ row, code, message }], meta: null })
+  const refuse = (row: number, code: RowError['code'], message: string): ParsedTrace => (
+    { time: [], signal: [], warnings, errors: [{ row, code, message }], meta: null }
+  )
   const maxBytes = options.maxBytes ?? MAX_TRACE_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
-  if (text.length > maxBytes || utf8Length(text) > maxBytes) return refuse(0, 'too-large', `The trace file is larger than ${Math.round(maxBytes / 1e6)} MB.`)
+  if (text.length > maxBytes || utf8Length(text) > maxBytes) {
+    return refuse(0, 'too-large', `The trace file is larger than ${Math.round(maxBytes / 1e6)} MB.`)
+  }
   const lines = splitLines(text)
   const start = findDataStart(lines)
   if (!start) return refuse(0, 'no-header', 'No rows with a time and a signal value were found.')
@@ -113,16 +117,30 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       continue
     }
     if ('problem' in t || 'problem' in y) {
-      const [what, raw, problem] = 'problem' in t ? ['time', tRaw, t.problem] as const : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
-      errors.push({ row: i + 1, code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric', message: `Row ${i + 1}: ${describeProblem(what, raw, problem)}.` })
+      const [what, raw, problem] = 'problem' in t
+        ? ['time', tRaw, t.problem] as const
+        : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
+      errors.push({
+        row: i + 1,
+        code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric',
+        message: `Row ${i + 1}: ${describeProblem(what, raw, problem)}.`,
+      })
       continue
     }
     if (Math.abs(y.value) > MAX_PEAK_AREA) {
-      errors.push({ row: i + 1, code: 'out-of-range', message: `Row ${i + 1}: the signal ${excerpt(yRaw)} is beyond any detector's range; check the export.` })
+      errors.push({
+        row: i + 1,
+        code: 'out-of-range',
+        message: `Row ${i + 1}: the signal ${excerpt(yRaw)} is beyond any detector's range; check the export.`,
+      })
       continue
     }
     if (time.length > 0 && !(t.value > time[time.length - 1]!)) {
-      errors.push({ row: i + 1, code: 'non-monotonic-time', message: `Row ${i + 1}: the time ${excerpt(tRaw)} does not increase from the row before.` })
+      errors.push({
+        row: i + 1,
+        code: 'non-monotonic-time',
+        message: `Row ${i + 1}: the time ${excerpt(tRaw)} does not increase from the row before.`,
+      })
       continue
     }
     if (time.length >= maxPoints) return refuse(i + 1, 'too-many-rows', `The trace has more than ${maxPoints} points.`)
@@ -138,11 +156,18 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   const factor = toMinutes(unit)
   if (factor !== 1) for (let i = 0; i < time.length; i++) time[i]! *= factor
   if (time[time.length - 1]! > MAX_RETENTION_MINUTES) {
-    return refuse(start.index + 1, 'out-of-range', `The trace runs to ${+time[time.length - 1]!.toPrecision(6)} min, more than ${MAX_RETENTION_MINUTES / 60} hours; check the time unit of the export.`)
+    return refuse(
+      start.index + 1,
+      'out-of-range',
+      `The trace runs to ${+time[time.length - 1]!.toPrecision(6)} min, more than ${MAX_RETENTION_MINUTES / 60} hours; check the time unit of the export.`,
+    )
   }
   return {
     time, signal, warnings, errors: [],
-    meta: { delimiter: start.delimiter, decimalComma: decimalMark === ',', decimalMark, headerRow: header?.row ?? null, firstDataRow: start.index + 1, timeUnit: unit, timeUnitSource: source },
+    meta: {
+      delimiter: start.delimiter, decimalComma: decimalMark === ',', decimalMark,
+      headerRow: header?.row ?? null, firstDataRow: start.index + 1, timeUnit: unit, timeUnitSource: source,
+    },
   }
 }
 
@@ -156,7 +181,9 @@ export function sniffUpload(text: string): UploadSniff {
   if (typeof text !== 'string' || text.trim() === '') return { kind: 'unknown', reason: 'The file is empty.' }
   const lines = splitLines(text)
   const header = findHeader(lines)
-  if (header?.kinds.has('rt') && (header.kinds.has('area') || header.kinds.has('areaPercent'))) return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
+  if (header?.kinds.has('rt') && (header.kinds.has('area') || header.kinds.has('areaPercent'))) {
+    return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
+  }
   const start = findDataStart(lines)
   if (start) {
     const probe = lines.slice(0, Math.min(lines.length, start.index + 2000)).join('\n')

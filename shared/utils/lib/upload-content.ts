@@ -58,7 +58,8 @@ export function nonTextFormatProblem(format: ByteFormat, bytes: Uint8Array): str
       ? 'this file is protected with a password: remove the password in the program that made it, save it again and upload that'
       : 'this is an old binary Excel file (.xls) or another Office document: save it as .xlsx or CSV'
     case 'netcdf': return 'this is a netCDF file, not a text table'
-    case 'netcdf-64bit-data': return 'this netCDF file uses the 64-bit data format (CDF-5): export the chromatogram as ANDI/AIA netCDF classic (.cdf)'
+    case 'netcdf-64bit-data':
+      return 'this netCDF file uses the 64-bit data format (CDF-5): export the chromatogram as ANDI/AIA netCDF classic (.cdf)'
     case 'hdf5': return 'this is a netCDF-4 (HDF5) file: export the chromatogram as ANDI/AIA netCDF classic (.cdf)'
     default: return null
   }
@@ -96,8 +97,13 @@ export async function readUploadContent(bytes: Uint8Array): Promise<UploadConten
   if (problem) throw new UploadFormatError(format === 'ole2' && isEncryptedOfficeFile(bytes) ? 422 : 415, problem)
   const decoded = decodeTextBytes(bytes)
   if (!decoded.ok) {
-    const binary = decoded.reason === 'binary'
-    throw new UploadFormatError(binary ? 415 : 422, binary ? 'this is a binary file, not a GC export this site reads (CSV, TSV or TXT text, .xlsx, or ANDI/AIA netCDF .cdf)' : decoded.message)
+    if (decoded.reason === 'binary') {
+      throw new UploadFormatError(
+        415,
+        'this is a binary file, not a GC export this site reads (CSV, TSV or TXT text, .xlsx, or ANDI/AIA netCDF .cdf)',
+      )
+    }
+    throw new UploadFormatError(422, decoded.message)
   }
   return { format: 'text', mediaType: null, source: { kind: 'text', text: decoded.text } }
 }
