@@ -9,6 +9,7 @@ import { attentionOf, evaluateRun, practicalChemistryOf, type PracticalChemistry
 import { startingScores } from '../../../shared/utils/grading'
 import { substrateProductNamer, substrateReferenceFor } from '../../services/library/product-names'
 import { stationUnitKey } from '../../services/submissions/work-units'
+import { storedResultOf } from '../../services/submissions/stored-result'
 
 // Invented GC results for practical 1, which met four weeks before the seeding day: one upload
 // per pair, realistic pair-to-pair scatter, the classic bad runs, and reviews by the TAs.
@@ -171,15 +172,7 @@ async function storeVersion(ctx: SeedContext, v: VersionToStore): Promise<Stored
     inputKind: run.kind,
     sha256,
     parsed: JSON.stringify(run.peaks),
-    result: JSON.stringify({
-      molePercents: run.molePercents,
-      factors: run.factors,
-      relative: run.relative,
-      conversion: run.conversion,
-      unassignedPercent: run.unassignedPercent,
-      warnings: run.warnings,
-      keyFactor: v.chem.keyFactor,
-    }),
+    result: JSON.stringify(storedResultOf(run, v.chem.keyFactor)),
     flags: JSON.stringify(run.flags),
     attention: attentionOf(run.flags),
     factorSecondary: run.factors.secondaryToPrimary,
