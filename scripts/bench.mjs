@@ -19,8 +19,13 @@ async function main() {
   const { startWorld } = await import('./lib/world.mjs')
   // The server measures its own event loop for the "loop" case (bench/loop-probe.mjs).
   const loopProbeFile = join(root, '.data', `bench-loop-${process.pid}.json`)
-  const serverEnv = { NODE_OPTIONS: `--import ${pathToFileURL(join(root, 'scripts', 'bench', 'loop-probe.mjs')).href}`, HALOCLINE_LOOP_PROBE_FILE: loopProbeFile }
-  const world = await step('Starting a throwaway Halocline', async () => ({ note: 'up', loopProbeFile, ...(await startWorld(root, { name: 'bench', serverEnv })) }))
+  const loopProbe = pathToFileURL(join(root, 'scripts', 'bench', 'loop-probe.mjs')).href
+  const serverEnv = { NODE_OPTIONS: `--import ${loopProbe}`, HALOCLINE_LOOP_PROBE_FILE: loopProbeFile }
+  const world = await step('Starting a throwaway Halocline', async () => ({
+    note: 'up',
+    loopProbeFile,
+    ...(await startWorld(root, { name: 'bench', serverEnv })),
+  }))
   const results = {}
   try {
     const only = process.argv[2]
@@ -28,7 +33,8 @@ async function main() {
       ['http', 'Request throughput against a bare node:http server', () => import('./bench/http.mjs').then((m) => m.benchHttp(world))],
       ['uploads', 'Uploads against papaparse alone', () => import('./bench/uploads.mjs').then((m) => m.benchUploads(world))],
       ['summary', 'Class summary against the raw SQL', () => import('./bench/summary.mjs').then((m) => m.benchSummary(world))],
-      ['signin', 'Sign-ins with argon2id against stored scrypt hashes', () => import('./bench/signin.mjs').then((m) => m.benchSignIn(world))],
+      ['signin', 'Sign-ins with argon2id against stored scrypt hashes',
+        () => import('./bench/signin.mjs').then((m) => m.benchSignIn(world))],
       ['loop', 'Event-loop delay under uploads, chemistry and summaries', () => import('./bench/loop.mjs').then((m) => m.benchLoop(world))],
     ]
     for (const [key, label, run] of cases) {
@@ -41,7 +47,8 @@ async function main() {
   }
   for (const [name, rows] of Object.entries(results)) {
     console.log(`\n${name}`)
-    console.table(rows.map((r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, typeof v === 'number' ? Number(v.toPrecision(4)) : v]))))
+    const rounded = (v) => (typeof v === 'number' ? Number(v.toPrecision(4)) : v)
+    console.table(rows.map((r) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, rounded(v)]))))
   }
   mkdirSync(join(root, 'test-results'), { recursive: true })
   writeFileSync(join(root, 'test-results', 'bench.json'), JSON.stringify({ at: new Date().toISOString(), results }, null, 2))

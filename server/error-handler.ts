@@ -6,7 +6,8 @@ import { errorMessageText, statusLineText } from './utils/status-line'
 // Runs before Nuxt's own error handler: "PostgreSQL is unreachable" becomes a plain 503, a
 // statistics engine refusing its numbers a 422 with its reason (never a 500), and a value
 // PostgreSQL cannot hold (an id past 2^31, 31 February, a NUL in a text) a 400, a full
-// password-hashing queue (a flood of sign-ins) a 503 to retry shortly; Nuxt renders them. Then every error's words are made safe to send (see `shortenErrorText`).
+// password-hashing queue (a flood of sign-ins) a 503 to retry shortly; Nuxt renders them.
+// Then every error's words are made safe to send (see `shortenErrorText`).
 const handler: NitroErrorHandler = (error, event, { defaultHandler }) => {
   // A busy engine pool (server/utils/engines.ts) says when to try again.
   const retryAfter = (error.data as { retryAfterSeconds?: unknown } | undefined)?.retryAfterSeconds
@@ -60,7 +61,9 @@ async function shortenErrorText(error: Parameters<NitroErrorHandler>[0], event: 
   const answer = await defaultHandler(error, event, { json: true })
   setResponseHeaders(event, answer.headers)
   setResponseStatus(event, answer.status, answer.statusText)
-  const body = typeof answer.body === 'object' && sentence && !(error.unhandled || error.fatal) ? { ...answer.body, statusMessage: sentence } : answer.body
+  const body = typeof answer.body === 'object' && sentence && !(error.unhandled || error.fatal)
+    ? { ...answer.body, statusMessage: sentence }
+    : answer.body
   return send(event, JSON.stringify(body, null, 2))
 }
 

@@ -11,7 +11,13 @@ if (isMainThread && file) {
   delay.enable()
   const ms = (ns) => ns / 1e6
   process.on('SIGUSR2', () => {
-    writeFileSync(file, JSON.stringify({ at: Date.now(), p50: ms(delay.percentile(50)), p99: ms(delay.percentile(99)), max: ms(delay.max), samples: delay.count }))
+    writeFileSync(file, JSON.stringify({
+      at: Date.now(),
+      p50: ms(delay.percentile(50)),
+      p99: ms(delay.percentile(99)),
+      max: ms(delay.max),
+      samples: delay.count,
+    }))
     delay.reset()
   })
 }

@@ -76,7 +76,10 @@ export async function benchSignIn(world, { accounts = 200, seconds = 4 } = {}) {
 
     const legacy = await signInAll(world.baseUrl, legacyEmails)
     const argon = await signInAll(world.baseUrl, argonEmails)
-    const { rows: [left] } = await client.query(`select count(*)::int as n from users where email = any($1) and password_hash not like '$argon2id$%'`, [legacyEmails])
+    const { rows: [left] } = await client.query(
+      `select count(*)::int as n from users where email = any($1) and password_hash not like '$argon2id$%'`,
+      [legacyEmails],
+    )
     if (left.n !== 0) throw new Error(`${left.n} scrypt hashes were not upgraded`)
     rows.push({
       case: `${accounts} simultaneous sign-ins through the server (sign-ins/s)`,

@@ -17,10 +17,15 @@ export async function fill(client, n) {
   const { rows: sections } = await client.query('select id from sections where course_id = $1 order by id', [base.course_id])
   const { rows: [p] } = await client.query(`insert into practicals (course_id, title, substrate_id, method_id, work_unit)
     values ($1, $2, $3, $4, 'student') returning id`, [base.course_id, `Bench practical ${n}`, base.substrate_id, base.method_id])
-  for (const s of sections) await client.query(`insert into practical_sessions (practical_id, section_id, meeting_date, due_at) values ($1, $2, current_date, now())`, [p.id, s.id])
+  for (const s of sections) {
+    await client.query(
+      `insert into practical_sessions (practical_id, section_id, meeting_date, due_at) values ($1, $2, current_date, now())`,
+      [p.id, s.id],
+    )
+  }
   const sectionIds = sections.map((s) => s.id)
-  await client.query(`insert into submissions (practical_id, section_id, unit_key, version, file_id, input_kind, sha256, parsed, result, flags,
-      factor_secondary, status, submitted_by)
+  await client.query(`insert into submissions (practical_id, section_id, unit_key, version, file_id, input_kind, sha256, parsed,
+      result, flags, factor_secondary, status, submitted_by)
     select $1, ($2::int[])[1 + (g % array_length($2::int[], 1))], 'bench:' || g, v, $3, 'peak-table', md5(g::text || v::text), '[]'::jsonb,
       jsonb_build_object('molePercents', jsonb_build_array(jsonb_build_object('smiles', 'ClCCCCCl', 'percent', 20 + (g % 7)))),
       '[]'::jsonb, 2.5 + ((g * 7919) % 1000) / 1000.0, case when v = 1 and g % 10 = 0 then 'returned' else 'accepted' end, $4
@@ -71,7 +76,12 @@ export async function benchSummary(world, { sizes = [2000, 20000], repeats = 9 }
     await client.end()
   }
   if (rows.length === 2) {
-    rows.push({ case: `growth ${sizes[0]} → ${sizes[1]} (×${sizes[1] / sizes[0]} rows)`, rawSqlMs: rows[1].rawSqlMs / rows[0].rawSqlMs, routeMs: rows[1].routeMs / rows[0].routeMs, ratio: null })
+    rows.push({
+      case: `growth ${sizes[0]} → ${sizes[1]} (×${sizes[1] / sizes[0]} rows)`,
+      rawSqlMs: rows[1].rawSqlMs / rows[0].rawSqlMs,
+      routeMs: rows[1].routeMs / rows[0].routeMs,
+      ratio: null,
+    })
   }
   return rows
 }

@@ -8,7 +8,11 @@ const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
 
 export function peakTable(rows, variant) {
   const lines = ['Peak,Ret. Time (min),Area,Area %']
-  for (let i = 0; i < rows; i++) lines.push(`${i + 1},${(0.5 + i * 0.0019).toFixed(4)},${(1000 + ((i * 7919 + variant) % 5000)).toFixed(1)},`)
+  for (let i = 0; i < rows; i++) {
+    const retention = (0.5 + i * 0.0019).toFixed(4)
+    const area = (1000 + ((i * 7919 + variant) % 5000)).toFixed(1)
+    lines.push(`${i + 1},${retention},${area},`)
+  }
   return `${lines.join('\n')}\n`
 }
 
@@ -57,7 +61,13 @@ export async function benchUploads(world, { repeats = 5 } = {}) {
       papa.push(performance.now() - t)
       server.push(await upload(world.baseUrl, cookie, practicalId, text, `bench-${i}.csv`))
     }
-    results.push({ case: c.name, bytes: Buffer.byteLength(c.make(0)), papaparseMs: median(papa), serverMs: median(server), ratio: median(server) / median(papa) })
+    results.push({
+      case: c.name,
+      bytes: Buffer.byteLength(c.make(0)),
+      papaparseMs: median(papa),
+      serverMs: median(server),
+      ratio: median(server) / median(papa),
+    })
   }
   return results
 }

@@ -9,7 +9,10 @@ export function ensureNodeModules(root) {
   const lock = join(root, 'package-lock.json')
   const marker = join(root, 'node_modules', '.package-lock.json')
   if (existsSync(marker) && statSync(marker).mtimeMs >= statSync(lock).mtimeMs) return 'up to date'
-  const result = spawnSync('npm', ['ci', '--no-audit', '--no-fund', '--loglevel=error'], { cwd: root, stdio: ['ignore', 'ignore', 'inherit'] })
+  const result = spawnSync('npm', ['ci', '--no-audit', '--no-fund', '--loglevel=error'], {
+    cwd: root,
+    stdio: ['ignore', 'ignore', 'inherit'],
+  })
   if (result.status !== 0) fail('npm ci failed', 'check the network access to the npm registry and run npm ci by hand to see the error')
   return 'installed'
 }

@@ -68,7 +68,10 @@ export function startCluster(paths, port) {
     asPostgres(bin('pg_ctl'), ['-D', paths.data, '-l', paths.log, '-w', '-t', '60', '-o', options, 'start'])
   } catch (error) {
     const log = existsSync(paths.log) ? readFileSync(paths.log, 'utf8').trim().split('\n').slice(-3).join(' | ') : ''
-    fail(`PostgreSQL did not start on port ${port}: ${log || error.message}`, `is port ${port} taken? Set HALOCLINE_PG_PORT to another port, or read ${paths.log}`)
+    fail(
+      `PostgreSQL did not start on port ${port}: ${log || error.message}`,
+      `is port ${port} taken? Set HALOCLINE_PG_PORT to another port, or read ${paths.log}`,
+    )
   }
   return true
 }

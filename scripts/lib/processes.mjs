@@ -39,7 +39,15 @@ export async function startServer({ root, port, env, stdio = ['ignore', 'pipe', 
   const child = spawn(process.execPath, [join(outputDir(root), 'server', 'index.mjs')], {
     cwd: root,
     stdio,
-    env: { ...process.env, ...env, PORT: String(port), NITRO_PORT: String(port), HOST: '127.0.0.1', NITRO_HOST: '127.0.0.1', NODE_ENV: 'production' },
+    env: {
+      ...process.env,
+      ...env,
+      PORT: String(port),
+      NITRO_PORT: String(port),
+      HOST: '127.0.0.1',
+      NITRO_HOST: '127.0.0.1',
+      NODE_ENV: 'production',
+    },
   })
   let exited = false
   child.once('exit', () => { exited = true })

@@ -29,7 +29,9 @@ function aptInstall(packages) {
 export function ensurePostgres() {
   let bin = postgresBinDir()
   if (bin) return bin.split('/').at(-2) ? `PostgreSQL ${bin.split('/').at(-2)}` : 'present'
-  if (!isRoot) fail('PostgreSQL server binaries are missing', 'run as root: apt-get install -y postgresql (Debian/Ubuntu), then npm start again')
+  if (!isRoot) {
+    fail('PostgreSQL server binaries are missing', 'run as root: apt-get install -y postgresql (Debian/Ubuntu), then npm start again')
+  }
   aptInstall(['postgresql'])
   bin = postgresBinDir()
   if (!bin) fail('postgresql installed but pg_ctl was not found', 'check /usr/lib/postgresql/*/bin')

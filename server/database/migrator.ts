@@ -6,7 +6,7 @@ export interface MigrationReport {
 }
 
 /** Applies every pending migration; safe to call from several processes at once (Kysely takes a lock). */
-export async function migrateToLatest(db: Kysely<any>): Promise<MigrationReport> {
+export async function migrateToLatest<DB>(db: Kysely<DB>): Promise<MigrationReport> {
   // Migrations are written in snake_case: run them without the camel-case plugin.
   const migrator = new Migrator({
     db: db.withoutPlugins(),

@@ -2,7 +2,14 @@
 // they run in the engine worker (server/engines/worker.ts), never on the request loop.
 import type { AnalyzeResponse, ReactivityResponse, analyzeInputSchema, reactivityInputSchema } from '../../shared/types/chemistry'
 import type { z } from 'zod'
-import { analyzeSubstrate, canonicalSmiles, predictDistribution, relativeReactivities, scaleReactivity, type Halogen } from '../../shared/utils/halogenation'
+import {
+  analyzeSubstrate,
+  canonicalSmiles,
+  predictDistribution,
+  relativeReactivities,
+  scaleReactivity,
+  type Halogen,
+} from '../../shared/utils/halogenation'
 import { depictSubstrate, positionLetter } from '../../shared/utils/depiction'
 import { findMethod } from '../../shared/data/halogenation-methods'
 
@@ -37,7 +44,9 @@ export function analyzeRequest(input: AnalyzeRequest): AnalyzeResponse {
       atoms: p.atoms,
       predictedPercent: p.percent,
       statisticalPercent: (p.hydrogens / totalH) * 100,
-      depictionSvg: input.productDepictions ? depictSubstrate(p.smiles, { labels: false, width: 150, height: 110, idPrefix: `product-${i}`, kind: 'product' }) : undefined,
+      depictionSvg: input.productDepictions
+        ? depictSubstrate(p.smiles, { labels: false, width: 150, height: 110, idPrefix: `product-${i}`, kind: 'product' })
+        : undefined,
     })),
     depictionSvg: depictSubstrate(input.smiles),
   }

@@ -60,7 +60,11 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
   // Tasks accepted and not yet settled: running ones and waiting ones.
   let accepted = 0
 
-  async function run<K extends EngineTaskName>(task: K, payload: EngineTaskInput<K>, transfer: ArrayBuffer[] = []): Promise<EngineTaskOutput<K>> {
+  async function run<K extends EngineTaskName>(
+    task: K,
+    payload: EngineTaskInput<K>,
+    transfer: ArrayBuffer[] = [],
+  ): Promise<EngineTaskOutput<K>> {
     if (accepted >= options.threads + options.maxQueue) throw new EngineBusyError(retryAfterSeconds)
     accepted++
     const controller = new AbortController()

@@ -14,9 +14,15 @@ export interface FactorStatsJob {
 }
 
 export function factorStatistics(jobs: FactorStatsJob[]): FactorStats[] {
-  return jobs.map((job) => factorStats(job.values, job.settings, { withoutOutliers: job.withoutOutliers, unreviewed: new Set(job.unreviewed ?? []) }))
+  return jobs.map((job) => factorStats(job.values, job.settings, {
+    withoutOutliers: job.withoutOutliers,
+    unreviewed: new Set(job.unreviewed ?? []),
+  }))
 }
 
-export function outlierReport({ values, settings }: { values: Array<{ submissionId: number, value: number }>, settings: OutlierSettings }): OutlierReport {
+export function outlierReport({ values, settings }: {
+  values: Array<{ submissionId: number, value: number }>
+  settings: OutlierSettings
+}): OutlierReport {
   return findOutliers(values, settings)
 }

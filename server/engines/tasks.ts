@@ -20,8 +20,10 @@ export const ENGINE_TASKS = {
   standardRunPeaks,
   factorStatistics,
   outlierReport,
-  substrateAnalysis: ({ smiles, halogen }: { smiles: string, halogen: Halogen }): SubstrateAnalysis => analyzeSubstrate(smiles, { halogen }),
-  depictions: (items: Array<{ smiles: string, options: DepictOptions }>): string[] => items.map((i) => depictSubstrate(i.smiles, i.options)),
+  substrateAnalysis: ({ smiles, halogen }: { smiles: string, halogen: Halogen }): SubstrateAnalysis =>
+    analyzeSubstrate(smiles, { halogen }),
+  depictions: (items: Array<{ smiles: string, options: DepictOptions }>): string[] =>
+    items.map((i) => depictSubstrate(i.smiles, i.options)),
   /** Canonical SMILES of each, or null for one that cannot be read. */
   canonicalForms: (smiles: string[]): Array<string | null> => smiles.map((s) => {
     try { return canonicalSmiles(s) } catch { return null }

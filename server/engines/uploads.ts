@@ -32,7 +32,9 @@ export interface StandardRunPeaks {
  * A standard run's peaks, sorted by retention time: a peak table as read, or a trace (text or
  * netCDF) integrated. An unusable file throws UploadFormatError, or RunInputError with its rows.
  */
-export async function standardRunPeaks({ bytes, expectedMaxMinutes }: { bytes: Uint8Array, expectedMaxMinutes?: number }): Promise<StandardRunPeaks> {
+export async function standardRunPeaks(
+  { bytes, expectedMaxMinutes }: { bytes: Uint8Array, expectedMaxMinutes?: number },
+): Promise<StandardRunPeaks> {
   const content = await readUploadContent(bytes)
   const { peaks, warnings } = peaksOf(content.source, expectedMaxMinutes)
   return { peaks: [...peaks].sort((a, b) => a.retentionTime - b.retentionTime), warnings, mediaType: content.mediaType ?? 'text/plain' }
@@ -41,12 +43,17 @@ export async function standardRunPeaks({ bytes, expectedMaxMinutes }: { bytes: U
 function peaksOf(source: RunSource, expectedMaxMinutes: number | undefined): { peaks: StandardPeak[], warnings: string[] } {
   const refuse = (errors: Array<{ row: number, message: string }>) => new RunInputError(errors[0]!.message, errors)
   const tooMany = (n: number) => {
-    if (n > MAX_STANDARD_PEAKS) throw refuse([{ row: 0, message: `The run has more than ${MAX_STANDARD_PEAKS} peaks; a standard run has a handful.` }])
+    if (n > MAX_STANDARD_PEAKS) {
+      throw refuse([{ row: 0, message: `The run has more than ${MAX_STANDARD_PEAKS} peaks; a standard run has a handful.` }])
+    }
   }
   const integrated = (time: ArrayLike<number>, signal: ArrayLike<number>, warnings: string[]) => {
     const detected = detectPeaks({ time, signal })
     tooMany(detected.peaks.length)
-    return { peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })), warnings: [...warnings, ...detected.flags.map((f) => f.message)] }
+    return {
+      peaks: detected.peaks.map(({ retentionTime, area, height }) => ({ retentionTime, area, height })),
+      warnings: [...warnings, ...detected.flags.map((f) => f.message)],
+    }
   }
   if (source.kind === 'peaks') {
     tooMany(source.peaks.length)

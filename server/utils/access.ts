@@ -83,7 +83,9 @@ export async function requireSectionAccess(event: H3Event, sectionId: number, mo
   const course = section && await useDb().selectFrom('courses').selectAll().where('id', '=', section.courseId).executeTakeFirst()
   const scope = course && (await courseScope(me, course))
   if (!section || !scope || (scope.sectionIds && !scope.sectionIds.includes(section.id))) throw notFound('Section')
-  if (mode === 'roster' && scope.role !== 'owner' && scope.role !== 'ta') throw forbidden('Rosters are for the course’s instructors and the section’s TAs')
+  if (mode === 'roster' && scope.role !== 'owner' && scope.role !== 'ta') {
+    throw forbidden('Rosters are for the course’s instructors and the section’s TAs')
+  }
   if (mode === 'manage' && scope.role !== 'owner') throw forbidden('Only the course’s instructors can change sections')
   return { ...scope, section }
 }
@@ -112,13 +114,26 @@ export async function visibleCourseIds(me: SessionUser): Promise<number[]> {
 }
 
 export interface PracticalScope extends CourseScope {
-  practical: { id: number, courseId: number, title: string, substrateId: number, methodId: number, workUnit: 'student' | 'pair', notes: string, resultsReleasedAt: Date | null }
+  practical: {
+    id: number
+    courseId: number
+    title: string
+    substrateId: number
+    methodId: number
+    workUnit: 'student' | 'pair'
+    notes: string
+    resultsReleasedAt: Date | null
+  }
   /** Sessions of this practical the caller may see (their sections only for TAs and students). */
   sessionSectionIds: number[]
 }
 
 /** A practical is visible to a TA or student only when it runs in one of their sections. */
-export async function requirePracticalAccess(event: H3Event, practicalId: number, mode: 'view' | 'manage' = 'view'): Promise<PracticalScope> {
+export async function requirePracticalAccess(
+  event: H3Event,
+  practicalId: number,
+  mode: 'view' | 'manage' = 'view',
+): Promise<PracticalScope> {
   const me = requireUser(event)
   const db = useDb()
   const practical = await db.selectFrom('practicals')

@@ -16,7 +16,9 @@ function enginePool(): EnginePool {
   const config = useRuntimeConfig().engines
   // The build emits the worker next to the server's entry (nuxt.config.ts, "engine-worker").
   const filename = new URL('./workers/engines.mjs', import.meta.url)
-  if (!existsSync(fileURLToPath(filename))) throw new Error(`The engine worker is missing at ${fileURLToPath(filename)}; rebuild with nuxt build`)
+  if (!existsSync(fileURLToPath(filename))) {
+    throw new Error(`The engine worker is missing at ${fileURLToPath(filename)}; rebuild with nuxt build`)
+  }
   pool = createEnginePool({
     filename,
     threads: Number(config.threads) > 0 ? Number(config.threads) : Math.max(1, Math.min(4, availableParallelism() - 1)),
@@ -54,7 +56,11 @@ export async function stopEngines() {
  * with Retry-After, a task over its time budget a 422 that says so. `field` names what the
  * request sent ("file", "smiles") in that message.
  */
-export async function runEngine<K extends EngineTaskName>(task: K, payload: EngineTaskInput<K>, options: { field?: string, transfer?: ArrayBuffer[] } = {}): Promise<EngineTaskOutput<K>> {
+export async function runEngine<K extends EngineTaskName>(
+  task: K,
+  payload: EngineTaskInput<K>,
+  options: { field?: string, transfer?: ArrayBuffer[] } = {},
+): Promise<EngineTaskOutput<K>> {
   // The dev server has no built worker file; it runs the same task inline.
   if (import.meta.dev) return import('../engines/tasks').then((m) => m.runEngineTask(task, payload))
   try {
@@ -62,10 +68,18 @@ export async function runEngine<K extends EngineTaskName>(task: K, payload: Engi
   } catch (error) {
     const prefix = options.field ? `${options.field}: ` : ''
     if (error instanceof EngineBusyError) {
-      throw createError({ statusCode: 503, statusMessage: 'The server is busy with other calculations; try again in a few seconds', data: { retryAfterSeconds: error.retryAfterSeconds } })
+      throw createError({
+        statusCode: 503,
+        statusMessage: 'The server is busy with other calculations; try again in a few seconds',
+        data: { retryAfterSeconds: error.retryAfterSeconds },
+      })
     }
     if (error instanceof EngineTimeoutError) {
-      throw createError({ statusCode: 422, statusMessage: `${prefix}took too long to compute (over ${+(error.timeoutMs / 1000).toFixed(1)} s) and was stopped`, data: { timeoutMs: error.timeoutMs } })
+      throw createError({
+        statusCode: 422,
+        statusMessage: `${prefix}took too long to compute (over ${+(error.timeoutMs / 1000).toFixed(1)} s) and was stopped`,
+        data: { timeoutMs: error.timeoutMs },
+      })
     }
     throw error
   }

@@ -46,7 +46,13 @@ export async function readUpload(event: H3Event, { maxBytes = MAX_UPLOAD_BYTES, 
   // The same character rule as JSON bodies; the name is kept and shown, so it is one line too.
   refuseControlCharacters(fields)
   const unfit = unfitCharacter(entry.name ?? '', { singleLine: true })
-  if (unfit) throw createError({ statusCode: 400, statusMessage: `${field}: Rename the file: its name holds the control character ${codePointLabel(unfit)}`, data: { field } })
+  if (unfit) {
+    throw createError({
+      statusCode: 400,
+      statusMessage: `${field}: Rename the file: its name holds the control character ${codePointLabel(unfit)}`,
+      data: { field },
+    })
+  }
   return {
     file: {
       name: (entry.name || 'upload').slice(0, 200),
@@ -73,7 +79,8 @@ export function uploadAsText(file: UploadedFile): string {
   const decoded = decodeTextBytes(file.bytes)
   if (decoded.ok) return decoded.text
   const status = decoded.reason === 'binary' ? 415 : 422
-  throw createError({ statusCode: status, statusMessage: `file: ${decoded.reason === 'binary' ? 'this is a binary file, not a text table (CSV, TSV or TXT)' : decoded.message}` })
+  const reason = decoded.reason === 'binary' ? 'this is a binary file, not a text table (CSV, TSV or TXT)' : decoded.message
+  throw createError({ statusCode: status, statusMessage: `file: ${reason}` })
 }
 
 /**
@@ -88,7 +95,12 @@ export function asUploadFormatError(error: unknown): unknown {
 }
 
 /** Keeps the original bytes forever (uploads are never lost); returns the file row id. */
-export async function storeFile(db: Kysely<Database> | Transaction<Database>, file: UploadedFile, uploadedBy: number, mediaType = 'text/plain') {
+export async function storeFile(
+  db: Kysely<Database> | Transaction<Database>,
+  file: UploadedFile,
+  uploadedBy: number,
+  mediaType = 'text/plain',
+) {
   const row = await db.insertInto('files').values({
     sha256: file.sha256,
     byteSize: file.bytes.length,

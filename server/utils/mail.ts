@@ -72,7 +72,12 @@ const JOB_RETRY_DELAY_SECONDS = 5
 
 /** pg-boss options for every mail job, and the queue's defaults. */
 export function mailJobOptions() {
-  return { retryLimit: mailSettings().retryLimit, retryDelay: JOB_RETRY_DELAY_SECONDS, retryBackoff: true, expireInSeconds: mailJobExpirySeconds() }
+  return {
+    retryLimit: mailSettings().retryLimit,
+    retryDelay: JOB_RETRY_DELAY_SECONDS,
+    retryBackoff: true,
+    expireInSeconds: mailJobExpirySeconds(),
+  }
 }
 
 /** One delivery job for a message, inserted through the caller's transaction; `startAfter` (a date, or seconds) delays it. */
@@ -114,7 +119,8 @@ export async function queueMail(db: Kysely<Database> | Transaction<Database>, ma
 /** Puts a failed message back in the queue with a fresh set of attempts. */
 export async function requeueMail(id: number) {
   await useDb().transaction().execute(async (trx) => {
-    const row = await trx.updateTable('mailMessages').set({ status: 'queued', attempts: 0, lastError: null, claimedBy: null, claimedAt: null, updatedAt: new Date() })
+    const row = await trx.updateTable('mailMessages')
+      .set({ status: 'queued', attempts: 0, lastError: null, claimedBy: null, claimedAt: null, updatedAt: new Date() })
       .where('id', '=', id).where('status', '=', 'failed').returning('id').executeTakeFirst()
     if (row) await scheduleMailJob(trx, id)
   })

@@ -59,13 +59,21 @@ function startPresence(connectionString: string): Presence {
     delayMs = Math.min(delayMs * 2, 2000)
   }
   const connect = async () => {
-    const candidate = new pg.Client({ connectionString, application_name: 'halocline-presence', keepAlive: true, connectionTimeoutMillis: 3000 })
+    const candidate = new pg.Client({
+      connectionString,
+      application_name: 'halocline-presence',
+      keepAlive: true,
+      connectionTimeoutMillis: 3000,
+    })
     candidate.on('error', () => lost(candidate))
     candidate.on('end', () => lost(candidate))
     client = candidate
     try {
       await candidate.connect()
-      const { rows } = await candidate.query<{ locked: boolean }>('select pg_try_advisory_lock($1, $2) as locked', [PRESENCE_LOCK_CLASS, key])
+      const { rows } = await candidate.query<{ locked: boolean }>(
+        'select pg_try_advisory_lock($1, $2) as locked',
+        [PRESENCE_LOCK_CLASS, key],
+      )
       if (!rows[0]?.locked) {
         // Another live process drew the same key: draw again, unless rows may already carry this
         // one (then the refusal is our own old session, about to be dropped by PostgreSQL).

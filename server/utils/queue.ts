@@ -62,7 +62,7 @@ export function inTransaction(trx: Kysely<Database> | Transaction<Database>): Pg
   return {
     executeSql: async (text, values) => {
       const result = await trx.executeQuery(CompiledQuery.raw(text, values))
-      return { rows: result.rows as any[] }
+      return { rows: result.rows }
     },
   }
 }

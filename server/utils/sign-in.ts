@@ -18,7 +18,12 @@ interface Account {
  * and accounts without a password cost the same hash. A right password on an older hash gets
  * argon2id in its place, in the transaction that settles the attempt.
  */
-export async function attemptPassword(event: H3Event, email: string, account: Account | undefined, password: string): Promise<PasswordAttempt> {
+export async function attemptPassword(
+  event: H3Event,
+  email: string,
+  account: Account | undefined,
+  password: string,
+): Promise<PasswordAttempt> {
   const ip = clientAddress(event)
   const stored = account?.passwordHash ?? null
   const checked = await withPasswordSlot(async (hasher) => {

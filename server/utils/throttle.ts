@@ -44,7 +44,8 @@ const ADDRESS_LOCK = 2
 export async function reserveLoginAttempt(email: string, ip: string): Promise<Reservation> {
   const { windowMinutes, accountLimit, addressLimit } = signInLimits()
   return useDb().transaction().execute(async (trx) => {
-    await sql`select pg_advisory_xact_lock(${ACCOUNT_LOCK}, hashtext(${email})), pg_advisory_xact_lock(${ADDRESS_LOCK}, hashtext(${ip}))`.execute(trx)
+    await sql`select pg_advisory_xact_lock(${ACCOUNT_LOCK}, hashtext(${email})),
+      pg_advisory_xact_lock(${ADDRESS_LOCK}, hashtext(${ip}))`.execute(trx)
     // A statement of its own after the locks, so its snapshot sees every reservation before ours.
     const { rows: [counts] } = await sql<{ byAccount: number, byAddress: number, accountSince: Date, attemptId: number | null }>`
       with recent as (

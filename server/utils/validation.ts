@@ -37,7 +37,10 @@ export function invalid(issues: FieldIssue[], statusCode = 400): never {
 export function refuseControlCharacters(value: unknown, root: PropertyKey[] = []): void {
   const stack: Array<{ value: unknown, path: PropertyKey[] }> = [{ value, path: root }]
   const refuse = (path: PropertyKey[], text: string, what = '') =>
-    invalid([{ field: fieldPath(path) || '(body)', message: `Remove the control character ${codePointLabel(forbiddenCharacter(text)!)}${what}` }])
+    invalid([{
+      field: fieldPath(path) || '(body)',
+      message: `Remove the control character ${codePointLabel(forbiddenCharacter(text)!)}${what}`,
+    }])
   while (stack.length) {
     const { value: item, path } = stack.pop()!
     if (typeof item === 'string') {

@@ -35,7 +35,12 @@ export async function sendClaimed(row: MailRow): Promise<SendOutcome> {
       subject: row.subject,
       text: row.textBody,
       html: row.htmlBody ?? undefined,
-      attachments: row.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, content: a.content, encoding: 'base64' })),
+      attachments: row.attachments.map((a) => ({
+        filename: a.filename,
+        contentType: a.contentType,
+        content: a.content,
+        encoding: 'base64',
+      })),
       messageId: messageIdFor(row.id, row.dedupeKey),
     })
     return { sent: true, providerMessageId: info.messageId ?? null }
@@ -59,7 +64,15 @@ export async function recordOutcome(row: MailRow, outcome: SendOutcome, key: num
   const db = useDb()
   if (outcome.sent) {
     await db.updateTable('mailMessages')
-      .set({ status: 'sent', sentAt: new Date(), providerMessageId: outcome.providerMessageId, lastError: null, claimedBy: null, claimedAt: null, updatedAt: new Date() })
+      .set({
+        status: 'sent',
+        sentAt: new Date(),
+        providerMessageId: outcome.providerMessageId,
+        lastError: null,
+        claimedBy: null,
+        claimedAt: null,
+        updatedAt: new Date(),
+      })
       .where('id', '=', row.id).where('status', '=', 'sending').where('claimedBy', '=', key)
       .execute()
     return
@@ -79,7 +92,10 @@ export async function recordOutcome(row: MailRow, outcome: SendOutcome, key: num
  * `whenDead`: only if that process holds no presence lock (checked in the same statement);
  * such an attempt's outcome is unknown, and the row says so. `ids` narrows it to some messages.
  */
-export async function releaseClaims(claimant: number | null, options: { ids?: number[], whenDead: boolean, reason: string }): Promise<number[]> {
+export async function releaseClaims(
+  claimant: number | null,
+  options: { ids?: number[], whenDead: boolean, reason: string },
+): Promise<number[]> {
   return useDb().transaction().execute(async (trx) => {
     let query = trx.updateTable('mailMessages')
       .set((eb) => ({

@@ -117,7 +117,11 @@ export class MailWorker {
     }
     const idle = (await ownClaims(this.presence.key)).filter((id) => !this.inFlight.has(id) && !this.unrecorded.has(id))
     if (!idle.length) return 0
-    const released = await releaseClaims(this.presence.key, { ids: idle, whenDead: false, reason: 'The database was unreachable while this message was being sent; sending again' })
+    const released = await releaseClaims(this.presence.key, {
+      ids: idle,
+      whenDead: false,
+      reason: 'The database was unreachable while this message was being sent; sending again',
+    })
     if (released.length) this.wake()
     return released.length
   }

@@ -16,7 +16,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('outlier_alpha', 'numeric', (c) => c.notNull().defaultTo(0.05).check(sql`outlier_alpha in (0.05, 0.10)`))
     .addColumn('zscore_limit', 'numeric', (c) => c.notNull().defaultTo(3.5).check(sql`zscore_limit > 0`))
     .addColumn('accuracy_tolerance_percent', 'numeric', (c) => c.notNull().defaultTo(15).check(sql`accuracy_tolerance_percent > 0`))
-    .addColumn('release_policy', 'text', (c) => c.notNull().defaultTo('on-review').check(sql`release_policy in ('on-review', 'after-due', 'manual')`))
+    .addColumn('release_policy', 'text', (c) => c.notNull().defaultTo('on-review')
+      .check(sql`release_policy in ('on-review', 'after-due', 'manual')`))
     .addColumn('rubric', 'jsonb', (c) => c.notNull().defaultTo(sql`'[]'::jsonb`))
     .addColumn('created_by', 'integer', (c) => c.references('users.id').onDelete('set null'))
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(now))
@@ -74,11 +75,15 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(now))
     .addColumn('withdrawn_at', 'timestamptz')
     .execute()
-  await db.schema.createIndex('enrollments_active_student').on('enrollments').columns(['course_id', 'user_id']).unique().where(sql.ref('status'), '=', 'active').execute()
+  await db.schema.createIndex('enrollments_active_student').on('enrollments')
+    .columns(['course_id', 'user_id']).unique().where(sql.ref('status'), '=', 'active')
+    .execute()
   await db.schema.createIndex('enrollments_section').on('enrollments').columns(['section_id', 'status']).execute()
   await db.schema.createIndex('enrollments_user').on('enrollments').column('user_id').execute()
   // Two students cannot hold the same seat at the same station.
-  await db.schema.createIndex('enrollments_seat').on('enrollments').columns(['section_id', 'station', 'seat']).unique().where(sql<boolean>`status = 'active' and station is not null`).execute()
+  await db.schema.createIndex('enrollments_seat').on('enrollments')
+    .columns(['section_id', 'station', 'seat']).unique().where(sql<boolean>`status = 'active' and station is not null`)
+    .execute()
 
   await db.schema
     .createTable('invitations')
@@ -147,8 +152,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('substrate_windows_range', sql`rt_max > rt_min and rt_min >= 0`)
     .addCheckConstraint('substrate_windows_product', sql`(kind = 'product') = (product_smiles is not null)`)
     .execute()
-  await db.schema.createIndex('substrate_windows_product').on('substrate_windows').columns(['substrate_id', 'product_smiles']).unique().where(sql<boolean>`product_smiles is not null`).execute()
-  await db.schema.createIndex('substrate_windows_kind').on('substrate_windows').columns(['substrate_id', 'kind']).unique().where(sql<boolean>`kind <> 'product'`).execute()
+  await db.schema.createIndex('substrate_windows_product').on('substrate_windows')
+    .columns(['substrate_id', 'product_smiles']).unique().where(sql<boolean>`product_smiles is not null`)
+    .execute()
+  await db.schema.createIndex('substrate_windows_kind').on('substrate_windows')
+    .columns(['substrate_id', 'kind']).unique().where(sql<boolean>`kind <> 'product'`)
+    .execute()
 
   await db.schema
     .createTable('standard_runs')
@@ -198,7 +207,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('id', 'integer', (c) => c.primaryKey().generatedAlwaysAsIdentity())
     .addColumn('practical_id', 'integer', (c) => c.notNull().references('practicals.id').onDelete('cascade'))
     .addColumn('position', 'smallint', (c) => c.notNull())
-    .addColumn('role', 'text', (c) => c.notNull().check(sql`role in ('substrate', 'halogenating-agent', 'initiator', 'solvent', 'wash', 'drying-agent', 'other')`))
+    .addColumn('role', 'text', (c) => c.notNull()
+      .check(sql`role in ('substrate', 'halogenating-agent', 'initiator', 'solvent', 'wash', 'drying-agent', 'other')`))
     .addColumn('name', 'text', (c) => c.notNull())
     .addColumn('smiles', 'text')
     .addColumn('molar_mass', 'numeric')
@@ -227,7 +237,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(now))
     .execute()
 
-  await db.schema.alterTable('mail_messages').addColumn('course_id', 'integer', (c) => c.references('courses.id').onDelete('set null')).execute()
+  await db.schema.alterTable('mail_messages')
+    .addColumn('course_id', 'integer', (c) => c.references('courses.id').onDelete('set null'))
+    .execute()
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

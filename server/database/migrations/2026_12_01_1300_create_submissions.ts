@@ -33,8 +33,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(now))
     .addUniqueConstraint('submissions_unit_version', ['practical_id', 'unit_key', 'version'])
     .execute()
-  await db.schema.createIndex('submissions_idempotency').on('submissions').columns(['submitted_by', 'idempotency_key']).unique().where(sql<boolean>`idempotency_key is not null`).execute()
-  await db.schema.createIndex('submissions_practical_section').on('submissions').columns(['practical_id', 'section_id', 'unit_key', 'version']).execute()
+  await db.schema.createIndex('submissions_idempotency').on('submissions')
+    .columns(['submitted_by', 'idempotency_key']).unique().where(sql<boolean>`idempotency_key is not null`)
+    .execute()
+  await db.schema.createIndex('submissions_practical_section').on('submissions')
+    .columns(['practical_id', 'section_id', 'unit_key', 'version'])
+    .execute()
 
   await db.schema
     .createTable('submission_members')

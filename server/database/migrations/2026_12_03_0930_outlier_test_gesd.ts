@@ -5,7 +5,8 @@ import { type Kysely, sql } from 'kysely'
 // them hide each other. Existing courses keep the test their instructor chose.
 export async function up(db: Kysely<any>): Promise<void> {
   await sql`alter table courses drop constraint courses_outlier_test_check`.execute(db)
-  await sql`alter table courses add constraint courses_outlier_test_check check (outlier_test in ('gesd', 'grubbs', 'dixon', 'modified-z'))`.execute(db)
+  await sql`alter table courses add constraint courses_outlier_test_check
+    check (outlier_test in ('gesd', 'grubbs', 'dixon', 'modified-z'))`.execute(db)
   await sql`alter table courses alter column outlier_test set default 'gesd'`.execute(db)
 }
 
@@ -13,5 +14,6 @@ export async function down(db: Kysely<any>): Promise<void> {
   await sql`update courses set outlier_test = 'grubbs' where outlier_test = 'gesd'`.execute(db)
   await sql`alter table courses alter column outlier_test set default 'grubbs'`.execute(db)
   await sql`alter table courses drop constraint courses_outlier_test_check`.execute(db)
-  await sql`alter table courses add constraint courses_outlier_test_check check (outlier_test in ('grubbs', 'dixon', 'modified-z'))`.execute(db)
+  await sql`alter table courses add constraint courses_outlier_test_check
+    check (outlier_test in ('grubbs', 'dixon', 'modified-z'))`.execute(db)
 }

@@ -103,13 +103,21 @@ export async function seedLibrary(ctx: SeedContext): Promise<void> {
 async function seedReferences(ctx: SeedContext, teachingId: string, substrateId: number) {
   for (const ref of SEEDED_REFERENCES.filter((r) => r.substrate === teachingId)) {
     const halogen = HALOGENATION_METHODS.find((m) => m.reagent === ref.reagent)!.halogen
-    const products = new Set(analyzeSubstrate(TEACHING_SUBSTRATES.find((s) => s.id === teachingId)!.smiles, { halogen }).products.map((p) => p.smiles))
+    const substrateSmiles = TEACHING_SUBSTRATES.find((s) => s.id === teachingId)!.smiles
+    const products = new Set(analyzeSubstrate(substrateSmiles, { halogen }).products.map((p) => p.smiles))
     const percents = ref.percents.map((p) => ({ smiles: canonicalSmiles(p.smiles), percent: p.percent }))
     // A typo would silently count a product as 0 %: fail the seed instead.
     const stray = percents.find((p) => !products.has(p.smiles))
-    if (stray || percents.length !== products.size) throw new Error(`seed: the reference for ${teachingId} does not cover its products exactly`)
+    if (stray || percents.length !== products.size) {
+      throw new Error(`seed: the reference for ${teachingId} does not cover its products exactly`)
+    }
     await ctx.db.insertInto('substrateReferences').values({
-      substrateId, reagent: ref.reagent, percents: JSON.stringify(percents), source: ref.source, sourceKind: ref.sourceKind, updatedBy: null,
+      substrateId,
+      reagent: ref.reagent,
+      percents: JSON.stringify(percents),
+      source: ref.source,
+      sourceKind: ref.sourceKind,
+      updatedBy: null,
     }).execute()
   }
 }

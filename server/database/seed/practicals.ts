@@ -9,8 +9,24 @@ import type { SeedContext } from './context'
 // (results are in), practical 2 meets the week after next (the stockroom prepares for it).
 // Scale per pair at a hood station, the usual teaching-lab size (common practice).
 
-const WASH: ItemSpec = { role: 'wash', name: 'aqueous sodium bicarbonate, 5 % (two 10 mL portions)', smiles: null, molarMass: null, density: null, basis: 'mL', amount: 20 }
-const DRYING: ItemSpec = { role: 'drying-agent', name: 'anhydrous magnesium sulfate', smiles: null, molarMass: null, density: null, basis: 'g', amount: 1 }
+const WASH: ItemSpec = {
+  role: 'wash',
+  name: 'aqueous sodium bicarbonate, 5 % (two 10 mL portions)',
+  smiles: null,
+  molarMass: null,
+  density: null,
+  basis: 'mL',
+  amount: 20,
+}
+const DRYING: ItemSpec = {
+  role: 'drying-agent',
+  name: 'anhydrous magnesium sulfate',
+  smiles: null,
+  molarMass: null,
+  density: null,
+  basis: 'g',
+  amount: 1,
+}
 
 interface DemoPractical {
   key: 'p1' | 'p2'
@@ -26,7 +42,8 @@ interface DemoPractical {
 /** A method reagent from shared/data, its molar mass from the structure (IUPAC weights). */
 function reagentItem(methodKey: string, smiles: string, role: ItemSpec['role'], basis: ItemSpec['basis'], amount: number): ItemSpec {
   const reagent = findMethod(methodKey)!.reagents.find((r) => r.smiles === smiles)!
-  return { role, name: reagent.name, smiles, molarMass: Number(molarMassOf(smiles).molarMass.toFixed(3)), density: reagent.density, basis, amount }
+  const molarMass = Number(molarMassOf(smiles).molarMass.toFixed(3))
+  return { role, name: reagent.name, smiles, molarMass, density: reagent.density, basis, amount }
 }
 
 function demoPracticals(today: string): DemoPractical[] {
@@ -71,9 +88,11 @@ export async function seedPracticals(ctx: SeedContext): Promise<void> {
       ?? await db.selectFrom('substrates').selectAll().where('name', '=', demo.substrate).where('ownerId', 'is', null).executeTakeFirst()
     const method = await db.selectFrom('methods').selectAll()
       .where('id', '=', ctx.ids.methods.get(demo.reagent) ?? -1).executeTakeFirst()
-      ?? await db.selectFrom('methods').selectAll().where('reagent', '=', demo.reagent).where('ownerId', 'is', null).orderBy('id').executeTakeFirst()
+      ?? await db.selectFrom('methods').selectAll()
+        .where('reagent', '=', demo.reagent).where('ownerId', 'is', null).orderBy('id').executeTakeFirst()
     if (!substrate || !method) {
-      throw new Error(`seedPracticals: the library seed has no ${!substrate ? `substrate "${demo.substrate}"` : `method with reagent "${demo.reagent}"`}; seedLibrary must run first`)
+      const missing = !substrate ? `substrate "${demo.substrate}"` : `method with reagent "${demo.reagent}"`
+      throw new Error(`seedPracticals: the library seed has no ${missing}; seedLibrary must run first`)
     }
 
     const practical = await db.insertInto('practicals').values({
@@ -81,14 +100,25 @@ export async function seedPracticals(ctx: SeedContext): Promise<void> {
     }).returning('id').executeTakeFirstOrThrow()
     ctx.ids.practicals.set(demo.key, practical.id)
 
-    const substrateItem: ItemSpec = { role: 'substrate', name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density, basis: 'mmol', amount: 10 }
+    const substrateItem: ItemSpec = {
+      role: 'substrate',
+      name: substrate.name,
+      smiles: substrate.smiles,
+      molarMass: substrate.molarMass,
+      density: substrate.density,
+      basis: 'mmol',
+      amount: 10,
+    }
     const items = [substrateItem, ...demo.reagents(), WASH, DRYING]
-    await db.insertInto('practicalItems').values(items.map((item, position) => ({ practicalId: practical.id, position, ...item }))).execute()
+    await db.insertInto('practicalItems')
+      .values(items.map((item, position) => ({ practicalId: practical.id, position, ...item })))
+      .execute()
 
     const weekEnd = addDays(demo.week, 6)
     const sessions = sections.flatMap((s) => {
       const meeting = sectionMeetings({ ...s, timezone: course.timezone }).find((m) => m.date >= demo.week && m.date <= weekEnd)
-      return meeting ? [{ practicalId: practical.id, sectionId: s.id, meetingDate: meeting.date, dueAt: defaultDueAt(meeting.date, course.timezone) }] : []
+      if (!meeting) return []
+      return [{ practicalId: practical.id, sectionId: s.id, meetingDate: meeting.date, dueAt: defaultDueAt(meeting.date, course.timezone) }]
     })
     if (sessions.length) await db.insertInto('practicalSessions').values(sessions).execute()
   }

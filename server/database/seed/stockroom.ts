@@ -41,13 +41,15 @@ const CATALOG: DemoReagent[] = [
   },
   {
     key: 'chlorine', name: 'chlorine', smiles: 'ClCl', physicalState: 'gas', containerSize: 450, unit: 'g',
-    ...KESTREL, catalogNumber: 'KSG-CL2-LB', signalWord: 'Danger', hazardCodes: ['H270', 'H280', 'H330', 'H315', 'H319', 'H335', 'H400'], hazards: ['chlorine'],
+    ...KESTREL, catalogNumber: 'KSG-CL2-LB', signalWord: 'Danger',
+    hazardCodes: ['H270', 'H280', 'H330', 'H315', 'H319', 'H335', 'H400'], hazards: ['chlorine'],
     storageNotes: 'Ventilated gas cabinet; cylinder chained upright, valve cap on when not in use; away from ammonia and flammables. Weigh the cylinder before and after each session.',
     shelfLifeMonths: null, overagePercent: 25, lowStockLevel: 150,
   },
   {
     key: 'dcm', name: 'dichloromethane', smiles: 'ClCCl', physicalState: 'liquid', density: 1.33, containerSize: 1000, unit: 'mL',
-    ...NORTHFIELD, catalogNumber: 'NFS-DCM-1L', signalWord: 'Warning', hazardCodes: ['H315', 'H319', 'H336', 'H351'], hazards: ['halogenated-waste'],
+    ...NORTHFIELD, catalogNumber: 'NFS-DCM-1L', signalWord: 'Warning',
+    hazardCodes: ['H315', 'H319', 'H336', 'H351'], hazards: ['halogenated-waste'],
     storageNotes: 'Solvent cabinet. GC sample diluent.', shelfLifeMonths: 36, lowStockLevel: 1000,
   },
   {
@@ -65,8 +67,19 @@ const CATALOG: DemoReagent[] = [
 
 /** Which reagent each demo item draws on, by practical and item role. */
 const LINKS: Record<'p1' | 'p2', Record<string, { key: string, gramsPerMl?: number }>> = {
-  p1: { 'substrate': { key: 'chlorobutane' }, 'halogenating-agent': { key: 'so2cl2' }, 'initiator': { key: 'aibn' }, 'wash': { key: 'bicarbonate', gramsPerMl: 0.05 }, 'drying-agent': { key: 'mgso4' } },
-  p2: { 'substrate': { key: 'dimethylbutane' }, 'halogenating-agent': { key: 'chlorine' }, 'wash': { key: 'bicarbonate', gramsPerMl: 0.05 }, 'drying-agent': { key: 'mgso4' } },
+  p1: {
+    'substrate': { key: 'chlorobutane' },
+    'halogenating-agent': { key: 'so2cl2' },
+    'initiator': { key: 'aibn' },
+    'wash': { key: 'bicarbonate', gramsPerMl: 0.05 },
+    'drying-agent': { key: 'mgso4' },
+  },
+  p2: {
+    'substrate': { key: 'dimethylbutane' },
+    'halogenating-agent': { key: 'chlorine' },
+    'wash': { key: 'bicarbonate', gramsPerMl: 0.05 },
+    'drying-agent': { key: 'mgso4' },
+  },
 }
 
 interface DemoLot {
@@ -84,18 +97,33 @@ interface DemoLot {
   order?: 'restock'
 }
 
-const CABINET = { flammables: 'Prep room 118, flammables cabinet F2', corrosives: 'Prep room 118, corrosives cabinet C1', cold: 'Prep room 118, refrigerator R1', gas: 'Bellweather Hall 214, gas cabinet G1', shelf: 'Prep room 118, shelf S4' }
+const CABINET = {
+  flammables: 'Prep room 118, flammables cabinet F2',
+  corrosives: 'Prep room 118, corrosives cabinet C1',
+  cold: 'Prep room 118, refrigerator R1',
+  gas: 'Bellweather Hall 214, gas cabinet G1',
+  shelf: 'Prep room 118, shelf S4',
+}
 const P1 = -28
 
 const LOTS: DemoLot[] = [
   { key: 'chlorobutane', lotCode: 'M24-7731', quantity: 500, location: CABINET.flammables, received: -70, opened: P1,
-    usage: [[P1, 9.2, 'M1 practical 1', 'p1'], [P1 + 1, 9.0, 'T1 practical 1', 'p1'], [P1 + 2, 8.9, 'W1 practical 1', 'p1'], [P1 + 3, 9.3, 'R1 practical 1', 'p1']] },
+    usage: [
+      [P1, 9.2, 'M1 practical 1', 'p1'], [P1 + 1, 9.0, 'T1 practical 1', 'p1'],
+      [P1 + 2, 8.9, 'W1 practical 1', 'p1'], [P1 + 3, 9.3, 'R1 practical 1', 'p1'],
+    ] },
   // Expired two weeks ago with 40 mL left: the overview asks for it to be disposed of.
   { key: 'so2cl2', lotCode: 'M23-5102', quantity: 100, location: CABINET.corrosives, received: -380, opened: -300, expires: -14,
-    usage: [[-300, 26, 'Spring term practicals'], [P1, 8.5, 'M1 and T1 practical 1', 'p1'], [P1 + 2, 8.3, 'W1 and R1 practical 1', 'p1'], [-27, 17.2, 'Quenched: septum failed']] },
+    usage: [
+      [-300, 26, 'Spring term practicals'], [P1, 8.5, 'M1 and T1 practical 1', 'p1'],
+      [P1 + 2, 8.3, 'W1 and R1 practical 1', 'p1'], [-27, 17.2, 'Quenched: septum failed'],
+    ] },
   { key: 'so2cl2', lotCode: 'M24-9018', quantity: 100, location: CABINET.corrosives, received: -35, usage: [], order: 'restock' },
   { key: 'aibn', lotCode: 'M22-0415', quantity: 100, location: CABINET.cold, received: -700, opened: -400, expires: 18,
-    usage: [[-400, 1.5, 'Spring term practicals'], [P1, 0.35, 'M1 and T1 practical 1', 'p1'], [P1 + 2, 0.35, 'W1 and R1 practical 1', 'p1']] },
+    usage: [
+      [-400, 1.5, 'Spring term practicals'], [P1, 0.35, 'M1 and T1 practical 1', 'p1'],
+      [P1 + 2, 0.35, 'W1 and R1 practical 1', 'p1'],
+    ] },
   // Little substrate for practical 2: one opened bottle, and one that expires before next week.
   { key: 'dimethylbutane', lotCode: 'M24-3310', quantity: 25, location: CABINET.flammables, received: -60, opened: -40,
     usage: [[-40, 6, 'GC standard run'], [-12, 7, 'TA trial of practical 2']] },
@@ -110,18 +138,36 @@ const LOTS: DemoLot[] = [
     usage: [[-300, 430, 'Spring term practicals'], [P1, 40, 'Practical 1', 'p1']] },
 ]
 
+/** Canonical SMILES, formula and molar mass (to 3 decimals) of a catalog entry drawn as a structure. */
+function structureIdentity(smiles: string) {
+  const { formula, molarMass } = molarMassOf(smiles)
+  return { smiles: canonicalSmiles(smiles), formula, molarMass: Number(molarMass.toFixed(3)) }
+}
+
 export async function seedStockroom(ctx: SeedContext): Promise<void> {
   const { db } = ctx
   const week0 = weekStart(ctx.today)
   const day = (offset: number) => addDays(week0, offset)
   const coordinatorId = ctx.users.get(`coordinator@${DEMO_DOMAIN}`) ?? null
 
-  await db.updateTable('stockroomSettings').set({ deliverTo: 'Chemistry stockroom, Bellweather Hall B12, Larkspur State University (receiving dock on Orchard Lane)', rinseMlPerUnit: 10 }).where('id', '=', 1).execute()
+  await db.updateTable('stockroomSettings').set({
+    deliverTo: 'Chemistry stockroom, Bellweather Hall B12, Larkspur State University (receiving dock on Orchard Lane)',
+    rinseMlPerUnit: 10,
+  }).where('id', '=', 1).execute()
 
-  const ids = new Map<string, { id: number, shelfLifeMonths: number | null, unit: 'g' | 'mL', containerSize: number, name: string, supplierName: string, supplierEmail: string | null, catalogNumber: string }>()
+  const ids = new Map<string, {
+    id: number
+    shelfLifeMonths: number | null
+    unit: 'g' | 'mL'
+    containerSize: number
+    name: string
+    supplierName: string
+    supplierEmail: string | null
+    catalogNumber: string
+  }>()
   for (const { key, formula, molarMass, ...r } of CATALOG) {
     const identity = r.smiles
-      ? { smiles: canonicalSmiles(r.smiles), formula: molarMassOf(r.smiles).formula, molarMass: Number(molarMassOf(r.smiles).molarMass.toFixed(3)) }
+      ? structureIdentity(r.smiles)
       : { smiles: null, formula: formula ?? '', molarMass: molarMass ?? null }
     const row = await db.insertInto('reagents').values({ ...r, ...identity }).returningAll().executeTakeFirstOrThrow()
     ids.set(key, row)
@@ -146,31 +192,44 @@ export async function seedStockroom(ctx: SeedContext): Promise<void> {
     notes: 'Ship with the usual corrosive packaging.',
   }).returning('id').executeTakeFirstOrThrow()
   const restockLine = await db.insertInto('orderLines').values({
-    orderId: restock.id, position: 0, reagentId: so2cl2.id, name: so2cl2.name, supplierName: so2cl2.supplierName, supplierEmail: so2cl2.supplierEmail,
-    catalogNumber: so2cl2.catalogNumber, containers: 1, containerSize: so2cl2.containerSize, unit: so2cl2.unit, note: 'Short by 36 mL for practical 1',
+    orderId: restock.id, position: 0, reagentId: so2cl2.id, name: so2cl2.name,
+    supplierName: so2cl2.supplierName, supplierEmail: so2cl2.supplierEmail, catalogNumber: so2cl2.catalogNumber,
+    containers: 1, containerSize: so2cl2.containerSize, unit: so2cl2.unit, note: 'Short by 36 mL for practical 1',
   }).returning('id').executeTakeFirstOrThrow()
   const dcm = ids.get('dcm')!
   const solvent = await db.insertInto('orderSheets').values({
-    title: 'GC solvent and waste containers', status: 'sent', createdBy: coordinatorId, sentAt: new Date(`${day(-1)}T15:00:00Z`), sentBy: coordinatorId,
+    title: 'GC solvent and waste containers', status: 'sent', createdBy: coordinatorId,
+    sentAt: new Date(`${day(-1)}T15:00:00Z`), sentBy: coordinatorId,
     createdAt: new Date(`${day(-2)}T16:00:00Z`), updatedAt: new Date(`${day(-1)}T15:00:00Z`),
   }).returning('id').executeTakeFirstOrThrow()
   await db.insertInto('orderLines').values([
-    { orderId: solvent.id, position: 0, reagentId: dcm.id, name: dcm.name, supplierName: dcm.supplierName, supplierEmail: dcm.supplierEmail, catalogNumber: dcm.catalogNumber, containers: 2, containerSize: 1000, unit: 'mL', note: '' },
-    { orderId: solvent.id, position: 1, reagentId: null, name: 'Halogenated waste container, 4 L, vented cap', supplierName: NORTHFIELD.supplierName, supplierEmail: NORTHFIELD.supplierEmail, catalogNumber: 'NFS-WC-4L', containers: 4, containerSize: 1, unit: 'each', note: 'For the practical 2 pickups' },
+    {
+      orderId: solvent.id, position: 0, reagentId: dcm.id, name: dcm.name,
+      supplierName: dcm.supplierName, supplierEmail: dcm.supplierEmail, catalogNumber: dcm.catalogNumber,
+      containers: 2, containerSize: 1000, unit: 'mL', note: '',
+    },
+    {
+      orderId: solvent.id, position: 1, reagentId: null, name: 'Halogenated waste container, 4 L, vented cap',
+      supplierName: NORTHFIELD.supplierName, supplierEmail: NORTHFIELD.supplierEmail, catalogNumber: 'NFS-WC-4L',
+      containers: 4, containerSize: 1, unit: 'each', note: 'For the practical 2 pickups',
+    },
   ]).execute()
 
   for (const lot of LOTS) {
     const reagent = ids.get(lot.key)!
     const receivedOn = day(lot.received)
+    const shelfLifeEnd = reagent.shelfLifeMonths ? addMonths(receivedOn, reagent.shelfLifeMonths) : null
     const row = await db.insertInto('reagentLots').values({
-      reagentId: reagent.id, lotCode: lot.lotCode, quantity: lot.quantity, unit: reagent.unit, containers: lot.containers ?? 1, location: lot.location,
+      reagentId: reagent.id, lotCode: lot.lotCode, quantity: lot.quantity, unit: reagent.unit,
+      containers: lot.containers ?? 1, location: lot.location,
       receivedOn, openedOn: lot.opened === undefined ? null : day(lot.opened),
-      expiresOn: lot.expires === undefined ? (reagent.shelfLifeMonths ? addMonths(receivedOn, reagent.shelfLifeMonths) : null) : lot.expires === null ? null : day(lot.expires),
+      expiresOn: lot.expires === undefined ? shelfLifeEnd : lot.expires === null ? null : day(lot.expires),
       orderLineId: lot.order === 'restock' ? restockLine.id : null, createdBy: coordinatorId,
     }).returning('id').executeTakeFirstOrThrow()
     if (lot.usage.length) {
       await db.insertInto('reagentUsage').values(lot.usage.map(([offset, amount, note, practical]) => ({
-        lotId: row.id, usedOn: day(offset), amount, note, practicalId: practical ? ctx.ids.practicals.get(practical)! : null, recordedBy: coordinatorId,
+        lotId: row.id, usedOn: day(offset), amount, note,
+        practicalId: practical ? ctx.ids.practicals.get(practical)! : null, recordedBy: coordinatorId,
       }))).execute()
     }
   }

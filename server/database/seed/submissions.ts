@@ -9,6 +9,7 @@ import { attentionOf, evaluateRun, practicalChemistryOf, type PracticalChemistry
 import { startingScores } from '../../../shared/utils/grading'
 import { substrateProductNamer, substrateReferenceFor } from '../../services/library/product-names'
 import { stationUnitKey } from '../../services/submissions/work-units'
+import { storedResultOf } from '../../services/submissions/stored-result'
 
 // Invented GC results for practical 1, which met four weeks before the seeding day: one upload
 // per pair, realistic pair-to-pair scatter, the classic bad runs, and reviews by the TAs.
@@ -33,10 +34,15 @@ async function unitsOf(ctx: SeedContext): Promise<Unit[]> {
   for (const s of DEMO_SECTIONS) {
     const sectionId = ctx.ids.sections.get(s.code)!
     const rows = await ctx.db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
-      .select(['enrollments.userId', 'enrollments.station', 'users.name']).where('enrollments.sectionId', '=', sectionId).orderBy('enrollments.station').orderBy('enrollments.seat').execute()
+      .select(['enrollments.userId', 'enrollments.station', 'users.name'])
+      .where('enrollments.sectionId', '=', sectionId)
+      .orderBy('enrollments.station').orderBy('enrollments.seat')
+      .execute()
     const byStation = new Map<number, typeof rows>()
     for (const r of rows) byStation.set(r.station!, [...(byStation.get(r.station!) ?? []), r])
-    for (const [station, members] of byStation) units.push({ section: s.code, sectionId, station, members: members.map((m) => m.userId), names: members.map((m) => m.name) })
+    for (const [station, members] of byStation) {
+      units.push({ section: s.code, sectionId, station, members: members.map((m) => m.userId), names: members.map((m) => m.name) })
+    }
   }
   return units
 }
@@ -59,14 +65,25 @@ export async function seedSubmissions(ctx: SeedContext): Promise<void> {
   const db = ctx.db
   const practical = await db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
     .innerJoin('methods', 'methods.id', 'practicals.methodId').innerJoin('courses', 'courses.id', 'practicals.courseId')
-    .select(['substrates.id as substrateId', 'substrates.smiles', 'methods.halogen', 'methods.reagent', 'methods.rPrimary', 'methods.rSecondary', 'methods.rTertiary', 'courses.rubric', 'courses.accuracyTolerancePercent'])
+    .select([
+      'substrates.id as substrateId', 'substrates.smiles',
+      'methods.halogen', 'methods.reagent', 'methods.rPrimary', 'methods.rSecondary', 'methods.rTertiary',
+      'courses.rubric', 'courses.accuracyTolerancePercent',
+    ])
     .where('practicals.id', '=', practicalId).executeTakeFirstOrThrow()
-  const windows = await db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor']).where('substrateId', '=', practical.substrateId).execute()
+  const windows = await db.selectFrom('substrateWindows')
+    .select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor'])
+    .where('substrateId', '=', practical.substrateId)
+    .execute()
   const chem = practicalChemistryOf(practical.smiles, practical, windows, {
     nameOf: await substrateProductNamer(db, practical.substrateId),
     reference: await substrateReferenceFor(db, practical.substrateId, practical.reagent),
   })
-  const sessions = new Map((await db.selectFrom('practicalSessions').select(['sectionId', 'meetingDate', 'dueAt']).where('practicalId', '=', practicalId).execute()).map((s) => [s.sectionId, s]))
+  const sessionRows = await db.selectFrom('practicalSessions')
+    .select(['sectionId', 'meetingDate', 'dueAt'])
+    .where('practicalId', '=', practicalId)
+    .execute()
+  const sessions = new Map(sessionRows.map((s) => [s.sectionId, s]))
   const tas = { M1: 'ta1', W1: 'ta1', T1: 'ta2', R1: 'ta2' } as Record<string, string>
 
   let seed = 1000
@@ -85,36 +102,65 @@ export async function seedSubmissions(ctx: SeedContext): Promise<void> {
     const hoursAfterMeeting = unit.station === 8 && unit.section === 'T1' ? 24 * 8 : 6 + (seed % 72)
     const uploadedAt = new Date(Date.parse(`${session.meetingDate}T18:00:00Z`) + hoursAfterMeeting * 3_600_000)
     const uploader = unit.members[seed % unit.members.length]!
-    const first = await storeVersion(ctx, { practicalId, unit, version: 1, text, uploadedAt, uploader, chem, dueAt: session.dueAt, seedNo: seed })
+    const first = await storeVersion(ctx, {
+      practicalId, unit, version: 1, text, uploadedAt, uploader, chem, dueAt: session.dueAt, seedNo: seed,
+    })
 
     const reviewer = ctx.users.get(`${tas[unit.section]}@${DEMO_DOMAIN}`)!
     const reviewedAt = new Date(uploadedAt.getTime() + 26 * 3_600_000)
     // R1 is the most recent section: its clean runs still wait for review.
     if (key === 'R1:7') {
-      await review(ctx, first, reviewer, reviewedAt, 'return', 'Two peaks fall in one product window; re-integrate the 1,3-dichlorobutane region as one peak and upload again.')
+      await review(
+        ctx, first, reviewer, reviewedAt, 'return',
+        'Two peaks fall in one product window; re-integrate the 1,3-dichlorobutane region as one peak and upload again.',
+      )
       const clean = simulatePeakTable({
         seed: seed + 1, windows: chem.windows, distribution: truth, areaNoise: 0.02,
-        solvent: { retentionTime: 1.38, area: 2_400_000 }, startingMaterial: { retentionTime: 2.27, area: 410_000 }, style: 'csv',
+        solvent: { retentionTime: 1.38, area: 2_400_000 }, startingMaterial: { retentionTime: 2.27, area: 410_000 },
+        style: 'csv',
       }).text
-      await storeVersion(ctx, { practicalId, unit, version: 2, text: clean, uploadedAt: new Date(reviewedAt.getTime() + 20 * 3_600_000), uploader, chem, dueAt: session.dueAt, seedNo: seed + 1 })
+      await storeVersion(ctx, {
+        practicalId, unit, version: 2, text: clean, uploadedAt: new Date(reviewedAt.getTime() + 20 * 3_600_000),
+        uploader, chem, dueAt: session.dueAt, seedNo: seed + 1,
+      })
       continue
     }
     if (unit.section === 'R1' || first.attention > 0) continue
     // The TA takes the suggested accuracy score and docks a point here and there elsewhere.
-    const suggested = startingScores(practical.rubric, { observed: first.factor, expected: chem.expected.factors[chem.keyFactor], tolerancePercent: practical.accuracyTolerancePercent })
-    const scores = Object.fromEntries(practical.rubric.map((c) => [c.key, c.kind === 'accuracy' ? suggested[c.key] ?? 0 : c.maxPoints - (seed % 2)]))
+    const suggested = startingScores(practical.rubric, {
+      observed: first.factor,
+      expected: chem.expected.factors[chem.keyFactor],
+      tolerancePercent: practical.accuracyTolerancePercent,
+    })
+    const scores = Object.fromEntries(practical.rubric.map((c) => [
+      c.key,
+      c.kind === 'accuracy' ? suggested[c.key] ?? 0 : c.maxPoints - (seed % 2),
+    ]))
     await review(ctx, first, reviewer, reviewedAt, 'accept', null, scores, seed % 3 === 0 ? 'Clean baseline and well-resolved peaks.' : '')
   }
 }
 
 interface Stored { id: number, attention: number, factor: number | null }
 
-async function storeVersion(ctx: SeedContext, v: { practicalId: number, unit: Unit, version: number, text: string, uploadedAt: Date, uploader: number, chem: PracticalChemistry, dueAt: Date, seedNo: number }): Promise<Stored> {
+interface VersionToStore {
+  practicalId: number
+  unit: Unit
+  version: number
+  text: string
+  uploadedAt: Date
+  uploader: number
+  chem: PracticalChemistry
+  dueAt: Date
+  seedNo: number
+}
+
+async function storeVersion(ctx: SeedContext, v: VersionToStore): Promise<Stored> {
   const run = evaluateRun({ text: v.text, ...v.chem })
   const bytes = Buffer.from(v.text, 'utf8')
   const sha256 = createHash('sha256').update(bytes).digest('hex')
   const file = await ctx.db.insertInto('files').values({
-    sha256, byteSize: bytes.length, mediaType: 'text/csv; profile=peak-table', originalName: `gc-${v.unit.section.toLowerCase()}-station${v.unit.station}-v${v.version}.csv`,
+    sha256, byteSize: bytes.length, mediaType: 'text/csv; profile=peak-table',
+    originalName: `gc-${v.unit.section.toLowerCase()}-station${v.unit.station}-v${v.version}.csv`,
     content: bytes, uploadedBy: v.uploader, createdAt: v.uploadedAt,
   }).returning('id').executeTakeFirstOrThrow()
   const row = await ctx.db.insertInto('submissions').values({
@@ -126,7 +172,7 @@ async function storeVersion(ctx: SeedContext, v: { practicalId: number, unit: Un
     inputKind: run.kind,
     sha256,
     parsed: JSON.stringify(run.peaks),
-    result: JSON.stringify({ molePercents: run.molePercents, factors: run.factors, relative: run.relative, conversion: run.conversion, unassignedPercent: run.unassignedPercent, warnings: run.warnings, keyFactor: v.chem.keyFactor }),
+    result: JSON.stringify(storedResultOf(run, v.chem.keyFactor)),
     flags: JSON.stringify(run.flags),
     attention: attentionOf(run.flags),
     factorSecondary: run.factors.secondaryToPrimary,
@@ -137,14 +183,23 @@ async function storeVersion(ctx: SeedContext, v: { practicalId: number, unit: Un
     createdAt: v.uploadedAt,
     updatedAt: v.uploadedAt,
   }).returning(['id', 'attention']).executeTakeFirstOrThrow()
-  await ctx.db.insertInto('submissionMembers').values(v.unit.members.map((userId) => ({ submissionId: row.id, userId }))).execute()
+  await ctx.db.insertInto('submissionMembers')
+    .values(v.unit.members.map((userId) => ({ submissionId: row.id, userId })))
+    .execute()
   return { id: row.id, attention: row.attention, factor: run.factors[v.chem.keyFactor] }
 }
 
-async function review(ctx: SeedContext, s: Stored, reviewerId: number, at: Date, decision: 'accept' | 'return', reason: string | null, scores: Record<string, number> = {}, comment = '') {
+async function review(
+  ctx: SeedContext, s: Stored, reviewerId: number, at: Date,
+  decision: 'accept' | 'return', reason: string | null, scores: Record<string, number> = {}, comment = '',
+) {
   const total = Object.values(scores).reduce((a, b) => a + b, 0)
   await ctx.db.insertInto('reviews').values({
-    submissionId: s.id, reviewerId, decision, reason, comment, scores: JSON.stringify(scores), total: decision === 'accept' ? total : null, createdAt: at,
+    submissionId: s.id, reviewerId, decision, reason, comment, scores: JSON.stringify(scores),
+    total: decision === 'accept' ? total : null, createdAt: at,
   }).execute()
-  await ctx.db.updateTable('submissions').set({ status: decision === 'accept' ? 'accepted' : 'returned', updatedAt: at }).where('id', '=', s.id).execute()
+  await ctx.db.updateTable('submissions')
+    .set({ status: decision === 'accept' ? 'accepted' : 'returned', updatedAt: at })
+    .where('id', '=', s.id)
+    .execute()
 }

@@ -35,8 +35,9 @@ export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reage
  * Items as they will be stored: a SMILES must parse (it is stored as typed), and a missing
  * molar mass comes from it (IUPAC standard atomic weights via openchemlib, in the engine worker).
  */
-export async function checkedItems(items: Array<ItemInput & { smiles: string | null, molarMass: number | null
-  density: number | null }>): Promise<ItemSpec[]> {
+export async function checkedItems(
+  items: Array<ItemInput & { smiles: string | null, molarMass: number | null, density: number | null }>,
+): Promise<ItemSpec[]> {
   const forms = await reagentForms(items.flatMap((item) => (item.smiles ? [item.smiles] : [])))
   let next = 0
   return items.map((item, i) => {

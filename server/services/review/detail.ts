@@ -1,7 +1,7 @@
 import type { ReviewerScope } from './scope'
 import type { StoredFlag, Submission } from '../../database/schema'
 import type { PeakView, StoredResult } from '#shared/types/submission'
-import type { AccuracySuggestionView, ReviewFactorKey, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
+import type { AccuracySuggestionView, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
 import { keyFactorValue } from '#shared/utils/key-factor'
 import { buildReviewQueue, flagsWithOutlier, nextPendingAfter, queuePracticalOf, unitViewsOf } from './queue'

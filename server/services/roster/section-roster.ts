@@ -100,8 +100,15 @@ export async function rosterActiveStudents(db: Db, sectionId: number) {
 }
 
 export interface EnrollmentInScope {
-  enrollment: { id: number, courseId: number, sectionId: number, userId: number, status: 'active' | 'withdrawn', station: number | null
-    seat: number | null }
+  enrollment: {
+    id: number
+    courseId: number
+    sectionId: number
+    userId: number
+    status: 'active' | 'withdrawn'
+    station: number | null
+    seat: number | null
+  }
   scope: SectionScope
 }
 

@@ -105,8 +105,13 @@ function feedbackOf(rubric: RubricCriterion[], scores: Record<string, number>, t
 }
 
 type LatestReview = {
-  decision: 'accept' | 'return', reason: string | null, comment: string, scores: Record<string, number>, total: number | null
-  createdAt: Date, reviewer: string
+  decision: 'accept' | 'return'
+  reason: string | null
+  comment: string
+  scores: Record<string, number>
+  total: number | null
+  createdAt: Date
+  reviewer: string
 }
 
 /** The latest review of each submission, by submission id. */

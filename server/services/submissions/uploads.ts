@@ -7,6 +7,7 @@ import type { KeyFactor } from '#shared/utils/key-factor'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
 import { attentionOf, RunInputError, type RunResult } from '#shared/utils/submission'
 import { stationOfUnitKey, unitKeyOf } from './work-units'
+import { storedResultOf } from './stored-result'
 import { createError } from 'h3'
 import { expectationView, practicalChemistry } from './practical-chemistry'
 import { audit, type Actor } from '../../utils/audit'
@@ -122,19 +123,6 @@ export interface NewVersion {
   keyFactor: KeyFactor
   late: boolean
   idempotencyKey: string | null
-}
-
-/** The result as stored with a version: what every later figure is computed from. */
-function storedResultOf(run: RunResult, keyFactor: KeyFactor): StoredResult {
-  return {
-    molePercents: run.molePercents,
-    factors: run.factors,
-    relative: run.relative,
-    conversion: run.conversion,
-    unassignedPercent: run.unassignedPercent,
-    warnings: run.warnings,
-    keyFactor,
-  }
 }
 
 /**
