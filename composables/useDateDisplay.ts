@@ -1,5 +1,7 @@
 import type { MaybeRefOrGetter } from 'vue'
-import { calendarDateIn, displayDate, displayDateTime, displayDay, displayDaysFrom, displayTime, displayTimeSpan, type DateInput } from '#shared/utils/date-display'
+import {
+  calendarDateIn, displayDate, displayDateTime, displayDay, displayDaysFrom, displayTime, displayTimeSpan, type DateInput,
+} from '#shared/utils/date-display'
 
 /**
  * Dates for a component, in the course's zone when there is a course, else the reader's own:

@@ -34,7 +34,10 @@ type FormErrors = Pick<ReturnType<typeof useFormErrors>, 'fromServer'>
  *   const { busy, run } = useSubmit({ fromServer })
  *   async function save() {
  *     const body = validate(practicalPatchSchema, form)
- *     if (body) await run(() => $fetch(`/api/practicals/${id}`, { method: 'PATCH', body }), { success: 'Practical saved', done: () => emit('saved') })
+ *     if (body) {
+ *       await run(() => $fetch(`/api/practicals/${id}`, { method: 'PATCH', body }),
+ *         { success: 'Practical saved', done: () => emit('saved') })
+ *     }
  *   }
  *
  * `run` resolves true on success and false on failure; it never rejects. Busy is cleared before

@@ -38,7 +38,9 @@ export const UPLOAD_ACCEPT = [
 export function chosenFileProblem(file: File): string | null {
   if (/\.xls$/i.test(file.name)) return 'This is an old Excel file (.xls). Save it as .xlsx or CSV and choose that.'
   if (file.size === 0) return 'The file is empty. Export the peak table or trace again.'
-  if (file.size > MAX_UPLOAD_BYTES) return `The file is larger than ${MAX_UPLOAD_WORDS}. Export only the peak table, or a trace with fewer points.`
+  if (file.size > MAX_UPLOAD_BYTES) {
+    return `The file is larger than ${MAX_UPLOAD_WORDS}. Export only the peak table, or a trace with fewer points.`
+  }
   return null
 }
 
@@ -142,7 +144,10 @@ export const STATUS_TONES: Record<SubmissionStatusName, BadgeTone> = {
 interface ProductLabel { smiles: string, label: string, name?: string | null }
 
 /** What a peak was assigned to, in words ("product b", "solvent", "unassigned"), with the product's name and SMILES. */
-export function peakAssignment(assignedTo: string | null, products: ProductLabel[]): { label: string, name: string | null, smiles: string | null, tone: BadgeTone } {
+export function peakAssignment(
+  assignedTo: string | null,
+  products: ProductLabel[],
+): { label: string, name: string | null, smiles: string | null, tone: BadgeTone } {
   if (assignedTo === null) return { label: 'unassigned', name: null, smiles: null, tone: 'warning' }
   if (assignedTo === 'solvent') return { label: 'solvent', name: null, smiles: null, tone: 'neutral' }
   if (assignedTo === 'starting-material') return { label: 'starting material', name: null, smiles: null, tone: 'neutral' }
@@ -154,5 +159,7 @@ export function peakAssignment(assignedTo: string | null, products: ProductLabel
 export const productText = (p: { name?: string | null, smiles: string }) => (p.name ? `${p.name} (${p.smiles})` : p.smiles)
 
 const number = (digits: number) => new Intl.NumberFormat('en', { minimumFractionDigits: digits, maximumFractionDigits: digits })
-export const formatPercent = (value: number | null | undefined, digits = 1) => (typeof value === 'number' && Number.isFinite(value) ? `${number(digits).format(value)} %` : '—')
-export const formatFixed = (value: number | null | undefined, digits: number) => (typeof value === 'number' && Number.isFinite(value) ? number(digits).format(value) : '—')
+export const formatPercent = (value: number | null | undefined, digits = 1) =>
+  (typeof value === 'number' && Number.isFinite(value) ? `${number(digits).format(value)} %` : '—')
+export const formatFixed = (value: number | null | undefined, digits: number) =>
+  (typeof value === 'number' && Number.isFinite(value) ? number(digits).format(value) : '—')

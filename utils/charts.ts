@@ -1,11 +1,15 @@
-import { BarElement, CategoryScale, Chart, Legend, LinearScale, LineElement, LogarithmicScale, PointElement, ScatterController, Tooltip, Filler } from 'chart.js'
+import {
+  BarElement, CategoryScale, Chart, Legend, LinearScale, LineElement, LogarithmicScale, PointElement, ScatterController, Tooltip, Filler,
+} from 'chart.js'
 
 let registered = false
 
 /** Registers only the Chart.js parts the app draws, once; animation stays off (print, screenshots). */
 export function useCharts() {
   if (!registered) {
-    Chart.register(BarElement, CategoryScale, LinearScale, LogarithmicScale, LineElement, PointElement, ScatterController, Tooltip, Legend, Filler)
+    Chart.register(
+      BarElement, CategoryScale, LinearScale, LogarithmicScale, LineElement, PointElement, ScatterController, Tooltip, Legend, Filler,
+    )
     Chart.defaults.animation = false
     Chart.defaults.font.family = '"IBM Plex Sans", system-ui, sans-serif'
     Chart.defaults.color = '#2B4560'

@@ -67,7 +67,10 @@ describe('PostgreSQL restarted during concurrent uploads', () => {
     try {
       // While it is down, routes that need it say so (a short 503 with a message), never 500.
       const probe = clients[0]!
-      const reply = async (p: Promise<Reply<unknown>>) => p.then((r) => ({ status: r.status, message: r.refusal?.message ?? r.refusal?.statusMessage }))
+      const reply = async (p: Promise<Reply<unknown>>) => p.then((r) => ({
+        status: r.status,
+        message: r.refusal?.message ?? r.refusal?.statusMessage,
+      }))
       outage = {
         health: { status: await health() },
         upload: await reply(uploadGc(probe, practical.practicalId, gcTable(practical, { seed: 99 }).text, { key: randomUUID() })),

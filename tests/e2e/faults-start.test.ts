@@ -15,7 +15,13 @@ describe('npm start supervision', () => {
     const root = inject('root')
     const dataDir = join(inject('pgRoot'), 'npm-start')
     const [port, pgPort, smtpPort] = await Promise.all([freePort(), freePort(), freePort()])
-    const env: Record<string, string | undefined> = { ...process.env, HALOCLINE_DATA_DIR: dataDir, PORT: String(port), HALOCLINE_PG_PORT: String(pgPort), HALOCLINE_SMTP_PORT: String(smtpPort) }
+    const env: Record<string, string | undefined> = {
+      ...process.env,
+      HALOCLINE_DATA_DIR: dataDir,
+      PORT: String(port),
+      HALOCLINE_PG_PORT: String(pgPort),
+      HALOCLINE_SMTP_PORT: String(smtpPort),
+    }
     delete env.NUXT_DATABASE_URL
     const start = spawn(process.execPath, [join(root, 'scripts', 'start.mjs')], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] })
     let output = ''

@@ -33,7 +33,8 @@ async function meetingsOf(code: string) {
   const dates: string[] = []
   for (let t = Date.parse(`${s.firstDate}T00:00:00Z`); t <= Date.parse(`${s.lastDate}T00:00:00Z`); t += 86_400_000) {
     const d = new Date(t)
-    if ((d.getUTCDay() || 7) === s.weekday && !s.skippedDates.includes(d.toISOString().slice(0, 10))) dates.push(d.toISOString().slice(0, 10))
+    const iso = d.toISOString().slice(0, 10)
+    if ((d.getUTCDay() || 7) === s.weekday && !s.skippedDates.includes(iso)) dates.push(iso)
   }
   return dates
 }
@@ -45,7 +46,12 @@ describe('contract routes', () => {
     const demo = reply.body.filter((p) => ['Chlorination of 1-chlorobutane', 'Photochlorination of 2,3-dimethylbutane'].includes(p.title))
     expect(demo).toHaveLength(2)
     for (const p of demo) {
-      expect(p).toEqual(expect.objectContaining({ id: expect.any(Number), title: expect.any(String), substrateSmiles: expect.any(String), method: expect.any(String) }))
+      expect(p).toEqual(expect.objectContaining({
+        id: expect.any(Number),
+        title: expect.any(String),
+        substrateSmiles: expect.any(String),
+        method: expect.any(String),
+      }))
       expect(p.sectionIds.sort()).toEqual(Object.values(sections).sort())
       expect(p.meetingDates).toHaveLength(4)
     }

@@ -18,10 +18,14 @@ async function twoTerms() {
   const later = await makeNamedCourse({ sections: 1, studentsPerSection: 4, term: 'Fall 2026 (fixture)' })
   const a = [3.1, 3.4, 3.6, 2.9]
   const b = [2.8, 3.0, 3.3]
-  for (const [i, v] of a.entries()) await insertResult(earlier.practicalId, earlier.students[i]!.sectionId, earlier.students[i]!.id, { secondary: v })
+  for (const [i, v] of a.entries()) {
+    await insertResult(earlier.practicalId, earlier.students[i]!.sectionId, earlier.students[i]!.id, { secondary: v })
+  }
   await insertResult(earlier.practicalId, earlier.students[4]!.sectionId, earlier.students[4]!.id, { secondary: 40 }, { excluded: 'Solvent peak integrated as a product' })
   await insertResult(earlier.practicalId, earlier.students[5]!.sectionId, earlier.students[5]!.id, { secondary: 90 }, { status: 'returned' })
-  for (const [i, v] of b.entries()) await insertResult(later.practicalId, later.students[i]!.sectionId, later.students[i]!.id, { secondary: v })
+  for (const [i, v] of b.entries()) {
+    await insertResult(later.practicalId, later.students[i]!.sectionId, later.students[i]!.id, { secondary: v })
+  }
   return { earlier, later, a, b }
 }
 

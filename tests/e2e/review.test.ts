@@ -347,7 +347,14 @@ describe('the detail and the original file', () => {
     expect(d.peaks.length).toBeGreaterThanOrEqual(6)
     expect(d.peaks.filter((p) => p.assignedTo === 'solvent')).toHaveLength(1)
     expect(d.distribution).toHaveLength(4)
-    for (const row of d.distribution) expect(row).toEqual(expect.objectContaining({ label: expect.any(String), statistical: expect.any(Number), predicted: expect.any(Number), observed: expect.any(Number) }))
+    for (const row of d.distribution) {
+      expect(row).toEqual(expect.objectContaining({
+        label: expect.any(String),
+        statistical: expect.any(Number),
+        predicted: expect.any(Number),
+        observed: expect.any(Number),
+      }))
+    }
     // Statistical: per H; 1-chlorobutane has 2 + 2 + 2 + 3 H at its four positions.
     expect(d.distribution.map((r) => r.statistical).reduce((a: number, b: number) => a + b, 0)).toBeCloseTo(100, 6)
     expect(d.versions.map((v) => [v.id, v.version, v.fileName])).toEqual([[v1.body.id, 1, 'first run.csv'], [v2.body.id, 2, fileName]])

@@ -258,7 +258,10 @@ describe('students one by one', () => {
     expect(moved.body).toMatchObject({ sectionId: sections.B1, station: null, seat: null })
     const audits = await testDb().selectFrom('auditLog').select(['action', 'before', 'after']).where('entity', '=', 'enrollment').where('entityId', '=', String(id)).orderBy('id').execute()
     expect(audits.map((a) => a.action)).toEqual(['enrollment.add', 'enrollment.place', 'enrollment.move'])
-    expect(audits[2]).toMatchObject({ before: { sectionId: sections.A1, station: 2, seat: 1 }, after: { sectionId: sections.B1, station: null } })
+    expect(audits[2]).toMatchObject({
+      before: { sectionId: sections.A1, station: 2, seat: 1 },
+      after: { sectionId: sections.B1, station: null },
+    })
 
     const withdrawn = await client.post(`/api/enrollments/${id}/withdraw`)
     expect(withdrawn.status).toBe(200)

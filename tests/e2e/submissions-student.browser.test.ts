@@ -29,7 +29,11 @@ beforeAll(async () => {
   const ref = (kind: string) => windows.filter((w) => w.kind === kind).map((w) => ({ rtMin: w.rtMin, rtMax: w.rtMax }))[0] ?? null
   chemistry = {
     windows: windows.filter((w) => w.kind === 'product').map((w) => ({ productSmiles: w.productSmiles!, rtMin: w.rtMin, rtMax: w.rtMax, responseFactor: w.responseFactor })),
-    truth: predictDistribution(analysis, { primary: practical.rPrimary, secondary: practical.rSecondary, tertiary: practical.rTertiary }).map((p) => ({ smiles: p.smiles, percent: p.percent })),
+    truth: predictDistribution(analysis, {
+      primary: practical.rPrimary,
+      secondary: practical.rSecondary,
+      tertiary: practical.rTertiary,
+    }).map((p) => ({ smiles: p.smiles, percent: p.percent })),
     solvent: ref('solvent'),
     startingMaterial: ref('starting-material'),
   }

@@ -73,7 +73,9 @@ describe('each flag has its trigger', () => {
   const drifted = () => {
     const sim = gcTable(dmb, { seed: 5 })
     const last = dmb.windows.at(-1)!
-    const peaks = sim.peaks.map((p) => (p.retentionTime >= last.rtMin && p.retentionTime <= last.rtMax ? { ...p, retentionTime: last.rtMax - 0.01 } : p))
+    const peaks = sim.peaks.map((p) => (p.retentionTime >= last.rtMin && p.retentionTime <= last.rtMax
+      ? { ...p, retentionTime: last.rtMax - 0.01 }
+      : p))
     return formatPeakTable(peaks, 'csv')
   }
   const badSum = () => {
@@ -103,7 +105,10 @@ describe('each flag has its trigger', () => {
 
   it('the solvent counted as a product is a danger flag (attention 2)', async () => {
     // The product predicted lowest, so the co-eluting solvent lifts it far above its share.
-    const lowest = cb.windows.reduce((lo, w, i) => (percentOf(cb.truth, w.productSmiles) < percentOf(cb.truth, cb.windows[lo]!.productSmiles) ? i : lo), 0)
+    const lowest = cb.windows.reduce(
+      (lo, w, i) => (percentOf(cb.truth, w.productSmiles) < percentOf(cb.truth, cb.windows[lo]!.productSmiles) ? i : lo),
+      0,
+    )
     const student = await cb.signIn(cb.students[0]!)
     const reply = await uploadGc(student, cb.practicalId, gcTable(cb, { seed: 12, fault: 'solvent-as-product', faultProduct: lowest }).text)
     expect(reply.status).toBe(201)
@@ -120,7 +125,11 @@ describe('what comes in', () => {
     const peaks = [
       { retentionTime: (dmb.solvent!.rtMin + dmb.solvent!.rtMax) / 2, area: 20_000, sigma: 0.02 },
       { retentionTime: (dmb.startingMaterial!.rtMin + dmb.startingMaterial!.rtMax) / 2, area: 4_000, sigma: 0.02 },
-      ...dmb.windows.map((w) => ({ retentionTime: (w.rtMin + w.rtMax) / 2, area: percentOf(dmb.truth, w.productSmiles) * 100, sigma: 0.02 })),
+      ...dmb.windows.map((w) => ({
+        retentionTime: (w.rtMin + w.rtMax) / 2,
+        area: percentOf(dmb.truth, w.productSmiles) * 100,
+        sigma: 0.02,
+      })),
     ]
     const text = formatTrace(simulateTrace({ seed: 5, duration: 5, points: 5000, noise: 0.05, peaks }))
     const reply = await uploadGc(flagger, dmb.practicalId, text, { name: 'detector-trace.csv' })

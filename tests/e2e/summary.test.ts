@@ -19,7 +19,9 @@ async function nistPractical() {
   const world = await makeCourse({ sections: 2, studentsPerSection: 5 })
   const students = world.sections.flatMap((s) => s.students.map((st) => ({ ...st, sectionId: s.id })))
   const ids: number[] = []
-  for (const [i, value] of NIST.entries()) ids.push(await insertResult(world.practicalId, students[i]!.sectionId, students[i]!.id, { secondary: value }))
+  for (const [i, value] of NIST.entries()) {
+    ids.push(await insertResult(world.practicalId, students[i]!.sectionId, students[i]!.id, { secondary: value }))
+  }
   // A ninth run, excluded by a TA with a reason: listed, not counted.
   const excludedId = await insertResult(world.practicalId, students[8]!.sectionId, students[8]!.id, { secondary: 150 }, { excluded: 'Sample boiled dry; wrong product mixture' })
   // A tenth unit whose only version was returned: not counted either.
@@ -120,7 +122,9 @@ async function practicalWith(values: number[], extra: { status?: 'pending' | 'ac
   const world = await makeCourse({ sections: 1, studentsPerSection: values.length })
   const students = world.sections[0]!.students
   const ids: number[] = []
-  for (const [i, value] of values.entries()) ids.push(await insertResult(world.practicalId, world.sections[0]!.id, students[i]!.id, { secondary: value }, extra))
+  for (const [i, value] of values.entries()) {
+    ids.push(await insertResult(world.practicalId, world.sections[0]!.id, students[i]!.id, { secondary: value }, extra))
+  }
   return { world, ids, client: await signedIn(world.owner.email, world.owner.password) }
 }
 

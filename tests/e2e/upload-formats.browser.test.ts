@@ -59,7 +59,11 @@ describe('GC exports in other formats, in Chromium', () => {
     // 3. An ANDI/AIA netCDF trace: integrated by the server.
     const gaussians = [
       { retentionTime: (gc.solvent!.rtMin + gc.solvent!.rtMax) / 2, area: 3000, sigma: 0.02 },
-      ...gc.windows.map((w) => ({ retentionTime: (w.rtMin + w.rtMax) / 2, area: gc.truth.find((t) => t.smiles === w.productSmiles)!.percent * 10, sigma: 0.02 })),
+      ...gc.windows.map((w) => ({
+        retentionTime: (w.rtMin + w.rtMax) / 2,
+        area: gc.truth.find((t) => t.smiles === w.productSmiles)!.percent * 10,
+        sigma: 0.02,
+      })),
     ]
     await input.setInputFiles({ name: 'run.cdf', mimeType: 'application/x-netcdf', buffer: Buffer.from(andiTrace({ peaks: gaussians, points: 1800, noise: 0.02, seed: 5 })) })
     await preview.getByText('Read as a raw detector trace').waitFor()

@@ -111,7 +111,11 @@ describe('.xlsx peak tables', () => {
 
 describe('a detector trace saved as .xlsx', () => {
   it('is a large sheet (its XML over half a megabyte) read as a trace and integrated', async () => {
-    const peaks = gc.windows.map((w) => ({ retentionTime: (w.rtMin + w.rtMax) / 2, area: percentOf(gc.truth, w.productSmiles) * 10, sigma: 0.02 }))
+    const peaks = gc.windows.map((w) => ({
+      retentionTime: (w.rtMin + w.rtMax) / 2,
+      area: percentOf(gc.truth, w.productSmiles) * 10,
+      sigma: 0.02,
+    }))
     const trace = simulateTrace({ seed: 6, duration: 5, points: 12_000, noise: 0.02, peaks })
     const wb = new ExcelJS.Workbook()
     const ws = wb.addWorksheet('Trace')
@@ -162,7 +166,11 @@ describe('ANDI/AIA netCDF chromatograms', () => {
 })
 
 describe('what is refused by its bytes', () => {
-  const ole2 = (stream: string) => Uint8Array.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1, ...new Array(504).fill(0), ...Array.from(stream, (c) => [c.charCodeAt(0), 0]).flat()])
+  const ole2 = (stream: string) => Uint8Array.from([
+    0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1,
+    ...new Array(504).fill(0),
+    ...Array.from(stream, (c) => [c.charCodeAt(0), 0]).flat(),
+  ])
 
   it('old .xls (415), a password-protected workbook (422), a zip bomb (422), an image named .xlsx (415); nothing stored', async () => {
     const before = await rowCount()

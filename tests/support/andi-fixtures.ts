@@ -31,7 +31,8 @@ export interface AndiTraceOptions {
 }
 
 /** A Gaussian's value at t: area / (σ√(2π)) · exp(−(t − μ)² / 2σ²), whose integral over t is the area. */
-export const gaussianAt = (p: GaussianPeak, t: number) => (p.area / (p.sigma * Math.sqrt(2 * Math.PI))) * Math.exp(-((t - p.retentionTime) ** 2) / (2 * p.sigma ** 2))
+export const gaussianAt = (p: GaussianPeak, t: number) =>
+  (p.area / (p.sigma * Math.sqrt(2 * Math.PI))) * Math.exp(-((t - p.retentionTime) ** 2) / (2 * p.sigma ** 2))
 
 export function andiTrace(o: AndiTraceOptions): Uint8Array {
   const interval = o.intervalSeconds ?? 0.2
@@ -40,7 +41,8 @@ export function andiTrace(o: AndiTraceOptions): Uint8Array {
   const gauss = normalRandom(mulberry32(o.seed ?? 1))
   const perUnit = o.unit === 'Minutes' ? 1 / 60 : 1
   const seconds = Array.from({ length: points }, (_, i) => delay + i * interval)
-  const signal = seconds.map((s) => (o.baseline ?? 0) + o.peaks.reduce((sum, p) => sum + gaussianAt(p, s / 60), 0) + (o.noise ?? 0) * gauss())
+  const signal = seconds.map((s) =>
+    (o.baseline ?? 0) + o.peaks.reduce((sum, p) => sum + gaussianAt(p, s / 60), 0) + (o.noise ?? 0) * gauss())
   const variables: NcVariable[] = [
     { name: 'actual_sampling_interval', type: 'float', dimensions: [], data: [interval * perUnit] },
     { name: 'actual_delay_time', type: 'float', dimensions: [], data: [delay * perUnit] },

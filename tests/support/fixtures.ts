@@ -14,7 +14,8 @@ export async function makeCourse(options: { substrate?: string, reagent?: 'cl2-l
   const method = await db.selectFrom('methods').select(['id']).where('reagent', '=', options.reagent ?? 'so2cl2-azo').where('ownerId', 'is', null).executeTakeFirstOrThrow()
   const practical = await db.insertInto('practicals').values({ courseId: course.id, title: 'Fixture practical', substrateId: substrate.id, methodId: method.id, workUnit: 'student' })
     .returning('id').executeTakeFirstOrThrow()
-  const sections: Array<{ id: number, ta: Awaited<ReturnType<typeof createUser>>, students: Array<Awaited<ReturnType<typeof createUser>>> }> = []
+  type User = Awaited<ReturnType<typeof createUser>>
+  const sections: Array<{ id: number, ta: User, students: User[] }> = []
   for (let i = 0; i < (options.sections ?? 1); i++) {
     const section = await db.insertInto('sections').values({
       courseId: course.id, code: `S${i + 1}`, weekday: 1, startTime: '08:00', endTime: '09:00', room: `Fixture room ${tag} ${i}`,

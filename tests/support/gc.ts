@@ -73,7 +73,13 @@ export async function makeGcPractical(options: GcPracticalOptions = {}): Promise
   const other = await section('Y1')
   await db.insertInto('sectionTas').values({ sectionId: running.id, userId: ta.id }).execute()
   await db.insertInto('enrollments').values([
-    ...students.map((s, i) => ({ courseId: course.id, sectionId: running.id, userId: s.id, station: Math.floor(i / 2) + 1, seat: (i % 2) + 1 })),
+    ...students.map((s, i) => ({
+      courseId: course.id,
+      sectionId: running.id,
+      userId: s.id,
+      station: Math.floor(i / 2) + 1,
+      seat: (i % 2) + 1,
+    })),
     { courseId: course.id, sectionId: other.id, userId: outsider.id, station: 1, seat: 1 },
   ]).execute()
   const practical = await db.insertInto('practicals').values({
@@ -152,9 +158,15 @@ type Previewed = Answer<'/api/practicals/:id/submissions/preview', 'post'>
 interface UploadOptions { name?: string, key?: string, preview?: boolean }
 
 /** Sends a file as multipart `file` to the upload route (or its preview), as the page does. */
-export function uploadGc(client: Client, practicalId: number, content: string | Uint8Array, options: UploadOptions & { preview: true }): Promise<Reply<Previewed>>
-export function uploadGc(client: Client, practicalId: number, content: string | Uint8Array, options?: UploadOptions & { preview?: false }): Promise<Reply<Stored>>
-export async function uploadGc(client: Client, practicalId: number, content: string | Uint8Array, options: UploadOptions = {}): Promise<Reply<Stored | Previewed>> {
+export function uploadGc(
+  client: Client, practicalId: number, content: string | Uint8Array, options: UploadOptions & { preview: true },
+): Promise<Reply<Previewed>>
+export function uploadGc(
+  client: Client, practicalId: number, content: string | Uint8Array, options?: UploadOptions & { preview?: false },
+): Promise<Reply<Stored>>
+export async function uploadGc(
+  client: Client, practicalId: number, content: string | Uint8Array, options: UploadOptions = {},
+): Promise<Reply<Stored | Previewed>> {
   const form = new FormData()
   form.append('file', new Blob([content as BlobPart], { type: 'text/csv' }), options.name ?? 'gc-run.csv')
   const init = { method: 'POST' as const, body: form, headers: options.key ? { 'Idempotency-Key': options.key } : undefined }

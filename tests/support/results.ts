@@ -46,7 +46,11 @@ export interface RichResult {
 
 /** insertResult with mole %, flags and lateness as well. */
 export async function insertRichResult(practicalId: number, student: { id: number, sectionId: number }, r: RichResult) {
-  const id = await insertResult(practicalId, student.sectionId, student.id, { secondary: r.secondary }, { status: r.status, version: r.version, excluded: r.excluded })
+  const id = await insertResult(
+    practicalId, student.sectionId, student.id,
+    { secondary: r.secondary },
+    { status: r.status, version: r.version, excluded: r.excluded },
+  )
   await testDb().updateTable('submissions').set({
     result: JSON.stringify({ molePercents: r.molePercents ?? [], factors: { secondaryToPrimary: r.secondary, tertiaryToPrimary: null } }),
     flags: JSON.stringify(r.flags ?? []),

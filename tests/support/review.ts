@@ -104,7 +104,11 @@ export function signInAs(a: Account): Promise<Client> {
 }
 
 /** A simulated GC peak table for the world's practical (solvent and starting material included). */
-export function reviewPeakTable(world: ReviewWorld, seed: number, options: { scale?: Record<string, number>, fault?: BadRun, faultSmiles?: string } = {}): string {
+export function reviewPeakTable(
+  world: ReviewWorld,
+  seed: number,
+  options: { scale?: Record<string, number>, fault?: BadRun, faultSmiles?: string } = {},
+): string {
   const faultProduct = options.faultSmiles ? world.windows.findIndex((w) => w.productSmiles === options.faultSmiles) : -1
   return simulatePeakTable({
     fault: options.fault,

@@ -57,7 +57,10 @@ export async function insertVersion(spec: VersionSpec, db: Kysely<Database> = te
   return db.insertInto('submissions').values({
     practicalId: spec.practicalId, sectionId: spec.sectionId, unitKey: spec.unitKey, version: spec.version, fileId: file.id,
     inputKind: 'peak-table', sha256, parsed: JSON.stringify([]),
-    result: JSON.stringify({ molePercents: [], factors: { secondaryToPrimary: spec.factorSecondary ?? null, tertiaryToPrimary: spec.factorTertiary ?? null } }),
+    result: JSON.stringify({
+      molePercents: [],
+      factors: { secondaryToPrimary: spec.factorSecondary ?? null, tertiaryToPrimary: spec.factorTertiary ?? null },
+    }),
     flags: JSON.stringify([]), attention: spec.attention ?? 0,
     factorSecondary: spec.factorSecondary ?? null, factorTertiary: spec.factorTertiary ?? null,
     status: spec.status ?? 'pending', submittedBy: spec.submittedBy,

@@ -7,7 +7,10 @@ import ExcelJS from 'exceljs'
 export interface WorkbookPeak { retentionTime: number, area: number | string }
 
 /** The sheet rows are: 1 title, 2 sample, 3 blank, 4 header, 5 units, 6… peaks, then totals. */
-export async function peakTableWorkbook(peaks: WorkbookPeak[], options: { numbersAsText?: boolean, sample?: string } = {}): Promise<Uint8Array> {
+export async function peakTableWorkbook(
+  peaks: WorkbookPeak[],
+  options: { numbersAsText?: boolean, sample?: string } = {},
+): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook()
   const ws = wb.addWorksheet('Peak table')
   const cell = (n: number) => (options.numbersAsText ? String(n) : n)

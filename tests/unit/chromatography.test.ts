@@ -258,9 +258,15 @@ describe('assignPeaks', () => {
     expect(r.molePercents.map((m) => m.percent)).toEqual([100 / 3, 100 / 3, 100 / 3].map((v) => expect.closeTo(v, 10)))
     expect(assignPeaks([peak(2.5, 10), peak(3.05, 10), peak(3.45, 10), peak(40_000, 5)], W).flags.map((f) => f.code)).toContain('out-of-range')
     // A response factor near zero makes a corrected area overflow: no share is then better than NaN or a guess.
-    const tinyRf = assignPeaks([peak(2.5, 1e15), peak(3.05, 1e15)], [{ ...W[0]!, responseFactor: 1e-300 }, { ...W[1]!, responseFactor: 1e-300 }])
+    const tinyRf = assignPeaks(
+      [peak(2.5, 1e15), peak(3.05, 1e15)],
+      [{ ...W[0]!, responseFactor: 1e-300 }, { ...W[1]!, responseFactor: 1e-300 }],
+    )
     expect(tinyRf.molePercents.every((m) => m.percent === null)).toBe(true)
-    const largeRf = assignPeaks([peak(2.5, 1e15), peak(3.05, 1e15)], [{ ...W[0]!, responseFactor: 1e-293 }, { ...W[1]!, responseFactor: 1e-293 }])
+    const largeRf = assignPeaks(
+      [peak(2.5, 1e15), peak(3.05, 1e15)],
+      [{ ...W[0]!, responseFactor: 1e-293 }, { ...W[1]!, responseFactor: 1e-293 }],
+    )
     expect(largeRf.molePercents.map((m) => m.percent)).toEqual([50, 50])
   })
 
@@ -279,8 +285,14 @@ describe('assignPeaks', () => {
   })
 
   const inWindow = fc.constantFrom(...W).chain((w) => fc.double({ min: w.rtMin, max: w.rtMax, noNaN: true }))
-  const anyPeak = fc.record({ retentionTime: fc.oneof(inWindow, fc.double({ min: 0, max: 5, noNaN: true })), area: fc.double({ min: 0, max: 1e7, noNaN: true }) })
-  const peakList = fc.tuple(fc.record({ retentionTime: inWindow, area: fc.double({ min: 1, max: 1e7, noNaN: true }) }), fc.array(anyPeak, { maxLength: 11 }))
+  const anyPeak = fc.record({
+    retentionTime: fc.oneof(inWindow, fc.double({ min: 0, max: 5, noNaN: true })),
+    area: fc.double({ min: 0, max: 1e7, noNaN: true }),
+  })
+  const peakList = fc.tuple(
+    fc.record({ retentionTime: inWindow, area: fc.double({ min: 1, max: 1e7, noNaN: true }) }),
+    fc.array(anyPeak, { maxLength: 11 }),
+  )
     .map(([first, rest]) => [first, ...rest])
 
   it('scaling every area by a constant leaves the mole % unchanged (property)', () => {
@@ -340,7 +352,11 @@ describe('end to end with simulated runs (invented data)', () => {
 })
 
 describe('parseTrace and sniffUpload', () => {
-  const trace = simulateTrace({ seed: 3, peaks: [{ retentionTime: 2, area: 1, sigma: 0.02 }], duration: 5, points: 3000, baseline: { offset: 2, slope: 0.5 }, noise: 0.01 })
+  const trace = simulateTrace({
+    seed: 3,
+    peaks: [{ retentionTime: 2, area: 1, sigma: 0.02 }],
+    duration: 5, points: 3000, baseline: { offset: 2, slope: 0.5 }, noise: 0.01,
+  })
 
   it('reads a time/signal CSV in minutes', () => {
     const r = parseTrace(formatTrace(trace))

@@ -8,7 +8,8 @@ import { assignPeaks, parsePeakTable, type AssignOptions, type ProductWindow } f
 // the parser and assignPeaks. The runs and the retention windows are invented demo data.
 const read = (name: string) => readFileSync(fileURLToPath(new URL(`./fixtures/exports/${name}`, import.meta.url)), 'utf8')
 
-const windowsOf = (rows: [string, number, number][]): ProductWindow[] => rows.map(([productSmiles, rtMin, rtMax]) => ({ productSmiles, rtMin, rtMax }))
+const windowsOf = (rows: [string, number, number][]): ProductWindow[] =>
+  rows.map(([productSmiles, rtMin, rtMax]) => ({ productSmiles, rtMin, rtMax }))
 
 const WINDOWS: Record<string, { products: ProductWindow[], options: AssignOptions }> = {
   // 1-chlorobutane + Cl: the four dichlorobutanes.

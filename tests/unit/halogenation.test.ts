@@ -192,7 +192,11 @@ describe('predictDistribution', () => {
   it('percentages sum to 100 for any substrate and reactivity (property)', () => {
     fc.assert(fc.property(
       fc.constantFrom(...SUBSTRATES),
-      fc.record({ primary: fc.double({ min: 0.01, max: 10, noNaN: true }), secondary: fc.double({ min: 0.01, max: 2000, noNaN: true }), tertiary: fc.double({ min: 0.01, max: 5000, noNaN: true }) }),
+      fc.record({
+        primary: fc.double({ min: 0.01, max: 10, noNaN: true }),
+        secondary: fc.double({ min: 0.01, max: 2000, noNaN: true }),
+        tertiary: fc.double({ min: 0.01, max: 5000, noNaN: true }),
+      }),
       fc.option(fc.double({ min: -50, max: 300, noNaN: true }), { nil: undefined }),
       (smiles, r, temperatureC) => {
         const pred = predictDistribution(analyzeSubstrate(smiles), r, { temperatureC })

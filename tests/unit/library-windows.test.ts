@@ -76,7 +76,10 @@ describe('suggestionsForRun', () => {
       { kind: 'solvent' as const, productSmiles: null, rtMin: 1.2, rtMax: 1.6 },
       { kind: 'product' as const, productSmiles: 'CCCC(Cl)Cl', rtMin: 3.3, rtMax: 3.55 },
     ]
-    const result = suggestionsForRun([{ retentionTime: 1.41, area: 9e5 }, { retentionTime: 3.42, area: 1200 }, { retentionTime: 7, area: 50 }], saved)
+    const result = suggestionsForRun(
+      [{ retentionTime: 1.41, area: 9e5 }, { retentionTime: 3.42, area: 1200 }, { retentionTime: 7, area: 50 }],
+      saved,
+    )
     expect(result.map((s) => s.current)).toEqual([
       { kind: 'solvent', productSmiles: null },
       { kind: 'product', productSmiles: 'CCCC(Cl)Cl' },

@@ -34,29 +34,45 @@ describe('detectPeaks on synthetic Gaussian peaks', () => {
 
   it('gives the same areas on a flat and on a steep baseline', () => {
     const flat = detectPeaks(simulateTrace({ seed: 9, peaks: TRUTH, duration: 20, points: 40_000, noise: 0.05 }))
-    const steep = detectPeaks(simulateTrace({ seed: 9, peaks: TRUTH, duration: 20, points: 40_000, baseline: { offset: -20, slope: 40 }, noise: 0.05 }))
+    const steep = detectPeaks(simulateTrace({
+      seed: 9, peaks: TRUTH, duration: 20, points: 40_000, baseline: { offset: -20, slope: 40 }, noise: 0.05,
+    }))
     steep.peaks.forEach((p, i) => expect(p.area / flat.peaks[i]!.area).toBeCloseTo(1, 2))
   })
 
   it('is exact on a noiseless trace', () => {
-    const r = detectPeaks(simulateTrace({ seed: 1, peaks: [{ retentionTime: 3, area: 1, sigma: 0.02 }, { retentionTime: 6, area: 2, sigma: 0.03 }], duration: 10, points: 20_000, baseline: { offset: 10, slope: 1 }, noise: 0 }))
+    const r = detectPeaks(simulateTrace({
+      seed: 1,
+      peaks: [{ retentionTime: 3, area: 1, sigma: 0.02 }, { retentionTime: 6, area: 2, sigma: 0.03 }],
+      duration: 10, points: 20_000, baseline: { offset: 10, slope: 1 }, noise: 0,
+    }))
     expect(r.peaks.map((p) => p.area)).toEqual([expect.closeTo(1, 4), expect.closeTo(2, 4)])
     expect(r.peaks[0]!.widthAtHalfHeight).toBeCloseTo(2.3548 * 0.02, 3)
   })
 
   it('works with few points per peak', () => {
-    const r = detectPeaks(simulateTrace({ seed: 2, peaks: [{ retentionTime: 3, area: 1, sigma: 0.05 }, { retentionTime: 6, area: 2, sigma: 0.05 }], duration: 10, points: 800, noise: 0.01 }))
+    const r = detectPeaks(simulateTrace({
+      seed: 2,
+      peaks: [{ retentionTime: 3, area: 1, sigma: 0.05 }, { retentionTime: 6, area: 2, sigma: 0.05 }],
+      duration: 10, points: 800, noise: 0.01,
+    }))
     expect(r.peaks.map((p) => p.area)).toEqual([expect.closeTo(1, 1), expect.closeTo(2, 1)])
   })
 
   it('finds nothing in baseline noise, and says so', () => {
-    const r = detectPeaks(simulateTrace({ seed: 4, peaks: [], duration: 10, points: 20_000, baseline: { offset: 5, slope: 2 }, noise: 0.3 }))
+    const r = detectPeaks(simulateTrace({
+      seed: 4, peaks: [], duration: 10, points: 20_000, baseline: { offset: 5, slope: 2 }, noise: 0.3,
+    }))
     expect(r.peaks).toEqual([])
     expect(r.flags.map((f) => f.code)).toEqual(['no-peaks'])
   })
 
   it('drops peaks under minHeight', () => {
-    const trace = simulateTrace({ seed: 5, peaks: [{ retentionTime: 3, area: 1, sigma: 0.02 }, { retentionTime: 6, area: 0.05, sigma: 0.02 }], duration: 10, points: 20_000, noise: 0.01 })
+    const trace = simulateTrace({
+      seed: 5,
+      peaks: [{ retentionTime: 3, area: 1, sigma: 0.02 }, { retentionTime: 6, area: 0.05, sigma: 0.02 }],
+      duration: 10, points: 20_000, noise: 0.01,
+    })
     expect(detectPeaks(trace).peaks).toHaveLength(2)
     expect(detectPeaks(trace, { minHeight: 5 }).peaks).toHaveLength(1)
   })
@@ -109,7 +125,11 @@ describe('raw trace to mole % (invented data)', () => {
     ]
     const trace = simulateTrace({
       seed: 8,
-      peaks: [{ retentionTime: 1.2, area: 200, sigma: 0.03 }, { retentionTime: 3.5, area: 1.8, sigma: 0.02 }, { retentionTime: 4.0, area: 4.2, sigma: 0.02 }],
+      peaks: [
+        { retentionTime: 1.2, area: 200, sigma: 0.03 },
+        { retentionTime: 3.5, area: 1.8, sigma: 0.02 },
+        { retentionTime: 4.0, area: 4.2, sigma: 0.02 },
+      ],
       duration: 6, points: 36_000, baseline: { offset: 3, slope: 0.4 }, noise: 0.05,
     })
     const parsed = parseTrace(formatTrace(trace, { seconds: true }))

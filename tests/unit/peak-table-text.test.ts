@@ -69,7 +69,8 @@ describe('thousands separators and decimal marks', () => {
   // Grouping a column's numbers never changes what is read: the same run written plain, with
   // "1,234.5" grouping, with "1.234,5" grouping (semicolon file) and with space groups.
   // Peak sizes spread over orders of magnitude, as in a run with a solvent peak and traces.
-  const sized = (maxDigits: number) => fc.integer({ min: 1, max: maxDigits }).chain((k) => fc.integer({ min: 10 ** (k - 1), max: 10 ** k - 1 }))
+  const sized = (maxDigits: number) => fc.integer({ min: 1, max: maxDigits })
+    .chain((k) => fc.integer({ min: 10 ** (k - 1), max: 10 ** k - 1 }))
   const run = fc.array(fc.record({
     rt: fc.integer({ min: 5, max: 59_999 }).map((v) => v / 1000),
     area: sized(10).map((v) => v / 10),

@@ -26,7 +26,11 @@ const ROWS = [
   { kind: 'product' as const, productSmiles: D14, rtMin: 5.6, rtMax: 5.85, responseFactor: 1 },
 ]
 const seeded = SEEDED_REFERENCES.find((r) => r.substrate === '1-chlorobutane' && r.reagent === 'so2cl2-azo')!
-const REFERENCE: ReferenceDistribution = { percents: seeded.percents.map((p) => ({ smiles: C(p.smiles), percent: p.percent })), source: seeded.source, sourceKind: seeded.sourceKind }
+const REFERENCE: ReferenceDistribution = {
+  percents: seeded.percents.map((p) => ({ smiles: C(p.smiles), percent: p.percent })),
+  source: seeded.source,
+  sourceKind: seeded.sourceKind,
+}
 const withReference = practicalChemistryOf('CCCCCl', METHOD, ROWS, { nameOf: builtInProductName, reference: REFERENCE })
 const classModel = practicalChemistryOf('CCCCCl', METHOD, ROWS, { nameOf: builtInProductName })
 
@@ -77,7 +81,8 @@ describe('what a practical is judged against', () => {
 
   it('normalises a reference that does not sum to 100 and counts a product it leaves out as 0 %', () => {
     const partial = practicalChemistryOf('CCCCCl', METHOD, ROWS, { reference: { percents: [{ smiles: D13, percent: 30 }, { smiles: D14, percent: 20 }], source: 'x', sourceKind: 'other' } })
-    expect(Object.fromEntries(partial.expected.percents.map((p) => [p.smiles, p.percent]))).toEqual({ [D11]: 0, [D12]: 0, [D13]: 60, [D14]: 40 })
+    expect(Object.fromEntries(partial.expected.percents.map((p) => [p.smiles, p.percent])))
+      .toEqual({ [D11]: 0, [D12]: 0, [D13]: 60, [D14]: 40 })
   })
 
   it('names every product for the flags and windows', () => {

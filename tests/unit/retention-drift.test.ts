@@ -16,7 +16,9 @@ const WINDOWS: ProductWindow[] = [
   { productSmiles: 'ClCCCCCl', name: '1,4-dichlorobutane', rtMin: 5.6, rtMax: 5.85 },
 ]
 const OPTIONS = { solvent: SOLVENT, startingMaterial: START }
-const base = (b: Peak | null, extra: Peak[] = []) => [peak(1.4, 2e6), peak(2.3, 4e5), peak(3.42, 6e3), ...(b ? [b] : []), peak(4.5, 46e3), peak(5.7, 25e3), ...extra]
+const base = (b: Peak | null, extra: Peak[] = []) => [
+  peak(1.4, 2e6), peak(2.3, 4e5), peak(3.42, 6e3), ...(b ? [b] : []), peak(4.5, 46e3), peak(5.7, 25e3), ...extra,
+]
 const codes = (r: ReturnType<typeof assignPeaks>) => r.flags.map((f) => f.code)
 const B = 'CCC(Cl)CCl'
 
@@ -148,7 +150,11 @@ describe('retention drift: a lone peak just outside an empty window', () => {
 
   it('does not depend on the order of the peaks (property)', () => {
     const rt = fc.double({ min: 1, max: 6.5, noNaN: true })
-    fc.assert(fc.property(fc.array(fc.record({ retentionTime: rt, area: fc.double({ min: 1, max: 1e6, noNaN: true }) }), { minLength: 1, maxLength: 10 }), fc.integer(), (peaks, seed) => {
+    const peakLists = fc.array(
+      fc.record({ retentionTime: rt, area: fc.double({ min: 1, max: 1e6, noNaN: true }) }),
+      { minLength: 1, maxLength: 10 },
+    )
+    fc.assert(fc.property(peakLists, fc.integer(), (peaks, seed) => {
       const shuffled = peaks.map((p, i) => ({ p, k: Math.sin(seed + i * 7.77) })).sort((x, y) => x.k - y.k).map((x) => x.p)
       const a = assignPeaks(peaks, WINDOWS, OPTIONS)
       const b = assignPeaks(shuffled, WINDOWS, OPTIONS)

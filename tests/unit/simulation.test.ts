@@ -76,7 +76,11 @@ describe('simulatePeakTable', () => {
 
 describe('simulateTrace', () => {
   it('draws Gaussian peaks of the requested area on the baseline', () => {
-    const tr = simulateTrace({ seed: 1, peaks: [{ retentionTime: 2, area: 3, sigma: 0.05 }], duration: 4, points: 4001, baseline: { offset: 1, slope: 2 }, noise: 0 })
+    const tr = simulateTrace({
+      seed: 1,
+      peaks: [{ retentionTime: 2, area: 3, sigma: 0.05 }],
+      duration: 4, points: 4001, baseline: { offset: 1, slope: 2 }, noise: 0,
+    })
     expect(tr.time).toHaveLength(4001)
     let area = 0
     for (let i = 1; i < tr.time.length; i++) {

@@ -37,7 +37,10 @@ const PEAKS = [
 const productArea = PEAKS[2]!.area + PEAKS[3]!.area
 const expected = { [tertiary.smiles]: (100 * PEAKS[2]!.area) / productArea, [primary.smiles]: (100 * PEAKS[3]!.area) / productArea }
 
-/** An integration report as a sheet: title and sample block, header on row 4, units on row 5, peaks on rows 6-9, totals on 10, a footer on 12. */
+/**
+ * An integration report as a sheet: title and sample block, header on row 4, units on row 5,
+ * peaks on rows 6-9, totals on 10, a footer on 12.
+ */
 async function report(asText: boolean, override: (ws: ExcelJS.Worksheet) => void = () => {}): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook()
   const ws = wb.addWorksheet('Report')
@@ -164,7 +167,11 @@ describe('what is refused', () => {
   // Minimal stand-ins: the OLE2 compound-file signature (MS-CFB) and a directory name in
   // UTF-16LE, which is all the check reads. An encrypted .xlsx keeps an "EncryptedPackage"
   // stream (MS-OFFCRYPTO); an old .xls keeps a "Workbook" stream.
-  const ole2 = (stream: string) => Uint8Array.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1, ...new Array(504).fill(0), ...Array.from(stream, (c) => [c.charCodeAt(0), 0]).flat()])
+  const ole2 = (stream: string) => Uint8Array.from([
+    0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1,
+    ...new Array(504).fill(0),
+    ...Array.from(stream, (c) => [c.charCodeAt(0), 0]).flat(),
+  ])
 
   it('an old binary .xls (415) and a password-protected workbook (422), each with its own sentence', async () => {
     expect(await refusal(ole2('Workbook'))).toMatchObject({ status: 415, message: expect.stringMatching(/old binary Excel file \(\.xls\)/) })

@@ -58,7 +58,11 @@ describe('evaluateRun', () => {
   })
 
   it('reads a raw detector trace and integrates its peaks', () => {
-    const peaks = windows.map((w) => ({ retentionTime: (w.rtMin + w.rtMax) / 2, area: truth.find((t) => t.smiles === w.productSmiles)!.percent * 1000, sigma: 0.02 }))
+    const peaks = windows.map((w) => ({
+      retentionTime: (w.rtMin + w.rtMax) / 2,
+      area: truth.find((t) => t.smiles === w.productSmiles)!.percent * 1000,
+      sigma: 0.02,
+    }))
     const trace = simulateTrace({ seed: 3, peaks, duration: 7, points: 7000, noise: 0.05 })
     const run = evaluateRun(input(formatTrace(trace), { solvent: null, startingMaterial: null }))
     expect(run.kind).toBe('trace')

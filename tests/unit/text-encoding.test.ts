@@ -66,7 +66,11 @@ describe('re-encoding a peak table as UTF-16 never changes what is read (propert
     await fc.assert(fc.asyncProperty(
       fc.integer({ min: 1, max: 10_000 }), fc.constantFrom(...styles), fc.constantFrom('le' as const, 'be' as const), fc.boolean(), note,
       async (seed, style, endian, bom, sample) => {
-        const sim = simulatePeakTable({ seed, windows, distribution: [{ smiles: windows[0]!.productSmiles, percent: 60 }, { smiles: windows[1]!.productSmiles, percent: 40 }], style })
+        const distribution = [
+          { smiles: windows[0]!.productSmiles, percent: 60 },
+          { smiles: windows[1]!.productSmiles, percent: 40 },
+        ]
+        const sim = simulatePeakTable({ seed, windows, distribution, style })
         const text = `Sample: ${sample}\n${sim.text}`
         const content = await readUploadContent(utf16Bytes(text, endian, bom))
         expect(content.source).toEqual({ kind: 'text', text })

@@ -23,7 +23,11 @@ const digestsBy = (userId: number) => testDb().selectFrom('digests').select('id'
 describe('sendDigests refuses before writing', () => {
   it('a section that does not run the practical, naming it', async () => {
     const stranger = Math.max(0, ...scope.sessionSectionIds) + 100_000
-    await expect(sendDigests(testDb(), actor, scope, { sectionIds: [scope.sessionSectionIds[0]!, stranger], sendAt: null, requestKey: null }))
+    await expect(sendDigests(testDb(), actor, scope, {
+      sectionIds: [scope.sessionSectionIds[0]!, stranger],
+      sendAt: null,
+      requestKey: null,
+    }))
       .rejects.toMatchObject({ statusCode: 400, data: { field: 'sectionIds' }, statusMessage: `sectionIds: Section ${stranger} does not run this practical` })
     expect(await digestsBy(actor.id)).toEqual([])
   })
