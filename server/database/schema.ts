@@ -102,6 +102,8 @@ export interface CoursesTable {
   zscoreLimit: Generated<number>
   accuracyTolerancePercent: Generated<number>
   releasePolicy: Generated<ReleasePolicy>
+  /** Days a return gives the work unit to upload again, unless the reviewer sets the time. */
+  resubmitDays: Generated<number>
   rubric: ColumnType<RubricCriterion[], string | undefined, string>
   createdBy: number | null
   createdAt: CreatedAt
@@ -341,6 +343,8 @@ export interface ReviewsTable {
   comment: Generated<string>
   scores: Json<Record<string, number>>
   total: number | null
+  /** A return's due time for the unit's next upload; null on accepts and older returns. */
+  resubmitDueAt: Timestamp | null
   createdAt: CreatedAt
 }
 

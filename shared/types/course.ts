@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { lineText } from './fields'
+import { RESUBMIT_DAYS_MAX } from '../utils/resubmit'
 
 // The generalized ESD test comes first: it is the default for new courses (it finds several
 // outliers at once, where repeated Grubbs' tests let two bad runs hide each other).
@@ -60,6 +61,9 @@ export const courseSettingsSchema = z.object({
   zscoreLimit: z.number().min(1).max(10),
   accuracyTolerancePercent: z.number().min(1, 'At least 1 %').max(200, 'At most 200 %'),
   releasePolicy: z.enum(RELEASE_POLICIES),
+  /** Days a returned run gets to come back before it counts as late; left out, the course keeps its own. */
+  resubmitDays: z.number({ error: 'Enter a number of days' }).int('Use whole days').min(0, 'At least 0 days')
+    .max(RESUBMIT_DAYS_MAX, `At most ${RESUBMIT_DAYS_MAX} days`).optional(),
   rubric: rubricSchema,
 })
 export type CourseSettings = z.infer<typeof courseSettingsSchema>
@@ -94,6 +98,7 @@ export interface CourseListItem {
 
 export interface CourseDetail extends CourseListItem, CourseSettings {
   timezone: string
+  resubmitDays: number
   owners: Array<{ id: number, name: string, email: string }>
   /** The caller's relation to the course. */
   role: 'owner' | 'ta' | 'coordinator' | 'student'

@@ -176,6 +176,8 @@ export interface ReviewView {
   comment: string
   scores: Record<string, number>
   total: number | null
+  /** A return's due time for the unit's next upload (ISO); null for an accept. */
+  resubmitDueAt: string | null
 }
 
 export interface RubricView {
@@ -245,6 +247,8 @@ export interface SubmissionDetail {
   /** The next submission waiting for review in the caller's queue, in queue order. */
   nextPendingId: number | null
   pendingCount: number
+  /** What a return offers: the course's days, and the due time they give from now (ISO). */
+  resubmit: { days: number, defaultDueAt: string }
 }
 
 export interface ReviewSaved {
@@ -253,6 +257,8 @@ export interface ReviewSaved {
   reviewId: number
   scores: Record<string, number>
   total: number | null
+  /** A return's due time for the unit's next upload (ISO); null for an accept. */
+  resubmitDueAt: string | null
 }
 
 export interface BulkAcceptResult {

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { rubricScoresSchema } from './course'
-import { blockText } from './fields'
+import { blockText, instantField } from './fields'
 import type { KeyFactor } from '../utils/key-factor'
 
 export type SubmissionStatusName = 'pending' | 'accepted' | 'returned'
@@ -96,6 +96,8 @@ export const reviewInputSchema = z.object({
   reason: blockText(2000).optional(),
   comment: blockText(5000).default(''),
   scores: rubricScoresSchema.default({}),
+  /** A return's due time for the next upload; without it, the course's number of days from now. */
+  resubmitDueAt: instantField().optional(),
 }).superRefine((r, ctx) => {
   if (r.decision === 'return' && !r.reason) {
     ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Say why it is returned, so the student can fix it' })

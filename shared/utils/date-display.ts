@@ -97,3 +97,9 @@ export function displayDaysFrom(value: DateInput, now: Date, zone: string): stri
 export function calendarDateIn(now: Date, zone: string): string {
   return format(new TZDate(now.getTime(), zone), 'yyyy-MM-dd')
 }
+
+/** An instant as a `datetime-local` field's value ('YYYY-MM-DDTHH:mm') on the wall clock of `zone`; '' for none. */
+export function wallClockInput(value: DateInput, zone: string): string {
+  const date = inZone(value, zone)
+  return date ? format(date, "yyyy-MM-dd'T'HH:mm") : ''
+}

@@ -36,15 +36,15 @@ export async function updateCourse(db: Db, actor: Actor, course: Course, input: 
   })
 }
 
-/** The outlier test, accuracy tolerance, release policy and rubric. */
+/** The outlier test, accuracy tolerance, release policy, days a return gives, and rubric. */
 export async function updateCourseSettings(db: Db, actor: Actor, course: Course, input: CourseSettings) {
   await db.transaction().execute(async (trx) => {
     await trx.updateTable('courses').set({ ...input, rubric: JSON.stringify(input.rubric), updatedAt: new Date() })
       .where('id', '=', course.id).execute()
-    const { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, rubric } = course
+    const { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, resubmitDays, rubric } = course
     await audit(trx, actor, {
       action: 'course.settings', entity: 'course', entityId: course.id,
-      before: { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, rubric },
+      before: { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, resubmitDays, rubric },
       after: input,
     })
   })

@@ -25,6 +25,7 @@ export async function courseDetail({ course, role }: Pick<CourseScope, 'course' 
     zscoreLimit: course.zscoreLimit,
     accuracyTolerancePercent: course.accuracyTolerancePercent,
     releasePolicy: course.releasePolicy,
+    resubmitDays: course.resubmitDays,
     rubric: course.rubric,
     owners: role === 'student' ? [] : owners,
     role,

@@ -9,6 +9,8 @@ import { createError } from 'h3'
 import { latestUnitVersion } from './scope'
 import { audit, type Actor } from '../../utils/audit'
 import { invalid } from '../../utils/validation'
+import { defaultResubmitDue, resubmitDueProblem } from '#shared/utils/resubmit'
+import { queueReturnMail } from './return-mail'
 
 // Review decisions, bulk acceptance and exclusions: commands on the database, by an Actor. Each
 // write takes the work unit's lock (the same one uploads take), checks again inside the
@@ -22,7 +24,8 @@ async function lockReviewUnit(trx: Transaction<Database>, s: Pick<Submission, 'p
 }
 
 async function lastReviewOf(trx: Transaction<Database>, submissionId: number) {
-  return trx.selectFrom('reviews').select(['decision', 'scores', 'total']).where('submissionId', '=', submissionId)
+  return trx.selectFrom('reviews').select(['id', 'decision', 'reason', 'comment', 'scores', 'total', 'resubmitDueAt'])
+    .where('submissionId', '=', submissionId)
     .orderBy('createdAt', 'desc').orderBy('id', 'desc').limit(1).executeTakeFirst()
 }
 
@@ -32,6 +35,7 @@ interface Decision {
   comment: string
   scores: Record<string, number>
   total: number | null
+  resubmitDueAt?: Date | null
   bulk?: boolean
 }
 
@@ -49,6 +53,7 @@ async function writeDecision(trx: Transaction<Database>, actor: Actor, submissio
     comment: d.comment,
     scores: JSON.stringify(d.scores),
     total: d.total,
+    resubmitDueAt: d.resubmitDueAt ?? null,
   }).returning('id').executeTakeFirstOrThrow()
   await audit(trx, actor, {
     action: `submission.${d.decision}`,
@@ -57,15 +62,43 @@ async function writeDecision(trx: Transaction<Database>, actor: Actor, submissio
     before: { status: before.status, scores: previous?.scores ?? null, total: previous?.total ?? null },
     after: {
       status, scores: d.scores, total: d.total, reason: d.reason, comment: d.comment, reviewId: review.id,
+      ...(d.resubmitDueAt ? { resubmitDueAt: d.resubmitDueAt.toISOString() } : {}),
       ...(d.bulk ? { bulk: true } : {}),
     },
   })
   return review.id
 }
 
-/** Accepts (rubric scores, total computed here) or returns (reason) the latest version of a unit. */
+/** What a review needs besides its input: the product's address for the return's link, and the clock. */
+export interface ReviewContext {
+  appUrl: string
+  now?: Date
+}
+
+/** A return's due time for the next upload: the reviewer's, else the course's days from now; refused when past or too far. */
+function returnDueAt(scope: ReviewerScope, input: ReviewBody, now: Date): Date {
+  const { resubmitDays, timezone } = scope.course
+  const due = input.resubmitDueAt ? new Date(input.resubmitDueAt) : defaultResubmitDue(now, resubmitDays, timezone)
+  const problem = resubmitDueProblem(due, now)
+  if (problem) invalid([{ field: 'resubmitDueAt', message: problem }])
+  return due
+}
+
+type LastReview = NonNullable<Awaited<ReturnType<typeof lastReviewOf>>>
+
+/** The same return sent again (a retried request, a double click): same reason and comment, and the same due time if one is given. */
+function isRepeatedReturn(last: LastReview | undefined, reason: string, input: ReviewBody): last is LastReview {
+  if (last?.decision !== 'return' || last.reason !== reason || last.comment !== input.comment) return false
+  return !input.resubmitDueAt || last.resubmitDueAt?.getTime() === Date.parse(input.resubmitDueAt)
+}
+
+/**
+ * Accepts (rubric scores, total computed here) or returns (reason, new due time) the latest
+ * version of a unit. A return mails every member of the unit once; the same return sent again
+ * answers the first one and writes and mails nothing.
+ */
 export async function saveSubmissionReview(
-  db: Kysely<Database>, actor: Actor, scope: ReviewerScope, submission: Submission, input: ReviewBody,
+  db: Kysely<Database>, actor: Actor, scope: ReviewerScope, submission: Submission, input: ReviewBody, context: ReviewContext,
 ): Promise<ReviewSaved> {
   const rubric = scope.course.rubric
   const accept = input.decision === 'accept'
@@ -77,16 +110,34 @@ export async function saveSubmissionReview(
     invalid([{ field: 'comment', message: 'This run has a blocking flag: say in the comment why you accept it' }])
   }
   const total = accept ? rubricTotal(rubric, scores) : null
-  const reviewId = await db.transaction().execute(async (trx) => {
+  const dueAt = accept ? null : returnDueAt(scope, input, context.now ?? new Date())
+  const saved = await db.transaction().execute(async (trx) => {
     await lockReviewUnit(trx, submission)
     const latest = await latestUnitVersion(trx, submission)
     if (latest !== submission.version) {
       throw createError({ statusCode: 409, statusMessage: `Only the latest version can be reviewed: version ${latest} is newer` })
     }
-    const reason = accept ? null : input.reason ?? null
-    return writeDecision(trx, actor, submission, { decision: input.decision, reason, comment: input.comment, scores, total })
+    if (accept) {
+      const accepted = { decision: 'accept' as const, reason: null, comment: input.comment, scores, total }
+      const reviewId = await writeDecision(trx, actor, submission, accepted)
+      return { reviewId, dueAt: null }
+    }
+    const reason = input.reason!
+    const last = await lastReviewOf(trx, submission.id)
+    if (isRepeatedReturn(last, reason, input)) return { reviewId: last.id, dueAt: last.resubmitDueAt }
+    const reviewId = await writeDecision(trx, actor, submission, {
+      decision: 'return', reason, comment: input.comment, scores, total, resubmitDueAt: dueAt,
+    })
+    await queueReturnMail(trx, actor.id, scope, {
+      reviewId, submissionId: submission.id, version: submission.version, reason, comment: input.comment, dueAt: dueAt!,
+      reviewer: actor.name, appUrl: context.appUrl,
+    })
+    return { reviewId, dueAt }
   })
-  return { id: submission.id, status: accept ? 'accepted' : 'returned', reviewId, scores, total }
+  return {
+    id: submission.id, status: accept ? 'accepted' : 'returned', reviewId: saved.reviewId, scores, total,
+    resubmitDueAt: saved.dueAt?.toISOString() ?? null,
+  }
 }
 
 function bulkSkipReason(row: QueueRow | undefined): string | null {

@@ -2,6 +2,7 @@ import type { ReviewerScope } from './scope'
 import type { StoredFlag, Submission } from '../../database/schema'
 import type { PeakView, StoredResult } from '#shared/types/submission'
 import type { AccuracySuggestionView, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
+import { defaultResubmitDue } from '#shared/utils/resubmit'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
 import { keyFactorValue } from '#shared/utils/key-factor'
 import { buildReviewQueue, flagsWithOutlier, nextPendingAfter, queuePracticalOf, unitViewsOf } from './queue'
@@ -53,11 +54,12 @@ async function unitReviews(versionIds: number[]): Promise<ReviewView[]> {
   const rows = await useDb().selectFrom('reviews').innerJoin('users', 'users.id', 'reviews.reviewerId')
     .innerJoin('submissions', 'submissions.id', 'reviews.submissionId')
     .select(['reviews.id', 'reviews.submissionId', 'submissions.version', 'users.name', 'reviews.createdAt', 'reviews.decision',
-      'reviews.reason', 'reviews.comment', 'reviews.scores', 'reviews.total'])
+      'reviews.reason', 'reviews.comment', 'reviews.scores', 'reviews.total', 'reviews.resubmitDueAt'])
     .where('reviews.submissionId', 'in', versionIds).orderBy('reviews.createdAt', 'desc').orderBy('reviews.id', 'desc').execute()
   return rows.map((r) => ({
     id: r.id, submissionId: r.submissionId, version: r.version, reviewer: r.name, createdAt: r.createdAt.toISOString(),
     decision: r.decision, reason: r.reason, comment: r.comment, scores: r.scores as Record<string, number>, total: r.total,
+    resubmitDueAt: r.resubmitDueAt?.toISOString() ?? null,
   }))
 }
 
@@ -168,5 +170,9 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
       : null,
     nextPendingId: nextPendingAfter(queue.rows, submission.id),
     pendingCount: queue.rows.filter((r) => r.status === 'pending').length,
+    resubmit: {
+      days: scope.course.resubmitDays,
+      defaultDueAt: defaultResubmitDue(new Date(), scope.course.resubmitDays, scope.course.timezone).toISOString(),
+    },
   }
 }

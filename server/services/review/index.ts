@@ -4,7 +4,7 @@
 export { requireReviewableSubmission, requireReviewerOf, type ReviewerScope } from './scope'
 export { reviewPracticalItems, reviewQueueOf, reviewQueueView } from './queue'
 export { buildSubmissionDetail } from './detail'
-export { acceptCleanInBulk, saveSubmissionReview, setSubmissionExclusion, type BulkAcceptQueue } from './decisions'
+export { acceptCleanInBulk, saveSubmissionReview, setSubmissionExclusion, type BulkAcceptQueue, type ReviewContext } from './decisions'
 export { setPracticalRelease } from './release'
 export { scoresReleased } from './release-policy'
 export { buildGradeSheet } from './grade-sheet'

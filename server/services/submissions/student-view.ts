@@ -25,6 +25,8 @@ export interface MyReviewView {
   reviewedAt: string
   reviewer: string
   reason: string | null
+  /** A return's due time for the next upload (ISO), when it set one. */
+  resubmitDueAt: string | null
   /** False until the course's release policy lets the student see scores and comment. */
   released: boolean
   feedback: MyFeedbackView | null
@@ -60,7 +62,11 @@ export interface MySubmissionsView {
   /** The other members of the caller's work unit (their partner), by name. */
   partners: string[]
   dueAt: string | null
-  /** New uploads are still taken after the due date, and marked late. */
+  /** The latest version was sent back: why, by whom, and the new due time of the next upload. */
+  sentBack: { version: number, reason: string, reviewer: string, at: string, dueAt: string | null } | null
+  /** When a new upload is late: the section's due time, or a return's later one (ISO). */
+  uploadDueAt: string | null
+  /** New uploads are still taken after that time, and marked late. */
   pastDue: boolean
   meetingDate: string | null
   /** The section has not met yet (in the course's zone): an upload now is probably a mistake. */
@@ -112,6 +118,7 @@ type LatestReview = {
   total: number | null
   createdAt: Date
   reviewer: string
+  resubmitDueAt: Date | null
 }
 
 /** The latest review of each submission, by submission id. */
@@ -121,7 +128,7 @@ async function latestReviews(db: Kysely<Database>, submissionIds: number[]) {
   const rows = await db.selectFrom('reviews').innerJoin('users', 'users.id', 'reviews.reviewerId')
     .select([
       'reviews.submissionId', 'reviews.decision', 'reviews.reason', 'reviews.comment', 'reviews.scores', 'reviews.total',
-      'reviews.createdAt', 'users.name as reviewer',
+      'reviews.createdAt', 'users.name as reviewer', 'reviews.resubmitDueAt',
     ])
     .where('reviews.submissionId', 'in', submissionIds)
     .orderBy('reviews.createdAt', 'desc').orderBy('reviews.id', 'desc').execute()
@@ -156,6 +163,7 @@ function myReviewView(review: LatestReview | undefined, released: boolean, rubri
     reviewedAt: review.createdAt.toISOString(),
     reviewer: review.reviewer,
     reason: review.reason,
+    resubmitDueAt: review.resubmitDueAt?.toISOString() ?? null,
     released,
     feedback: released ? feedbackOf(rubric, review.scores ?? {}, review.total, review.comment) : null,
   }
@@ -176,6 +184,15 @@ function myVersionView(row: MyVersionRow, meId: number, review: MyReviewView | n
     result: row.result as StoredResult,
     peaks: peakViews(row.parsed),
     review,
+  }
+}
+
+/** The "sent back" state: the newest version's latest decision is a return. */
+function sentBackOf(newest: MyVersionRow | undefined, review: LatestReview | undefined): MySubmissionsView['sentBack'] {
+  if (!newest || review?.decision !== 'return') return null
+  return {
+    version: newest.version, reason: review.reason ?? '', reviewer: review.reviewer, at: review.createdAt.toISOString(),
+    dueAt: review.resubmitDueAt?.toISOString() ?? null,
   }
 }
 
@@ -225,7 +242,9 @@ export async function mySubmissionsOf(db: Kysely<Database>, scope: PracticalScop
     },
     partners,
     dueAt: unit.dueAt?.toISOString() ?? null,
-    pastDue: unit.dueAt !== null && Date.now() > unit.dueAt.getTime(),
+    sentBack: sentBackOf(rows[0], rows[0] ? reviews.get(rows[0].id) : undefined),
+    uploadDueAt: unit.uploadDueAt?.toISOString() ?? null,
+    pastDue: unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime(),
     meetingDate: unit.meetingDate,
     beforeMeeting: unit.meetingDate !== null && unit.meetingDate > todayIn(course.timezone),
     uploadsOpen: open,

@@ -14,6 +14,7 @@ import { audit, type Actor } from '../../utils/audit'
 import { runEngine } from '../../utils/engines'
 import { asUploadFormatError, storeFile } from '../../utils/files'
 import { stationMates } from '../roster'
+import { uploadDueAt } from '#shared/utils/resubmit'
 
 export interface StudentWorkUnit {
   sectionId: number
@@ -21,8 +22,18 @@ export interface StudentWorkUnit {
   /** Everyone the result counts for: the student, and their station partner(s) for pair work. */
   memberIds: number[]
   dueAt: Date | null
+  /** What a new upload's late mark is judged against: the section's due time, or a return's later one. */
+  uploadDueAt: Date | null
   /** The day the caller's section runs the practical ('YYYY-MM-DD'). */
   meetingDate: string | null
+}
+
+/** The newest decision on any version of a work unit: a return's due time holds until a later accept. */
+function lastUnitDecision(db: Kysely<Database>, practicalId: number, unitKey: string) {
+  return db.selectFrom('reviews').innerJoin('submissions', 'submissions.id', 'reviews.submissionId')
+    .select(['reviews.decision', 'reviews.resubmitDueAt'])
+    .where('submissions.practicalId', '=', practicalId).where('submissions.unitKey', '=', unitKey)
+    .orderBy('reviews.createdAt', 'desc').orderBy('reviews.id', 'desc').limit(1).executeTakeFirst()
 }
 
 /** The caller's own work unit for a practical: 404 unless they are a student in a section that runs it. */
@@ -38,11 +49,13 @@ export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): 
   const student = { userId: scope.me.id, sectionId: enrollment.sectionId, station: enrollment.station }
   const unitKey = unitKeyOf(scope.practical.workUnit, student)
   const partners = stationOfUnitKey(unitKey) === null ? [] : await stationMates(db, enrollment.sectionId, enrollment.station!)
+  const last = await lastUnitDecision(db, scope.practical.id, unitKey)
   return {
     sectionId: enrollment.sectionId,
     unitKey,
     memberIds: [...new Set([scope.me.id, ...partners.map((p) => p.userId)])],
     dueAt: session?.dueAt ?? null,
+    uploadDueAt: uploadDueAt(session?.dueAt ?? null, last),
     meetingDate: session?.meetingDate ?? null,
   }
 }
@@ -195,7 +208,7 @@ export async function createSubmission(
   const { run, chemistry, mediaType } = await computeRun(scope, file)
   const latest = await latestOfUnit(db, scope.practical.id, unit.unitKey)
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
-  const late = unit.dueAt !== null && Date.now() > unit.dueAt.getTime()
+  const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()
   try {
     const row = await storeSubmissionVersion(db, actor, {
       practicalId: scope.practical.id, unit, file, mediaType, run, keyFactor: chemistry.keyFactor, late, idempotencyKey,

@@ -3,9 +3,12 @@ import { closeTestDb, testDb } from '../../support/db'
 import { auditRowsOf, demoPracticalScope, insertVersion, newActor, newStudentUnit } from '../../support/services-fixtures'
 import { acceptCleanInBulk, saveSubmissionReview, setSubmissionExclusion, type ReviewerScope } from '../../../server/services/review'
 import type { Actor } from '../../../server/utils/audit'
+import { APP_URL, stubNitroGlobals } from '../arrange'
 import type { QueueRow } from '../../../shared/types/review'
 
 afterAll(closeTestDb)
+beforeAll(stubNitroGlobals)
+const context = { appUrl: APP_URL }
 
 // The review commands without HTTP: what they write, what they refuse (and then write nothing),
 // and the audit row that lands with each change.
@@ -42,7 +45,7 @@ describe('saveSubmissionReview', () => {
     const [submission] = await freshUnit()
     const saved = await saveSubmissionReview(testDb(), actor, scope, submission!, {
       decision: 'accept', comment: 'Clean run', scores: fullMarks(),
-    })
+    }, context)
     expect(saved).toMatchObject({ id: submission!.id, status: 'accepted', total: maxTotal() })
     expect(await statusOf(submission!.id)).toBe('accepted')
     const [review] = await reviewsOf(submission!.id)
@@ -57,7 +60,7 @@ describe('saveSubmissionReview', () => {
     const [submission] = await freshUnit()
     const saved = await saveSubmissionReview(testDb(), actor, scope, submission!, {
       decision: 'return', reason: 'The solvent peak is integrated', comment: '', scores: fullMarks(),
-    })
+    }, context)
     expect(saved).toMatchObject({ status: 'returned', total: null, scores: {} })
     expect((await reviewsOf(submission!.id))[0]).toMatchObject({ decision: 'return', reason: 'The solvent peak is integrated', total: null })
   })
@@ -66,7 +69,7 @@ describe('saveSubmissionReview', () => {
     const [submission] = await freshUnit()
     const scores = fullMarks()
     delete scores[scope.course.rubric[0]!.key]
-    await expect(saveSubmissionReview(testDb(), actor, scope, submission!, { decision: 'accept', comment: '', scores }))
+    await expect(saveSubmissionReview(testDb(), actor, scope, submission!, { decision: 'accept', comment: '', scores }, context))
       .rejects.toMatchObject({ statusCode: 400 })
     expect(await statusOf(submission!.id)).toBe('pending')
     expect(await reviewsOf(submission!.id)).toEqual([])
@@ -75,14 +78,14 @@ describe('saveSubmissionReview', () => {
 
   it('refuses to accept a run with a blocking flag unless the comment says why', async () => {
     const [submission] = await freshUnit(1, { attention: 2 })
-    await expect(saveSubmissionReview(testDb(), actor, scope, submission!, { decision: 'accept', comment: '', scores: fullMarks() }))
+    await expect(saveSubmissionReview(testDb(), actor, scope, submission!, { decision: 'accept', comment: '', scores: fullMarks() }, context))
       .rejects.toMatchObject({ statusCode: 400, data: { field: 'comment' } })
     expect(await reviewsOf(submission!.id)).toEqual([])
   })
 
   it('refuses an older version with 409 and leaves it pending', async () => {
     const [older, newer] = await freshUnit(2)
-    await expect(saveSubmissionReview(testDb(), actor, scope, older!, { decision: 'accept', comment: '', scores: fullMarks() }))
+    await expect(saveSubmissionReview(testDb(), actor, scope, older!, { decision: 'accept', comment: '', scores: fullMarks() }, context))
       .rejects.toMatchObject({ statusCode: 409 })
     expect(await statusOf(older!.id)).toBe('pending')
     expect(await statusOf(newer!.id)).toBe('pending')

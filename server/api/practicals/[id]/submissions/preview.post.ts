@@ -8,5 +8,5 @@ export default defineEventHandler(async (event) => {
   const unit = await studentUnit(useDb(), scope)
   const { file } = await readUpload(event)
   const { run, chemistry } = await computeRun(scope, file)
-  return previewOf(run, chemistry, unit.dueAt !== null && Date.now() > unit.dueAt.getTime())
+  return previewOf(run, chemistry, unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime())
 })
