@@ -62,7 +62,7 @@ export interface MySubmissionsView {
   /** The other members of the caller's work unit (their partner), by name. */
   partners: string[]
   dueAt: string | null
-  /** The latest version was sent back: why, by whom, and the new due time of the next upload. */
+  /** The latest version was sent back: why, by whom, and when the next upload is due (as uploadDueAt). */
   sentBack: { version: number, reason: string, reviewer: string, at: string, dueAt: string | null } | null
   /** When a new upload is late: the section's due time, or a return's later one (ISO). */
   uploadDueAt: string | null
@@ -187,12 +187,15 @@ function myVersionView(row: MyVersionRow, meId: number, review: MyReviewView | n
   }
 }
 
-/** The "sent back" state: the newest version's latest decision is a return. */
-function sentBackOf(newest: MyVersionRow | undefined, review: LatestReview | undefined): MySubmissionsView['sentBack'] {
+/**
+ * The "sent back" state: the newest version's latest decision is a return. Its due time is the
+ * one the next upload is judged against (the return's, or the section's when that is later).
+ */
+function sentBackOf(newest: MyVersionRow | undefined, review: LatestReview | undefined, dueAt: Date | null): MySubmissionsView['sentBack'] {
   if (!newest || review?.decision !== 'return') return null
   return {
     version: newest.version, reason: review.reason ?? '', reviewer: review.reviewer, at: review.createdAt.toISOString(),
-    dueAt: review.resubmitDueAt?.toISOString() ?? null,
+    dueAt: dueAt?.toISOString() ?? null,
   }
 }
 
@@ -242,7 +245,7 @@ export async function mySubmissionsOf(db: Kysely<Database>, scope: PracticalScop
     },
     partners,
     dueAt: unit.dueAt?.toISOString() ?? null,
-    sentBack: sentBackOf(rows[0], rows[0] ? reviews.get(rows[0].id) : undefined),
+    sentBack: sentBackOf(rows[0], rows[0] ? reviews.get(rows[0].id) : undefined, unit.uploadDueAt),
     uploadDueAt: unit.uploadDueAt?.toISOString() ?? null,
     pastDue: unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime(),
     meetingDate: unit.meetingDate,
