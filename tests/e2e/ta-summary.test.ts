@@ -20,9 +20,9 @@ describe('the TAs’ daily summary', () => {
     // The second section's TA turns the summary off on their account page.
     const ta2 = await signedIn(s2!.ta.email, s2!.ta.password)
     expect((await ta2.get('/api/account/daily-summary')).body).toEqual({ dailySummary: true })
-    expect((await ta2.put('/api/account/daily-summary', { dailySummary: false })).status).toBe(200)
+    expect((await ta2.request('/api/account/daily-summary', { method: 'PUT', json: { dailySummary: false } })).status).toBe(200)
     expect((await ta2.get('/api/account/daily-summary')).body).toEqual({ dailySummary: false })
-    expect((await ta2.put('/api/account/daily-summary', { dailySummary: 'no' })).status).toBe(400)
+    expect((await ta2.request('/api/account/daily-summary', { method: 'PUT', json: { dailySummary: 'no' } })).status).toBe(400)
 
     // The job is scheduled daily in the queue; the demo route runs it now instead of waiting.
     const schedule = await sql<{ cron: string }>`select cron from pgboss.schedule where name = 'ta-summary'`.execute(testDb())

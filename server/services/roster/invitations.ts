@@ -4,7 +4,7 @@ import type { Database } from '../../database/schema'
 import { escapeHtml } from '../../utils/html'
 import { queueMail } from '../../utils/mail'
 import { createError } from 'h3'
-import { addDays, isoDateOf, zonedInstant } from '#shared/utils/dates'
+import { addDays, zonedInstant } from '#shared/utils/dates'
 import { displayDateTime } from '#shared/utils/date-display'
 
 // Invitation links: 32 random bytes (base64url) in the e-mail, only their SHA-256 in the
@@ -36,7 +36,8 @@ export async function invitationExpiry(db: Db, course: Pick<InvitingCourse, 'id'
   const first = await db.selectFrom('sections').select((eb) => eb.fn.min('firstDate').as('start'))
     .where('courseId', '=', course.id).executeTakeFirst()
   if (!first?.start) return fromNow
-  const start = typeof first.start === 'string' ? first.start : isoDateOf(first.start as Date, course.timezone)
+  // DATE columns read back as 'YYYY-MM-DD' text (connection.ts).
+  const start = String(first.start)
   const fromTerm = zonedInstant(addDays(start, INVITATION_DAYS + 1), '00:00', course.timezone)
   return fromTerm > fromNow ? fromTerm : fromNow
 }
