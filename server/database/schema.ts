@@ -20,6 +20,8 @@ export interface UsersTable {
   passwordHash: string | null
   sessionVersion: Generated<number>
   disabledAt: Timestamp | null
+  /** Whether the person gets the daily summary of new runs in their sections (TAs); opt-out. */
+  dailySummary: Generated<boolean>
   createdAt: CreatedAt
   updatedAt: UpdatedAt
 }

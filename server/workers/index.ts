@@ -4,6 +4,7 @@ import { mailJobOptions } from '../utils/mail'
 import type { Presence } from '../utils/presence'
 import { MailWorker } from './mail-worker'
 import { startMailSweep } from './mail-sweep'
+import { startTaSummaries } from './ta-summary'
 
 // Every queue and its worker, started once the queue has. Explicit (not a side effect of
 // importing a module) because Nitro loads route chunks lazily. Returns what stops them.
@@ -15,8 +16,10 @@ export async function registerWorkers(boss: PgBoss, presence: Presence): Promise
   const worker = new MailWorker(boss, presence)
   worker.start()
   const stopSweep = startMailSweep(worker, presence)
+  const stopSummaries = await startTaSummaries(boss)
   return async () => {
     stopSweep()
+    await stopSummaries()
     await worker.stop()
   }
 }

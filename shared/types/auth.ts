@@ -39,3 +39,8 @@ export interface SessionUser {
 export interface PublicUser extends SessionUser {
   email: string
 }
+
+/** One's own choice about the daily summary of new runs in one's sections (sent to TAs). */
+export const dailySummarySchema = z.object({
+  dailySummary: z.boolean({ error: 'Choose on or off' }),
+})

@@ -136,8 +136,18 @@ export interface DigestMessage {
   attachments: DigestAttachmentView[]
 }
 
+/** Runs the class figures count that no reviewer has decided on yet: the warning before a digest goes out. */
+export interface PendingReview {
+  total: number
+  sections: Array<{ sectionId: number, code: string, count: number }>
+}
+
 export interface DigestPreview extends DigestMessage {
   recipient: DigestRecipient
+  /** Across every section of the practical the caller sees, not only the previewed one. */
+  pendingReview: PendingReview
+  /** Runs the class figures in this message count. */
+  countedRuns: number
   /** Everyone the section's digest goes to, to pick another preview. */
   recipients: DigestRecipient[]
 }

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { newPasswordSchema } from './auth'
-import { lineText, recordId } from './fields'
+import { lineText, recordId, recordIdList } from './fields'
 
 // Rosters, invitations and hood stations: the schemas the forms and the routes share, and the
 // shapes the routes answer with.
@@ -111,6 +111,34 @@ export const enrollmentAddSchema = z.object({
   confirmConflicts: z.boolean().default(false),
 })
 export type EnrollmentAdd = z.input<typeof enrollmentAddSchema>
+
+/** A TA invited from the course: their name, e-mail and the sections they will teach. */
+export const taInviteSchema = z.object({
+  email,
+  name: lineText(120, 'Enter the TA’s name'),
+  sectionIds: recordIdList(200, 'section'),
+})
+export type TaInvite = z.input<typeof taInviteSchema>
+
+export interface TaInvited {
+  userId: number
+  /** False when the TA already had an account with a password: they are only added to the sections. */
+  invited: boolean
+  sectionIds: number[]
+}
+
+/** People of a course who have not set a password yet: students enrolled, TAs of its sections. */
+export interface OpenInvitations {
+  students: number
+  tas: number
+}
+
+export interface InvitationRoundResult {
+  /** Fresh links mailed in this round. */
+  sent: number
+  /** People this round had already mailed (the same request again). */
+  alreadySent: number
+}
 
 export const enrollmentPatchSchema = z.object({
   sectionId: recordId('Pick a section from the list').optional(),

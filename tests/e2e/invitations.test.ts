@@ -4,6 +4,7 @@ import { Client, DEMO, signedIn } from '../support/http'
 import { closeTestDb, createUser, testDb } from '../support/db'
 import { eventually, mailTo } from '../support/services'
 import { makeCourse } from './fixtures/rosters/course'
+import { zonedInstant } from '../../shared/utils/dates'
 
 afterAll(closeTestDb)
 
@@ -39,8 +40,8 @@ describe('invitations', () => {
     expect(stored).toHaveLength(1)
     expect(stored[0]!.tokenHash).toBe(createHash('sha256').update(token).digest('hex'))
     expect(stored[0]!.tokenHash).not.toContain(token)
-    const days = (stored[0]!.expiresAt.getTime() - stored[0]!.createdAt.getTime()) / 86_400_000
-    expect(days).toBeCloseTo(7, 2)
+    // The fixture's first meeting is 2027-01-11: the link lasts to the end of 25 January, course time.
+    expect(stored[0]!.expiresAt.toISOString()).toBe(zonedInstant('2027-01-26', '00:00', 'America/Chicago').toISOString())
 
     const visitor = new Client()
     const shown = await visitor.get(`/api/invitations/${token}`)

@@ -1,6 +1,6 @@
 import type { PracticalScope } from '../../utils/access'
 import type { StoredFlag, SubmissionStatus } from '../../database/schema'
-import type { DigestRecipient, ResultsKeyFactor } from '#shared/types/results'
+import type { DigestRecipient, PendingReview, ResultsKeyFactor } from '#shared/types/results'
 import type { FactorStats } from '#shared/types/summary'
 import { stationOfUnitKey, unitKeyOf } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
@@ -52,6 +52,12 @@ export interface DigestContext {
   classStats: FactorStats | null
   sectionStats: FactorStats | null
   excludedCount: number
+  /** Runs the class figures count (each unit's newest accepted-or-pending, not excluded). */
+  countedRuns: number
+  /** Of those, the ones no reviewer has decided on yet, class-wide (the message is the same whoever previews it). */
+  countedPending: number
+  /** The same runs per section, in the sections the caller sees: the warning before sending. */
+  pendingReview: PendingReview
   units: DigestUnit[]
   recipients: DigestRecipient[]
 }
@@ -142,6 +148,19 @@ async function digestUnits(
     || (a.members[0]?.name ?? '').localeCompare(b.members[0]?.name ?? '') || a.unitKey.localeCompare(b.unitKey))
 }
 
+/** Counted runs still waiting for review: class-wide, and per section the caller sees (sections with none left out). */
+export async function pendingReviewOf(scope: PracticalScope): Promise<{ classWide: number, visible: PendingReview }> {
+  const classWide = (await latestClassResults(scope.practical.id)).filter((r) => r.status === 'pending' && !r.excludedAt)
+  const waiting = classWide.filter((r) => scope.sessionSectionIds.includes(r.sectionId))
+  const perSection = new Map<number, number>()
+  for (const r of waiting) perSection.set(r.sectionId, (perSection.get(r.sectionId) ?? 0) + 1)
+  const codes = perSection.size
+    ? await useDb().selectFrom('sections').select(['id', 'code']).where('id', 'in', [...perSection.keys()]).orderBy('code').execute()
+    : []
+  const sections = codes.map((c) => ({ sectionId: c.id, code: c.code, count: perSection.get(c.id)! }))
+  return { classWide: classWide.length, visible: { total: waiting.length, sections } }
+}
+
 /** A section's digest data, for a section of this practical the caller may see; else 404. */
 export async function loadDigestContext(scope: PracticalScope, sectionId: number): Promise<DigestContext> {
   if (!scope.sessionSectionIds.includes(sectionId)) throw createError({ statusCode: 404, statusMessage: 'Section not found' })
@@ -157,6 +176,7 @@ export async function loadDigestContext(scope: PracticalScope, sectionId: number
   const summary = await practicalSummary(scope, {})
   const key = summary.keyFactor
   const classStats = summary.factors[key]
+  const pending = await pendingReviewOf(scope)
   const sectionStats = summary.bySection.find((b) => b.sectionId === sectionId)?.factors[key] ?? null
   return {
     course: { id: scope.course.id, code: scope.course.code, title: scope.course.title, term: scope.course.term },
@@ -171,6 +191,9 @@ export async function loadDigestContext(scope: PracticalScope, sectionId: number
     classStats,
     sectionStats,
     excludedCount: summary.excluded.length,
+    countedRuns: classStats?.n ?? 0,
+    countedPending: pending.classWide,
+    pendingReview: pending.visible,
     units: await digestUnits(scope, sectionId, classStats, key),
     recipients: await digestRecipients(scope, sectionId),
   }

@@ -22,5 +22,8 @@ export async function digestPreview(
 ): Promise<DigestPreview> {
   const ctx = await loadDigestContext(scope, query.sectionId)
   const recipient = digestRecipientFor(ctx, query.audience, query.userId, scope.me.id)
-  return { ...composeDigestMessage(ctx, recipient), recipient, recipients: ctx.recipients }
+  return {
+    ...composeDigestMessage(ctx, recipient), recipient, recipients: ctx.recipients,
+    pendingReview: ctx.pendingReview, countedRuns: ctx.countedRuns,
+  }
 }

@@ -11,6 +11,7 @@ import { reviewFlagName } from '#shared/types/review'
 import { toSafeCsv, type CsvCell } from '#shared/utils/csv-safe'
 import { formatArithmeticMean, formatHeadline, HEADLINE_LABELS } from '#shared/utils/headline'
 import { escapeHtml } from '../../utils/html'
+import { plural, pluralWord } from '../../../utils/words'
 
 function digestNumber(value: number | null | undefined, digits = 2): string {
   return typeof value === 'number' && Number.isFinite(value) ? value.toFixed(digits) : 'n/a'
@@ -91,6 +92,15 @@ const htmlPage = (body: string) =>
   `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Halocline digest</title></head>`
   + `<body style="font-family:'IBM Plex Sans',Arial,sans-serif;color:#0B1A2B;line-height:1.45">${body}</body></html>`
 
+/** "These figures count 12 runs; 3 of them are still waiting for review.": what the reader is looking at. */
+function countedLine(ctx: DigestContext): string {
+  if (!ctx.countedRuns) return 'These class figures count no runs yet.'
+  const counted = `These class figures count ${plural(ctx.countedRuns, 'run')} (accepted or waiting for review)`
+  const waiting = ctx.countedPending
+  if (!waiting) return `${counted}; every one of them has been reviewed.`
+  return `${counted}; ${waiting} of them ${pluralWord(waiting, 'is', 'are')} still waiting for review, so the figures may change.`
+}
+
 function classFigures(ctx: DigestContext): string[] {
   const label = RESULTS_FACTOR_LABELS[ctx.keyFactor]
   const lines = [
@@ -98,6 +108,7 @@ function classFigures(ctx: DigestContext): string[] {
     `Literature value for the method: ${ctx.literature === null ? 'none given' : digestNumber(ctx.literature)}.`,
     `Section ${ctx.section.code}: ${statsLine(ctx.sectionStats)}.`,
   ]
+  lines.splice(1, 0, countedLine(ctx))
   const stats = ctx.classStats
   if (stats?.n) {
     lines.splice(1, 0, `${formatArithmeticMean(stats.headline)}.`, stats.headline.reason)

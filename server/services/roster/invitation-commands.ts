@@ -19,7 +19,7 @@ export async function resendInvitation(db: Db, actor: Actor, me: { id: number, n
     .innerJoin('courses', 'courses.id', 'enrollments.courseId')
     .innerJoin('users', 'users.id', 'enrollments.userId')
     .select(['users.id', 'users.email', 'users.name', 'users.passwordHash', 'users.disabledAt',
-      'courses.id as courseId', 'courses.code', 'courses.title'])
+      'courses.id as courseId', 'courses.code', 'courses.title', 'courses.term', 'courses.timezone'])
     .where('enrollments.userId', '=', studentId).where('courseOwners.userId', '=', me.id).where('users.role', '=', 'student')
     .orderBy((eb) => eb.case().when('enrollments.status', '=', 'active').then(0).else(1).end())
     .orderBy('enrollments.createdAt', 'desc').executeTakeFirst()
@@ -28,7 +28,7 @@ export async function resendInvitation(db: Db, actor: Actor, me: { id: number, n
   if (found.disabledAt) throw createError({ statusCode: 409, statusMessage: 'This account is disabled' })
 
   const invitation = await db.transaction().execute(async (trx) => {
-    const course = { id: found.courseId, code: found.code, title: found.title }
+    const course = { id: found.courseId, code: found.code, title: found.title, term: found.term, timezone: found.timezone }
     const issued = await inviteToCourse(trx, { course, me, appUrl }, { userId: found.id, email: found.email, name: found.name })
     await audit(trx, actor, {
       action: 'invitation.resend', entity: 'user', entityId: found.id,

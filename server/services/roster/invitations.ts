@@ -4,10 +4,13 @@ import type { Database } from '../../database/schema'
 import { escapeHtml } from '../../utils/html'
 import { queueMail } from '../../utils/mail'
 import { createError } from 'h3'
+import { addDays, zonedInstant } from '#shared/utils/dates'
+import { displayDateTime } from '#shared/utils/date-display'
 
 // Invitation links: 32 random bytes (base64url) in the e-mail, only their SHA-256 in the
-// database, so reading the table yields no working link. Seven days, one use.
-export const INVITATION_DAYS = 7
+// database, so reading the table yields no working link. One use; they last into the term
+// (invitationExpiry), not a fixed week from the import, since rosters are loaded weeks ahead.
+export const INVITATION_DAYS = 14
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -21,13 +24,30 @@ export interface IssuedInvitation {
   expiresAt: Date
 }
 
-/** A fresh invitation; the person's older open ones stop working (they expire now). */
-export async function issueInvitation(db: Db, userId: number, createdBy: number | null): Promise<IssuedInvitation> {
+/** The course an invitation is for: its name in the mail, its term's start for the expiry. */
+export interface InvitingCourse { id: number, code: string, title: string, term: string, timezone: string }
+
+/**
+ * The end of the 14th day after the course's first section meeting (midnight in the course's
+ * zone), or 14 days after now when that is later: a roster loaded in summer still works in week two.
+ */
+export async function invitationExpiry(db: Db, course: Pick<InvitingCourse, 'id' | 'timezone'>, now = new Date()): Promise<Date> {
+  const fromNow = new Date(now.getTime() + INVITATION_DAYS * 86_400_000)
+  const first = await db.selectFrom('sections').select((eb) => eb.fn.min('firstDate').as('start'))
+    .where('courseId', '=', course.id).executeTakeFirst()
+  if (!first?.start) return fromNow
+  // DATE columns read back as 'YYYY-MM-DD' text (connection.ts).
+  const start = String(first.start)
+  const fromTerm = zonedInstant(addDays(start, INVITATION_DAYS + 1), '00:00', course.timezone)
+  return fromTerm > fromNow ? fromTerm : fromNow
+}
+
+/** A fresh invitation until `expiresAt`; the person's older open ones stop working (they expire now). */
+export async function issueInvitation(db: Db, userId: number, createdBy: number | null, expiresAt: Date): Promise<IssuedInvitation> {
   const now = new Date()
   await db.updateTable('invitations').set({ expiresAt: now })
     .where('userId', '=', userId).where('usedAt', 'is', null).where('expiresAt', '>', now).execute()
   const token = randomBytes(32).toString('base64url')
-  const expiresAt = new Date(now.getTime() + INVITATION_DAYS * 86_400_000)
   const row = await db.insertInto('invitations')
     .values({ userId, tokenHash: hashInvitationToken(token), expiresAt, createdBy })
     .returning('id').executeTakeFirstOrThrow()
@@ -37,25 +57,35 @@ export async function issueInvitation(db: Db, userId: number, createdBy: number 
 export interface InvitationMail {
   invitation: IssuedInvitation
   to: { email: string, name: string }
-  courseLabel: string
-  courseId?: number | null
+  course: InvitingCourse
+  /** What the account is for: a student's lab or a TA's sections. */
+  role: 'student' | 'ta'
   invitedBy: string
+  /** The resend round's exactly-once key; absent, the invitation's own. */
+  key?: string
   createdBy: number | null
   /** The product's address (runtime config public.appUrl); the link starts with it. */
   appUrl: string
 }
 
-const WHAT_YOU_SEE = 'where you will see your lab section, hood station, procedure cards and results.'
+const WHAT_YOU_SEE = {
+  student: 'where you will see your lab section, hood station, procedure cards and results.',
+  ta: 'where you will see the sections you teach, their rosters and the runs to review.',
+}
+const HOW_ADDED = { student: 'added you to', ta: 'added you as a teaching assistant to' }
 
 /** Plain text and HTML; names are escaped in the HTML, the link is ours. */
 export async function queueInvitationMail(db: Db, mail: InvitationMail) {
   const link = `${mail.appUrl.replace(/\/$/, '')}/invite/${mail.invitation.token}`
-  const until = mail.invitation.expiresAt.toUTCString().replace(/:\d\d GMT$/, ' UTC')
-  const subject = `Your Halocline account for ${mail.courseLabel}`
+  const course = mail.course
+  const courseLabel = `${course.code} ${course.title}, ${course.term}`
+  const until = `${displayDateTime(mail.invitation.expiresAt, course.timezone)} (${course.timezone})`
+  const subject = `Your Halocline account for ${course.code}, ${course.term}`
+  const added = `${mail.invitedBy} ${HOW_ADDED[mail.role]} ${courseLabel} in Halocline, ${WHAT_YOU_SEE[mail.role]}`
   const text = [
     `Hello ${mail.to.name},`,
     '',
-    `${mail.invitedBy} added you to ${mail.courseLabel} in Halocline, ${WHAT_YOU_SEE}`,
+    added,
     '',
     'Choose your password here:',
     link,
@@ -65,19 +95,19 @@ export async function queueInvitationMail(db: Db, mail: InvitationMail) {
   ].join('\n')
   const html = [
     `<p>Hello ${escapeHtml(mail.to.name)},</p>`,
-    `<p>${escapeHtml(mail.invitedBy)} added you to ${escapeHtml(mail.courseLabel)} in Halocline, ${WHAT_YOU_SEE}</p>`,
+    `<p>${escapeHtml(added)}</p>`,
     `<p><a href="${escapeHtml(link)}">Choose your password</a></p>`,
     `<p>The link works once and until ${escapeHtml(until)}. If it has expired, ask your instructor for a new one.</p>`,
   ].join('\n')
   return queueMail(db, {
-    key: `invitation:${mail.invitation.id}`,
+    key: mail.key ?? `invitation:${mail.invitation.id}`,
     kind: 'invitation',
     to: [mail.to.email],
     subject,
     text,
     html,
     createdBy: mail.createdBy,
-    courseId: mail.courseId ?? null,
+    courseId: course.id,
   })
 }
 

@@ -10,7 +10,7 @@ import {
 } from '#shared/types/roster'
 import { uploadAsText } from '../../utils/files'
 import { invalid } from '../../utils/validation'
-import { issueInvitation, queueInvitationMail } from './invitations'
+import { invitationExpiry, issueInvitation, queueInvitationMail, type InvitingCourse } from './invitations'
 import { createError } from 'h3'
 
 // Roster import: the file is read and every row checked against the course as it is now (the
@@ -92,7 +92,7 @@ export function rosterPreviewRows(rows: CheckedRosterRow[]) {
 
 /** Who adds students to which course; `appUrl` starts the invitation links. */
 export interface RosterWriteContext {
-  course: { id: number, code: string, title: string }
+  course: InvitingCourse
   me: { id: number, name: string }
   appUrl: string
 }
@@ -139,13 +139,18 @@ async function uninvitedAccounts(db: Db, userIds: number[]) {
     .execute()
 }
 
-export async function inviteToCourse(trx: Db, ctx: RosterWriteContext, person: { userId: number, email: string, name: string }) {
-  const invitation = await issueInvitation(trx, person.userId, ctx.me.id)
+/** A fresh link to one person, lasting into the course's term, and its e-mail (`key`: a resend round's). */
+export async function inviteToCourse(
+  trx: Db, ctx: RosterWriteContext, person: { userId: number, email: string, name: string },
+  options: { role?: 'student' | 'ta', key?: string } = {},
+) {
+  const invitation = await issueInvitation(trx, person.userId, ctx.me.id, await invitationExpiry(trx, ctx.course))
   await queueInvitationMail(trx, {
     invitation,
     to: { email: person.email, name: person.name },
-    courseLabel: `${ctx.course.code} ${ctx.course.title}`,
-    courseId: ctx.course.id,
+    course: ctx.course,
+    role: options.role ?? 'student',
+    key: options.key,
     invitedBy: ctx.me.name,
     createdBy: ctx.me.id,
     appUrl: ctx.appUrl,
