@@ -19,6 +19,7 @@ describe('course set-up in Chromium', () => {
     await page.getByLabel(/^Course code/).fill('CHEM 3110')
     await page.getByLabel(/^Term/).fill('Spring 2027')
     await page.getByLabel(/^Title/).fill('Physical Organic Laboratory')
+    await page.getByLabel(/^Meetings and due dates are on/).check()
     await page.getByRole('button', { name: 'Create course' }).click()
     await page.waitForURL(/\/courses\/\d+/)
     await page.getByRole('heading', { name: /CHEM 3110/ }).waitFor()

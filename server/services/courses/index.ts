@@ -2,3 +2,4 @@
 
 export { addCourseOwner, createCourse, updateCourse, updateCourseSettings } from './course-commands'
 export { courseDetail, courseList } from './course-views'
+export { copyCourse, previewCourseCopy } from './course-copy'
