@@ -2,6 +2,6 @@
 
 export { acceptInvitation, resendInvitation } from './invitation-commands'
 export { findInvitation, invitationGone } from './invitations'
-export { planRosterImport, rosterImportHistory, rosterPreviewRows } from './roster-import'
+export { planRosterImport, rosterImportHistory, rosterPreviewRows, skippedRowsCsv } from './roster-import'
 export { addEnrollment, assignStations, importRoster, placeEnrollment, refuseWithdrawn, withdrawEnrollment } from './roster-commands'
 export { loadSectionRoster, partnerNames, requireEnrollmentAccess, stationMates } from './section-roster'
