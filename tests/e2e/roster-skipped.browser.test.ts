@@ -72,8 +72,8 @@ describe('a roster import that skips bad rows, in Chromium', () => {
       expect(await page.locator('[data-test="roster-skipped"]').count()).toBe(0)
 
       // The roster shows the student ids, and the search box finds a student by theirs.
-      const wanted = roster.bad[1]! // row 12: in B1 once fixed
-      await page.getByRole('tab', { name: /^B1/ }).click()
+      const wanted = roster.bad[1]! // row 12, whose section was wrong
+      await page.getByRole('tab', { name: new RegExp(`^${wanted.section}`) }).click()
       const search = page.getByLabel('Find a student')
       await search.fill(wanted.studentId)
       await expect.poll(() => page.getByRole('cell', { name: `${wanted.first} ${wanted.last}`, exact: true }).count()).toBe(1)
