@@ -2,7 +2,7 @@ import type { ColumnType, Generated, Insertable, Selectable, Updateable } from '
 import type { StockroomTables } from './schema-stockroom'
 import type { DigestTables } from './schema-digests'
 import type { LibraryDataTables } from './schema-library'
-import type { RosterSummary } from '../../shared/types/roster'
+import type { RosterSkippedRow, RosterSummary } from '../../shared/types/roster'
 
 // Timestamps come back from pg as Date and go in as Date or ISO text.
 type Timestamp = ColumnType<Date, Date | string, Date | string>
@@ -150,6 +150,8 @@ export interface EnrollmentsTable {
   status: Generated<EnrollmentStatus>
   station: number | null
   seat: number | null
+  /** The registrar's id for the student in this course, as the roster file gave it. */
+  studentId: string | null
   createdAt: CreatedAt
   withdrawnAt: Timestamp | null
 }
@@ -181,6 +183,8 @@ export interface RosterImportsTable {
   fileId: number
   mapping: Json<Record<string, string | null>>
   summary: Json<RosterSummary>
+  /** Rows the import left out, with why (they can be downloaded, fixed and imported again). */
+  skipped: ColumnType<RosterSkippedRow[], string | undefined, string>
   createdBy: number | null
   createdAt: CreatedAt
 }

@@ -5,8 +5,8 @@ import { lineText, recordId, recordIdList } from './fields'
 // Rosters, invitations and hood stations: the schemas the forms and the routes share, and the
 // shapes the routes answer with.
 
-/** The roster fields a CSV column can feed. A full name, or a first and a last name. */
-export const ROSTER_FIELDS = ['email', 'name', 'firstName', 'lastName', 'section'] as const
+/** The roster fields a CSV column can feed. A full name, or a first and a last name; the student id is optional. */
+export const ROSTER_FIELDS = ['email', 'name', 'firstName', 'lastName', 'section', 'studentId'] as const
 export type RosterField = (typeof ROSTER_FIELDS)[number]
 
 export const ROSTER_FIELD_LABELS: Record<RosterField, string> = {
@@ -15,6 +15,7 @@ export const ROSTER_FIELD_LABELS: Record<RosterField, string> = {
   firstName: 'First name',
   lastName: 'Last name',
   section: 'Section code',
+  studentId: 'Student ID',
 }
 
 /** Field → the column (by its header text) that feeds it; null leaves the field unmapped. */
@@ -28,6 +29,7 @@ export const rosterMappingSchema = z.object({
   firstName: column,
   lastName: column,
   section: column,
+  studentId: column,
 })
 
 export const ROW_OUTCOMES = ['new', 'enrol', 'move', 'unchanged', 'error'] as const
@@ -38,7 +40,7 @@ export const ROW_OUTCOME_LABELS: Record<RosterRowOutcome, string> = {
   enrol: 'Existing account, enrolled',
   move: 'Moves section',
   unchanged: 'Already there',
-  error: 'Needs fixing',
+  error: 'Skipped: needs fixing',
 }
 
 export interface RosterRowIssue {
@@ -52,6 +54,8 @@ export interface RosterPreviewRow {
   email: string
   name: string
   sectionCode: string
+  /** The registrar's id, '' when the file has none. */
+  studentId: string
   outcome: RosterRowOutcome
   /** For a move: the section the student leaves. */
   fromSectionCode?: string
@@ -83,9 +87,20 @@ export interface RosterPreview {
   conflicts: RosterConflictView[]
 }
 
+/** A row an import left out: what it said, and every reason (kept with the import's record). */
+export interface RosterSkippedRow {
+  row: number
+  email: string
+  name: string
+  sectionCode: string
+  studentId: string
+  reasons: string[]
+}
+
 export interface RosterImportResult {
   importId: number
   summary: RosterSummary
+  skipped: RosterSkippedRow[]
 }
 
 export interface RosterImportHistoryItem {
@@ -94,6 +109,7 @@ export interface RosterImportHistoryItem {
   by: string | null
   fileName: string
   summary: RosterSummary
+  skipped: RosterSkippedRow[]
 }
 
 /** The optional text fields of the preview and import forms (multipart, so strings). */
@@ -189,6 +205,8 @@ export interface RosterStudent {
   userId: number
   name: string
   email: string
+  /** The registrar's id for this course, null when none was given. */
+  studentId: string | null
   status: 'active' | 'withdrawn'
   station: number | null
   seat: number | null

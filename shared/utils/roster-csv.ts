@@ -9,6 +9,7 @@ import type { RosterField, RosterMapping, RosterPreviewRow, RosterRowIssue, Rost
 
 export const MAX_ROSTER_ROWS = 2000
 export const MAX_NAME_LENGTH = 120
+export const MAX_STUDENT_ID_LENGTH = 40
 
 export class RosterFileError extends Error {}
 
@@ -59,14 +60,15 @@ const ALIASES: Record<RosterField, string[]> = {
   firstName: ['firstname', 'givenname', 'givennames', 'first', 'forename'],
   lastName: ['lastname', 'surname', 'familyname', 'last'],
   section: ['section', 'sectioncode', 'sec', 'lab', 'labsection', 'labgroup', 'group'],
+  studentId: ['studentid', 'studentnumber', 'studentno', 'sid', 'idnumber', 'universityid', 'registrarid', 'matriculationnumber'],
 }
-const FALLBACK: Partial<Record<RosterField, RegExp>> = { email: /mail/, section: /section/ }
+const FALLBACK: Partial<Record<RosterField, RegExp>> = { email: /mail/, section: /section/, studentId: /student(id|number|no)/ }
 
 const headerKey = (header: string) => header.toLowerCase().replace(/[^a-z0-9]/g, '')
 
 /** Which column feeds which field, judged by the header alone; each column used once. */
 export function suggestRosterMapping(columns: string[]): RosterMapping {
-  const mapping: RosterMapping = { email: null, name: null, firstName: null, lastName: null, section: null }
+  const mapping: RosterMapping = { email: null, name: null, firstName: null, lastName: null, section: null, studentId: null }
   const used = new Set<string>()
   const take = (field: RosterField, test: (key: string) => boolean) => {
     if (mapping[field]) return
@@ -97,18 +99,21 @@ export interface MappedRosterRow {
   email: string
   name: string
   sectionCode: string
+  studentId: string
 }
 
 /** Cells are trimmed and otherwise kept exactly as written: a cell that looks like a formula stays text. */
 export function mapRosterRecords(parsed: ParsedRoster, mapping: RosterMapping): MappedRosterRow[] {
   const index = (field: RosterField) => (mapping[field] ? parsed.columns.indexOf(mapping[field]!) : -1)
   const at = (cells: string[], i: number) => (i >= 0 ? (cells[i] ?? '').trim() : '')
-  const [email, name, first, last, section] = (['email', 'name', 'firstName', 'lastName', 'section'] as const).map(index) as number[]
+  const [email, name, first, last, section, studentId] = (['email', 'name', 'firstName', 'lastName', 'section', 'studentId'] as const)
+    .map(index) as number[]
   return parsed.records.map(({ row, cells }) => ({
     row,
     email: at(cells, email!).toLowerCase(),
     name: at(cells, name!) || [at(cells, first!), at(cells, last!)].filter(Boolean).join(' '),
     sectionCode: at(cells, section!),
+    studentId: at(cells, studentId!),
   }))
 }
 
@@ -123,6 +128,8 @@ export interface RosterCheckContext {
   sections: Array<{ id: number, code: string }>
   /** Existing accounts by (lower-case) e-mail. */
   accounts: Map<string, RosterAccount>
+  /** Student ids already held in this course's active enrolments → the account holding each. */
+  studentIds: Map<string, number>
 }
 
 export interface CheckedRosterRow extends RosterPreviewRow {
@@ -138,10 +145,11 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
   const sections = new Map(context.sections.map((s) => [sectionKey(s.code), s]))
   const codes = new Map(context.sections.map((s) => [s.id, s.code]))
   const firstRowOf = new Map<string, number>()
+  const firstRowOfId = new Map<string, number>()
   return rows.map((r) => {
     const errors: RosterRowIssue[] = []
     // A cell becomes an account's e-mail or name: one line, no control characters.
-    const unfit = (['email', 'name', 'section'] as const).flatMap((field) => {
+    const unfit = (['email', 'name', 'section', 'studentId'] as const).flatMap((field) => {
       const problem = textInputProblem(field === 'section' ? r.sectionCode : r[field], { singleLine: true })
       return problem ? [{ field, message: problem }] : []
     })
@@ -159,6 +167,7 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
     if (account && account.role !== 'student') {
       errors.push({ field: 'email', message: 'This e-mail belongs to a staff account, not a student' })
     }
+    errors.push(...studentIdProblems(r, account?.userId ?? null, context.studentIds, firstRowOfId))
 
     const base = {
       ...r,
@@ -173,6 +182,22 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
     if (account.activeSectionId === section!.id) return { ...base, outcome: 'unchanged' as const }
     return { ...base, outcome: 'move' as const, fromSectionCode: codes.get(account.activeSectionId) ?? '' }
   })
+}
+
+/** The optional student id: short, once in the file, and not another student's in this course. */
+function studentIdProblems(r: MappedRosterRow, userId: number | null, held: Map<string, number>, firstRowOf: Map<string, number>) {
+  if (!r.studentId) return []
+  if (r.studentId.length > MAX_STUDENT_ID_LENGTH) {
+    return [{ field: 'studentId' as const, message: `Student ID longer than ${MAX_STUDENT_ID_LENGTH} characters` }]
+  }
+  const first = firstRowOf.get(r.studentId)
+  if (first !== undefined) return [{ field: 'studentId' as const, message: `Same student ID as row ${first}` }]
+  firstRowOf.set(r.studentId, r.row)
+  const holder = held.get(r.studentId)
+  if (holder !== undefined && holder !== userId) {
+    return [{ field: 'studentId' as const, message: 'Another student in this course has this student ID' }]
+  }
+  return []
 }
 
 export function summarizeRosterRows(rows: Array<Pick<RosterPreviewRow, 'outcome'>>): RosterSummary {

@@ -404,6 +404,13 @@ describe('the grade CSV', () => {
     const attack = `=cmd|' /C calc'!A0`
     const world = await makeReviewWorld({ sections: 2, studentsPerSection: 4, name: (i, j) => (i === 0 && j === 0 ? attack : `Student ${i}-${j}`) })
     const [r1, r2] = world.sections as [ReviewWorld['sections'][number], ReviewWorld['sections'][number]]
+    // Registrar ids for all but the last student of R2, who shows that a missing id is an empty cell.
+    const idOf = new Map(world.sections.flatMap((s, i) => s.students.map((st, j) => [st.id, `T${i}${j}-${world.courseId}`] as const)))
+    const withoutId = r2.students.at(-1)!
+    for (const [userId, studentId] of idOf) {
+      if (userId === withoutId.id) continue
+      await testDb().updateTable('enrollments').set({ studentId }).where('userId', '=', userId).where('courseId', '=', world.courseId).execute()
+    }
     const accepted = await insertUnitVersion(world, { section: r1, station: 1, factor: 3.2 })
     await insertUnitVersion(world, { section: r2, station: 1, factor: 3.5, late: true })
     const owner = await signInAs(world.owner)
@@ -416,21 +423,28 @@ describe('the grade CSV', () => {
     const lines = text.trim().split('\r\n')
     // OWASP CSV injection guidance: the cell starts with a quote, so no spreadsheet runs it.
     const attackLine = lines.find((l) => l.includes('cmd|'))!
-    expect(attackLine.startsWith(`"'=cmd|' /C calc'!A0",`)).toBe(true)
+    expect(attackLine.startsWith(`"${idOf.get(r1.students[0]!.id)}","'=cmd|' /C calc'!A0",`)).toBe(true)
     // Numbers stay numbers: station, version, factor, scores and total are unquoted.
     expect(attackLine).toContain(',1,1,"Accepted",3.2,9.5,6,3,18.5,"no","no",')
     const parsed = Papa.parse<string[]>(text, { skipEmptyLines: true }).data
     const [header, ...rows] = parsed
-    expect(header).toEqual(['Student', 'E-mail', 'Section', 'Station', 'Version', 'Status', 'Selectivity 2°:1°',
+    // The student id leads, so the sheet can be matched to the registrar's list.
+    expect(header).toEqual(['Student ID', 'Student', 'E-mail', 'Section', 'Station', 'Version', 'Status', 'Selectivity 2°:1°',
       'Selectivity against the literature value (of 10)', 'Chromatogram and peak assignment (of 6)', 'Calculation and discussion (of 4)',
       'Total', 'Late', 'Excluded from class statistics', 'Exclusion reason'])
     // Eight students: both partners of each uploaded unit, and the rest with no submission.
     expect(rows).toHaveLength(8)
-    const partner = rows.find((r) => r[1] === r1.students[1]!.email)!
-    expect(partner.slice(2, 11)).toEqual(['R1', '1', '1', 'Accepted', '3.2', '9.5', '6', '3', '18.5'])
-    const pending = rows.filter((r) => r[2] === 'R2' && r[3] === '1')
-    expect(pending.map((r) => [r[5], r[10], r[11]])).toEqual([['Waiting for review', '', 'yes'], ['Waiting for review', '', 'yes']])
-    expect(rows.filter((r) => r[5] === 'No submission')).toHaveLength(4)
+    const partner = rows.find((r) => r[2] === r1.students[1]!.email)!
+    expect(partner[0]).toBe(idOf.get(r1.students[1]!.id))
+    expect(partner.slice(3, 12)).toEqual(['R1', '1', '1', 'Accepted', '3.2', '9.5', '6', '3', '18.5'])
+    const pending = rows.filter((r) => r[3] === 'R2' && r[4] === '1')
+    expect(pending.map((r) => [r[6], r[11], r[12]])).toEqual([['Waiting for review', '', 'yes'], ['Waiting for review', '', 'yes']])
+    expect(rows.filter((r) => r[6] === 'No submission')).toHaveLength(4)
+    // Every row carries its student's own id; the one student without an id has an empty first cell.
+    for (const r of rows) {
+      const student = world.sections.flatMap((s) => s.students).find((st) => st.email === r[2])!
+      expect(r[0]).toBe(student.id === withoutId.id ? '' : idOf.get(student.id))
+    }
   })
 })
 

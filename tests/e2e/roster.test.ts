@@ -24,7 +24,7 @@ describe('roster import', () => {
     const seen = await preview(client, course.id, file, {}, 'clean.csv')
     expect(seen.status).toBe(200)
     expect(seen.body.columns).toEqual(['First name', 'Last name', 'E-mail', 'Section'])
-    expect(seen.body.mapping).toEqual({ email: 'E-mail', name: null, firstName: 'First name', lastName: 'Last name', section: 'Section' })
+    expect(seen.body.mapping).toEqual({ email: 'E-mail', name: null, firstName: 'First name', lastName: 'Last name', section: 'Section', studentId: null })
     expect(seen.body.rows.map((r) => [r.row, r.name, r.sectionCode, r.outcome])).toEqual([
       [2, 'Marisol Quenby', 'A1', 'new'], [3, 'Teodor Vashti', 'A1', 'new'], [4, 'Wren Oakhurst', 'B1', 'new'], [6, 'Isidore Pemberly', 'B1', 'new'],
     ])
@@ -65,24 +65,23 @@ describe('roster import', () => {
     expect(history.body).toEqual([expect.objectContaining({ id: done.body.importId, fileName: 'clean.csv', by: 'Orla Test-Instructor', summary: done.body.summary })])
   })
 
-  it('refuses a file with bad rows with 422, names every bad row and writes nothing', async () => {
+  it('imports the good rows of a file with bad rows and names every skipped row with its reason', async () => {
     const { course, client } = await makeCourse()
     const file = fixture('bad-rows.csv')
     const seen = await preview(client, course.id, file)
     expect(seen.status).toBe(200)
     expect(seen.body.summary).toEqual({ new: 2, enrol: 0, move: 0, unchanged: 0, errors: 4 })
 
-    const refused = await importFile(client, course.id, file)
-    expect(refused.status).toBe(422)
-    expect(refused.refusal.data?.rows).toEqual([
-      { row: 3, field: 'email', message: 'Not an e-mail address' },
-      { row: 4, field: 'email', message: 'Same e-mail as row 2' },
-      { row: 5, field: 'name', message: 'No name' },
-      { row: 6, field: 'section', message: 'No section “Z9” in this course' },
+    const done = await importFile(client, course.id, file)
+    expect(done.status).toBe(201)
+    expect(done.body.skipped.map((r) => [r.row, r.reasons])).toEqual([
+      [3, ['Not an e-mail address']],
+      [4, ['Same e-mail as row 2']],
+      [5, ['No name']],
+      [6, ['No section “Z9” in this course']],
     ])
-    expect(refused.refusal.statusMessage).toBe('Row 3: Not an e-mail address')
-    expect(await usersWithEmailsLike('%@bad.example')).toEqual([])
-    expect(await courseCounts(course.id)).toEqual({ enrollments: 0, imports: 0 })
+    expect((await usersWithEmailsLike('%@bad.example')).map((u) => u.email)).toEqual(['fine.one@bad.example', 'fine.two@bad.example'])
+    expect(await courseCounts(course.id)).toEqual({ enrollments: 2, imports: 1 })
   })
 
   it('a re-import of the same file creates no duplicates', async () => {

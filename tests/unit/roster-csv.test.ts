@@ -6,9 +6,9 @@ import {
 
 const SECTIONS = [{ id: 1, code: 'M1' }, { id: 2, code: 'T1' }]
 
-function check(text: string, accounts = new Map<string, RosterAccount>()) {
+function check(text: string, accounts = new Map<string, RosterAccount>(), studentIds = new Map<string, number>()) {
   const parsed = parseRosterCsv(text)
-  return checkRosterRows(mapRosterRecords(parsed, suggestRosterMapping(parsed.columns)), { sections: SECTIONS, accounts })
+  return checkRosterRows(mapRosterRecords(parsed, suggestRosterMapping(parsed.columns)), { sections: SECTIONS, accounts, studentIds })
 }
 
 describe('parseRosterCsv', () => {
@@ -46,11 +46,12 @@ describe('parseRosterCsv', () => {
 describe('suggestRosterMapping', () => {
   it('recognises the usual spellings of each header', () => {
     expect(suggestRosterMapping(['E-mail Address', 'Full Name', 'Lab Section'])).toEqual({
-      email: 'E-mail Address', name: 'Full Name', firstName: null, lastName: null, section: 'Lab Section',
+      email: 'E-mail Address', name: 'Full Name', firstName: null, lastName: null, section: 'Lab Section', studentId: null,
     })
     expect(suggestRosterMapping(['Student ID', 'Given name', 'Surname', 'Campus e-mail', 'Sec'])).toEqual({
-      email: 'Campus e-mail', name: null, firstName: 'Given name', lastName: 'Surname', section: 'Sec',
+      email: 'Campus e-mail', name: null, firstName: 'Given name', lastName: 'Surname', section: 'Sec', studentId: 'Student ID',
     })
+    expect(suggestRosterMapping(['Student number', 'Name', 'Email', 'Section']).studentId).toBe('Student number')
   })
 
   it('leaves a field unmapped rather than guessing from an unrelated header', () => {
@@ -60,7 +61,7 @@ describe('suggestRosterMapping', () => {
   })
 
   it('names a mapped column the file does not have', () => {
-    const problems = rosterMappingProblems({ email: 'Mail', name: 'Name', firstName: null, lastName: null, section: 'Gone' }, ['Mail', 'Name'])
+    const problems = rosterMappingProblems({ email: 'Mail', name: 'Name', firstName: null, lastName: null, section: 'Gone', studentId: null }, ['Mail', 'Name'])
     expect(problems).toEqual([{ field: 'section', message: 'The file has no column “Gone”' }])
   })
 })
@@ -104,6 +105,25 @@ describe('checkRosterRows', () => {
     expect(rows[4]!.errors[0]!.message).toMatch(/staff account/)
   })
 
+  it('keeps the student id and refuses one used twice in the file or held by another student of the course', () => {
+    const rows = check([
+      'Student ID,Email,Name,Section',
+      'LS1001,a@x.example,A,M1',
+      'LS1001,b@x.example,B,M1',
+      'LS2002,c@x.example,C,M1',
+      'LS3003,here@x.example,H,M1',
+      ',d@x.example,D,T1',
+      `${'9'.repeat(41)},e@x.example,E,T1`,
+    ].join('\n'), new Map([['here@x.example', { userId: 10, role: 'student', activeSectionId: 1 }]]),
+    new Map([['LS2002', 10], ['LS3003', 10]]))
+    expect(rows.map((r) => [r.studentId, r.outcome])).toEqual([
+      ['LS1001', 'new'], ['LS1001', 'error'], ['LS2002', 'error'], ['LS3003', 'unchanged'], ['', 'new'], ['9'.repeat(41), 'error'],
+    ])
+    expect(rows[1]!.errors).toEqual([{ field: 'studentId', message: 'Same student ID as row 2' }])
+    expect(rows[2]!.errors).toEqual([{ field: 'studentId', message: 'Another student in this course has this student ID' }])
+    expect(rows[5]!.errors).toEqual([{ field: 'studentId', message: 'Student ID longer than 40 characters' }])
+  })
+
   it('keeps a formula-looking cell exactly as written', () => {
     const [row] = check('Email,Name,Section\nf@x.example,"=HYPERLINK(""http://x.example"",""y"")",M1\n')
     expect(row!.name).toBe('=HYPERLINK("http://x.example","y")')
@@ -117,7 +137,7 @@ describe('rosterCapacityConflicts', () => {
     { id: 2, code: 'T1', hoodStations: 1, studentsPerStation: 2, enrolled: 3 },
   ]
   const row = (sectionId: number, outcome: 'new' | 'move' | 'unchanged', fromSectionCode?: string) =>
-    ({ row: 2, email: 'a@x.example', name: 'A', sectionCode: '', errors: [], userId: null, sectionId, outcome, fromSectionCode })
+    ({ row: 2, email: 'a@x.example', name: 'A', sectionCode: '', studentId: '', errors: [], userId: null, sectionId, outcome, fromSectionCode })
 
   it('flags a section the import fills past stations × students per station', () => {
     // 2 stations × 2 = 4 places; 3 + 2 new = 5.

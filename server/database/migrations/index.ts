@@ -11,6 +11,7 @@ import * as loginAttemptsPending from './2026_12_03_1000_login_attempts_pending'
 import * as mailClaims from './2026_12_03_1200_mail_claims'
 import * as calendarFeedHashes from './2026_12_03_1210_calendar_feed_hashes'
 import * as resubmitDue from './2026_12_03_1310_resubmit_due'
+import * as rosterStudentIds from './2026_12_03_1320_roster_student_ids'
 import * as taDailySummary from './2026_12_03_1340_ta_daily_summary'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
@@ -28,5 +29,6 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_1200_mail_claims': mailClaims,
   '2026_12_03_1210_calendar_feed_hashes': calendarFeedHashes,
   '2026_12_03_1310_resubmit_due': resubmitDue,
+  '2026_12_03_1320_roster_student_ids': rosterStudentIds,
   '2026_12_03_1340_ta_daily_summary': taDailySummary,
 }

@@ -68,6 +68,8 @@ export async function seedCourse(ctx: SeedContext): Promise<void> {
         userId: users.get(`student${String(n).padStart(2, '0')}@${DEMO_DOMAIN}`)!,
         station: Math.floor(i / 2) + 1,
         seat: (i % 2) + 1,
+        // Invented registrar ids for the demo: "LS" and seven digits.
+        studentId: `LS${String(2640100 + n * 37).padStart(7, '0')}`,
       }
     })
     await db.insertInto('enrollments').values(enrollments).execute()

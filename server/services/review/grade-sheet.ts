@@ -10,6 +10,7 @@ import { useDb } from '../../utils/db'
 // unit's row; a student with nothing uploaded gets an empty one), made safe for spreadsheets.
 
 interface SheetRow {
+  userId: number
   name: string
   email: string
   section: string
@@ -37,29 +38,39 @@ async function rosterWithoutWork(scope: ReviewerScope, seen: Set<number>): Promi
     .select(['users.id', 'users.name', 'users.email', 'sections.code', 'enrollments.station'])
     .where('enrollments.sectionId', 'in', scope.sessionSectionIds).where('enrollments.status', '=', 'active').execute()
   return students.filter((s) => !seen.has(s.id))
-    .map((s) => ({ name: s.name, email: s.email, section: s.code, station: s.station, unit: null }))
+    .map((s) => ({ userId: s.id, name: s.name, email: s.email, section: s.code, station: s.station, unit: null }))
+}
+
+/** The registrar's id of each student active in the course, so the sheet can be matched to their list. */
+async function studentIdsOf(courseId: number): Promise<Map<number, string>> {
+  const rows = await useDb().selectFrom('enrollments').select(['userId', 'studentId'])
+    .where('courseId', '=', courseId).where('status', '=', 'active').where('studentId', 'is not', null).execute()
+  return new Map(rows.map((r) => [r.userId, r.studentId!]))
 }
 
 export async function buildGradeSheet(scope: ReviewerScope): Promise<{ fileName: string, csv: string }> {
   const { chemistry, rows } = await reviewQueueOf(scope)
   const grades = await acceptedScores(rows)
   const sheet: SheetRow[] = rows.flatMap((unit) => unit.unit.members.map((m) => ({
-    name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit,
+    userId: m.id, name: m.name, email: m.email, section: unit.section.code, station: unit.unit.station, unit,
   })))
   sheet.push(...await rosterWithoutWork(scope, new Set(rows.flatMap((r) => r.unit.members.map((m) => m.id)))))
   sheet.sort((a, b) =>
     a.section.localeCompare(b.section) || (a.station ?? Infinity) - (b.station ?? Infinity) || a.name.localeCompare(b.name))
 
+  const studentIds = await studentIdsOf(scope.course.id)
   const rubric = scope.course.rubric
+  // The student id leads: it is what the registrar's list is matched on.
   const header = [
-    'Student', 'E-mail', 'Section', 'Station', 'Version', 'Status', `Selectivity ${KEY_FACTOR_LABELS[chemistry.keyFactor]}`,
+    'Student ID', 'Student', 'E-mail', 'Section', 'Station', 'Version', 'Status', `Selectivity ${KEY_FACTOR_LABELS[chemistry.keyFactor]}`,
     ...rubric.map((c) => `${c.label} (of ${c.maxPoints})`), 'Total', 'Late', 'Excluded from class statistics', 'Exclusion reason',
   ]
   const body = sheet.map((r): CsvCell[] => {
     const u = r.unit
     const grade = u ? grades.get(u.id) : undefined
     return [
-      r.name, r.email, r.section, r.station, u?.version ?? null, u ? SUBMISSION_STATUS_LABELS[u.status] : 'No submission',
+      studentIds.get(r.userId) ?? null, r.name, r.email, r.section, r.station, u?.version ?? null,
+      u ? SUBMISSION_STATUS_LABELS[u.status] : 'No submission',
       u?.keyFactor == null ? null : Math.round(u.keyFactor * 1000) / 1000,
       ...rubric.map((c) => grade?.scores[c.key] ?? null), grade?.total ?? null,
       u ? (u.late ? 'yes' : 'no') : null, u ? (u.excluded ? 'yes' : 'no') : null, u?.excluded?.reason ?? null,

@@ -4,7 +4,7 @@ import type { Database, Section } from '../../database/schema'
 import { audit, type Actor } from '../../utils/audit'
 import { storeFile, type MultipartUpload } from '../../utils/files'
 import { invalid } from '../../utils/validation'
-import type { EnrollmentAdded, RosterImportResult, SectionRosterView } from '#shared/types/roster'
+import type { EnrollmentAdded, RosterImportResult, RosterSkippedRow, SectionRosterView } from '#shared/types/roster'
 import { planRosterImport, refuseOverCapacity, withRosterRace, writeRosterRows, inviteToCourse,
   type RosterWriteContext } from './roster-import'
 import {
@@ -19,35 +19,41 @@ import {
 type Db = Kysely<Database>
 
 /**
- * The whole roster file or nothing: accounts, enrolments, moves, invitations and their e-mails,
- * the original file and the import record. Every row is checked again inside the transaction,
- * so a stale preview never decides anything.
+ * Every good row of the roster file, in one transaction: accounts, enrolments, moves, invitations
+ * and their e-mails, the original file and the import record with the rows it skipped and why.
+ * Every row is checked again inside the transaction, so a stale preview never decides anything;
+ * a file with no good row is refused whole.
  */
 export async function importRoster(db: Db, actor: Actor, ctx: RosterWriteContext, upload: MultipartUpload, confirmConflicts: boolean) {
   return withRosterRace(() => db.transaction().execute(async (trx): Promise<RosterImportResult> => {
     const plan = await planRosterImport(trx, ctx.course.id, upload)
     if (plan.mappingIssues.length) invalid(plan.mappingIssues, 422)
     const bad = plan.rows.filter((r) => r.outcome === 'error')
-    if (bad.length) {
+    if (bad.length === plan.rows.length) {
       const rows = bad.flatMap((r) => r.errors.map((e) => ({ row: r.row, field: e.field, message: e.message })))
-      throw createError({ statusCode: 422, statusMessage: `Row ${rows[0]!.row}: ${rows[0]!.message}`, data: { rows } })
+      const first = `Row ${rows[0]!.row}: ${rows[0]!.message}`
+      throw createError({ statusCode: 422, statusMessage: `No row can be imported. ${first}`, data: { rows } })
     }
     refuseOverCapacity(plan.conflicts, confirmConflicts)
 
-    const { invited, moved } = await writeRosterRows(trx, ctx, plan.rows)
+    const { invited, moved } = await writeRosterRows(trx, ctx, plan.rows.filter((r) => r.outcome !== 'error'))
     const fileId = await storeFile(trx, upload.file, ctx.me.id, 'text/csv')
     const summary = plan.summary
+    const skipped: RosterSkippedRow[] = bad.map((r) => ({
+      row: r.row, email: r.email, name: r.name, sectionCode: r.sectionCode, studentId: r.studentId, reasons: r.errors.map((e) => e.message),
+    }))
     const row = await trx.insertInto('rosterImports').values({
-      courseId: ctx.course.id, fileId, mapping: JSON.stringify(plan.mapping), summary: JSON.stringify(summary), createdBy: ctx.me.id,
+      courseId: ctx.course.id, fileId, mapping: JSON.stringify(plan.mapping), summary: JSON.stringify(summary),
+      skipped: JSON.stringify(skipped), createdBy: ctx.me.id,
     }).returning('id').executeTakeFirstOrThrow()
     await audit(trx, actor, {
       action: 'roster.import', entity: 'course', entityId: ctx.course.id,
       after: {
         importId: row.id, fileId, fileName: upload.file.name, summary, invited, moved,
-        conflictsConfirmed: plan.conflicts.map((c) => c.message),
+        skippedRows: skipped.map((r) => r.row), conflictsConfirmed: plan.conflicts.map((c) => c.message),
       },
     })
-    return { importId: row.id, summary }
+    return { importId: row.id, summary, skipped }
   }), 'The roster changed while importing. Preview the file again.')
 }
 

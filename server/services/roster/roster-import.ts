@@ -8,6 +8,7 @@ import {
 import {
   rosterMappingSchema, type RosterConflictView, type RosterImportHistoryItem, type RosterMapping, type RosterSummary,
 } from '#shared/types/roster'
+import { toSafeCsv } from '#shared/utils/csv-safe'
 import { uploadAsText } from '../../utils/files'
 import { invalid } from '../../utils/validation'
 import { invitationExpiry, issueInvitation, queueInvitationMail, type InvitingCourse } from './invitations'
@@ -50,6 +51,12 @@ async function rosterAccounts(db: Db, courseId: number, emails: string[]): Promi
   return accounts
 }
 
+async function rosterStudentIds(db: Db, courseId: number): Promise<Map<string, number>> {
+  const rows = await db.selectFrom('enrollments').select(['studentId', 'userId'])
+    .where('courseId', '=', courseId).where('status', '=', 'active').where('studentId', 'is not', null).execute()
+  return new Map(rows.map((r) => [r.studentId!, r.userId]))
+}
+
 function mappingOverride(raw: string | undefined): Partial<RosterMapping> {
   if (!raw) return {}
   let parsed: unknown
@@ -81,7 +88,7 @@ export async function planRosterImport(db: Db, courseId: number, upload: Multipa
   const mapped = mapRosterRecords(parsed, mapping)
   const sections = await rosterSections(db, courseId)
   const accounts = await rosterAccounts(db, courseId, [...new Set(mapped.map((r) => r.email).filter(Boolean))])
-  const rows = checkRosterRows(mapped, { sections, accounts })
+  const rows = checkRosterRows(mapped, { sections, accounts, studentIds: await rosterStudentIds(db, courseId) })
   return { ...base, rows, summary: summarizeRosterRows(rows), conflicts: rosterCapacityConflicts(sections, rows) }
 }
 
@@ -109,13 +116,19 @@ export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWri
   const enrolling = rows.filter((r) => r.outcome === 'new' || r.outcome === 'enrol')
   if (enrolling.length) {
     await trx.insertInto('enrollments').values(enrolling.map((r) => ({
-      courseId: ctx.course.id, sectionId: r.sectionId!, userId: r.userId ?? idOf.get(r.email)!,
+      courseId: ctx.course.id, sectionId: r.sectionId!, userId: r.userId ?? idOf.get(r.email)!, studentId: r.studentId || null,
     }))).execute()
   }
   const moves = rows.filter((x) => x.outcome === 'move')
   for (const r of moves) {
     await trx.updateTable('enrollments').set({ sectionId: r.sectionId!, station: null, seat: null })
       .where('courseId', '=', ctx.course.id).where('userId', '=', r.userId!).where('status', '=', 'active').execute()
+  }
+  // A student already in place gets the id the file gives them; an empty cell never erases one.
+  for (const r of rows.filter((x) => (x.outcome === 'move' || x.outcome === 'unchanged') && x.studentId)) {
+    await trx.updateTable('enrollments').set({ studentId: r.studentId })
+      .where('courseId', '=', ctx.course.id).where('userId', '=', r.userId!).where('status', '=', 'active')
+      .where((eb) => eb.or([eb('studentId', 'is', null), eb('studentId', '!=', r.studentId)])).execute()
   }
   const toInvite = [
     ...fresh.map((r) => ({ userId: idOf.get(r.email)!, email: r.email, name: r.name })),
@@ -180,7 +193,8 @@ export async function rosterImportHistory(db: Db, courseId: number): Promise<Ros
   const rows = await db.selectFrom('rosterImports')
     .innerJoin('files', 'files.id', 'rosterImports.fileId')
     .leftJoin('users', 'users.id', 'rosterImports.createdBy')
-    .select(['rosterImports.id', 'rosterImports.createdAt', 'rosterImports.summary', 'files.originalName', 'users.name'])
+    .select(['rosterImports.id', 'rosterImports.createdAt', 'rosterImports.summary', 'rosterImports.skipped', 'files.originalName',
+      'users.name'])
     .where('rosterImports.courseId', '=', courseId)
     .orderBy('rosterImports.createdAt', 'desc').orderBy('rosterImports.id', 'desc')
     .limit(100).execute()
@@ -190,5 +204,15 @@ export async function rosterImportHistory(db: Db, courseId: number): Promise<Ros
     by: r.name,
     fileName: r.originalName,
     summary: r.summary,
+    skipped: r.skipped,
   }))
+}
+
+/** One import's skipped rows as CSV (404 when the import is not this course's). */
+export async function skippedRowsCsv(db: Db, courseId: number, importId: number): Promise<string> {
+  const record = await db.selectFrom('rosterImports').select('skipped')
+    .where('id', '=', importId).where('courseId', '=', courseId).executeTakeFirst()
+  if (!record) throw createError({ statusCode: 404, statusMessage: 'No such roster import in this course' })
+  return toSafeCsv(['Row', 'Student ID', 'Name', 'E-mail', 'Section', 'Reason'],
+    record.skipped.map((r) => [r.row, r.studentId, r.name, r.email, r.sectionCode, r.reasons.join('; ')]))
 }

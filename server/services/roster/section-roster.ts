@@ -19,7 +19,7 @@ const byName = (a: { name: string, id: number }, b: { name: string, id: number }
 export async function loadSectionRoster(db: Db, section: Section): Promise<SectionRosterView> {
   const rows = await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
     .select(['enrollments.id', 'enrollments.userId', 'enrollments.status', 'enrollments.station', 'enrollments.seat',
-      'enrollments.withdrawnAt', 'users.name', 'users.email', 'users.passwordHash'])
+      'enrollments.withdrawnAt', 'enrollments.studentId', 'users.name', 'users.email', 'users.passwordHash'])
     .where('enrollments.sectionId', '=', section.id).execute()
   const userIds = [...new Set(rows.map((r) => r.userId))]
   const latest = userIds.length
@@ -33,6 +33,7 @@ export async function loadSectionRoster(db: Db, section: Section): Promise<Secti
     userId: r.userId,
     name: r.name,
     email: r.email,
+    studentId: r.studentId,
     status: r.status,
     station: r.station,
     seat: r.seat,

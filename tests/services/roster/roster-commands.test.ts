@@ -25,14 +25,29 @@ async function rosterWorld() {
 const usersWith = (emails: string[]) => testDb().selectFrom('users').select(['id', 'email']).where('email', 'in', emails).execute()
 
 describe('importRoster', () => {
-  it('writes nothing when one row is bad, naming the row', async () => {
+  it('imports the good row with its student id and keeps the bad one, with row and reason, on the import record', async () => {
     const { actor, ctx, course } = await rosterWorld()
     const good = `ada-${randomUUID().slice(0, 8)}@test.example`
-    const csv = `Name,Email,Section\nAda Lindqvist,${good},L01\nBo Okafor,not-an-address,L01\n`
+    const csv = `Name,Email,Section,Student ID\nAda Lindqvist,${good},L01,LS0000101\nBo Okafor,not-an-address,L01,LS0000102\n`
+    const result = await importRoster(testDb(), actor, ctx, upload(csv), false)
+    expect(result.skipped).toEqual([{
+      row: 3, email: 'not-an-address', name: 'Bo Okafor', sectionCode: 'L01', studentId: 'LS0000102', reasons: ['Not an e-mail address'],
+    }])
+    const [user] = await usersWith([good])
+    const enrolment = await testDb().selectFrom('enrollments').select('studentId').where('userId', '=', user!.id).executeTakeFirstOrThrow()
+    expect(enrolment.studentId).toBe('LS0000101')
+    const record = await testDb().selectFrom('rosterImports').select('skipped').where('id', '=', result.importId).executeTakeFirstOrThrow()
+    expect(record.skipped).toEqual(result.skipped)
+    const [row] = await auditRows('roster.import', course.id)
+    expect(row!.after).toMatchObject({ skippedRows: [3], summary: { new: 1, errors: 1 } })
+  })
+
+  it('writes nothing when no row is good, naming the first bad row', async () => {
+    const { actor, ctx, course } = await rosterWorld()
+    const csv = 'Name,Email,Section\nBo Okafor,not-an-address,L01\nCy Marsh,,L01\n'
     const jobsBefore = queuedJobs.length
     await expect(importRoster(testDb(), actor, ctx, upload(csv), false))
-      .rejects.toMatchObject({ statusCode: 422, data: { rows: [{ row: 3 }] } })
-    expect(await usersWith([good])).toEqual([])
+      .rejects.toMatchObject({ statusCode: 422, data: { rows: [{ row: 2 }, { row: 3 }] } })
     expect(await testDb().selectFrom('rosterImports').select('id').where('courseId', '=', course.id).execute()).toEqual([])
     expect(await auditRows('roster.import', course.id)).toEqual([])
     expect(queuedJobs.length).toBe(jobsBefore)
