@@ -74,7 +74,7 @@ describe('sending a run back', () => {
     expect(mine.body.sentBack).toMatchObject({ version: 1, reason, dueAt: newDue })
     expect(mine.body.uploadDueAt).toBe(newDue)
     expect(mine.body.pastDue).toBe(false)
-    expect(mine.body.versions[0].review).toMatchObject({ decision: 'return', resubmitDueAt: newDue })
+    expect(mine.body.versions[0]?.review).toMatchObject({ decision: 'return', resubmitDueAt: newDue })
   })
 
   it('a resubmission after the original due time but before the new one is not late', async () => {
