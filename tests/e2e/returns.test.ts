@@ -74,7 +74,7 @@ describe('sending a run back', () => {
     expect(mine.body.sentBack).toMatchObject({ version: 1, reason, dueAt: newDue })
     expect(mine.body.uploadDueAt).toBe(newDue)
     expect(mine.body.pastDue).toBe(false)
-    expect(mine.body.versions[0].review).toMatchObject({ decision: 'return', resubmitDueAt: newDue })
+    expect(mine.body.versions[0]?.review).toMatchObject({ decision: 'return', resubmitDueAt: newDue })
   })
 
   it('a resubmission after the original due time but before the new one is not late', async () => {
@@ -102,5 +102,32 @@ describe('sending a run back', () => {
     expect(refused.status).toBe(400)
     expect(refused.refusal.data?.field).toBe('resubmitDueAt')
     expect(await testDb().selectFrom('reviews').select('id').where('submissionId', '=', latest.id).execute()).toEqual([])
+  })
+})
+
+describe('the course setting for the days a return gives', () => {
+  it('is saved from the settings, checked, and offered in the decision panel', async () => {
+    const world = await makeReviewWorld({ sections: 1, studentsPerSection: 2 })
+    const owner = await signInAs(world.owner)
+    const course = await owner.get(`/api/courses/${world.courseId}`)
+    expect(course.body.resubmitDays).toBe(3)
+    const { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, rubric } = course.body
+    const settings = { outlierTest, outlierAlpha, zscoreLimit, accuracyTolerancePercent, releasePolicy, rubric }
+    const refused = await owner.request(`/api/courses/${world.courseId}/settings`, { method: 'PUT', json: { ...settings, resubmitDays: 61 } })
+    expect(refused.status).toBe(400)
+    expect(refused.refusal.data?.field).toBe('resubmitDays')
+    const saved = await owner.request(`/api/courses/${world.courseId}/settings`, { method: 'PUT', json: { ...settings, resubmitDays: 7 } })
+    expect(saved.status).toBeLessThan(300)
+    expect((await owner.get(`/api/courses/${world.courseId}`)).body.resubmitDays).toBe(7)
+    // Left out, the course keeps its own.
+    await owner.request(`/api/courses/${world.courseId}/settings`, { method: 'PUT', json: settings })
+    expect((await owner.get(`/api/courses/${world.courseId}`)).body.resubmitDays).toBe(7)
+
+    const upload = await uploadAs(await signInAs(world.sections[0]!.students[0]!), world.practicalId, reviewPeakTable(world, 21))
+    const detail = await owner.get(`/api/submissions/${(upload.body as { id: number }).id}`)
+    expect(detail.body.resubmit.days).toBe(7)
+    const ms = Date.parse(detail.body.resubmit.defaultDueAt) - Date.now()
+    expect(ms).toBeGreaterThan(6 * 24 * HOUR)
+    expect(ms).toBeLessThan(8 * 24 * HOUR)
   })
 })
