@@ -65,6 +65,8 @@ export interface CourseCopyPreview {
   settings: { outlierTest: string, releasePolicy: string, rubric: string[] }
   sections: CopiedSectionView[]
   practicals: CopiedPracticalView[]
+  /** Rooms or kept TAs the new sections would share with other sections at the same time (checked again on the new course's page). */
+  conflicts: string[]
   /** What stays with the old term, each with its count (the noun's plural adds an "s"). */
   notCopied: Array<{ noun: string, count: number, note: string }>
 }

@@ -6,6 +6,7 @@ import { invalid } from '../../utils/validation'
 import type { CopiedPracticalView, CopiedSectionView, CourseCopyPreview, courseCopySchema } from '#shared/types/course-copy'
 import { sectionMeetings } from '#shared/utils/schedule'
 import { shiftTimetable, type TermShift } from '#shared/utils/term-shift'
+import { conflictsOfNewSections } from '../sections'
 
 // Copying a course into a new term: its settings and rubric, its practicals (library choices,
 // scale, sessions) and its sections' pattern, every date moved by the same whole number of weeks
@@ -115,7 +116,7 @@ function previewOf(course: Course, input: CourseCopyFields, source: Source, shif
     from: { id: course.id, code: course.code, title: course.title, term: course.term },
     term: input.term, start: input.start, end: input.end, timezone: course.timezone, weeks: shift.weeks,
     settings: { outlierTest: course.outlierTest, releasePolicy: course.releasePolicy, rubric: course.rubric.map((r) => r.label) },
-    sections, practicals, notCopied,
+    sections, practicals, notCopied, conflicts: [],
   }
 }
 
@@ -124,12 +125,23 @@ async function refuseTakenTerm(db: Db, course: Course, term: string) {
   if (clash) invalid([{ field: 'term', message: `${course.code} already exists for ${term}` }], 409)
 }
 
+/** Rooms and (kept) TAs the copy's sections would share with other sections at the same time. */
+async function copyConflicts(db: Db, course: Course, input: CourseCopyFields, source: Source, shift: TermShift) {
+  const moved = new Map(shift.sections.map((s) => [s.id, s]))
+  const candidates = source.sections.map((s, i) => ({
+    ...s, ...moved.get(s.id)!, id: -(i + 1), skippedDates: [], courseCode: `${course.code} (${input.term})`, timezone: course.timezone,
+    taIds: input.keepTas ? source.tas.filter((t) => t.sectionId === s.id).map((t) => t.id) : [], enrolled: 0,
+  }))
+  return (await conflictsOfNewSections(candidates, db as Kysely<Database>)).map((c) => c.message)
+}
+
 /** The copy as it would be saved; writes nothing. */
 export async function previewCourseCopy(db: Kysely<Database>, course: Course, input: CourseCopyFields): Promise<CourseCopyPreview> {
   await refuseTakenTerm(db, course, input.term)
   const source = await loadSource(db, course)
   const shift = planOf(course, input, source)
-  return previewOf(course, input, source, shift, await leftBehind(db, course, source, input.keepTas))
+  const preview = previewOf(course, input, source, shift, await leftBehind(db, course, source, input.keepTas))
+  return { ...preview, conflicts: await copyConflicts(db, course, input, source, shift) }
 }
 
 /** Writes the copy (course, owner, sections, practicals with items and sessions) and its audit row; returns the new course's id. */

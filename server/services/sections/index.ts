@@ -3,4 +3,4 @@
 export { calendarFeed, calendarFeedUrl, calendarOwner, calendarToken, resetCalendarFeed } from './calendar-feed'
 export { scheduleEntries } from './schedule'
 export { createSection, deleteSection, updateSection } from './section-commands'
-export { conflictsFor, meetingsOf, sectionRows, sectionViews } from './section-rows'
+export { conflictsFor, conflictsOfNewSections, meetingsOf, sectionRows, sectionViews } from './section-rows'

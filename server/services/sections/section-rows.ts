@@ -76,6 +76,14 @@ export async function conflictsFor(sectionIds: number[], candidate?: SectionRow,
   return findConflicts(entries, names).filter((c) => c.sectionIds.some((id) => focus.has(id)))
 }
 
+/** Conflicts that sections not yet written (say, a course's copy in a new term) would bring; give them ids below 0. */
+export async function conflictsOfNewSections(candidates: SectionRow[], db: Kysely<Database> = useDb()): Promise<Conflict[]> {
+  if (!candidates.length) return []
+  const all = [...(await sectionRows(db).execute()) as SectionRow[], ...candidates]
+  const names = await taNames(db, [...new Set(all.flatMap((r) => r.taIds))])
+  return findConflicts(all.map(scheduled), names).filter((c) => c.sectionIds.some((id) => id < 0))
+}
+
 export async function sectionViews(where: { courseId?: number, ids?: number[] }, db: Kysely<Database> = useDb()): Promise<SectionView[]> {
   let query = sectionRows(db)
   if (where.courseId !== undefined) query = query.where('sections.courseId', '=', where.courseId)
