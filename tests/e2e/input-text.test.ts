@@ -26,7 +26,7 @@ function routeFiles(dir = API): string[] {
 const readsInput = (file: string) => /readBodyAs\(|readUpload\(/.test(readFileSync(join(API, file), 'utf8'))
 
 // Routes whose body holds numbers only: nothing to sweep (their schemas still refuse junk).
-const NO_TEXT = new Set(['enrollments/[id].patch.ts', 'stockroom/items/[id]/reagent.put.ts'])
+const NO_TEXT = new Set(['enrollments/[id].patch.ts', 'stockroom/items/[id]/reagent.put.ts', 'account/daily-summary.put.ts'])
 // Fields where several lines are legitimate (notes, comments, reasons, an address).
 const MULTI_LINE = new Set(['notes', 'storageNotes', 'comment', 'reason', 'deliverTo', 'source@methods', 'currentPassword', 'newPassword', 'password'])
 
@@ -94,6 +94,7 @@ beforeAll(async () => {
     'courses/[id]/roster/preview.post.ts': upload(`/api/courses/${c}/roster/preview`, () => owner, roster, { mapping: '{"email":"email"}' }),
     'courses/[id]/roster/import.post.ts': upload(`/api/courses/${c}/roster/import`, () => owner, roster, { mapping: '{"email":"email"}', confirmConflicts: 'false' }),
     'sections/[id].patch.ts': json('PATCH', `/api/sections/${section.id}`, () => owner, { ...sectionBody, code: 'S1' }),
+    'courses/[id]/tas.post.ts': json('POST', `/api/courses/${c}/tas`, () => owner, { email: `ta-${uid}@test.example`, name: 'New TA', sectionIds: [section.id] }),
     'sections/[id]/enrollments.post.ts': json('POST', `/api/sections/${section.id}/enrollments`, () => owner, { email: `new-${uid}@test.example`, name: 'New Student' }),
     'practicals/[id].patch.ts': json('PATCH', `/api/practicals/${p}`, () => owner, { title: 'Renamed practical', notes: 'Bring goggles' }),
     'practicals/[id]/digests.post.ts': json('POST', `/api/practicals/${p}/digests`, () => owner, { sectionIds: [section.id], sendAt: '2099-01-05T10:00:00Z' }),
