@@ -77,8 +77,25 @@ export interface OrderSheetsTable {
   sentBy: number | null
   receivedOn: string | null
   receivedBy: number | null
+  /** Never in a supplier's message. */
+  internalNotes: Generated<string>
+  /** Set when the coordinator closed the lines still open: why, when, who. */
+  closedReason: string | null
+  closedAt: Timestamp | null
+  closedBy: number | null
   createdAt: CreatedAt
   updatedAt: UpdatedAt
+}
+
+/** One delivery of one line (part or all of it); a catalog line's receipt made a lot. */
+export interface OrderReceiptsTable {
+  id: Generated<number>
+  orderLineId: number
+  receivedOn: string
+  containers: number
+  lotId: number | null
+  receivedBy: number | null
+  createdAt: CreatedAt
 }
 
 export interface OrderLinesTable {
@@ -96,6 +113,14 @@ export interface OrderLinesTable {
   note: Generated<string>
 }
 
+/** A proposed item-to-reagent link the coordinator dismissed. */
+export interface ItemLinkDismissalsTable {
+  practicalItemId: number
+  reagentId: number
+  dismissedBy: number | null
+  dismissedAt: CreatedAt
+}
+
 export interface StockroomSettingsTable {
   id: Generated<number>
   rinseMlPerUnit: Generated<number>
@@ -109,6 +134,8 @@ export interface StockroomTables {
   reagentUsage: ReagentUsageTable
   orderSheets: OrderSheetsTable
   orderLines: OrderLinesTable
+  orderReceipts: OrderReceiptsTable
+  itemLinkDismissals: ItemLinkDismissalsTable
   stockroomSettings: StockroomSettingsTable
 }
 
@@ -117,3 +144,4 @@ export type ReagentLot = Selectable<ReagentLotsTable>
 export type ReagentUsage = Selectable<ReagentUsageTable>
 export type OrderSheet = Selectable<OrderSheetsTable>
 export type OrderLine = Selectable<OrderLinesTable>
+export type OrderReceipt = Selectable<OrderReceiptsTable>

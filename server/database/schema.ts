@@ -78,6 +78,9 @@ export interface MailMessagesTable {
   claimedAt: Timestamp | null
   /** Attempts whose outcome was never known; each was followed by one with the same Message-ID. */
   unknownOutcomes: Generated<number>
+  /** Where answers go (the sender), and who gets a copy. */
+  replyTo: string | null
+  ccAddresses: Generated<string[]>
   createdAt: CreatedAt
   updatedAt: UpdatedAt
 }

@@ -8,6 +8,9 @@ export interface OutgoingMail {
   key: string
   kind: string
   to: string[]
+  /** Where an answer goes, and a copy of the message. */
+  replyTo?: string | null
+  cc?: string[]
   subject: string
   text: string
   html?: string
@@ -97,6 +100,8 @@ export async function queueMail(db: Kysely<Database> | Transaction<Database>, ma
       dedupeKey: mail.key,
       kind: mail.kind,
       toAddresses: mail.to,
+      replyTo: mail.replyTo ?? null,
+      ccAddresses: mail.cc ?? [],
       subject: mail.subject,
       textBody: mail.text,
       htmlBody: mail.html ?? null,

@@ -32,6 +32,8 @@ export async function sendClaimed(row: MailRow): Promise<SendOutcome> {
     const info = await mailTransport().sendMail({
       from: useRuntimeConfig().smtp.from,
       to: row.toAddresses,
+      cc: row.ccAddresses?.length ? row.ccAddresses : undefined,
+      replyTo: row.replyTo ?? undefined,
       subject: row.subject,
       text: row.textBody,
       html: row.htmlBody ?? undefined,

@@ -181,6 +181,9 @@ export const itemLinkInputSchema = z.object({
 })
 export type ItemLinkInput = z.input<typeof itemLinkInputSchema>
 
+/** The coordinator says a proposed link is wrong: it is not proposed again. */
+export const linkDismissSchema = z.object({ reagentId: recordId('Pick a reagent from the list') })
+
 // ── Forecast ────────────────────────────────────────────────────────────────────────────
 
 export const FORECAST_MAX_DAYS = 366
@@ -268,9 +271,11 @@ export interface UnlinkedItem {
   courseCode: string
   role: string
   name: string
-  /** A catalog reagent with the same structure or name, if there is one. */
+  /** A catalog reagent with the same structure or name, if there is one: proposed, linked only when confirmed. */
   suggestedReagentId: number | null
   suggestedReagentName: string | null
+  /** Why it is proposed. */
+  suggestedBecause: 'structure' | 'name' | null
 }
 
 export interface ForecastAnswer {
@@ -327,6 +332,8 @@ export type OrderLineInput = z.input<typeof orderLineInputSchema>
 export const orderPatchSchema = z.object({
   title: lineText(160, 'Give the sheet a title').optional(),
   notes: blockText(2000).optional(),
+  /** For the stockroom only: never in a supplier's message. */
+  internalNotes: blockText(2000).optional(),
   lines: z.array(orderLineInputSchema).max(200, 'At most 200 lines').optional(),
 }).refine((v) => Object.keys(v).length > 0, 'Change at least one field')
 export type OrderPatch = z.input<typeof orderPatchSchema>
@@ -344,6 +351,12 @@ export const receiveInputSchema = z.object({
   lines: z.array(receiveLineSchema).max(200, 'At most 200 lines'),
 })
 export type ReceiveInput = z.input<typeof receiveInputSchema>
+
+/** What is still open will not come: the order is closed, and the reason kept and shown. */
+export const closeOrderSchema = z.object({
+  reason: lineText(300, 'Say why the rest will not come'),
+})
+export type CloseOrderInput = z.input<typeof closeOrderSchema>
 
 export const settingsInputSchema = z.object({
   rinseMlPerUnit: z.number({ error: 'Enter the allowance in mL' }).finite().min(0, 'Zero or more').max(1000, 'At most 1000 mL'),
@@ -456,6 +469,18 @@ export interface OrderLineView {
   unit: OrderUnitName
   note: string
   hazards: HazardKey[]
+  /** Containers delivered so far, and still to come (0 once the sheet is received or closed). */
+  received: number
+  open: number
+}
+
+export interface OrderReceiptView {
+  id: number
+  lineId: number
+  receivedOn: string
+  containers: number
+  lotId: number | null
+  receivedBy: string | null
 }
 
 export interface OrderSummary {
@@ -469,10 +494,20 @@ export interface OrderSummary {
   createdAt: string
   sentAt: string | null
   receivedOn: string | null
+  /** Requested, and some of it has come. */
+  partlyReceived: boolean
 }
 
 export interface OrderDetail extends OrderSummary {
   notes: string
+  internalNotes: string
+  receipts: OrderReceiptView[]
+  /** Lines still open when the coordinator closed the order: why, when, by whom. */
+  closedReason: string | null
+  closedAt: string | null
+  closedBy: string | null
+  /** The purchase requests as queued: to whom, and what became of each message. */
+  requests: Array<{ supplierEmail: string, supplierName: string, lineCount: number, status: string | null, sentAt: string | null }>
   lines: OrderLineView[]
   createdBy: string | null
   sentBy: string | null

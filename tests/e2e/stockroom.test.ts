@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { Client, DEMO, signedIn, type Answer, type Reply } from '../support/http'
+import { Client, DEMO, expectOk, signedIn, type Answer } from '../support/http'
 import { closeTestDb, createUser, testDb } from '../support/db'
 import { allSent, eventually, mailTo } from '../support/services'
 
@@ -25,12 +25,6 @@ const uid = randomUUID().slice(0, 8)
 
 beforeAll(async () => { coordinator = await signedIn(DEMO.coordinator) })
 afterAll(closeTestDb)
-
-async function expectOk<T>(reply: Promise<Reply<T>>, status = 200): Promise<T> {
-  const r = await reply
-  expect(r.status, JSON.stringify(r.body)).toBe(status)
-  return r.body
-}
 
 describe('who may use the stockroom', () => {
   const READS = ['/api/stockroom/forecast?from=2027-01-01&to=2027-01-28', '/api/stockroom/reagents', '/api/stockroom/overview', '/api/stockroom/orders', '/api/stockroom/settings']
@@ -351,15 +345,18 @@ describe('order sheets', () => {
         { lineId: byReagent(hand.dryingId)!.id, containers: 0 },
       ],
     }))
-    expect(received.status).toBe('received')
+    // The drying agent did not come: the order stays open until it does or the rest is closed.
+    expect(received.status).toBe('sent')
+    expect(received.lines.find((l) => l.reagentId === hand.dryingId)).toMatchObject({ received: 0, open: 1 })
+    expect((await expectOk(coordinator.post(`/api/stockroom/orders/${draft.id}/close`, { reason: 'Drying agent back-ordered' }))).status).toBe('received')
     expect(received.lots.map((l) => [l.reagentId, l.quantity, l.unit]).sort()).toEqual([[formula.id, 300, 'g'], [hand.alkaneId, 50, 'mL']].sort())
     const formulaLot = await testDb().selectFrom('reagentLots').selectAll().where('reagentId', '=', formula.id).executeTakeFirstOrThrow()
     expect(formulaLot).toMatchObject({ containers: 3, lotCode: 'NEW-2', receivedOn })
     // Shelf life 12 months from the received date.
     expect(formulaLot.expiresOn!.slice(0, 4)).toBe(String(Number(receivedOn.slice(0, 4)) + 1))
-    expect((await coordinator.post(`/api/stockroom/orders/${draft.id}/receive`, { receivedOn, lines: [] })).status).toBe(409)
+    expect((await coordinator.post(`/api/stockroom/orders/${draft.id}/receive`, { receivedOn, lines: [{ lineId: byReagent(hand.dryingId)!.id, containers: 1 }] })).status).toBe(409)
     const audit = await testDb().selectFrom('auditLog').select('action').where('entity', '=', 'order_sheet').where('entityId', '=', String(draft.id)).execute()
-    expect(audit.map((a) => a.action)).toEqual(expect.arrayContaining(['order.create', 'order.update', 'order.send', 'order.receive']))
+    expect(audit.map((a) => a.action)).toEqual(expect.arrayContaining(['order.create', 'order.update', 'order.send', 'order.receive', 'order.close']))
 
     // The forecast now counts the new bottles: nothing short of the alkane in that range.
     const after = await expectOk(coordinator.get(`/api/stockroom/forecast?from=${base}&to=${plusDays(base, 13)}&courseId=${hand.courseId}`))

@@ -1,4 +1,4 @@
-import { inject } from 'vitest'
+import { expect, inject } from 'vitest'
 import type { TypedInternalResponse } from 'nitropack/types'
 
 type Method = 'get' | 'head' | 'post' | 'put' | 'patch' | 'delete'
@@ -108,4 +108,11 @@ export async function signedIn(email: string, password?: string) {
   const client = new Client()
   await client.login(email, password)
   return client
+}
+
+/** The body of a reply that must have this status (200 unless told); the body is shown when not. */
+export async function expectOk<T>(reply: Promise<Reply<T>>, status = 200): Promise<T> {
+  const r = await reply
+  expect(r.status, JSON.stringify(r.body)).toBe(status)
+  return r.body
 }

@@ -71,14 +71,19 @@ export async function stockroomCards(me: SessionUser): Promise<OverviewCard[]> {
   const today = stockroomToday()
   const forecast = await loadForecast(useDb(), me, { from: today, to: isoDay(27), today })
   const short = forecast.lines.filter((l) => l.containers > 0)
+  // Items not linked to the catalog are not in the figures: say so rather than "covered".
+  const notCounted = forecast.unlinkedItems.length
+  const covered = notCounted
+    ? `${plural(notCounted, 'item')} not counted (not linked to the catalog).`
+    : 'Stock on hand covers the schedule.'
   return [
     {
       title: 'To order for the next four weeks',
       value: plural(short.reduce((n, l) => n + l.containers, 0), 'container'),
-      detail: short.length ? short.map((l) => l.name).join(', ') : 'Stock on hand covers the schedule.',
+      detail: short.length ? `${short.map((l) => l.name).join(', ')}${notCounted ? `; ${covered}` : ''}` : covered,
       to: '/stockroom/forecast',
       action: 'Open the forecast',
-      tone: short.length ? 'warning' : 'ok',
+      tone: short.length || notCounted ? 'warning' : 'ok',
     },
     {
       title: 'Halogenated waste expected',

@@ -4,7 +4,7 @@ import { createError } from 'h3'
 import type { Database } from '../../database/schema'
 import type { Reagent } from '../../database/schema-stockroom'
 import {
-  reagentRuleIssues, type itemLinkInputSchema, type reagentInputSchema, type reagentPatchSchema,
+  reagentRuleIssues, type itemLinkInputSchema, type linkDismissSchema, type reagentInputSchema, type reagentPatchSchema,
 } from '#shared/types/stockroom'
 import { audit, type Actor } from '../../utils/audit'
 import { invalid } from '../../utils/validation'
@@ -93,4 +93,17 @@ export async function linkItemToReagent(db: Kysely<Database>, actor: Actor, item
     await audit(trx, actor, { action: 'practical_item.reagent', entity: 'practical_item', entityId: itemId, before, after })
   })
   return { practicalItemId: itemId, ...after }
+}
+
+/** A proposed link the coordinator says is wrong: remembered, so the forecast proposes it no more. */
+export async function dismissItemLink(db: Kysely<Database>, actor: Actor, itemId: number, input: z.output<typeof linkDismissSchema>) {
+  const item = await db.selectFrom('practicalItems').select('id').where('id', '=', itemId).executeTakeFirst()
+  if (!item) throw createError({ statusCode: 404, statusMessage: 'Practical item not found' })
+  await requireReagent(db, input.reagentId).catch(() => invalid([{ field: 'reagentId', message: 'Not a reagent in the catalog' }]))
+  await db.transaction().execute(async (trx) => {
+    await trx.insertInto('itemLinkDismissals').values({ practicalItemId: itemId, reagentId: input.reagentId, dismissedBy: actor.id })
+      .onConflict((oc) => oc.columns(['practicalItemId', 'reagentId']).doNothing()).execute()
+    await audit(trx, actor, { action: 'practical_item.dismiss_link', entity: 'practical_item', entityId: itemId, after: input })
+  })
+  return { practicalItemId: itemId, dismissedReagentId: input.reagentId }
 }

@@ -83,24 +83,38 @@ const forecastReagentOf = (r: Reagent): ForecastReagent => ({
 
 const normalName = (name: string) => name.trim().toLowerCase().replace(/^(anhydrous|aqueous)\s+/, '').replace(/\s*\(.*\)$/, '')
 
-/** A catalog reagent an unlinked item probably means: the same structure (`canonical`, null when none), else the same name. */
-function suggestReagent(item: { name: string }, canonical: string | null, reagents: Reagent[]): Reagent | null {
-  return (canonical ? reagents.find((r) => r.smiles === canonical) : undefined)
-    ?? reagents.find((r) => normalName(r.name) === normalName(item.name))
-    ?? null
+/**
+ * A catalog reagent an unlinked item probably means: the same structure (`canonical`, null when
+ * none), else the same name; never one the coordinator dismissed for this item.
+ */
+function suggestReagent(
+  item: { name: string }, canonical: string | null, reagents: Reagent[],
+): { reagent: Reagent, because: 'structure' | 'name' } | null {
+  const byStructure = canonical ? reagents.find((r) => r.smiles === canonical) : undefined
+  if (byStructure) return { reagent: byStructure, because: 'structure' }
+  const byName = reagents.find((r) => normalName(r.name) === normalName(item.name))
+  return byName ? { reagent: byName, because: 'name' } : null
 }
 
 /** Items of the range's practicals that draw on no reagent yet, each with the reagent it probably means. */
-async function unlinkedItemsOf(practicals: ForecastPractical[], inRange: Set<number>, reagents: Reagent[]): Promise<UnlinkedItem[]> {
+async function unlinkedItemsOf(
+  db: Kysely<Database>, practicals: ForecastPractical[], inRange: Set<number>, reagents: Reagent[],
+): Promise<UnlinkedItem[]> {
   const unlinked = practicals.filter((p) => inRange.has(p.id))
     .flatMap((p) => p.items.filter((i) => i.reagentId === null).map((i) => ({ p, i })))
   const structures = await canonicalForms(unlinked.flatMap(({ i }) => (i.smiles ? [i.smiles] : [])))
+  const dismissed = unlinked.length
+    ? await db.selectFrom('itemLinkDismissals').select(['practicalItemId', 'reagentId'])
+        .where('practicalItemId', 'in', unlinked.map(({ i }) => i.id)).execute()
+    : []
   let next = 0
   return unlinked.map(({ p, i }) => {
-    const suggestion = suggestReagent(i, i.smiles ? structures[next++] ?? null : null, reagents)
+    const refused = new Set(dismissed.filter((d) => d.practicalItemId === i.id).map((d) => d.reagentId))
+    const suggestion = suggestReagent(i, i.smiles ? structures[next++] ?? null : null, reagents.filter((r) => !refused.has(r.id)))
     return {
       practicalItemId: i.id, practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, role: i.role, name: i.name,
-      suggestedReagentId: suggestion?.id ?? null, suggestedReagentName: suggestion?.name ?? null,
+      suggestedReagentId: suggestion?.reagent.id ?? null, suggestedReagentName: suggestion?.reagent.name ?? null,
+      suggestedBecause: suggestion?.because ?? null,
     }
   })
 }
@@ -133,7 +147,7 @@ export async function loadForecast(db: Kysely<Database>, me: SessionUser, reques
     ...result,
     from: request.from,
     to: request.to,
-    unlinkedItems: await unlinkedItemsOf(practicals, inRange, reagents),
+    unlinkedItems: await unlinkedItemsOf(db, practicals, inRange, reagents),
     rinseMlPerUnit: settings.rinseMlPerUnit,
     wasteRule: WASTE_RULE,
     planningNote: STOCK_PLANNING_NOTE,

@@ -1,11 +1,11 @@
 // The stockroom's public surface: what routes (and the overview) may use. Not auto-imported.
 export { requireStockroomManager, requireStockroomReader } from './guards'
 export { reagentDetailView, reagentListItems, requireReagent } from './catalog'
-export { createReagent, deleteReagent, linkItemToReagent, updateReagent } from './catalog-commands'
+export { createReagent, deleteReagent, dismissItemLink, linkItemToReagent, updateReagent } from './catalog-commands'
 export { lotRows, requireLot, stockroomToday } from './lots'
 export { addLot, recordUsage, updateLot } from './lot-commands'
 export { saveStockroomSettings, stockroomSettings } from './settings'
 export { loadForecast, type ForecastRequest } from './forecast'
 export { orderSheetCsv, orderSheetDetail, orderSheetSummaries } from './orders'
-export { createOrderSheet, deleteOrderSheet, receiveOrder, sendOrderSheet, updateOrderSheet } from './order-commands'
+export { closeOrderRest, createOrderSheet, deleteOrderSheet, receiveOrder, sendOrderSheet, updateOrderSheet } from './order-commands'
 export { stockroomOverview } from './overview'

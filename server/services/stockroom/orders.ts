@@ -1,7 +1,7 @@
 import type { Kysely, Transaction } from 'kysely'
 import { createError } from 'h3'
 import type { Database } from '../../database/schema'
-import type { OrderLine, OrderSheet, Reagent } from '../../database/schema-stockroom'
+import type { OrderLine, OrderReceipt, OrderSheet, Reagent } from '../../database/schema-stockroom'
 import type { HazardKey } from '#shared/data/cautions'
 import { toSafeCsv } from '#shared/utils/csv-safe'
 import {
@@ -14,7 +14,7 @@ import { stockroomSettings } from './settings'
 
 const WRONG_STATUS: Record<OrderStatusName, string> = {
   draft: 'Only a sheet being prepared can be changed or sent',
-  sent: 'Only a requested order can be received',
+  sent: 'Only a requested order still waiting for lines can be received or closed',
   received: 'This order has not been received',
 }
 
@@ -40,18 +40,42 @@ async function userNames(db: Kysely<Database>, ids: Array<number | null>) {
   return new Map(rows.map((r) => [r.id, r.name]))
 }
 
-function lineView(line: OrderLine, reagents: Map<number, Pick<Reagent, 'hazards'>>): OrderLineView {
+/** Containers of each line delivered so far. */
+export function receivedByLine(receipts: Pick<OrderReceipt, 'orderLineId' | 'containers'>[]): Map<number, number> {
+  const out = new Map<number, number>()
+  for (const r of receipts) out.set(r.orderLineId, (out.get(r.orderLineId) ?? 0) + r.containers)
+  return out
+}
+
+/** A line's containers still to come; none once the sheet is received or its rest closed. */
+export function openContainers(
+  sheet: Pick<OrderSheet, 'status'>, line: Pick<OrderLine, 'id' | 'containers'>, received: Map<number, number>,
+) {
+  return sheet.status === 'sent' ? Math.max(0, line.containers - (received.get(line.id) ?? 0)) : 0
+}
+
+function lineView(
+  sheet: OrderSheet, line: OrderLine, reagents: Map<number, Pick<Reagent, 'hazards'>>, received: Map<number, number>,
+): OrderLineView {
   return {
     id: line.id, position: line.position, reagentId: line.reagentId, name: line.name, supplierName: line.supplierName,
     supplierEmail: line.supplierEmail, catalogNumber: line.catalogNumber, containers: line.containers, containerSize: line.containerSize,
     unit: line.unit, note: line.note, hazards: (line.reagentId !== null ? reagents.get(line.reagentId)?.hazards ?? [] : []) as HazardKey[],
+    received: received.get(line.id) ?? 0, open: openContainers(sheet, line, received),
   }
 }
 
 const supplierLabel = (l: Pick<OrderLine, 'supplierName' | 'supplierEmail'>) => l.supplierName || l.supplierEmail || 'No supplier'
 
-function summaryOf(sheet: OrderSheet, lines: OrderLine[]): OrderSummary {
+async function receiptsOf(db: Kysely<Database>, lineIds: number[]): Promise<OrderReceipt[]> {
+  if (!lineIds.length) return []
+  return db.selectFrom('orderReceipts').selectAll().where('orderLineId', 'in', lineIds).orderBy('receivedOn').orderBy('id').execute()
+}
+
+function summaryOf(sheet: OrderSheet, lines: OrderLine[], receipts: OrderReceipt[]): OrderSummary {
+  const ids = new Set(lines.map((l) => l.id))
   return {
+    partlyReceived: sheet.status === 'sent' && receipts.some((r) => ids.has(r.orderLineId)),
     id: sheet.id, title: sheet.title, status: sheet.status, lineCount: lines.length,
     suppliers: [...new Set(lines.map(supplierLabel))].sort(),
     forecastFrom: sheet.forecastFrom, forecastTo: sheet.forecastTo, createdAt: sheet.createdAt.toISOString(),
@@ -62,7 +86,8 @@ function summaryOf(sheet: OrderSheet, lines: OrderLine[]): OrderSummary {
 export async function orderSheetSummaries(db: Kysely<Database>): Promise<OrderSummary[]> {
   const sheets = await db.selectFrom('orderSheets').selectAll().orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
   const lines = sheets.length ? await db.selectFrom('orderLines').selectAll().where('orderId', 'in', sheets.map((s) => s.id)).execute() : []
-  return sheets.map((s) => summaryOf(s, lines.filter((l) => l.orderId === s.id)))
+  const receipts = await receiptsOf(db, lines.filter((l) => sheets.some((s) => s.id === l.orderId && s.status === 'sent')).map((l) => l.id))
+  return sheets.map((s) => summaryOf(s, lines.filter((l) => l.orderId === s.id), receipts))
 }
 
 export async function orderSheetDetail(db: Kysely<Database>, id: number): Promise<OrderDetail> {
@@ -77,12 +102,22 @@ export async function orderSheetDetail(db: Kysely<Database>, id: number): Promis
     ? await db.selectFrom('reagentLots').select(['id', 'reagentId', 'orderLineId', 'quantity', 'unit'])
         .where('orderLineId', 'in', lines.map((l) => l.id)).execute()
     : []
-  const names = await userNames(db, [sheet.createdBy, sheet.sentBy, sheet.receivedBy])
+  const receipts = await receiptsOf(db, lines.map((l) => l.id))
+  const received = receivedByLine(receipts)
+  const names = await userNames(db, [sheet.createdBy, sheet.sentBy, sheet.receivedBy, sheet.closedBy, ...receipts.map((r) => r.receivedBy)])
   const name = (uid: number | null) => (uid === null ? null : names.get(uid) ?? null)
   return {
-    ...summaryOf(sheet, lines),
+    ...summaryOf(sheet, lines, receipts),
     notes: sheet.notes,
-    lines: lines.map((l) => lineView(l, reagents)),
+    internalNotes: sheet.internalNotes,
+    lines: lines.map((l) => lineView(sheet, l, reagents, received)),
+    receipts: receipts.map((r) => ({
+      id: r.id, lineId: r.orderLineId, receivedOn: r.receivedOn, containers: r.containers, lotId: r.lotId, receivedBy: name(r.receivedBy),
+    })),
+    closedReason: sheet.closedReason,
+    closedAt: sheet.closedAt?.toISOString() ?? null,
+    closedBy: name(sheet.closedBy),
+    requests: await requestRecords(db, sheet, lines),
     createdBy: name(sheet.createdBy),
     sentBy: name(sheet.sentBy),
     receivedBy: name(sheet.receivedBy),
@@ -90,6 +125,30 @@ export async function orderSheetDetail(db: Kysely<Database>, id: number): Promis
     deliverTo: (await stockroomSettings(db)).deliverTo,
   }
 }
+
+/** Each supplier's purchase request of a sent sheet, with its message's state in the outbox. */
+async function requestRecords(db: Kysely<Database>, sheet: OrderSheet, lines: OrderLine[]): Promise<OrderDetail['requests']> {
+  if (sheet.status === 'draft') return []
+  const bySupplier = new Map<string, { supplierName: string, lineCount: number }>()
+  for (const l of lines) {
+    if (!l.supplierEmail) continue
+    const entry = bySupplier.get(l.supplierEmail) ?? { supplierName: l.supplierName, lineCount: 0 }
+    entry.lineCount += 1
+    bySupplier.set(l.supplierEmail, entry)
+  }
+  const keys = [...bySupplier.keys()].map((email) => purchaseRequestKey(sheet.id, email))
+  const messages = keys.length
+    ? await db.selectFrom('mailMessages').select(['dedupeKey', 'status', 'sentAt']).where('dedupeKey', 'in', keys).execute()
+    : []
+  const byKey = new Map(messages.map((m) => [m.dedupeKey, m]))
+  return [...bySupplier].map(([supplierEmail, entry]) => {
+    const message = byKey.get(purchaseRequestKey(sheet.id, supplierEmail))
+    return { supplierEmail, ...entry, status: message?.status ?? null, sentAt: message?.sentAt?.toISOString() ?? null }
+  })
+}
+
+/** The exactly-once key of one supplier's purchase request. */
+export const purchaseRequestKey = (orderId: number, supplierEmail: string) => `order:${orderId}:${supplierEmail}`
 
 /** One line per reagent short in the forecast: whole containers, the catalog's supplier. */
 export function linesFromShortfalls(lines: ForecastLine[], reagents: Reagent[]): OrderLineInput[] {

@@ -29,8 +29,11 @@ export function purchaseRequests(detail: OrderDetail): PurchaseRequest[] {
   return [...groups.values()]
 }
 
-/** The e-mail of one purchase request: plain text, escaped HTML, the supplier's lines as CSV. */
-export function purchaseRequestMail(detail: OrderDetail, request: PurchaseRequest, sender: { name: string }) {
+/**
+ * The e-mail of one purchase request: plain text, escaped HTML, the supplier's lines as CSV. Only
+ * this supplier's lines and the notes meant for suppliers; the sheet's internal notes never.
+ */
+export function purchaseRequestMail(detail: OrderDetail, request: PurchaseRequest, sender: { name: string, email: string }) {
   const greeting = request.supplierName ? `Dear ${request.supplierName},` : 'Hello,'
   const rows = request.lines.map((l) => ({
     name: l.name,
@@ -44,7 +47,8 @@ export function purchaseRequestMail(detail: OrderDetail, request: PurchaseReques
     `Please quote and supply the following (purchase request ${detail.id}, "${detail.title}"):`, '',
     ...rows.map((r, i) => `${i + 1}. ${r.name}${r.catalog ? ` [${r.catalog}]` : ''}: ${r.amount}${r.note ? ` (${r.note})` : ''}`),
     '', deliver, detail.notes, '',
-    'The same list is attached as a CSV file.', '',
+    'The same list is attached as a CSV file.',
+    `To answer, reply to this message: it goes to ${sender.name} <${sender.email}>.`, '',
     `${sender.name}, stockroom`,
   ].filter((line, i, all) => line !== '' || all[i - 1] !== '').join('\n')
   const cell = (value: string) => `<td style="padding:4px 8px;border:1px solid #ccc">${escapeHtml(value)}</td>`
@@ -58,6 +62,7 @@ export function purchaseRequestMail(detail: OrderDetail, request: PurchaseReques
     deliver ? `<p>${escapeHtml(deliver)}</p>` : '',
     detail.notes ? `<p>${escapeHtml(detail.notes)}</p>` : '',
     '<p>The same list is attached as a CSV file.</p>',
+    `<p>To answer, reply to this message: it goes to ${escapeHtml(sender.name)} &lt;${escapeHtml(sender.email)}&gt;.</p>`,
     `<p>${escapeHtml(sender.name)}, stockroom</p>`,
   ].join('\n')
   return {

@@ -2,7 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest'
 import { closeTestDb, testDb } from '../../support/db'
 import { auditRows, coordinator, reagentInput, refusal } from './helpers'
 import {
-  createOrderSheet, createReagent, deleteOrderSheet, receiveOrder, sendOrderSheet, updateOrderSheet,
+  closeOrderRest, createOrderSheet, createReagent, deleteOrderSheet, receiveOrder, sendOrderSheet, updateOrderSheet,
 } from '../../../server/services/stockroom'
 
 afterAll(closeTestDb)
@@ -95,6 +95,26 @@ describe('order sheet commands', () => {
     expect(await db.selectFrom('reagentLots').select('id').where('reagentId', 'in', [reagent.id, other.id]).execute()).toEqual([])
     expect(await statusOf(sheet.id)).toBe('sent')
     expect((await auditRows('order_sheet', sheet.id)).map((a) => a.action)).not.toContain('order.receive')
+  })
+
+  it('a part delivery leaves the rest open; closing the rest needs a sent sheet and keeps the reason', async () => {
+    const { db, actor, sheet } = await draftWithLine('mL')
+    await markSent(sheet.id)
+    const lineId = sheet.lines[0]!.id
+    const part = await receiveOrder(db, actor, sheet.id, {
+      receivedOn: '2026-03-05', lines: [{ lineId, containers: 1, lotCode: 'P-1', location: '', expiresOn: null }],
+    })
+    expect(part).toMatchObject({ status: 'sent', partlyReceived: true, receivedOn: null })
+    expect(part.lines[0]).toMatchObject({ received: 1, open: 1 })
+    const over = await refusal(receiveOrder(db, actor, sheet.id, {
+      receivedOn: '2026-03-06', lines: [{ lineId, containers: 2, lotCode: '', location: '', expiresOn: null }],
+    }))
+    expect(over.statusMessage).toBe('lines.0.containers: At most 1 still open on this line')
+    const closed = await closeOrderRest(db, actor, sheet.id, { reason: 'Back-ordered until June' })
+    expect(closed).toMatchObject({ status: 'received', closedReason: 'Back-ordered until June', receivedOn: '2026-03-05' })
+    expect(closed.lines[0]).toMatchObject({ received: 1, open: 0 })
+    expect((await auditRows('order_sheet', sheet.id)).map((a) => a.action).slice(-2)).toEqual(['order.receive', 'order.close'])
+    expect((await refusal(closeOrderRest(db, actor, sheet.id, { reason: 'again' }))).statusCode).toBe(409)
   })
 
   it('throws away a draft with its lines, and audits it', async () => {
