@@ -10,6 +10,7 @@ import * as substrateReferences from './2026_12_03_0940_substrate_references'
 import * as loginAttemptsPending from './2026_12_03_1000_login_attempts_pending'
 import * as mailClaims from './2026_12_03_1200_mail_claims'
 import * as calendarFeedHashes from './2026_12_03_1210_calendar_feed_hashes'
+import * as readerSourceLines from './2026_12_03_1314_reader_source_lines'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -25,4 +26,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_1000_login_attempts_pending': loginAttemptsPending,
   '2026_12_03_1200_mail_claims': mailClaims,
   '2026_12_03_1210_calendar_feed_hashes': calendarFeedHashes,
+  '2026_12_03_1314_reader_source_lines': readerSourceLines,
 }
