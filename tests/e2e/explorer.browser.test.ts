@@ -46,6 +46,7 @@ describe('substrate explorer in Chromium', () => {
     await signInThroughPage(tab.page, DEMO.student(8))
     await tab.page.goto('/explorer')
     const line = tab.page.locator('[data-test="class-example"]')
+    await line.waitFor({ timeout: 60_000 })
     const text = await line.innerText()
     expect(text).not.toMatch(/propane|45 and 55/)
     for (const m of example!.percents) expect(text).toContain(`${m.percent.toFixed(1)} %`)
