@@ -2,6 +2,7 @@
 // they run in the engine worker (server/engines/worker.ts), never on the request loop.
 import type { AnalyzeResponse, ReactivityResponse, analyzeInputSchema, reactivityInputSchema } from '../../shared/types/chemistry'
 import type { z } from 'zod'
+import { readerSource } from '../../shared/utils/source-line'
 import {
   analyzeSubstrate,
   canonicalSmiles,
@@ -35,7 +36,9 @@ export function analyzeRequest(input: AnalyzeRequest): AnalyzeResponse {
     halogen: input.halogen,
     reactivity: used,
     temperatureC,
-    reactivitySource: input.reactivity ? 'values you entered' : `${method.name}, ${method.temperatureC} °C (${method.source})`,
+    reactivitySource: input.reactivity
+      ? 'values you entered'
+      : `${method.name}, ${method.temperatureC} °C (${readerSource(method.source)})`,
     products: predicted.map((p, i) => ({
       label: positionLetter(i),
       smiles: p.smiles,

@@ -29,6 +29,7 @@ export interface HalogenationMethod {
   note: string
 }
 
+const HANDBOOK = 'CRC Handbook of Chemistry and Physics, table of physical constants of inorganic compounds'
 const CHLORINE: MethodReagent = { name: 'chlorine', smiles: 'ClCl', role: 'halogenating agent', density: null, densitySource: null }
 const AIBN: MethodReagent = {
   name: 'azobisisobutyronitrile (AIBN)', smiles: 'CC(C)(C#N)N=NC(C)(C)C#N', role: 'initiator', density: null, densitySource: null,
@@ -52,10 +53,11 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
     reagent: 'br2-light',
     name: 'Bromine and light',
     halogen: 'Br',
-    reagents: [{ name: 'bromine', smiles: 'BrBr', role: 'halogenating agent', density: 3.10, densitySource: 'CRC Handbook, from memory' }],
+    // Density and the per-H values are from memory (sourceKind says so); readers see the reference.
+    reagents: [{ name: 'bromine', smiles: 'BrBr', role: 'halogenating agent', density: 3.10, densitySource: HANDBOOK }],
     reactivity: { primary: 1, secondary: 82, tertiary: 1600 },
     temperatureC: 125,
-    source: 'textbook value, from memory',
+    source: 'textbook value (relative reactivity per H of bromine atoms, about 125 °C)',
     sourceKind: 'from-memory',
     note: 'Relative reactivity per H at about 125 °C.',
   },
@@ -67,7 +69,8 @@ export const HALOGENATION_METHODS: readonly HalogenationMethod[] = [
     reagents: [
       {
         name: 'sulfuryl chloride', smiles: 'O=S(=O)(Cl)Cl', role: 'halogenating agent',
-        density: 1.67, densitySource: 'CRC Handbook, from memory',
+        // From memory.
+        density: 1.67, densitySource: HANDBOOK,
       },
       AIBN,
     ],

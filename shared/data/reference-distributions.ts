@@ -26,7 +26,8 @@ export const SEEDED_REFERENCES: readonly SeededReference[] = [
       { smiles: 'ClCCCCCl', percent: 25 },
     ],
     // The paper used a peroxide initiator; the chain carrier (a chlorine atom) is the same with AIBN.
-    source: 'H. C. Brown and A. B. Ash, J. Am. Chem. Soc. 77 (1955): SO2Cl2 chlorination of 1-chlorobutane; rounded, from memory',
+    // The shares are recalled (from memory, rounded): sourceKind says so; the source line is the reference.
+    source: 'H. C. Brown and A. B. Ash, J. Am. Chem. Soc. 77 (1955): SO2Cl2 chlorination of 1-chlorobutane, rounded',
     sourceKind: 'from-memory',
   },
 ]

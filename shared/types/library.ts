@@ -247,7 +247,7 @@ const methodShape = {
     secondary: reactivity('secondary', 'zero'),
     tertiary: reactivity('tertiary', 'zero'),
   }),
-  source: blockText(500, 'Say where the reactivities come from (a paper, handbook, your own standard runs, or “from memory”)'),
+  source: blockText(500, 'Say where the reactivities come from (a paper, a handbook, your own standard runs, or “textbook value”)'),
   notes,
 }
 
@@ -311,7 +311,7 @@ export const referenceInputSchema = z.object({
     productSmiles: productSmilesSchema,
     percent: z.number({ error: 'Enter the mol % as a number' }).finite().min(0, 'Must be 0 % or more').max(100, 'At most 100 %'),
   })).min(1, 'Give the mol % of each product').max(40, 'At most 40 products'),
-  source: lineText(500, 'Say where the distribution comes from (a paper, the course’s earlier results, or “from memory”)'),
+  source: lineText(500, 'Say where the distribution comes from (a paper, the course’s earlier results, or “textbook value”)'),
   sourceKind: z.enum(REFERENCE_SOURCE_KINDS, { error: 'Choose what kind of source it is' }),
 }).superRefine((value, ctx) => {
   const sum = value.percents.reduce((s, p) => s + p.percent, 0)

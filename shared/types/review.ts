@@ -27,7 +27,7 @@ export const detailQuerySchema = z.object({
 export const bulkAcceptSchema = z.object({
   submissionIds: z.array(recordId('Pick submissions from the list'))
     .min(1, 'Choose at least one submission').max(500, 'At most 500 at a time'),
-  /** Points for criteria other than accuracy; missing ones get full marks. */
+  /** Points the reviewer gives every chosen run; criteria left out that need a person's reading stay "to mark". */
   scores: rubricScoresSchema.default({}),
 })
 export type BulkAcceptInput = z.input<typeof bulkAcceptSchema>
@@ -76,6 +76,8 @@ export interface QueueRow {
   excluded: ExclusionView | null
   /** Latest, pending, no flag, no outlier, not excluded: may be accepted in bulk. */
   clean: boolean
+  /** Accepted, with criteria that need a person's reading still to mark (left by a bulk acceptance). */
+  toMark: boolean
 }
 
 export interface OutlierRun {
@@ -102,7 +104,7 @@ export interface QueueCounts {
 export interface QueuePractical {
   id: number
   title: string
-  course: { id: number, code: string, title: string }
+  course: { id: number, code: string, title: string, term: string }
   /** The course's IANA zone: times are shown in it, the same on server and browser. */
   timezone: string
   keyFactor: ReviewFactorKey
@@ -129,7 +131,7 @@ export interface QueueResponse {
 export interface ReviewPracticalItem {
   id: number
   title: string
-  course: { id: number, code: string, title: string }
+  course: { id: number, code: string, title: string, term: string }
   sections: string[]
   counts: QueueCounts
 }
@@ -262,7 +264,8 @@ export interface ReviewSaved {
 }
 
 export interface BulkAcceptResult {
-  accepted: Array<{ id: number, scores: Record<string, number>, total: number }>
+  /** `total` is null while `toMark` (criteria keys) is not empty. */
+  accepted: Array<{ id: number, scores: Record<string, number>, total: number | null, toMark: string[] }>
   skipped: Array<{ id: number, reason: string }>
 }
 

@@ -94,6 +94,7 @@ export interface MyLab {
     seat: number | null
     partners: string[]
     meetings: MeetingView[]
-    practicals: Array<{ id: number, title: string, meetingDate: string, dueAt: string, substrate: string, method: string }>
+    /** `reagent`: the method's reagent key, for the cautions that go with it. */
+    practicals: Array<{ id: number, title: string, meetingDate: string, dueAt: string, substrate: string, method: string, reagent: string }>
   }>
 }

@@ -64,6 +64,8 @@ export interface PracticalSummary {
   bySection: Array<{ sectionId: number, code: string, n: number, factors: FactorSet }>
   keyFactor: KeyFactor
   literature: { secondaryToPrimary: number | null, tertiaryToPrimary: number | null }
+  /** Whence the literature factors: the method, its temperature and its source, as a reader's reference. */
+  literatureSource: string | null
   withoutOutliers: boolean
   /**
    * Mean mole % per product over the included results, for observed vs predicted charts;

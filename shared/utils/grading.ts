@@ -82,6 +82,33 @@ export function startingScores(
   return scores
 }
 
+/**
+ * Scores a bulk acceptance may give: only what the server can judge (accuracy criteria, from the
+ * tolerance rule) and what the reviewer gave for all of them. Criteria that need a person's
+ * reading (kind 'manual': the chromatogram, the calculation and discussion) stay out, to be marked
+ * in a later pass; an accuracy criterion without a suggestion stays out too.
+ */
+export function judgedScores(
+  rubric: GradingCriterion[],
+  input: AccuracyInput,
+  given: Record<string, number> = {},
+): Record<string, number> {
+  const scores: Record<string, number> = {}
+  for (const c of rubric) {
+    if (given[c.key] !== undefined) scores[c.key] = given[c.key]!
+    else if (c.kind === 'accuracy') {
+      const suggested = suggestAccuracyPoints(c, input)
+      if (suggested !== null) scores[c.key] = suggested
+    }
+  }
+  return scores
+}
+
+/** Criteria not scored yet: shown as "to mark" until a reviewer gives them. */
+export function criteriaToMark(rubric: GradingCriterion[], scores: Record<string, number>): GradingCriterion[] {
+  return rubric.filter((c) => typeof scores[c.key] !== 'number')
+}
+
 export interface ScoreIssue {
   field: string
   message: string

@@ -4,6 +4,7 @@
 import { assignPeaks, detectPeaks, parsePeakTable, parseTrace, sniffUpload, type Flag, type Peak } from './chromatography'
 import { analyzeSubstrate, predictDistribution, relativeReactivities, type CarbonClass, type SubstrateAnalysis } from './halogenation'
 import { positionLetter } from './depiction'
+import { readerSource } from './source-line'
 import type { RunSource } from './lib/upload-content'
 import { keyFactorOf, type KeyFactor } from './key-factor'
 import { KEY_FACTOR_LABELS } from '../types/review'
@@ -289,6 +290,8 @@ export interface PracticalChemistry {
   expected: Expectation
   /** What the products are ("monochlorides", "dichlorides"), for wording the conversion. */
   productKind: string
+  /** The method's literature factors as a reference ("Chlorine and light at 25 °C: …"); set by the server's loader. */
+  literatureSource?: string
 }
 
 export interface WindowRow {
@@ -353,12 +356,12 @@ export function referenceExpectation(
   if (!(total > 0) || !Number.isFinite(total)) return null
   const percents = raw.map((r) => ({ smiles: r.smiles, percent: (r.percent / total) * 100 }))
   const { factors } = relativeReactivities({ products: analysis.products.map((p) => ({ ...p, atoms: p.atoms ?? [] })) }, percents)
-  const memory = reference.sourceKind === 'from-memory' && !/from memory/i.test(reference.source) ? ' (from memory)' : ''
   return {
     basis: 'reference',
     percents,
     factors,
-    description: `the reference distribution from ${reference.source}${memory}`,
+    // Read by students: the reference itself; whether it was recalled is the library's note (sourceKind).
+    description: `the reference distribution from ${readerSource(reference.source)}`,
     source: reference.source,
     sourceKind: reference.sourceKind,
     substituted,

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { describeViolations, launchBrowser, openTab, screenshot, seriousViolations, signInThroughPage } from '../support/browser'
-import { DEMO } from '../support/http'
+import { DEMO, signedIn } from '../support/http'
 
 let browser: Browser
 beforeAll(async () => { browser = await launchBrowser() })
@@ -32,6 +32,30 @@ describe('substrate explorer in Chromium', () => {
     // 2,3-dimethylbutane: 12 primary H and 2 tertiary H, two products.
     expect(await tab.page.getByLabel(/Observed mol % for position/).count()).toBe(2)
     await screenshot(tab.page, 'explorer-dimethylbutane')
+    await tab.context.close()
+  })
+
+  it('offers the demo class’s own result as the worked example, with the numbers it shows', async () => {
+    // Student 08 is in the demo class (PRODUCT.md scenario); practical 1 has the seeded accepted runs.
+    const api = await signedIn(DEMO.student(8))
+    const example = (await api.get('/api/explorer/class-example')).body
+    expect(example).toMatchObject({ practical: { title: 'Chlorination of 1-chlorobutane', courseCode: 'CHEM 2240' }, substrate: { name: '1-chlorobutane' } })
+    expect(example!.n).toBeGreaterThan(5)
+    expect(example!.percents).toHaveLength(4)
+    const tab = await openTab(browser, { width: 1280, height: 900 })
+    await signInThroughPage(tab.page, DEMO.student(8))
+    await tab.page.goto('/explorer')
+    const line = tab.page.locator('[data-test="class-example"]')
+    await line.waitFor({ timeout: 60_000 })
+    const text = await line.innerText()
+    expect(text).not.toMatch(/propane|45 and 55/)
+    for (const m of example!.percents) expect(text).toContain(`${m.percent.toFixed(1)} %`)
+    await line.getByRole('button').click()
+    const filled = () => tab.page.getByLabel(/Observed mol % for position/)
+      .evaluateAll((inputs) => inputs.map((i) => Number((i as HTMLInputElement).value)).sort((a, b) => a - b))
+    await expect.poll(filled, { timeout: 20_000 }).toEqual(example!.percents.map((m) => m.percent).sort((a, b) => a - b))
+    await screenshot(tab.page, 'explorer-class-example')
+    expect(tab.problems).toEqual([])
     await tab.context.close()
   })
 

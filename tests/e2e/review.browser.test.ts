@@ -27,6 +27,12 @@ beforeAll(async () => {
     expect(reply.status, JSON.stringify(reply.body)).toBe(201)
     ids.push(reply.body.id)
   }
+  // A second practical in the same section that nobody has uploaded to: named in one line, not a card.
+  const first = await testDb().selectFrom('practicals').select(['courseId', 'substrateId', 'methodId']).where('id', '=', world.practicalId).executeTakeFirstOrThrow()
+  const quiet = await testDb().insertInto('practicals').values({ ...first, title: 'Nothing uploaded yet', workUnit: 'pair' })
+    .returning('id').executeTakeFirstOrThrow()
+  await testDb().insertInto('practicalSessions')
+    .values({ practicalId: quiet.id, sectionId: world.sections[0]!.id, meetingDate: '2026-11-02', dueAt: '2099-01-01T00:00:00Z' }).execute()
 })
 afterAll(async () => { await browser?.close(); await closeTestDb() })
 
@@ -45,6 +51,10 @@ describe('a TA works the queue in Chromium', () => {
     await page.goto('/review')
     await page.getByRole('heading', { name: 'Review GC results' }).waitFor()
     await page.getByText('4 results are waiting for review.').waitFor()
+    // The list names the term and shows only practicals with uploads, as its text says.
+    expect(await page.locator('[data-test="review-terms"]').innerText()).toBe('Test term')
+    expect(await page.locator('[data-test="review-practical"]').count()).toBe(1)
+    expect(await page.locator('[data-test="no-uploads-yet"]').innerText()).toMatch(/^No uploads yet: Nothing uploaded yet \(REV \w+, Test term\)\.$/)
     await noSeriousViolations(page)
     await screenshot(page, 'review-practicals')
     await page.getByRole('link', { name: /Open the queue for Review practical/ }).click()
@@ -117,18 +127,81 @@ describe('a TA works the queue in Chromium', () => {
     expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true)
     await screenshot(page, 'review-detail-tablet')
 
-    // Bulk accept the two clean runs.
+    // One action chooses every run with no warnings (the two clean ones, not station 2's warning), then bulk accept.
     await page.goto(`/review/practicals/${world.practicalId}`)
-    for (const box of await page.getByRole('checkbox', { name: /for bulk acceptance/ }).all()) await box.check()
+    await page.getByRole('button', { name: 'Choose every run with no warnings (2)' }).click()
+    const boxes = page.getByRole('checkbox', { name: /for bulk acceptance/ })
+    expect(await boxes.count()).toBe(2)
+    for (const box of await boxes.all()) expect(await box.isChecked()).toBe(true)
     await page.getByRole('button', { name: 'Accept chosen (2)' }).click()
     await page.getByRole('button', { name: 'Accept 2' }).click()
-    await page.getByText('2 accepted').waitFor()
+    await page.getByText('2 accepted, parts left to mark').waitFor()
     const accepted = await testDb().selectFrom('submissions').select('id').where('id', 'in', [ids[2]!, ids[3]!]).where('status', '=', 'accepted').execute()
     expect(accepted).toHaveLength(2)
+    // The parts a person reads were not invented: they wait, and the queue says so.
+    const reviews = await testDb().selectFrom('reviews').select(['scores', 'total']).where('submissionId', 'in', [ids[2]!, ids[3]!]).execute()
+    for (const r of reviews) {
+      expect(r.total).toBeNull()
+      expect(Object.keys(r.scores as object)).toEqual(['accuracy'])
+    }
+    await expect.poll(() => page.locator('[data-test="to-mark"]').count()).toBe(2)
     await noSeriousViolations(page)
     await screenshot(page, 'review-queue-after-bulk-tablet')
+    await page.goto(`/review/submissions/${ids[2]}`)
+    await page.getByText(/Calculation and discussion: to mark/).first().waitFor()
+    await screenshot(page, 'review-detail-to-mark-tablet')
     expect(tab.problems).toEqual([])
     await tab.context.close()
+  })
+
+  it('at 1440 and 820 px: every nav destination in sight, chromatogram log scale and zoom, the decision in reach', async () => {
+    for (const viewport of [{ width: 1440, height: 900 }, TABLET]) {
+      const tab = await openTab(browser, viewport)
+      const { page } = tab
+      await signInThroughPage(page, world.owner.email, world.owner.password)
+      await page.goto(`/review/submissions/${ids[1]}`)
+      await page.getByRole('heading', { name: 'Decision', exact: true }).waitFor()
+      // The navigation: no item scrolled out of sight, each fully inside the window.
+      const nav = page.getByRole('navigation', { name: 'Main' }).first()
+      const links = nav.getByRole('link')
+      expect(await links.count()).toBeGreaterThan(3)
+      expect(await nav.locator('ul').evaluate((ul) => ul.scrollWidth <= ul.clientWidth)).toBe(true)
+      for (const link of await links.all()) {
+        const box = (await link.boundingBox())!
+        expect(box.x).toBeGreaterThanOrEqual(0)
+        expect(box.x + box.width).toBeLessThanOrEqual(viewport.width)
+      }
+      // The chromatogram: a log area scale and a zoom to one window.
+      const chart = page.locator('[data-test="chromatogram"]')
+      await chart.locator('canvas').waitFor()
+      expect(await chart.getAttribute('data-scale')).toBe('linear')
+      await page.getByLabel('Log area scale').check()
+      expect(await chart.getAttribute('data-scale')).toBe('log')
+      const zoom = page.getByLabel('Zoom to')
+      const firstWindow = (await zoom.locator('option').nth(1).getAttribute('value'))!
+      await zoom.selectOption(firstWindow)
+      expect(await chart.getAttribute('data-zoom')).toBe(firstWindow)
+      await chart.scrollIntoViewIfNeeded()
+      await screenshot(page, `review-chromatogram-log-zoom-${viewport.width}`)
+      // The decision: beside the page at 1440; one tap away from anywhere at 820.
+      const jump = page.locator('[data-test="to-decision"]')
+      if (viewport.width >= 1024) {
+        expect(await jump.isVisible()).toBe(false)
+      } else {
+        await page.evaluate(() => window.scrollTo(0, 0))
+        expect(await jump.isVisible()).toBe(true)
+        const box = (await jump.boundingBox())!
+        expect(box.y + box.height).toBeLessThanOrEqual(viewport.height)
+        await jump.click()
+        await expect.poll(() => page.getByRole('button', { name: 'Return for resubmission' }).evaluate((b) => {
+          const r = b.getBoundingClientRect()
+          return r.top >= 0 && r.bottom <= window.innerHeight
+        })).toBe(true)
+        await screenshot(page, 'review-decision-in-reach-820')
+      }
+      expect(tab.problems).toEqual([])
+      await tab.context.close()
+    }
   })
 
   it('reads the demo term’s practical 1 queue (seeded runs; nothing changed)', async () => {

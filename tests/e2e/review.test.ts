@@ -262,14 +262,19 @@ describe('the queue', () => {
     expect(bad.refusal.statusMessage).toMatch(/^status: /)
   })
 
-  it('bulk accept takes only the clean rows, with the suggested accuracy score, each audited', async () => {
+  it('bulk accept takes only the clean rows, scores accuracy and leaves the parts a person reads empty, each audited', async () => {
     const reply = await owner.post(`/api/practicals/${world.practicalId}/queue/accept`, {
       submissionIds: [ids.oldest, ids.danger, ids.outlier, ids.warning, ids.acceptedA, ids.older, 999_999_999],
     })
     expect(reply.status).toBe(200)
     expect(reply.body.accepted.map((a) => a.id)).toEqual([ids.oldest, ids.older])
     // A factor of ~200 against the expected 2.78 (the seeded reference distribution) is far beyond 3 × 15 %: no accuracy points.
-    expect(reply.body.accepted[0]).toMatchObject({ scores: { accuracy: 0, chromatogram: 6, analysis: 4 }, total: 10 })
+    // The chromatogram and the calculation and discussion need a person: empty, and no total until they are marked.
+    expect(reply.body.accepted[0]).toEqual({ id: ids.oldest, scores: { accuracy: 0 }, total: null, toMark: ['chromatogram', 'analysis'] })
+    const stored = await testDb().selectFrom('reviews').select(['scores', 'total']).where('submissionId', '=', ids.oldest).executeTakeFirstOrThrow()
+    expect(stored).toEqual({ scores: { accuracy: 0 }, total: null })
+    const queue = await owner.get(`/api/practicals/${world.practicalId}/queue?status=accepted`)
+    expect(queue.body.rows.filter((r) => r.toMark).map((r) => r.id).sort()).toEqual([ids.oldest, ids.older].sort())
     const skipped = Object.fromEntries(reply.body.skipped.map((s) => [s.id, s.reason]))
     expect(Object.keys(skipped).map(Number).sort()).toEqual([ids.danger, ids.outlier, ids.warning, ids.acceptedA, 999_999_999].sort())
     expect(skipped[ids.outlier]).toMatch(/outlier/)
@@ -278,6 +283,11 @@ describe('the queue', () => {
       expect((await auditOf(id)).at(-1)).toMatchObject({ action: 'submission.accept', before: { status: 'pending', scores: null, total: null }, after: expect.objectContaining({ status: 'accepted', bulk: true }) })
     }
     expect(await auditOf(ids.danger)).toEqual([])
+    // The later pass: a full review fills them in and the total appears.
+    const later = await owner.post(`/api/submissions/${ids.older}/review`, { decision: 'accept', scores: { accuracy: 0, chromatogram: 5, analysis: 3 } })
+    expect(later.body).toMatchObject({ status: 'accepted', total: 8 })
+    const after = await owner.get(`/api/practicals/${world.practicalId}/queue?status=accepted`)
+    expect(after.body.rows.find((r) => r.id === ids.older)!.toMark).toBe(false)
   })
 
   it('excluding a run is audited, shown in the queue and takes it out of the class test', async () => {

@@ -45,11 +45,13 @@ const AS_REFERENCE = { [D11]: 6, [D12]: 23, [D13]: 46, [D14]: 25 }
 const SWAPPED = { [D11]: 6, [D12]: 46, [D13]: 23, [D14]: 25 }
 
 describe('the seeded reference distribution', () => {
-  it('covers exactly the four dichlorobutanes, sums to 100 and says it is recalled from memory', () => {
+  it('covers exactly the four dichlorobutanes, sums to 100, is marked as recalled and reads as a reference', () => {
     expect(REFERENCE.percents.map((p) => p.smiles).sort()).toEqual(analyzeSubstrate('CCCCCl').products.map((p) => p.smiles).sort())
     expect(REFERENCE.percents.reduce((s, p) => s + p.percent, 0)).toBe(100)
     expect(seeded.sourceKind).toBe('from-memory')
-    expect(seeded.source).toMatch(/from memory/)
+    // The kind keeps our note; the source line students read is the reference alone.
+    expect(seeded.source).not.toMatch(/memory/i)
+    expect(seeded.source).toMatch(/^H\. C\. Brown and A\. B\. Ash, J\. Am\. Chem\. Soc\. 77 \(1955\)/)
   })
 })
 

@@ -20,7 +20,7 @@ export default defineEventHandler(async (event): Promise<MyLab> => {
     .innerJoin('methods', 'methods.id', 'practicals.methodId')
     .select([
       'practicals.id', 'practicals.title', 'practicalSessions.sectionId', 'practicalSessions.meetingDate', 'practicalSessions.dueAt',
-      'substrates.name as substrate', 'methods.name as method',
+      'substrates.name as substrate', 'methods.name as method', 'methods.reagent',
     ])
     .where('practicalSessions.sectionId', 'in', mine.map((e) => e.sectionId)).orderBy('practicalSessions.meetingDate').execute()
 
@@ -40,6 +40,7 @@ export default defineEventHandler(async (event): Promise<MyLab> => {
       practicals: practicals.filter((p) => p.sectionId === e.sectionId)
         .map((p) => ({
           id: p.id, title: p.title, meetingDate: p.meetingDate, dueAt: p.dueAt.toISOString(), substrate: p.substrate, method: p.method,
+          reagent: p.reagent,
         })),
     }
   }))

@@ -46,6 +46,8 @@ export interface DigestContext {
   methodName: string
   keyFactor: ResultsKeyFactor
   literature: number | null
+  /** Whence the literature value, as a reference. */
+  literatureSource: string | null
   products: Array<{ smiles: string, label: string, name: string | null }>
   /** Class mean mole % per product (included results). */
   classMolePercents: Array<{ smiles: string, percent: number | null }>
@@ -186,6 +188,7 @@ export async function loadDigestContext(scope: PracticalScope, sectionId: number
     methodName: names.method,
     keyFactor: key,
     literature: summary.literature[key],
+    literatureSource: summary.literatureSource,
     products: chemistry.products.map((p) => ({ smiles: p.smiles, label: p.label, name: p.name })),
     classMolePercents: summary.distribution.map((d) => ({ smiles: d.smiles, percent: d.observed })),
     classStats,

@@ -105,7 +105,9 @@ function classFigures(ctx: DigestContext): string[] {
   const label = RESULTS_FACTOR_LABELS[ctx.keyFactor]
   const lines = [
     `Class, ${label} selectivity per H: ${statsLine(ctx.classStats)}.`,
-    `Literature value for the method: ${ctx.literature === null ? 'none given' : digestNumber(ctx.literature)}.`,
+    ctx.literature === null
+      ? 'Reference value: none on file for this method.'
+      : `Reference value: ${digestNumber(ctx.literature)} (${ctx.literatureSource ?? ctx.methodName}).`,
     `Section ${ctx.section.code}: ${statsLine(ctx.sectionStats)}.`,
   ]
   lines.splice(1, 0, countedLine(ctx))
@@ -165,8 +167,8 @@ function studentDigestCsv(ctx: DigestContext, unit: DigestUnit | null, whose: st
       null, null, null, null, ...mole.map((m) => digestCell(m))]
   }
   const flags = [
-    ...(mine?.flags.map((f) => f.code) ?? []), ...(unit?.outlier ? ['outlier'] : []),
-    ...(mine?.exclusionReason != null ? ['excluded'] : []),
+    ...(mine?.flags.map((f) => reviewFlagName(f.code)) ?? []), ...(unit?.outlier ? [reviewFlagName('outlier')] : []),
+    ...(mine?.exclusionReason != null ? ['left out of the class figures'] : []),
   ]
   const rows: CsvCell[][] = [
     statsRow('Class', ctx.classStats, ctx.products.map((p) => ctx.classMolePercents.find((m) => m.smiles === p.smiles)?.percent ?? null)),

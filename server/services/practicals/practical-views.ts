@@ -5,6 +5,7 @@ import {
   type ReferenceWindowView, type SessionView, type WindowView,
 } from '#shared/types/practical'
 import { computeQuantities, expectedProducts, hazardsForReagent } from '#shared/utils/procedure'
+import { readerSource } from '#shared/utils/source-line'
 import { useDb } from '../../utils/db'
 import { substrateAnalysis, substrateDepiction, substrateProductNamer } from '../library'
 import { partnerNames } from '../roster'
@@ -13,8 +14,9 @@ import { meetingsOf, sectionRows } from '../sections'
 // Reading practicals for the routes under server/api/practicals. Every reader takes
 // the caller's scope (from requirePracticalAccess / requireCourseAccess) and puts it in the SQL.
 
+// Pages read the source as a reference (readerSource): our "from memory" notes stay in the library.
 export function methodSummary(m: Pick<Method, 'id' | 'name' | 'reagent' | 'halogen' | 'temperatureC' | 'source'>): MethodSummary {
-  return { id: m.id, name: m.name, reagent: m.reagent, halogen: m.halogen, temperatureC: m.temperatureC, source: m.source }
+  return { id: m.id, name: m.name, reagent: m.reagent, halogen: m.halogen, temperatureC: m.temperatureC, source: readerSource(m.source) }
 }
 
 /** Sessions of some practicals, limited to the sections the caller may see (null: all). */

@@ -93,6 +93,7 @@ export async function practicalSummary(
     bySection: sections.map((s, i) => ({ sectionId: s.id, code: s.code, n: bySectionRows[i]!.length, factors: sectionFactors[i]! })),
     keyFactor: chemistry.keyFactor,
     literature: chemistry.literature,
+    literatureSource: chemistry.literatureSource ?? null,
     withoutOutliers,
     distribution,
     comparison: { basis: chemistry.expected.basis, description: chemistry.expected.description, factors: chemistry.expected.factors },

@@ -4,7 +4,7 @@ import type { Database, Submission } from '../../database/schema'
 import type { BulkAcceptResult, ExclusionView, QueueRow, ReviewSaved } from '#shared/types/review'
 import type { reviewInputSchema } from '#shared/types/submission'
 import type { z } from 'zod'
-import { rubricScoreIssues, rubricTotal, startingScores } from '#shared/utils/grading'
+import { criteriaToMark, judgedScores, rubricScoreIssues, rubricTotal } from '#shared/utils/grading'
 import { createError } from 'h3'
 import { latestUnitVersion } from './scope'
 import { audit, type Actor } from '../../utils/audit'
@@ -168,8 +168,9 @@ function chooseCleanRows(scope: ReviewerScope, queue: BulkAcceptQueue, ids: numb
     const row = byId.get(id)
     const skip = bulkSkipReason(row)
     if (skip) { skipped.push({ id, reason: skip }); continue }
-    const scores = startingScores(rubric, { observed: row!.keyFactor, expected: queue.expected, tolerancePercent }, given)
-    if (rubricScoreIssues(rubric, scores, { requireAll: true }).length) {
+    const scores = judgedScores(rubric, { observed: row!.keyFactor, expected: queue.expected, tolerancePercent }, given)
+    const unjudged = rubric.some((c) => c.kind === 'accuracy' && scores[c.key] === undefined)
+    if (unjudged) {
       skipped.push({ id, reason: 'No selectivity to score accuracy from: review it on its own' })
       continue
     }
@@ -180,7 +181,8 @@ function chooseCleanRows(scope: ReviewerScope, queue: BulkAcceptQueue, ids: numb
 
 /**
  * Accepts only clean rows (latest, pending, no warning or blocking flag, no outlier, not
- * excluded) with the suggested accuracy score and full marks elsewhere unless `given`.
+ * excluded) with the suggested accuracy score. Criteria that need a person's reading stay empty
+ * ("to mark") unless `given`; the total waits until every criterion has a score.
  */
 export async function acceptCleanInBulk(
   db: Kysely<Database>, actor: Actor, scope: ReviewerScope, queue: BulkAcceptQueue, ids: number[], given: Scores,
@@ -199,9 +201,10 @@ export async function acceptCleanInBulk(
         result.skipped.push({ id, reason: 'Changed while accepting: review it on its own' })
         continue
       }
-      const total = rubricTotal(rubric, scores)
+      const toMark = criteriaToMark(rubric, scores).map((c) => c.key)
+      const total = toMark.length ? null : rubricTotal(rubric, scores)
       await writeDecision(trx, actor, submission, { decision: 'accept', reason: null, comment: '', scores, total, bulk: true })
-      result.accepted.push({ id, scores, total })
+      result.accepted.push({ id, scores, total, toMark })
     }
   })
   return result

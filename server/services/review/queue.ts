@@ -125,6 +125,16 @@ export async function reviewQueueOf(scope: ReviewerScope) {
   return { chemistry, ...await buildReviewQueue(scope, chemistry.keyFactor) }
 }
 
+/** Accepted runs whose latest acceptance left criteria for a later pass (its total is still null). */
+async function acceptedWithPartsToMark(rows: Array<{ id: number, status: SubmissionStatus }>): Promise<Set<number>> {
+  const ids = rows.filter((r) => r.status === 'accepted').map((r) => r.id)
+  if (!ids.length) return new Set()
+  const latest = await useDb().selectFrom('reviews').distinctOn('submissionId').select(['submissionId', 'total'])
+    .where('submissionId', 'in', ids).where('decision', '=', 'accept')
+    .orderBy('submissionId').orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
+  return new Set(latest.filter((r) => r.total === null).map((r) => r.submissionId))
+}
+
 /** Every work unit's latest version in the caller's sections, flagged and sorted. */
 export async function buildReviewQueue(
   scope: ReviewerScope, keyFactor: ReviewFactorKey,
@@ -140,7 +150,8 @@ export async function buildReviewQueue(
       's.factorSecondary', 's.factorTertiary', 's.excludedAt', 's.exclusionReason', 'excluder.name as excludedByName'])
   if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
   const latest = await query.execute()
-  const [outliers, units] = await Promise.all([classOutliersFor(scope, keyFactor), unitViewsOf(latest)])
+  const [outliers, units, toMark] = await Promise.all([
+    classOutliersFor(scope, keyFactor), unitViewsOf(latest), acceptedWithPartsToMark(latest)])
   const rows = latest.map((s): QueueRow => {
     const { flags, attention } = flagsWithOutlier(s.flags as StoredFlag[], s.id, outliers, keyFactor)
     const excluded = s.excludedAt ? { at: s.excludedAt.toISOString(), by: s.excludedByName, reason: s.exclusionReason ?? '' } : null
@@ -157,6 +168,7 @@ export async function buildReviewQueue(
       attention,
       excluded,
       clean: s.status === 'pending' && attention === 0 && !excluded,
+      toMark: toMark.has(s.id),
     }
   })
   return { rows: rows.sort(compareQueueRows), outliers }
@@ -186,7 +198,7 @@ export function queuePracticalOf(scope: ReviewerScope, chemistry: Pick<Practical
   return {
     id: scope.practical.id,
     title: scope.practical.title,
-    course: { id: scope.course.id, code: scope.course.code, title: scope.course.title },
+    course: { id: scope.course.id, code: scope.course.code, title: scope.course.title, term: scope.course.term },
     timezone: scope.course.timezone,
     keyFactor: chemistry.keyFactor,
     expected: chemistry.expected.factors[chemistry.keyFactor],
@@ -220,7 +232,7 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
     items.push({
       id,
       title: scope.practical.title,
-      course: { id: scope.course.id, code: scope.course.code, title: scope.course.title },
+      course: { id: scope.course.id, code: scope.course.code, title: scope.course.title, term: scope.course.term },
       sections: (await reviewSectionsOf(scope)).map((s) => s.code),
       counts: countQueueRows(rows),
     })

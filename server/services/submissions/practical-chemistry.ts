@@ -1,5 +1,6 @@
 import type { ExpectationView } from '#shared/types/submission'
 import { practicalChemistryOf, type PracticalChemistry } from '#shared/utils/submission'
+import { methodReference } from '#shared/utils/source-line'
 import { substrateAnalysis, substrateProductNamer, substrateReferenceFor } from '../library'
 import { useDb } from '../../utils/db'
 
@@ -11,7 +12,8 @@ export async function practicalChemistry(practical: { substrateId: number, metho
   const db = useDb()
   const substrate = await db.selectFrom('substrates').select(['id', 'smiles'])
     .where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
-  const method = await db.selectFrom('methods').select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary'])
+  const method = await db.selectFrom('methods')
+    .select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary', 'name', 'temperatureC', 'source'])
     .where('id', '=', practical.methodId).executeTakeFirstOrThrow()
   const [windows, nameOf, reference, analysis] = await Promise.all([
     db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor'])
@@ -20,7 +22,8 @@ export async function practicalChemistry(practical: { substrateId: number, metho
     substrateReferenceFor(db, substrate.id, method.reagent),
     substrateAnalysis(substrate.smiles, method.halogen),
   ])
-  return practicalChemistryOf(substrate.smiles, method, windows, { nameOf, reference, analysis })
+  const chemistry = practicalChemistryOf(substrate.smiles, method, windows, { nameOf, reference, analysis })
+  return { ...chemistry, literatureSource: methodReference(method) }
 }
 
 /** A product's share in the reference distribution, or null when the practical has none. */

@@ -122,10 +122,10 @@ describe('setSubmissionExclusion', () => {
 describe('acceptCleanInBulk', () => {
   const row = (id: number, over: Partial<QueueRow> = {}): QueueRow => ({
     id, unit: { key: `unit-${id}`, label: '', members: [], station: null }, section: { id: 0, code: '' }, version: 1,
-    submittedAt: '', late: false, status: 'pending', keyFactor: 4, flags: [], attention: 0, excluded: null, clean: true, ...over,
+    submittedAt: '', late: false, status: 'pending', keyFactor: 4, flags: [], attention: 0, excluded: null, clean: true, toMark: false, ...over,
   })
 
-  it('accepts only the clean rows, with full marks for an exact selectivity, and says why the others were skipped', async () => {
+  it('accepts only the clean rows, scoring accuracy alone and leaving the parts a person reads to mark', async () => {
     const [clean] = await freshUnit(1, { factorSecondary: 4 })
     const [flagged] = await freshUnit()
     const [taken] = await freshUnit()
@@ -138,7 +138,11 @@ describe('acceptCleanInBulk', () => {
       ],
     }
     const result = await acceptCleanInBulk(testDb(), actor, scope, queue, [clean!.id, flagged!.id, taken!.id, 999_999_999], {})
-    expect(result.accepted).toEqual([{ id: clean!.id, scores: fullMarks(), total: maxTotal() }])
+    // An exact selectivity: full accuracy points; the chromatogram and the discussion wait for a person, so no total yet.
+    const accuracyOnly = Object.fromEntries(scope.course.rubric.filter((c) => c.kind === 'accuracy').map((c) => [c.key, c.maxPoints]))
+    const manual = scope.course.rubric.filter((c) => c.kind === 'manual').map((c) => c.key)
+    expect(manual.length).toBeGreaterThan(0)
+    expect(result.accepted).toEqual([{ id: clean!.id, scores: accuracyOnly, total: null, toMark: manual }])
     expect(Object.fromEntries(result.skipped.map((s) => [s.id, s.reason]))).toEqual({
       [flagged!.id]: 'Has flags to look at: review it on its own',
       [taken!.id]: 'Already accepted',
@@ -147,7 +151,16 @@ describe('acceptCleanInBulk', () => {
     expect(await statusOf(clean!.id)).toBe('accepted')
     expect(await statusOf(flagged!.id)).toBe('pending')
     const [audit] = await auditRowsOf('submission', clean!.id)
-    expect(audit!.after).toMatchObject({ status: 'accepted', bulk: true })
+    expect(audit!.after).toMatchObject({ status: 'accepted', bulk: true, scores: accuracyOnly, total: null })
+  })
+
+  it('fills a part a person reads only with the points the reviewer gave for every chosen run', async () => {
+    const [clean] = await freshUnit(1, { factorSecondary: 4 })
+    const given = Object.fromEntries(scope.course.rubric.filter((c) => c.kind === 'manual').map((c) => [c.key, 1]))
+    const result = await acceptCleanInBulk(testDb(), actor, scope, { expected: 4, rows: [row(clean!.id)] }, [clean!.id], given)
+    expect(result.accepted[0]).toMatchObject({ toMark: [], scores: { ...given } })
+    const manualMax = scope.course.rubric.filter((c) => c.kind === 'manual').reduce((sum, c) => sum + c.maxPoints, 0)
+    expect(result.accepted[0]!.total).toBe(maxTotal() - manualMax + Object.keys(given).length)
   })
 
   it('skips a row whose unit got a newer version since the queue was read', async () => {
