@@ -70,6 +70,7 @@ beforeAll(async () => {
 
   const sectionBody = { code: 'SW', weekday: 2, startTime: '08:00', endTime: '09:00', room: 'Sweep room', hoodStations: 10, firstDate: '2027-01-11', lastDate: '2027-04-30', skippedDates: ['2027-03-16'] }
   const courseBody = { code: `S${uid}`, title: 'Sweep course', term: 'Spring 2027', timezone: 'America/Chicago' }
+  const copyBody = { term: 'Spring 2028', start: '2028-01-10', end: '2028-05-05' }
   const items = { items: [{ role: 'substrate', name: '1-chlorobutane', smiles: 'ClCCCC', basis: 'mmol', amount: 10 }] }
   const c = course.course.id
   const p = course.practicalId
@@ -94,6 +95,8 @@ beforeAll(async () => {
     'courses/[id]/roster/preview.post.ts': upload(`/api/courses/${c}/roster/preview`, () => owner, roster, { mapping: '{"email":"email"}' }),
     'courses/[id]/roster/import.post.ts': upload(`/api/courses/${c}/roster/import`, () => owner, roster, { mapping: '{"email":"email"}', confirmConflicts: 'false' }),
     'sections/[id].patch.ts': json('PATCH', `/api/sections/${section.id}`, () => owner, { ...sectionBody, code: 'S1' }),
+    'courses/[id]/copy/index.post.ts': json('POST', `/api/courses/${c}/copy`, () => owner, copyBody),
+    'courses/[id]/copy/preview.post.ts': json('POST', `/api/courses/${c}/copy/preview`, () => owner, copyBody),
     'courses/[id]/tas.post.ts': json('POST', `/api/courses/${c}/tas`, () => owner, { email: `ta-${uid}@test.example`, name: 'New TA', sectionIds: [section.id] }),
     'sections/[id]/enrollments.post.ts': json('POST', `/api/sections/${section.id}/enrollments`, () => owner, { email: `new-${uid}@test.example`, name: 'New Student' }),
     'practicals/[id].patch.ts': json('PATCH', `/api/practicals/${p}`, () => owner, { title: 'Renamed practical', notes: 'Bring goggles' }),
