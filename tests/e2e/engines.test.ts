@@ -86,10 +86,13 @@ describe('while expensive requests are computed', () => {
     const uploads = [1, 2].map((seed, i) => track(`upload ${i}`, uploadGc(uploader, gc.practicalId, bigTrace(gc, seed), { preview: true, name: `trace-${seed}.csv` })))
     // Let the analyses reach the server and start.
     await new Promise((resolve) => setTimeout(resolve, 150))
+    // A repeated SMILES may be answered from the chemistry cache before the check is even sent:
+    // the order then proves nothing, so it is asserted only while the analysis is still running.
+    const runningAtCheck = !done.includes('analysis 0')
     const health = await track('health', new Client().get('/api/health'))
     const replies = await Promise.all([...analyses, ...uploads])
     // On a server that computed on its request loop, the check waited for the analysis running when it came.
-    expect(done.indexOf('health')).toBeLessThan(done.indexOf('analysis 0'))
+    if (runningAtCheck) expect(done.indexOf('health')).toBeLessThan(done.indexOf('analysis 0'))
     expect(health.status).toBe(200)
     expect(replies.map((r) => r.status)).toEqual([200, 200, 200, 200])
     expect((await uploads[0]!).body.kind).toBe('trace')
