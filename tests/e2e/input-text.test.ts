@@ -26,7 +26,7 @@ function routeFiles(dir = API): string[] {
 const readsInput = (file: string) => /readBodyAs\(|readUpload\(/.test(readFileSync(join(API, file), 'utf8'))
 
 // Routes whose body holds numbers only: nothing to sweep (their schemas still refuse junk).
-const NO_TEXT = new Set(['enrollments/[id].patch.ts', 'stockroom/items/[id]/reagent.put.ts', 'account/daily-summary.put.ts'])
+const NO_TEXT = new Set(['enrollments/[id].patch.ts', 'stockroom/items/[id]/reagent.put.ts', 'account/daily-summary.put.ts', 'stockroom/items/[id]/dismiss-link.post.ts'])
 // Fields where several lines are legitimate (notes, comments, reasons, an address).
 const MULTI_LINE = new Set(['notes', 'storageNotes', 'comment', 'reason', 'deliverTo', 'source@methods', 'currentPassword', 'newPassword', 'password'])
 
@@ -125,6 +125,7 @@ beforeAll(async () => {
     'stockroom/orders/index.post.ts': json('POST', '/api/stockroom/orders', () => coordinator, { title: 'Sweep order' }),
     'stockroom/orders/[id].patch.ts': json('PATCH', `/api/stockroom/orders/${draft.id}`, () => coordinator, { title: 'Sweep draft', notes: 'Quote by Friday', lines: [line] }),
     'stockroom/orders/[id]/receive.post.ts': json('POST', `/api/stockroom/orders/${sent.id}/receive`, () => coordinator, { receivedOn: '2026-12-01', lines: [{ lineId: sentLines.lines[0]!.id, containers: 1, lotCode: 'R-1', location: 'Shelf 1', expiresOn: '2027-12-01' }] }),
+    'stockroom/orders/[id]/close.post.ts': json('POST', `/api/stockroom/orders/${sent.id}/close`, () => coordinator, { reason: 'Discontinued by the supplier' }),
     'stockroom/settings.put.ts': json('PUT', '/api/stockroom/settings', () => coordinator, { deliverTo: 'Stockroom, Bellweather Hall', rinseMlPerUnit: 10 }),
   }
 })
