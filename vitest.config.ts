@@ -13,6 +13,9 @@ export default defineConfig({
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],
           environment: 'node',
+          // openchemlib over every seeded substrate takes about a second alone; on two cores
+          // shared with builds it has passed 5 s. A budget, not a timing assertion.
+          testTimeout: 30_000,
         },
       },
       await defineVitestProject({
@@ -22,6 +25,7 @@ export default defineConfig({
           environment: 'nuxt',
           // Each file starts the Nuxt app in beforeAll: on two busy cores that can pass 10 s.
           hookTimeout: 60_000,
+          testTimeout: 30_000,
         },
       }),
       {
@@ -48,6 +52,8 @@ export default defineConfig({
           fileParallelism: false,
           testTimeout: 60_000,
           hookTimeout: 180_000,
+          // How long a poll waits for the page or the queue to catch up; 1 s is too short on two busy cores.
+          expect: { poll: { timeout: 15_000 } },
         },
       },
     ],

@@ -56,7 +56,9 @@ export function dateField(format = 'Use YYYY-MM-DD') {
 /** An instant with its offset (ISO 8601), in the same range of years as the dates. */
 export function instantField(format = 'Use an ISO 8601 date and time with its offset') {
   return z.string({ error: format }).superRefine((value, ctx) => {
-    if (!z.iso.datetime({ offset: true }).safeParse(value).success) return void ctx.addIssue({ code: 'custom', message: format, continue: false })
+    if (!z.iso.datetime({ offset: true }).safeParse(value).success) {
+      return void ctx.addIssue({ code: 'custom', message: format, continue: false })
+    }
     const day = isoDateOf(value)
     if (day < EARLIEST_DATE || day > LATEST_DATE) {
       ctx.addIssue({ code: 'custom', message: `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}`, continue: false })

@@ -49,7 +49,9 @@ describe('the shared library', () => {
     expect(detail.body.references).toHaveLength(1)
     const ref = detail.body.references[0]
     expect(ref).toMatchObject({ reagent: 'so2cl2-azo', halogen: 'Cl', sourceKind: 'from-memory' })
-    expect(ref!.source).toMatch(/from memory/)
+    // The kind keeps that it was recalled; the line a reader sees is a reference, not our note.
+    expect(ref!.source).toMatch(/J\. Am\. Chem\. Soc\. 77 \(1955\)/)
+    expect(ref!.source).not.toMatch(/from memory/)
     expect(Object.fromEntries(ref!.percents.map((p) => [p.smiles, p.percent]))).toEqual(REFERENCE)
     const names = Object.fromEntries(detail.body.products.map((p) => [p.smiles, p.name]))
     expect(names).toEqual({ [D['1,1']]: '1,1-dichlorobutane', [D['1,2']]: '1,2-dichlorobutane', [D['1,3']]: '1,3-dichlorobutane', [D['1,4']]: '1,4-dichlorobutane' })
