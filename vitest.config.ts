@@ -44,6 +44,8 @@ export default defineConfig({
       {
         test: {
           name: 'e2e',
+          // Some tests build what a page draws from the server's answer with the page's own helper.
+          alias: sharedAlias,
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',
           // One built server, one PostgreSQL and one SMTP fake for every e2e file; files that

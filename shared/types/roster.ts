@@ -59,6 +59,13 @@ export interface RosterPreviewRow {
   outcome: RosterRowOutcome
   /** For a move: the section the student leaves. */
   fromSectionCode?: string
+  /**
+   * For a student already in the course: the file gives them an id where they had none
+   * ('added'), or one different from theirs ('changed', applied only when the instructor confirms).
+   */
+  studentIdChange?: 'added' | 'changed'
+  /** For a 'changed' id: the one they hold now. */
+  previousStudentId?: string
   errors: RosterRowIssue[]
 }
 
@@ -68,6 +75,10 @@ export interface RosterSummary {
   move: number
   unchanged: number
   errors: number
+  /** Students already in the course who get the file's id, having none. */
+  idsAdded: number
+  /** Students already in the course whose id the file gives differently: in a preview, proposed; after an import, replaced. */
+  idsChanged: number
 }
 
 export interface RosterConflictView {
@@ -101,6 +112,8 @@ export interface RosterImportResult {
   importId: number
   summary: RosterSummary
   skipped: RosterSkippedRow[]
+  /** Changed ids the instructor did not confirm: each student keeps the id they had. */
+  idsKept: number
 }
 
 export interface RosterImportHistoryItem {
@@ -116,6 +129,8 @@ export interface RosterImportHistoryItem {
 export const rosterUploadFieldsSchema = z.object({
   mapping: z.string().max(4000).optional(),
   confirmConflicts: z.enum(['true', 'false']).default('false'),
+  /** JSON list of the e-mails whose changed student id the instructor confirmed. */
+  replaceStudentIds: z.string().max(60_000).optional(),
 })
 
 const email = z.string().trim().toLowerCase().email('Enter an e-mail address').max(254, 'At most 254 characters')

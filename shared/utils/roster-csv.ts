@@ -122,6 +122,8 @@ export interface RosterAccount {
   role: string
   /** The section of this course the student is active in, if any. */
   activeSectionId: number | null
+  /** The student id on that active enrolment, if any. */
+  activeStudentId?: string | null
 }
 
 export interface RosterCheckContext {
@@ -179,9 +181,16 @@ export function checkRosterRows(rows: MappedRosterRow[], context: RosterCheckCon
     if (errors.length) return { ...base, outcome: 'error' as const }
     if (!account) return { ...base, outcome: 'new' as const }
     if (account.activeSectionId === null) return { ...base, outcome: 'enrol' as const }
-    if (account.activeSectionId === section!.id) return { ...base, outcome: 'unchanged' as const }
-    return { ...base, outcome: 'move' as const, fromSectionCode: codes.get(account.activeSectionId) ?? '' }
+    const placed = { ...base, ...studentIdChange(r.studentId, account.activeStudentId ?? null) }
+    if (account.activeSectionId === section!.id) return { ...placed, outcome: 'unchanged' as const }
+    return { ...placed, outcome: 'move' as const, fromSectionCode: codes.get(account.activeSectionId) ?? '' }
   })
+}
+
+/** What the file's id does to a student already in the course; an empty cell never erases one. */
+function studentIdChange(given: string, held: string | null): Pick<RosterPreviewRow, 'studentIdChange' | 'previousStudentId'> {
+  if (!given || given === held) return {}
+  return held === null ? { studentIdChange: 'added' } : { studentIdChange: 'changed', previousStudentId: held }
 }
 
 /** The optional student id: short, once in the file, and not another student's in this course. */
@@ -200,11 +209,13 @@ function studentIdProblems(r: MappedRosterRow, userId: number | null, held: Map<
   return []
 }
 
-export function summarizeRosterRows(rows: Array<Pick<RosterPreviewRow, 'outcome'>>): RosterSummary {
-  const summary: RosterSummary = { new: 0, enrol: 0, move: 0, unchanged: 0, errors: 0 }
+export function summarizeRosterRows(rows: Array<Pick<RosterPreviewRow, 'outcome' | 'studentIdChange'>>): RosterSummary {
+  const summary: RosterSummary = { new: 0, enrol: 0, move: 0, unchanged: 0, errors: 0, idsAdded: 0, idsChanged: 0 }
   for (const r of rows) {
     if (r.outcome === 'error') summary.errors++
     else summary[r.outcome]++
+    if (r.studentIdChange === 'added') summary.idsAdded++
+    else if (r.studentIdChange === 'changed') summary.idsChanged++
   }
   return summary
 }

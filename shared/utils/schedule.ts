@@ -2,6 +2,7 @@
 // named time zone become UTC instants (so a term that crosses a daylight-saving change keeps
 // its 08:30 start), and conflicts are found on those instants.
 import { addDays, isoWeekday, zonedInstant } from './dates'
+import { displayDate } from './date-display'
 
 export interface SectionTimetable {
   /** ISO weekday: 1 = Monday … 7 = Sunday. */
@@ -83,7 +84,8 @@ function overlappingDates(a: Meeting[], b: Meeting[]): string[] {
 }
 
 function describeDates(dates: string[]) {
-  return dates.length > 3 ? `${dates.slice(0, 3).join(', ')} and ${dates.length - 3} more` : dates.join(', ')
+  const shown = dates.slice(0, 3).map((d) => displayDate(d)).join(', ')
+  return dates.length > 3 ? `${shown} and ${dates.length - 3} more` : shown
 }
 
 /** A TA in two places at once, a room booked twice, or a section with more students than seats. */

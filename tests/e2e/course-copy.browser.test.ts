@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { chromium, type Browser } from 'playwright-core'
-import { describeViolations, launchBrowser, openTab, screenshot, seriousViolations, signInThroughPage } from '../support/browser'
+import {
+  describeViolations, expectNoSidewaysScroll, launchBrowser, openTab, screenshot, seriousViolations, signInThroughPage,
+} from '../support/browser'
 import { closeTestDb, createUser, TEST_PASSWORD, testDb } from '../support/db'
 import { gcTable, makeGcPractical, uploadGc, type GcPractical } from '../support/gc'
 
@@ -61,6 +63,10 @@ describe('copying a course to a new term', () => {
     const bad = await owner.post(`/api/courses/${gc.courseId}/copy`, { ...spring, end: '2027-01-01' })
     expect(bad.status).toBe(400)
     expect(bad.refusal.data?.field).toBe('end')
+    // A term too short for Y1 (Thursdays) is refused, naming Y1's first date as people read it.
+    const short = await owner.post(`/api/courses/${gc.courseId}/copy/preview`, { ...spring, end: '2027-01-13' })
+    expect(short.status).toBe(400)
+    expect(short.refusal.statusMessage).toBe('end: Section Y1 would not meet before the term ends (its first date is Thu 14 Jan 2027)')
 
     const saved = await owner.post(`/api/courses/${gc.courseId}/copy`, spring)
     expect(saved.status).toBe(201)
@@ -115,11 +121,12 @@ describe('copying a course to a new term', () => {
       await page.getByText('3 enrolments').waitFor()
       // The 820 px run copies into the same weeks as the 1440 px one, in the same room.
       if (viewport.width === 820) await page.getByText('2 scheduling conflicts in the new term').waitFor()
+      // Dates people read are in the one style: none as an ISO code (inputs' values are not text).
+      expect(await page.locator('main').innerText()).not.toMatch(/\b\d{4}-\d{2}-\d{2}\b|\d{4}-W\d{2}/)
       const violations = await seriousViolations(page)
       expect(violations, describeViolations(violations)).toEqual([])
       await screenshot(page, `course-copy-preview-${viewport.width}`)
-      const width = await page.evaluate(() => document.documentElement.scrollWidth)
-      expect(width).toBeLessThanOrEqual(viewport.width)
+      await expectNoSidewaysScroll(page)
       await page.getByRole('button', { name: new RegExp(`^Save TEST .* for ${term}$`) }).click()
       await page.waitForURL((url) => /\/courses\/\d+$/.test(url.pathname) && !url.pathname.endsWith(`/${gc.courseId}`))
       await page.getByText(`${term} · times in America/Chicago`).waitFor()

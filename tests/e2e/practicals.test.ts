@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, DEMO, signedIn } from '../support/http'
 import { closeTestDb, testDb } from '../support/db'
+import { displayDate } from '../../shared/utils/date-display'
 
 // Molar masses: IUPAC standard atomic weights; densities: CRC Handbook, from memory (both as
 // listed in PRODUCT.md).
@@ -152,7 +153,7 @@ describe('setting up a practical', () => {
     const holiday = (await testDb().selectFrom('sections').select('skippedDates').where('id', '=', sections.R1!).executeTakeFirstOrThrow()).skippedDates[0]!
     const notAMeeting = await instructor.request(`/api/practicals/${id}/sessions`, { method: 'PUT', json: { sessions: [{ sectionId: sections.M1, meetingDate: m1 }, { sectionId: sections.R1, meetingDate: holiday }] } })
     expect(notAMeeting.status).toBe(400)
-    expect(notAMeeting.refusal.statusMessage).toBe(`sessions.1.meetingDate: ${holiday} is not a meeting of section R1`)
+    expect(notAMeeting.refusal.statusMessage).toBe(`sessions.1.meetingDate: ${displayDate(holiday)} is not a meeting of section R1`)
     const foreign = await instructor.request(`/api/practicals/${id}/sessions`, { method: 'PUT', json: { sessions: [{ sectionId: 999_999, meetingDate: m1 }] } })
     expect(foreign.refusal.statusMessage).toMatch(/^sessions\.0\.sectionId:/)
 

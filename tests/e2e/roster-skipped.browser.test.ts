@@ -2,9 +2,10 @@ import { readFile } from 'node:fs/promises'
 import Papa from 'papaparse'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { describeViolations, launchBrowser, openTab, screenshotFromTop, seriousViolations, signInThroughPage } from '../support/browser'
+import { describeViolations, expectNoSidewaysScroll, launchBrowser, screenshotFromTop, seriousViolations } from '../support/browser'
 import { closeTestDb } from '../support/db'
 import { makeCourse, registrarRoster } from './fixtures/rosters/course'
+import { csvFile, openRosterTab } from './fixtures/rosters/roster-page'
 
 let browser: Browser
 beforeAll(async () => { browser = await launchBrowser() })
@@ -18,19 +19,12 @@ async function accessible(page: Page) {
   expect(violations, describeViolations(violations)).toEqual([])
 }
 
-const csvFile = (name: string, text: string) => ({ name, mimeType: 'text/csv', buffer: Buffer.from(text, 'utf8') })
-
 describe('a roster import that skips bad rows, in Chromium', () => {
   for (const width of [1440, 820]) {
     it(`at ${width} px: imports 28, lists the 4 skipped, takes them back once fixed, and finds a student by id`, async () => {
       const { course, instructor } = await makeCourse()
       const roster = registrarRoster(`w${width}.example`)
-      const tab = await openTab(browser, { width, height: 900 })
-      const { page } = tab
-      await signInThroughPage(page, instructor.email, instructor.password)
-      await page.goto(`/courses/${course.id}?tab=roster`)
-      const picker = page.getByLabel('Roster file (CSV)')
-      await picker.waitFor()
+      const { tab, page, picker } = await openRosterTab(browser, width, instructor, course.id)
 
       // The button says what it will do; the bad rows are marked in the preview.
       await picker.setInputFiles(csvFile('registrar.csv', roster.csv))
@@ -39,6 +33,7 @@ describe('a roster import that skips bad rows, in Chromium', () => {
       expect(await importButton.isDisabled()).toBe(false)
       await page.getByText('No section “Z9” in this course').waitFor()
       await accessible(page)
+      await expectNoSidewaysScroll(page)
       await screenshotFromTop(page, `roster-skip-preview-${width}`)
 
       await importButton.click()

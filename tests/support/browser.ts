@@ -98,3 +98,12 @@ export async function signInThroughPage(page: Page, email: string, password = 'h
   await page.getByRole('button', { name: 'Sign in' }).click()
   await page.waitForURL((url) => !url.pathname.startsWith('/login'))
 }
+
+/** Fails when the whole page scrolls sideways (a wide table must wrap, stack or scroll in its own box). */
+export async function expectNoSidewaysScroll(page: Page) {
+  const { scrollWidth, clientWidth } = await page.evaluate(() => {
+    const root = document.scrollingElement!
+    return { scrollWidth: root.scrollWidth, clientWidth: root.clientWidth }
+  })
+  expect(scrollWidth, `the page is ${scrollWidth} px wide in a ${clientWidth} px window`).toBeLessThanOrEqual(clientWidth)
+}

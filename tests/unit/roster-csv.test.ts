@@ -89,7 +89,7 @@ describe('checkRosterRows', () => {
     expect(rows[3]!.errors).toEqual([{ field: 'name', message: 'No name' }])
     expect(rows[4]!.errors).toEqual([{ field: 'section', message: 'No section “Z9” in this course' }])
     expect(rows[5]!.errors.map((e) => e.field)).toEqual(['email', 'section'])
-    expect(summarizeRosterRows(rows)).toEqual({ new: 1, enrol: 0, move: 0, unchanged: 0, errors: 5 })
+    expect(summarizeRosterRows(rows)).toEqual({ new: 1, enrol: 0, move: 0, unchanged: 0, errors: 5, idsAdded: 0, idsChanged: 0 })
   })
 
   it('tells new accounts, enrolments, moves and students already in place apart', () => {
@@ -122,6 +122,26 @@ describe('checkRosterRows', () => {
     expect(rows[1]!.errors).toEqual([{ field: 'studentId', message: 'Same student ID as row 2' }])
     expect(rows[2]!.errors).toEqual([{ field: 'studentId', message: 'Another student in this course has this student ID' }])
     expect(rows[5]!.errors).toEqual([{ field: 'studentId', message: 'Student ID longer than 40 characters' }])
+  })
+
+  it('marks an id for a student already in the course as added where they had none, changed where it differs', () => {
+    const accounts = new Map<string, RosterAccount>([
+      ['none@x.example', { userId: 20, role: 'student', activeSectionId: 1, activeStudentId: null }],
+      ['same@x.example', { userId: 21, role: 'student', activeSectionId: 1, activeStudentId: 'LS21' }],
+      ['other@x.example', { userId: 22, role: 'student', activeSectionId: 1, activeStudentId: 'LS22' }],
+      ['blank@x.example', { userId: 23, role: 'student', activeSectionId: 1, activeStudentId: 'LS23' }],
+      ['moves@x.example', { userId: 24, role: 'student', activeSectionId: 1, activeStudentId: null }],
+    ])
+    const rows = check([
+      'Student ID,Email,Name,Section',
+      'LS20,none@x.example,N,M1', 'LS21,same@x.example,S,M1', 'LS99,other@x.example,O,M1', ',blank@x.example,B,M1',
+      'LS24,moves@x.example,V,T1',
+    ].join('\n'), accounts, new Map([['LS21', 21], ['LS22', 22], ['LS23', 23]]))
+    expect(rows.map((r) => [r.outcome, r.studentIdChange, r.previousStudentId])).toEqual([
+      ['unchanged', 'added', undefined], ['unchanged', undefined, undefined], ['unchanged', 'changed', 'LS22'],
+      ['unchanged', undefined, undefined], ['move', 'added', undefined],
+    ])
+    expect(summarizeRosterRows(rows)).toMatchObject({ unchanged: 4, move: 1, idsAdded: 2, idsChanged: 1 })
   })
 
   it('keeps a formula-looking cell exactly as written', () => {

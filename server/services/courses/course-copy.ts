@@ -4,6 +4,7 @@ import type { Course, Database } from '../../database/schema'
 import { audit, type Actor } from '../../utils/audit'
 import { invalid } from '../../utils/validation'
 import type { CopiedPracticalView, CopiedSectionView, CourseCopyPreview, courseCopySchema } from '#shared/types/course-copy'
+import { displayDate } from '#shared/utils/date-display'
 import { sectionMeetings } from '#shared/utils/schedule'
 import { shiftTimetable, type TermShift } from '#shared/utils/term-shift'
 import { conflictsOfNewSections } from '../sections'
@@ -77,7 +78,8 @@ function refuseEmptySections(source: Source, shift: TermShift) {
   for (const section of source.sections) {
     const { firstDate, lastDate } = moved.get(section.id)!
     if (firstDate > lastDate) {
-      invalid([{ field: 'end', message: `Section ${section.code} would not meet before the term ends (its first date is ${firstDate})` }])
+      const message = `Section ${section.code} would not meet before the term ends (its first date is ${displayDate(firstDate)})`
+      invalid([{ field: 'end', message }])
     }
   }
 }

@@ -6,6 +6,7 @@ import { audit, type Actor } from '../../utils/audit'
 import { asBadRequest } from '../../utils/errors'
 import { invalid } from '../../utils/validation'
 import type { PracticalPatch, SessionsInput } from '#shared/types/practical'
+import { displayDate } from '#shared/utils/date-display'
 import { defaultDueAt, type ItemSpec } from '#shared/utils/procedure'
 import { meetingsOf, sectionRows } from '../sections'
 import { prefilledItems, replacePracticalItems, requireLibraryChoice, touchPractical } from './practical-items'
@@ -137,7 +138,10 @@ export async function setPracticalSessions(
     const section = sections.get(s.sectionId)
     if (!section) invalid([{ field: `sessions.${i}.sectionId`, message: 'Not a section of this course' }])
     const meeting = meetingsOf(section).find((m) => m.date === s.meetingDate)
-    if (!meeting) invalid([{ field: `sessions.${i}.meetingDate`, message: `${s.meetingDate} is not a meeting of section ${section.code}` }])
+    if (!meeting) {
+      const message = `${displayDate(s.meetingDate)} is not a meeting of section ${section.code}`
+      invalid([{ field: `sessions.${i}.meetingDate`, message }])
+    }
     const dueAt = s.dueAt ? new Date(s.dueAt) : defaultDueAt(s.meetingDate, course.timezone)
     if (dueAt.getTime() < Date.parse(meeting.end)) {
       invalid([{ field: `sessions.${i}.dueAt`, message: `Due after the meeting of section ${section.code} ends` }])

@@ -3,6 +3,6 @@
 export { acceptInvitation, resendInvitation } from './invitation-commands'
 export { findInvitation, invitationGone } from './invitations'
 export { inviteTa, openInvitationsOf, resendOpenInvitations } from './course-invitations'
-export { planRosterImport, rosterImportHistory, rosterPreviewRows, skippedRowsCsv } from './roster-import'
+export { confirmedIdChanges, planRosterImport, rosterImportHistory, rosterPreviewRows, skippedRowsCsv } from './roster-import'
 export { addEnrollment, assignStations, importRoster, placeEnrollment, refuseWithdrawn, withdrawEnrollment } from './roster-commands'
 export { loadSectionRoster, partnerNames, requireEnrollmentAccess, stationMates } from './section-roster'

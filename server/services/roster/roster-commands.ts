@@ -24,7 +24,9 @@ type Db = Kysely<Database>
  * Every row is checked again inside the transaction, so a stale preview never decides anything;
  * a file with no good row is refused whole.
  */
-export async function importRoster(db: Db, actor: Actor, ctx: RosterWriteContext, upload: MultipartUpload, confirmConflicts: boolean) {
+export async function importRoster(
+  db: Db, actor: Actor, ctx: RosterWriteContext, upload: MultipartUpload, confirmConflicts: boolean, replaceIds: Set<string> = new Set(),
+) {
   return withRosterRace(() => db.transaction().execute(async (trx): Promise<RosterImportResult> => {
     const plan = await planRosterImport(trx, ctx.course.id, upload)
     if (plan.mappingIssues.length) invalid(plan.mappingIssues, 422)
@@ -36,9 +38,10 @@ export async function importRoster(db: Db, actor: Actor, ctx: RosterWriteContext
     }
     refuseOverCapacity(plan.conflicts, confirmConflicts)
 
-    const { invited, moved } = await writeRosterRows(trx, ctx, plan.rows.filter((r) => r.outcome !== 'error'))
+    const written = await writeRosterRows(trx, ctx, plan.rows.filter((r) => r.outcome !== 'error'), replaceIds)
+    const { invited, moved, idsKept } = written
     const fileId = await storeFile(trx, upload.file, ctx.me.id, 'text/csv')
-    const summary = plan.summary
+    const summary = { ...plan.summary, idsChanged: written.idsReplaced }
     const skipped: RosterSkippedRow[] = bad.map((r) => ({
       row: r.row, email: r.email, name: r.name, sectionCode: r.sectionCode, studentId: r.studentId, reasons: r.errors.map((e) => e.message),
     }))
@@ -49,11 +52,11 @@ export async function importRoster(db: Db, actor: Actor, ctx: RosterWriteContext
     await audit(trx, actor, {
       action: 'roster.import', entity: 'course', entityId: ctx.course.id,
       after: {
-        importId: row.id, fileId, fileName: upload.file.name, summary, invited, moved,
+        importId: row.id, fileId, fileName: upload.file.name, summary, invited, moved, idsKept,
         skippedRows: skipped.map((r) => r.row), conflictsConfirmed: plan.conflicts.map((c) => c.message),
       },
     })
-    return { importId: row.id, summary, skipped }
+    return { importId: row.id, summary, skipped, idsKept }
   }), 'The roster changed while importing. Preview the file again.')
 }
 

@@ -45,9 +45,11 @@ async function rosterAccounts(db: Db, courseId: number, emails: string[]): Promi
   const rows = await db.selectFrom('users')
     .leftJoin('enrollments', (j) => j.onRef('enrollments.userId', '=', 'users.id')
       .on('enrollments.courseId', '=', courseId).on('enrollments.status', '=', 'active'))
-    .select(['users.id', 'users.email', 'users.role', 'enrollments.sectionId'])
+    .select(['users.id', 'users.email', 'users.role', 'enrollments.sectionId', 'enrollments.studentId'])
     .where('users.email', 'in', emails).execute()
-  for (const r of rows) accounts.set(r.email, { userId: r.id, role: r.role, activeSectionId: r.sectionId ?? null })
+  for (const r of rows) {
+    accounts.set(r.email, { userId: r.id, role: r.role, activeSectionId: r.sectionId ?? null, activeStudentId: r.studentId ?? null })
+  }
   return accounts
 }
 
@@ -104,8 +106,29 @@ export interface RosterWriteContext {
   appUrl: string
 }
 
-/** Creates accounts, enrolments, moves and invitations for the rows of a clean plan. */
-export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWriteContext, rows: CheckedRosterRow[]) {
+/** The e-mails whose changed student id the instructor confirmed (a JSON list in the upload's fields). */
+export function confirmedIdChanges(raw: string | undefined): Set<string> {
+  if (!raw) return new Set()
+  let parsed: unknown
+  try {
+    parsed = JSON.parse(raw)
+  } catch {
+    throw createError({ statusCode: 400, statusMessage: 'replaceStudentIds: send the confirmed e-mails as a JSON list' })
+  }
+  if (!Array.isArray(parsed) || !parsed.every((e) => typeof e === 'string')) {
+    throw createError({ statusCode: 400, statusMessage: 'replaceStudentIds: send the confirmed e-mails as a JSON list' })
+  }
+  return new Set(parsed.map((e) => e.trim().toLowerCase()))
+}
+
+/**
+ * Creates accounts, enrolments, moves and invitations for the rows of a clean plan. A student
+ * already in the course gets the file's id when they have none; a different id replaces theirs
+ * only when its e-mail is in `replaceIds` (the instructor confirmed that change).
+ */
+export async function writeRosterRows(
+  trx: Transaction<Database>, ctx: RosterWriteContext, rows: CheckedRosterRow[], replaceIds: Set<string> = new Set(),
+) {
   const fresh = rows.filter((r) => r.outcome === 'new')
   const created = fresh.length
     ? await trx.insertInto('users')
@@ -124,11 +147,17 @@ export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWri
     await trx.updateTable('enrollments').set({ sectionId: r.sectionId!, station: null, seat: null })
       .where('courseId', '=', ctx.course.id).where('userId', '=', r.userId!).where('status', '=', 'active').execute()
   }
-  // A student already in place gets the id the file gives them; an empty cell never erases one.
-  for (const r of rows.filter((x) => (x.outcome === 'move' || x.outcome === 'unchanged') && x.studentId)) {
+  const idRows = rows.filter((r) => r.studentIdChange === 'added' || (r.studentIdChange === 'changed' && replaceIds.has(r.email)))
+  // Confirmed replacements let go of their old ids first, so two students may swap theirs.
+  const replacing = idRows.filter((r) => r.studentIdChange === 'changed').map((r) => r.userId!)
+  if (replacing.length) {
+    await trx.updateTable('enrollments').set({ studentId: null })
+      .where('courseId', '=', ctx.course.id).where('userId', 'in', replacing).where('status', '=', 'active').execute()
+  }
+  for (const r of idRows) {
     await trx.updateTable('enrollments').set({ studentId: r.studentId })
       .where('courseId', '=', ctx.course.id).where('userId', '=', r.userId!).where('status', '=', 'active')
-      .where((eb) => eb.or([eb('studentId', 'is', null), eb('studentId', '!=', r.studentId)])).execute()
+      .where('studentId', 'is', null).execute()
   }
   const toInvite = [
     ...fresh.map((r) => ({ userId: idOf.get(r.email)!, email: r.email, name: r.name })),
@@ -138,6 +167,8 @@ export async function writeRosterRows(trx: Transaction<Database>, ctx: RosterWri
   return {
     invited: toInvite.length,
     moved: moves.map((r) => ({ userId: r.userId!, from: r.fromSectionCode ?? null, to: r.sectionCode })),
+    idsReplaced: replacing.length,
+    idsKept: rows.filter((r) => r.studentIdChange === 'changed').length - replacing.length,
   }
 }
 
@@ -188,6 +219,9 @@ export function refuseOverCapacity(conflicts: RosterConflictView[], confirmed: b
   }
 }
 
+// Imports recorded before student ids were counted say nothing of them.
+const NO_ID_COUNTS = { idsAdded: 0, idsChanged: 0 }
+
 /** The course's last 100 roster imports, newest first, with who uploaded which file. */
 export async function rosterImportHistory(db: Db, courseId: number): Promise<RosterImportHistoryItem[]> {
   const rows = await db.selectFrom('rosterImports')
@@ -203,7 +237,7 @@ export async function rosterImportHistory(db: Db, courseId: number): Promise<Ros
     createdAt: r.createdAt.toISOString(),
     by: r.name,
     fileName: r.originalName,
-    summary: r.summary,
+    summary: { ...NO_ID_COUNTS, ...r.summary },
     skipped: r.skipped,
   }))
 }

@@ -4,6 +4,7 @@ import type { Database } from '../../database/schema'
 import type { OrderLine, OrderReceipt, OrderSheet, Reagent } from '../../database/schema-stockroom'
 import type { HazardKey } from '#shared/data/cautions'
 import { toSafeCsv } from '#shared/utils/csv-safe'
+import { displayWeekOf } from '#shared/utils/date-display'
 import {
   formatStock, type ForecastLine, type OrderDetail, type OrderLineInput, type OrderLineView, type OrderStatusName, type OrderSummary,
 } from '#shared/types/stockroom'
@@ -158,8 +159,8 @@ export function linesFromShortfalls(lines: ForecastLine[], reagents: Reagent[]):
     return {
       reagentId: r.id, name: r.name, supplierName: r.supplierName, supplierEmail: r.supplierEmail, catalogNumber: r.catalogNumber,
       containers: l.containers, containerSize: r.containerSize, unit: r.unit,
-      note: `Short by ${formatStock(l.shortfall, l.unit)} for ${l.weeks.length === 1 ? 'the week of' : 'the weeks from'}`
-        + ` ${l.weeks[0]!.week}`,
+      note: `Short by ${formatStock(l.shortfall, l.unit)} for ${l.weeks.length === 1 ? '' : `${l.weeks.length} weeks from `}`
+        + `the ${displayWeekOf(l.weeks[0]!.week)}`,
     }
   })
 }

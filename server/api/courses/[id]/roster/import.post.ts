@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { rosterUploadFieldsSchema, type RosterImportResult } from '#shared/types/roster'
-import { importRoster } from '~~/server/services/roster'
+import { confirmedIdChanges, importRoster } from '~~/server/services/roster'
 
 // The whole file or nothing (importRoster); every row is checked again there.
 export default defineEventHandler(async (event): Promise<RosterImportResult> => {
@@ -8,9 +8,10 @@ export default defineEventHandler(async (event): Promise<RosterImportResult> => 
   const { id } = readParamsAs(event, idParamsSchema)
   const { course } = await requireCourseAccess(event, id, 'manage')
   const upload = await readUpload(event)
-  const { confirmConflicts } = validate(rosterUploadFieldsSchema, upload.fields)
+  const { confirmConflicts, replaceStudentIds } = validate(rosterUploadFieldsSchema, upload.fields)
   const ctx = { course, me, appUrl: useRuntimeConfig(event).public.appUrl }
-  const result = await importRoster(useDb(), actorOf(event), ctx, upload, confirmConflicts === 'true')
+  const replaceIds = confirmedIdChanges(replaceStudentIds)
+  const result = await importRoster(useDb(), actorOf(event), ctx, upload, confirmConflicts === 'true', replaceIds)
   setResponseStatus(event, 201)
   return result
 })
