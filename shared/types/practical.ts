@@ -292,18 +292,3 @@ export function wallClock(iso: string, timezone: string): { date: string, time: 
   }).formatToParts(new Date(iso)).map((p) => [p.type, p.value]))
   return { date: `${parts.year}-${parts.month}-${parts.day}`, time: `${parts.hour}:${parts.minute}` }
 }
-
-/** "Mon 19 Oct 2026, 23:59" in the course's zone. */
-export function formatInZone(iso: string | null | undefined, timezone: string, withTime = true): string {
-  if (!iso) return '—'
-  return new Intl.DateTimeFormat('en-GB', {
-    timeZone: timezone, weekday: 'short', day: 'numeric', month: 'short', year: 'numeric',
-    ...(withTime ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' as const } : {}),
-  }).format(new Date(iso))
-}
-
-/** A meeting date ('YYYY-MM-DD') as "Mon 19 Oct 2026" (a calendar date, no zone shift). */
-export function formatMeetingDate(date: string): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone: 'UTC', weekday: 'short', day: 'numeric', month: 'short', year: 'numeric' })
-    .format(new Date(`${date}T12:00:00Z`))
-}

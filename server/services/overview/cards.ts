@@ -5,6 +5,7 @@ import type { SessionUser } from '#shared/types/auth'
 import { HEADLINE_LABELS } from '#shared/utils/headline'
 import { KEY_FACTOR_LABELS } from '#shared/types/review'
 import { addDays, todayIn } from '#shared/utils/dates'
+import { displayDateTime } from '#shared/utils/date-display'
 import { requirePracticalAccess } from '../../utils/access'
 import { useDb } from '../../utils/db'
 import { reviewPracticalItems } from '../review'
@@ -53,9 +54,8 @@ export function nextLabCard(entries: ScheduleEntry[]): OverviewCard {
     const detail = 'No practical is scheduled in the coming four weeks.'
     return { title: 'Next practical', value: '—', detail, to: '/schedule', action: 'Open the schedule' }
   }
-  const day = new Intl.DateTimeFormat('en-US', {
-    timeZone: next.timezone, weekday: 'short', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false,
-  }).format(new Date(next.start))
+  // The course's wall clock, in the product's one style ("Mon 7 Dec 2026, 08:30").
+  const day = displayDateTime(next.start, next.timezone)
   return {
     title: 'Next practical',
     value: day,

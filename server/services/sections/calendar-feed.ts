@@ -3,6 +3,7 @@ import ical from 'ical-generator'
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../../database/schema'
 import type { Role } from '#shared/types/auth'
+import { displayDateTime } from '#shared/utils/date-display'
 import { audit, type Actor } from '../../utils/audit'
 import { meetingsOf, sectionRows } from './section-rows'
 
@@ -115,8 +116,6 @@ function feedSections(db: Kysely<Database>, user: { id: number, role: Role }) {
 
 const localTime = (iso: string, timezone: string) =>
   new Intl.DateTimeFormat('en-GB', { timeZone: timezone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(iso))
-const localDateTime = (iso: string, timezone: string) =>
-  new Intl.DateTimeFormat('en-GB', { timeZone: timezone, dateStyle: 'medium', timeStyle: 'short', hourCycle: 'h23' }).format(new Date(iso))
 
 /** Every meeting of the user's sections, with the practical run at it, as iCalendar text. */
 export async function calendarFeed(db: Kysely<Database>, user: { id: number, name: string, role: Role }, appUrl: string): Promise<string> {
@@ -146,7 +145,7 @@ export async function calendarFeed(db: Kysely<Database>, user: { id: number, nam
         `${section.courseCode} ${section.courseTitle}, section ${section.code}, ${section.room}.`,
         `${localTime(meeting.start, section.timezone)}–${localTime(meeting.end, section.timezone)} ${section.timezone} time.`,
         ...practicals.map((p) => {
-          const due = `${localDateTime(p.dueAt.toISOString(), section.timezone)} (${section.timezone})`
+          const due = `${displayDateTime(p.dueAt, section.timezone)} (${section.timezone})`
           return `Practical: ${p.title}. Results due ${due}. ${base}/practicals/${p.id}`
         }),
       ].join('\n')
