@@ -50,8 +50,14 @@ export function factorStats(values: FactorValue[], settings: OutlierSettings, op
     notes: [
       ...s.notes,
       ...(xs.length && !positive ? ['Some values are zero or negative, so no log-scale summary.'] : []),
-      ...(dropped ? [`${dropped} stored result(s) are not finite numbers and are left out.`] : []),
+      ...(dropped ? [droppedNote(dropped)] : []),
     ],
     values: used,
   }
+}
+
+function droppedNote(dropped: number): string {
+  return dropped === 1
+    ? '1 stored result is not a finite number and is left out.'
+    : `${dropped} stored results are not finite numbers and are left out.`
 }

@@ -74,9 +74,8 @@ export function gesdTest(values: readonly number[], options: { alpha?: number, m
   const steps = extremeSteps(xs, r, alpha, n, notes)
   const count = steps.reduce((k, st) => (st.R > st.lambda ? st.step : k), 0)
   if (count > 0) {
-    notes.push(
-      `Step ${count} is the last whose R exceeds its critical value, so the ${count} most extreme result(s) are outliers (up to ${r} tested).`,
-    )
+    const which = count === 1 ? 'the most extreme result is an outlier' : `the ${count} most extreme results are outliers`
+    notes.push(`Step ${count} is the last whose R exceeds its critical value, so ${which} (up to ${r} tested).`)
   }
   return {
     outliers: steps.slice(0, count).map((st) => st.index),
@@ -137,7 +136,7 @@ function extremeSteps(xs: number[], r: number, alpha: number, n: number, notes: 
     if (at(lo) === at(hi)) {
       notes.push(i === 1
         ? 'All values are equal, so none can be an outlier.'
-        : `After ${i - 1} removal(s) the remaining values are all equal, so the test stops there.`)
+        : `After ${i - 1} ${i === 2 ? 'removal' : 'removals'} the remaining values are all equal, so the test stops there.`)
       break
     }
     const k = hi - lo + 1

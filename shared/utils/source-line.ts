@@ -4,10 +4,12 @@
 // known, the edition or table; a bare recalled value reads "textbook value". Pure.
 
 const MEMORY_NOTE = /[\s,;:(]*\b(?:recalled\s+)?from\s+memory\b\)?/gi
+// "(common practice: the chlorine atom carries the chain in both)": the label is ours, the reason is the reader's.
+const PRACTICE_LABEL = /\bcommon practice:\s*/gi
 
 /** The source as a reader should see it: the reference, without our "from memory" note. */
 export function readerSource(source: string | null | undefined): string {
-  const text = (source ?? '').replace(MEMORY_NOTE, '').replace(/[\s,;:]+$/, '').trim()
+  const text = (source ?? '').replace(MEMORY_NOTE, '').replace(PRACTICE_LABEL, '').replace(/[\s,;:]+$/, '').trim()
   if (!text) return 'textbook value'
   return text
 }

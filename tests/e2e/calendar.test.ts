@@ -70,6 +70,9 @@ describe('calendar feed', () => {
     const withPractical = vevents.filter((e) => prop(e, 'SUMMARY')!.includes('Chlorination of 1-chlorobutane'))
     expect(withPractical).toHaveLength(1)
     expect(prop(withPractical[0]!, 'SUMMARY')).toContain('CHEM 2240 section R1')
+    // TEXT values escape commas and new lines (RFC 5545 §3.3.11); the due time reads as on every page.
+    const description = prop(withPractical[0]!, 'DESCRIPTION')!.replace(/\\n/gi, '\n').replace(/\\([,;\\])/g, '$1')
+    expect(description).toMatch(/Results due (Mon|Tue|Wed|Thu|Fri|Sat|Sun) \d{1,2} [A-Z][a-z]{2} \d{4}, \d{2}:\d{2} \(America\/Chicago\)\./)
   })
 
   it('reset kills the old address at once (410 Gone, plain text) and the new one works', async () => {

@@ -12,6 +12,11 @@ describe('substrate explorer in Chromium', () => {
     const tab = await openTab(browser, { width: 1280, height: 900 })
     await signInThroughPage(tab.page, DEMO.student(8))
     await tab.page.goto('/explorer')
+    // The page opens on 2-methylbutane, analysed while rendered on the server with the reader's
+    // session: four products (1-, 2-, 3- and 4-chloro positions), no "sign in" refusal.
+    await tab.page.getByLabel('Observed mol % for position d').waitFor({ timeout: 15_000 })
+    expect(await tab.page.getByLabel(/Observed mol % for position/).count()).toBe(4)
+    expect(await tab.page.locator('main').innerText()).not.toContain('Sign in to continue')
     await tab.page.getByLabel(/^SMILES/).fill('CCC')
     await tab.page.getByRole('button', { name: 'Analyse' }).click()
     await tab.page.getByLabel('Observed mol % for position b').waitFor()

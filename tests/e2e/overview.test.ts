@@ -12,6 +12,8 @@ describe('role overviews with live figures', () => {
     // "See them" opens a queue filtered to the waiting runs that need attention.
     expect(byTitle['Flagged runs']!.to).toMatch(/^\/review\/practicals\/\d+\?status=pending&flag=any$/)
     expect(byTitle['Next practical']!.detail).toContain('2,3-dimethylbutane')
+    // The meeting in the one date style of every page ("Mon 7 Dec 2026, 08:30"), not "Mon, Dec 7".
+    expect(byTitle['Next practical']!.value).toMatch(/^(Mon|Tue|Wed|Thu|Fri|Sat|Sun) \d{1,2} [A-Z][a-z]{2} \d{4}, \d{2}:\d{2}$/)
     // The seeded practical-1 class: a median near the demo's invented truth, the solvent run flagged.
     const selectivity = byTitle['Class 2°:1° selectivity']
     expect(Number(selectivity!.value)).toBeGreaterThan(2)

@@ -45,6 +45,10 @@ describe('practicals in Chromium', () => {
 
     // Sessions: M1 at its second meeting; the due date follows a week later at 23:59.
     await page.getByRole('heading', { name: 'Meetings and due dates' }).waitFor()
+    // The owner's page carries the chosen method's cautions once, compactly, after the editors.
+    const cautions = page.locator('[data-test="safety-cautions"]')
+    expect(await cautions.count()).toBe(1)
+    expect(await cautions.getAttribute('data-hazards')).toBe('sulfuryl-chloride azo-initiator halogenated-waste')
     const meeting = page.getByLabel('Meeting for section M1')
     const secondMeeting = await meeting.locator('option').nth(2).getAttribute('value')
     await meeting.selectOption(secondMeeting!)

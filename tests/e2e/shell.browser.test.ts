@@ -85,6 +85,41 @@ describe('sign-in and the app shell in Chromium', () => {
     await tab.context.close()
   })
 
+  // At a tablet's width (820 px) each role's main pages keep to the screen: every destination of
+  // the navigation in sight, no sideways scrolling, and no table cell whose text runs out of it.
+  const TABLET_PAGES: Record<string, string[]> = {
+    instructor: ['/', '/courses', '/review', '/results'],
+    ta: ['/', '/sections', '/review'],
+    coordinator: ['/', '/schedule', '/stockroom', '/stockroom/catalog'],
+    student: ['/', '/explorer'],
+  }
+  for (const [role, paths] of Object.entries(TABLET_PAGES)) {
+    it(`at 820 px the ${role}'s pages keep to the screen`, async () => {
+      const tab = await openTab(browser, { width: 820, height: 1180 })
+      await signInThroughPage(tab.page, NAV[role]!.email)
+      for (const path of paths) {
+        await tab.page.goto(path)
+        await tab.page.waitForLoadState('networkidle')
+        const fit = await tab.page.evaluate(() => {
+          const nav = [...document.querySelectorAll('nav[aria-label="Main"] a')].filter((a) => a.getClientRects().length)
+          const outOfSight = (a: Element) => a.getBoundingClientRect().left < 0 || a.getBoundingClientRect().right > innerWidth
+          return {
+            hiddenNav: nav.filter(outOfSight).map((a) => a.textContent?.trim()),
+            navCount: nav.length,
+            sideways: document.documentElement.scrollWidth - document.documentElement.clientWidth,
+            overflowingCells: [...document.querySelectorAll('main td, main th')]
+              .filter((c) => c.scrollWidth > c.clientWidth + 1).map((c) => c.textContent?.trim().slice(0, 40)),
+          }
+        })
+        expect(fit.navCount, path).toBe(NAV[role]!.links.length)
+        expect(fit, path).toEqual({ hiddenNav: [], navCount: fit.navCount, sideways: 0, overflowingCells: [] })
+      }
+      await screenshot(tab.page, `${role}-tablet-last-page`)
+      expect(tab.problems).toEqual([])
+      await tab.context.close()
+    })
+  }
+
   it('on a phone the navigation folds into a menu button', async () => {
     const tab = await openTab(browser, { width: 390, height: 844 })
     await signInThroughPage(tab.page, DEMO.ta1)

@@ -84,6 +84,16 @@ describe('partial receiving', () => {
     expect((await coordinator.post(`/api/stockroom/orders/${order.id}/receive`, { receivedOn: today, lines: [{ lineId: hexane.id, containers: 1 }] })).status).toBe(409)
   })
 
+  it('the demo’s received sheet shows its delivery: every line received, the lot it made', async () => {
+    const list = await expectOk(coordinator.get('/api/stockroom/orders'))
+    const seeded = list.find((o) => o.title === 'Practical 1: sulfuryl chloride')!
+    const detail = await expectOk(coordinator.get(`/api/stockroom/orders/${seeded.id}`))
+    expect(detail.status).toBe('received')
+    expect(detail.lines.map((l) => [l.received, l.open])).toEqual([[1, 0]])
+    expect(detail.receipts).toHaveLength(1)
+    expect(detail.receipts[0]!.receivedOn).toBe(detail.receivedOn)
+  })
+
   it('the rest can be closed with a reason, which the order keeps', async () => {
     const order = await sentSheet('b')
     const hexane = lineOf(order, /hexane/)

@@ -10,6 +10,11 @@ describe('readerSource', () => {
     expect(readerSource('Table 4 (recalled from memory)')).toBe('Table 4')
   })
 
+  it('keeps a reason but not our "common practice" label', () => {
+    expect(readerSource('derived from the chlorine-and-light values scaled to 80 °C (common practice: the chlorine atom carries the chain in both)'))
+      .toBe('derived from the chlorine-and-light values scaled to 80 °C (the chlorine atom carries the chain in both)')
+  })
+
   it('a bare note or nothing reads "textbook value"', () => {
     expect(readerSource('From memory')).toBe('textbook value')
     expect(readerSource('')).toBe('textbook value')

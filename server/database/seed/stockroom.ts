@@ -226,6 +226,12 @@ export async function seedStockroom(ctx: SeedContext): Promise<void> {
       expiresOn: lot.expires === undefined ? shelfLifeEnd : lot.expires === null ? null : day(lot.expires),
       orderLineId: lot.order === 'restock' ? restockLine.id : null, createdBy: coordinatorId,
     }).returning('id').executeTakeFirstOrThrow()
+    // The restock came in one delivery: its receipt names the lot it made, as a receipt through the page would.
+    if (lot.order === 'restock') {
+      await db.insertInto('orderReceipts').values({
+        orderLineId: restockLine.id, receivedOn, containers: lot.containers ?? 1, lotId: row.id, receivedBy: coordinatorId,
+      }).execute()
+    }
     if (lot.usage.length) {
       await db.insertInto('reagentUsage').values(lot.usage.map(([offset, amount, note, practical]) => ({
         lotId: row.id, usedOn: day(offset), amount, note,

@@ -116,10 +116,12 @@ function classFigures(ctx: DigestContext): string[] {
     lines.splice(1, 0, `${formatArithmeticMean(stats.headline)}.`, stats.headline.reason)
   }
   if (stats?.test.applied && stats.outliers.length) {
-    lines.push(`${stats.outliers.length} result(s) flagged by the class's outlier test (${OUTLIER_TEST_LABELS[stats.test.name]}) `
+    lines.push(`${plural(stats.outliers.length, 'result')} flagged by the class's outlier test (${OUTLIER_TEST_LABELS[stats.test.name]}) `
       + 'are still counted here until a reviewer decides on them.')
   }
-  if (ctx.excludedCount) lines.push(`${ctx.excludedCount} result(s) left out of the class figures by a reviewer, each with a reason.`)
+  if (ctx.excludedCount) {
+    lines.push(`${plural(ctx.excludedCount, 'result')} left out of the class figures by a reviewer, each with a reason.`)
+  }
   return lines
 }
 
