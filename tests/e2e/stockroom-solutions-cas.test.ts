@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { ForecastAnswer } from '#shared/types/stockroom'
-import { casNumberProblem } from '#shared/utils/cas'
+import { casNumberProblem } from '../../shared/utils/cas'
 import { DEMO, expectOk, signedIn, type Client } from '../support/http'
 import { closeTestDb, testDb } from '../support/db'
 import { mondayAfter, practicalMeetingOnce } from '../support/stockroom'
@@ -122,17 +122,20 @@ describe('CAS Registry Numbers', () => {
 
   it('an item carrying a reagent\u2019s CAS number is proposed for it, and counts once the coordinator confirms', async () => {
     const cas = freshCasNumber()
+    const substrate = { role: 'substrate', name: `dodecane ${uid}`, smiles: 'CCCCCCCCCCCC', molarMass: 170.34, density: 0.75, basis: 'mL', amount: 1 } as const
     const { courseId, items, owner } = await practicalMeetingOnce(`cas ${uid}`, monday, 4, [
+      substrate,
       { role: 'halogenating-agent', name: `chlorinating liquid ${uid}`, smiles: null, molarMass: null, density: 1.67, basis: 'mL', amount: 1.5 },
     ])
     // The instructor gives the item its CAS number through the practical's scale.
     const instructor = await signedIn(owner.email, owner.password)
     const scale = await expectOk(instructor.request(`/api/practicals/${(await testDb().selectFrom('practicalItems').select('practicalId')
       .where('id', '=', items[0]!.id).executeTakeFirstOrThrow()).practicalId}/items`, { method: 'PUT', json: { items: [
+      substrate,
       { role: 'halogenating-agent', name: `chlorinating liquid ${uid}`, smiles: null, molarMass: null, density: 1.67, basis: 'mL', amount: 1.5, casNumber: cas },
     ] } })) as { items: Array<{ id: number, casNumber?: string | null }> }
-    expect(scale.items[0]!.casNumber).toBe(cas)
-    const itemId = scale.items[0]!.id
+    expect(scale.items[1]!.casNumber).toBe(cas)
+    const itemId = scale.items[1]!.id
     const reagent = await expectOk(coordinator.post('/api/stockroom/reagents', {
       name: `reagent by number ${uid}`, casNumber: cas, physicalState: 'liquid', density: 1.67, containerSize: 100, unit: 'mL', overagePercent: 0,
     }), 201)
