@@ -16,6 +16,8 @@ export interface ReagentsTable {
   id: Generated<number>
   name: string
   smiles: string | null
+  /** CAS Registry Number ("7732-18-5"), optional. */
+  casNumber: Generated<string | null>
   formula: Generated<string>
   molarMass: number | null
   physicalState: PhysicalState

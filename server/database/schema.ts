@@ -200,6 +200,8 @@ export interface SubstratesTable {
   molarMass: number
   density: number | null
   boilingPointC: number | null
+  /** CAS Registry Number, optional. */
+  casNumber: Generated<string | null>
   notes: Generated<string>
   source: Generated<string>
   ownerId: number | null
@@ -276,8 +278,10 @@ export interface PracticalItemsTable {
   amount: number
   /** The catalog reagent the item draws on (set by the stockroom); null until linked. */
   reagentId: number | null
-  /** Grams of that reagent per mL, when the item is a solution made up from a stocked solid. */
-  reagentGramsPerMl: number | null
+  /** Percent w/v (g per 100 mL), when the item is a solution made up with water from that (solid) reagent. */
+  solutionPercentWv: number | null
+  /** CAS Registry Number, optional (the stockroom proposes links on it). */
+  casNumber: Generated<string | null>
 }
 
 export interface PracticalSessionsTable {

@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { isCalendarDate, isoDateOf } from '../utils/dates'
 import { textInputProblem } from '../utils/text-input'
+import { casNumberProblem, normalCasNumber } from '../utils/cas'
 
 // The pieces every schema is built from, so each text has a length and a character rule, each
 // date a plausible range, each id a PostgreSQL integer and each list a size. Every helper gives
@@ -86,4 +87,17 @@ export function recordIdList(max: number, noun: string, plural = `${noun}s`) {
   return z.array(recordId(`Pick a ${noun} from the list`), { error: `Send a list of ${plural}` })
     .min(1, `Pick at least one ${noun}`)
     .max(max, `At most ${max} ${plural}`)
+}
+
+/**
+ * An optional CAS Registry Number: '' and null mean none; spaces for hyphens are accepted. The
+ * check digit is verified (shared/utils/cas.ts).
+ */
+export function casNumberField() {
+  return z.string({ error: 'Enter the CAS number as text' }).trim().max(14, 'Use at most 14 characters').nullable()
+    .transform((value) => (value ? normalCasNumber(value) : null))
+    .superRefine((value, ctx) => {
+      const problem = value === null ? null : casNumberProblem(value)
+      if (problem) ctx.addIssue({ code: 'custom', message: problem })
+    })
 }

@@ -3,7 +3,7 @@
 import { z } from 'zod'
 import type { HazardKey } from '../data/cautions'
 import { cautionsForMethod } from '../data/cautions'
-import { blockText, lineText, recordIdParam } from './fields'
+import { blockText, casNumberField, lineText, recordIdParam } from './fields'
 import { productSmilesSchema, substrateSmilesSchema } from './smiles'
 
 const notes = blockText(4000)
@@ -22,6 +22,8 @@ const substrateShape = {
   boilingPointC: z.number({ error: 'Enter the boiling point as a number' }).finite()
     .min(-273.15, 'Below absolute zero').max(1000, 'At most 1000 °C').nullable(),
   notes,
+  /** CAS Registry Number, optional; the check digit is verified. */
+  casNumber: casNumberField(),
   /** Where the density and boiling point come from. */
   source: lineText(300),
 }
@@ -38,6 +40,7 @@ export const substrateInputSchema = z.object({
   ...substrateShape,
   density: substrateShape.density.default(null),
   boilingPointC: substrateShape.boilingPointC.default(null),
+  casNumber: substrateShape.casNumber.default(null),
   notes: notes.default(''),
   source: substrateShape.source.default(''),
 }).superRefine((value, ctx) => {
@@ -135,6 +138,7 @@ export interface SubstrateListItem {
   molarMass: number
   density: number | null
   boilingPointC: number | null
+  casNumber: string | null
   /** Part of the shared library (no owner): read-only for everyone. */
   shared: boolean
   /** Created by the caller: theirs to edit and delete. */

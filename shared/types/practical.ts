@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
-import { blockText, dateField, instantField, lineText, recordId } from './fields'
+import { blockText, casNumberField, dateField, instantField, lineText, recordId } from './fields'
 
 // Practicals: which substrate and method, which sections run it at which meeting, and what one
 // work unit (a pair at a hood station, or one student) uses. Forms and routes share these schemas.
@@ -87,6 +87,7 @@ export const itemInputSchema = z.object({
   density: optionalPositive('The density'),
   basis: z.enum(ITEM_BASES),
   amount: z.number({ error: 'Enter an amount' }).finite().min(0, 'Must be zero or more').max(100_000, 'At most 100 000'),
+  casNumber: casNumberField().default(null),
 }).superRefine((item, ctx) => {
   if (item.role === 'substrate' && RELATIVE_BASES.includes(item.basis)) {
     ctx.addIssue({ code: 'custom', path: ['basis'], message: 'The substrate is the reference: give it in mmol, g or mL' })
@@ -149,6 +150,8 @@ export interface ItemView {
   density: number | null
   basis: ItemBasisName
   amount: number
+  /** CAS Registry Number, optional: kept across an edit of the scale. */
+  casNumber?: string | null
 }
 
 export interface QuantityView {

@@ -4,7 +4,7 @@ import { z } from 'zod'
 import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
 import { daysBetween } from '../utils/dates'
-import { blockText, calendarDateProblem, dateField, lineText, recordId, recordIdParam } from './fields'
+import { blockText, calendarDateProblem, casNumberField, dateField, lineText, recordId, recordIdParam } from './fields'
 
 export const PHYSICAL_STATES = ['solid', 'liquid', 'gas', 'solution'] as const
 export type PhysicalStateName = (typeof PHYSICAL_STATES)[number]
@@ -71,6 +71,8 @@ const reagentShape = {
   name: lineText(120, 'Name the reagent'),
   /** When given, the formula and molar mass are worked out from it (IUPAC standard atomic weights). */
   smiles: smilesField('reagent', { optional: true }).nullable().transform((v) => (v ? v : null)),
+  /** CAS Registry Number, optional; the check digit is verified. */
+  casNumber: casNumberField(),
   formula: text(60),
   molarMass: positive('the molar mass', 100_000).nullable(),
   physicalState: z.enum(PHYSICAL_STATES, { error: 'Pick a physical state' }),
@@ -113,6 +115,7 @@ export function reagentRuleIssues(v: ReagentRuleInput): Array<{ field: string, m
 export const reagentInputSchema = z.object({
   ...reagentShape,
   smiles: reagentShape.smiles.default(null),
+  casNumber: reagentShape.casNumber.default(null),
   formula: reagentShape.formula.default(''),
   molarMass: reagentShape.molarMass.default(null),
   density: reagentShape.density.default(null),
@@ -176,8 +179,13 @@ export type UsageInput = z.input<typeof usageInputSchema>
 
 export const itemLinkInputSchema = z.object({
   reagentId: recordId('Pick a reagent from the list').nullable(),
-  /** g of the reagent per mL of the item, when the item is a solution of a stocked solid. */
-  gramsPerMl: positive('the concentration', 10).nullable().default(null),
+  /**
+   * When the item is a solution made up with water from the reagent (a solid): its strength in
+   * percent w/v, g of the solid per 100 mL of solution. 5 means 5 g made up to 100 mL.
+   */
+  percentWv: z.number({ error: 'Enter the strength in % w/v as a number' }).finite()
+    .gt(0, 'A strength in % w/v must be above zero').max(100, 'At most 100 % w/v (100 g per 100 mL)')
+    .nullable().default(null),
 })
 export type ItemLinkInput = z.input<typeof itemLinkInputSchema>
 
@@ -230,6 +238,21 @@ export interface ForecastLine {
   notCounted: number
   supplierName: string
   hazards: HazardKey[]
+  /** Items made up with water from this solid: the solution the range needs, and its strength. */
+  solutions: ForecastSolution[]
+}
+
+/** A prepared solution counted as its solid; the water it is made up with is not stock. */
+export interface ForecastSolution {
+  name: string
+  percentWv: number
+  /** mL of solution in the range (with the reagent's overage); about as much water, not stocked. */
+  solutionMl: number
+}
+
+/** How a prepared solution reads on a forecast line: "5 % w/v, 5 g per 100 mL, made up with water (water, not stocked)". */
+export function solutionWording(percentWv: number): string {
+  return `${percentWv} % w/v, ${percentWv} g per 100 mL, made up with water (water, not stocked)`
 }
 
 export interface ForecastWeek {
@@ -271,11 +294,15 @@ export interface UnlinkedItem {
   courseCode: string
   role: string
   name: string
-  /** A catalog reagent with the same structure or name, if there is one: proposed, linked only when confirmed. */
+  /** How the item's amount is given: only an item in mL can be a prepared solution. */
+  basis: string
+  /** The item's CAS Registry Number, when it carries one. */
+  casNumber: string | null
+  /** A catalog reagent with the same structure, CAS number or name, if there is one: proposed, linked only when confirmed. */
   suggestedReagentId: number | null
   suggestedReagentName: string | null
   /** Why it is proposed. */
-  suggestedBecause: 'structure' | 'name' | null
+  suggestedBecause: 'structure' | 'cas' | 'name' | null
 }
 
 export interface ForecastAnswer {
@@ -390,6 +417,7 @@ export interface ReagentListItem {
 export interface ReagentFields {
   name: string
   smiles: string | null
+  casNumber: string | null
   formula: string
   molarMass: number | null
   physicalState: PhysicalStateName
@@ -442,7 +470,8 @@ export interface LinkedItemView {
   courseCode: string
   role: string
   name: string
-  gramsPerMl: number | null
+  /** Made up with water as a solution of this strength (g per 100 mL), or null. */
+  percentWv: number | null
 }
 
 export interface ReagentDetail extends ReagentFields {
@@ -563,13 +592,14 @@ export type ReagentFormFields = Omit<ReagentFields, 'hazardCodes'> & { hazardCod
 export function reagentFormValues(r?: ReagentFields): ReagentFormFields {
   if (!r) {
     return {
-      name: '', smiles: '', formula: '', molarMass: null, physicalState: 'liquid', density: null, containerSize: 100, unit: 'mL',
+      name: '', smiles: '', casNumber: '', formula: '', molarMass: null, physicalState: 'liquid', density: null, containerSize: 100, unit: 'mL',
       supplierName: '', supplierEmail: '', catalogNumber: '', signalWord: null, hazardCodesText: '', hazards: [], storageNotes: '',
       shelfLifeMonths: null, overagePercent: 15, lowStockLevel: null,
     }
   }
   const { hazardCodes, ...rest } = r
-  return { ...rest, smiles: r.smiles ?? '', supplierEmail: r.supplierEmail ?? '', hazardCodesText: hazardCodes.join(', ') }
+  const text = { smiles: r.smiles ?? '', casNumber: r.casNumber ?? '', supplierEmail: r.supplierEmail ?? '' }
+  return { ...rest, ...text, hazardCodesText: hazardCodes.join(', ') }
 }
 
 /** The body the reagent routes take, from the form's values. */

@@ -3,12 +3,15 @@
 //
 //   required  = Σ over meetings in the range: work units × per-unit amount (converted to the
 //               reagent's stock unit) × (1 + overage)
+//   a prepared solution (N % w/v of a stocked solid, made up with water) counts as its solid:
+//               g per unit = mL of solution × N / 100 (w/v: g of solute per 100 mL of solution);
+//               the water is not stock and is only named on the line
 //   onHand    = stock that will still be in date when it is used (first-expiring lots first)
 //   shortfall = required − onHand (never below zero), ordered in whole containers
 import { addDays, isoWeekLabel, weekStart } from './dates'
 import { computeQuantities, isGas, type ItemSpec } from './procedure'
 import type { QuantityView } from '../types/practical'
-import type { ForecastLine, ForecastSession, ForecastWeek, SkippedSession, StockUnitName } from '../types/stockroom'
+import type { ForecastLine, ForecastSession, ForecastSolution, ForecastWeek, SkippedSession, StockUnitName } from '../types/stockroom'
 import type { HazardKey } from '../data/cautions'
 
 /** Float noise (0.1 + 0.2) must not buy a whole extra container. */
@@ -30,8 +33,10 @@ export interface ForecastReagent {
 export interface ForecastItem extends ItemSpec {
   id: number
   reagentId: number | null
-  /** g of the reagent per mL of the item (a solution made up from a stocked solid). */
-  reagentGramsPerMl: number | null
+  /** % w/v (g per 100 mL) when the item is a solution made up with water from the reagent, a solid. */
+  solutionPercentWv: number | null
+  /** CAS Registry Number, when the item carries one (used to propose a link). */
+  casNumber?: string | null
 }
 
 export interface ForecastPractical {
@@ -107,11 +112,10 @@ export function perUnitAmount(
   quantity: QuantityView, item: ForecastItem, reagent: ForecastReagent,
 ): { amount: number } | { problem: string } {
   const cannot = (why: string) => ({ problem: `${item.name} (${reagent.name}): ${why}` })
-  if (item.reagentGramsPerMl !== null) {
-    if (quantity.millilitres === null) return cannot('a concentration in g/mL needs the item in mL.')
-    const grams = quantity.millilitres * item.reagentGramsPerMl
-    if (reagent.unit === 'g') return { amount: grams }
-    return reagent.density ? { amount: grams / reagent.density } : cannot('stocked in mL without a density.')
+  if (item.solutionPercentWv !== null) {
+    if (quantity.millilitres === null) return cannot('a solution in % w/v needs the item in mL.')
+    if (reagent.unit !== 'g') return cannot('a solution in % w/v is made up from a solid counted in g.')
+    return { amount: solidGramsOf(quantity.millilitres, item.solutionPercentWv) }
   }
   if (reagent.unit === 'g') {
     if (quantity.grams !== null) return { amount: quantity.grams }
@@ -124,6 +128,11 @@ export function perUnitAmount(
   return cannot('no volume could be worked out (the reagent needs a density).')
 }
 
+/** Grams of solid in `millilitres` of an N % w/v solution: w/v is g of solute per 100 mL of solution. */
+export function solidGramsOf(millilitres: number, percentWv: number): number {
+  return millilitres * percentWv / 100
+}
+
 /** Items as computeQuantities sees them, with the catalog's molar mass and density filling gaps. */
 function withCatalogData(item: ForecastItem, reagent: ForecastReagent | undefined): ItemSpec {
   const spec: ItemSpec = {
@@ -131,7 +140,7 @@ function withCatalogData(item: ForecastItem, reagent: ForecastReagent | undefine
     amount: item.amount,
   }
   // A solution's density is not the solid's: only the item itself is taken as the reagent.
-  if (!reagent || item.reagentGramsPerMl !== null) return spec
+  if (!reagent || item.solutionPercentWv !== null) return spec
   return { ...spec, molarMass: spec.molarMass ?? reagent.molarMass, density: spec.density ?? (isGas(item.smiles) ? null : reagent.density) }
 }
 
@@ -187,7 +196,9 @@ function convertLot(lot: ForecastLot, reagent: ForecastReagent): number | null {
   return lot.unit === 'g' ? lot.remaining / reagent.density : lot.remaining * reagent.density
 }
 
-interface PerUnitNeeds { amounts: Array<{ reagentId: number, amount: number }>, wasteMl: number }
+/** A prepared solution behind a per-unit amount: its name, strength and mL per unit. */
+interface SolutionUse { name: string, percentWv: number, ml: number }
+interface PerUnitNeeds { amounts: Array<{ reagentId: number, amount: number, solution: SolutionUse | null }>, wasteMl: number }
 
 /** Per practical: each linked item's amount per work unit, and the waste per unit. */
 function perUnitNeeds(input: ForecastInput, reagents: Map<number, ForecastReagent>, problems: Set<string>): Map<number, PerUnitNeeds> {
@@ -200,15 +211,20 @@ function perUnitNeeds(input: ForecastInput, reagents: Map<number, ForecastReagen
       const reagent = reagentOf(item)
       if (!reagent) return
       const result = perUnitAmount(quantities.items[i]!, item, reagent)
-      if ('problem' in result) problems.add(`${p.title}: ${result.problem}`)
-      else amounts.push({ reagentId: reagent.id, amount: result.amount })
+      if ('problem' in result) {
+        problems.add(`${p.title}: ${result.problem}`)
+        return
+      }
+      const ml = quantities.items[i]!.millilitres
+      const solution = item.solutionPercentWv !== null && ml !== null ? { name: item.name, percentWv: item.solutionPercentWv, ml } : null
+      amounts.push({ reagentId: reagent.id, amount: result.amount, solution })
     })
     perUnit.set(p.id, { amounts, wasteMl: wastePerUnit(quantities.items, input.rinseMlPerUnit) })
   }
   return perUnit
 }
 
-type RangedDemand = Demand & { inRange: boolean }
+type RangedDemand = Demand & { inRange: boolean, solution: SolutionUse | null }
 
 interface ScheduledDemand {
   sessions: ForecastSession[]
@@ -250,7 +266,9 @@ function scheduledDemand(
     for (const a of per.amounts) {
       const reagent = reagents.get(a.reagentId)!
       const list = out.demands.get(a.reagentId) ?? []
-      list.push({ date: s.meetingDate, amount: s.units * a.amount * (1 + reagent.overagePercent / 100), inRange })
+      const times = s.units * (1 + reagent.overagePercent / 100)
+      const solution = a.solution ? { ...a.solution, ml: times * a.solution.ml } : null
+      list.push({ date: s.meetingDate, amount: times * a.amount, inRange, solution })
       out.demands.set(a.reagentId, list)
     }
     if (!inRange) continue
@@ -271,6 +289,19 @@ function lotsInReagentUnit(lots: ForecastLot[], reagent: ForecastReagent, proble
     if (remaining === null) problems.add(`${reagent.name}: a lot in ${l.unit} cannot be counted in ${reagent.unit} without a density.`)
     return remaining === null || remaining <= 0 ? [] : [{ id: l.id, remaining, expiresOn: l.expiresOn }]
   })
+}
+
+/** The prepared solutions among a line's demands, by name and strength, in mL of solution. */
+function solutionsOf(demands: RangedDemand[]): ForecastSolution[] {
+  const byKey = new Map<string, ForecastSolution>()
+  for (const d of demands) {
+    if (!d.solution) continue
+    const key = `${d.solution.name}|${d.solution.percentWv}`
+    const seen = byKey.get(key) ?? { name: d.solution.name, percentWv: d.solution.percentWv, solutionMl: 0 }
+    seen.solutionMl += d.solution.ml
+    byKey.set(key, seen)
+  }
+  return [...byKey.values()].map((x) => ({ ...x, solutionMl: round(x.solutionMl, 1) }))
 }
 
 /** One reagent's line: required in the range, on hand, the shortfall in whole containers, by week. */
@@ -299,7 +330,7 @@ function forecastLine(reagent: ForecastReagent, list: RangedDemand[], lotList: F
     overagePercent: reagent.overagePercent, orderQuantity: round(containers * reagent.containerSize),
     weeks: [...byWeek].map(([week, amount]) => ({ week, required: round(amount) })),
     reservedEarlier: round(reservedEarlier), notCounted: round(notCounted),
-    supplierName: reagent.supplierName, hazards: reagent.hazards,
+    supplierName: reagent.supplierName, hazards: reagent.hazards, solutions: solutionsOf(inRange),
   }
 }
 

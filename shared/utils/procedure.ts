@@ -27,6 +27,8 @@ export interface ItemSpec {
   density: number | null
   basis: ItemBasisName
   amount: number
+  /** CAS Registry Number, optional (the stockroom proposes a catalog link on it). */
+  casNumber?: string | null
 }
 
 function substrateMmolOf(item: ItemSpec | undefined): number | null {

@@ -55,7 +55,7 @@ describe('what the forecast cannot count', () => {
     // Dismissed: not proposed again, still not linked.
     await expectOk(coordinator.post(`/api/stockroom/items/${items[1]!.id}/dismiss-link`, { reagentId: brine.id }))
     // Confirmed: linked, and counted.
-    await expectOk(coordinator.request(`/api/stockroom/items/${items[0]!.id}/reagent`, { method: 'PUT', json: { reagentId: alkane.id, gramsPerMl: null } }))
+    await expectOk(coordinator.request(`/api/stockroom/items/${items[0]!.id}/reagent`, { method: 'PUT', json: { reagentId: alkane.id, percentWv: null } }))
     const after = await expectOk(coordinator.get(url)) as ForecastAnswer
     expect(after.unlinkedItems.map((i) => [i.name, i.suggestedReagentId])).toEqual([[`Brine ${uid}`, null], [`unknown agent ${uid}`, null]])
     // 2 pairs × 2 mL, no stock and no overage: 4 mL short, one 100 mL bottle.

@@ -42,5 +42,5 @@ export async function practicalMeetingOnce(
   await db.insertInto('practicalSessions').values({ practicalId: practical.id, sectionId: section.id, meetingDate: monday, dueAt }).execute()
   const stored = await db.selectFrom('practicalItems').select(['id', 'name', 'reagentId'])
     .where('practicalId', '=', practical.id).orderBy('position').execute()
-  return { practicalId: practical.id, courseId: course.id, items: stored }
+  return { practicalId: practical.id, courseId: course.id, items: stored, owner }
 }

@@ -17,7 +17,7 @@ const reagent = (over: Partial<ForecastReagent> & Pick<ForecastReagent, 'id' | '
   overagePercent: 15, molarMass: null, density: null, physicalState: 'liquid', supplierName: '', hazards: [], ...over,
 })
 const item = (over: Partial<ForecastItem> & Pick<ForecastItem, 'id' | 'role' | 'name' | 'basis' | 'amount'>): ForecastItem => ({
-  smiles: null, molarMass: null, density: null, reagentId: null, reagentGramsPerMl: null, ...over,
+  smiles: null, molarMass: null, density: null, reagentId: null, solutionPercentWv: null, ...over,
 })
 
 /** One item's per-unit amount in the reagent's unit, through the same path the forecast takes. */
@@ -65,7 +65,7 @@ describe('per-unit amounts in the stock unit', () => {
   })
 
   it('a solution made up from a stocked solid counts its grams: 20 mL of 5 % w/v bicarbonate is 1.00 g', () => {
-    const items = [substrate, item({ id: 2, role: 'wash', name: 'aqueous sodium bicarbonate, 5 %', basis: 'mL', amount: 20, reagentGramsPerMl: 0.05 })]
+    const items = [substrate, item({ id: 2, role: 'wash', name: 'aqueous sodium bicarbonate, 5 %', basis: 'mL', amount: 20, solutionPercentWv: 5 })]
     expect(amountOf(items, 1, reagent({ id: 5, name: 'sodium bicarbonate', unit: 'g', containerSize: 500, physicalState: 'solid' }))).toBeCloseTo(1.0, 9)
   })
 })
@@ -141,7 +141,7 @@ function handCase(over: Partial<ForecastInput> = {}): ForecastInput {
         // No molar mass or density on the item: the catalog's fill them in.
         item({ id: 100, role: 'substrate', name: '2,3-dimethylbutane', basis: 'mmol', amount: 10, reagentId: 1 }),
         item({ id: 101, role: 'halogenating-agent', name: 'chlorine', smiles: 'ClCl', molarMass: M.cl2, basis: 'equivalents', amount: 0.5, reagentId: 2 }),
-        item({ id: 102, role: 'wash', name: 'sodium bicarbonate, 5 % aqueous', basis: 'mL', amount: 20, reagentId: 3, reagentGramsPerMl: 0.05 }),
+        item({ id: 102, role: 'wash', name: 'sodium bicarbonate, 5 % aqueous', basis: 'mL', amount: 20, reagentId: 3, solutionPercentWv: 5 }),
         item({ id: 103, role: 'drying-agent', name: 'magnesium sulfate', basis: 'g', amount: 1, reagentId: 4 }),
         item({ id: 104, role: 'other', name: 'boiling chips', basis: 'g', amount: 0.1 }),
       ],

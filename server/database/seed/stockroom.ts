@@ -10,7 +10,8 @@ import { DEMO_DOMAIN } from './people'
 // with stock that leaves a realistic shortfall for practical 2 next week (little
 // 2,3-dimethylbutane, and a bottle of it that expires first; magnesium sulfate nearly gone).
 // Suppliers and catalogue numbers are invented. GHS hazard statements are from memory and must
-// be confirmed against the supplier's safety data sheet; densities: CRC Handbook, from memory.
+// be confirmed against the supplier's safety data sheet; densities: CRC Handbook, from memory; CAS Registry
+// Numbers from memory (each passes its check digit).
 
 const MERIDIAN = { supplierName: 'Meridian Laboratory Chemicals', supplierEmail: 'orders.meridian@supplier.example' }
 const KESTREL = { supplierName: 'Kestrel Specialty Gases', supplierEmail: 'cylinders.kestrel@supplier.example' }
@@ -20,64 +21,72 @@ type DemoReagent = Omit<Insertable<ReagentsTable>, 'formula' | 'molarMass'> & { 
 
 const CATALOG: DemoReagent[] = [
   {
-    key: 'chlorobutane', name: '1-chlorobutane', smiles: 'CCCCCl', physicalState: 'liquid', density: 0.886, containerSize: 500, unit: 'mL',
+    key: 'chlorobutane', name: '1-chlorobutane', smiles: 'CCCCCl', casNumber: '109-69-3',
+    physicalState: 'liquid', density: 0.886, containerSize: 500, unit: 'mL',
     ...MERIDIAN, catalogNumber: 'MLC-1140', signalWord: 'Danger', hazardCodes: ['H225'], hazards: ['halogenated-waste'],
     storageNotes: 'Flammables cabinet, away from oxidisers.', shelfLifeMonths: 36, lowStockLevel: 250,
   },
   {
-    key: 'dimethylbutane', name: '2,3-dimethylbutane', smiles: 'CC(C)C(C)C', physicalState: 'liquid', density: 0.662, containerSize: 25, unit: 'mL',
+    key: 'dimethylbutane', name: '2,3-dimethylbutane', smiles: 'CC(C)C(C)C', casNumber: '79-29-8',
+    physicalState: 'liquid', density: 0.662, containerSize: 25, unit: 'mL',
     ...MERIDIAN, catalogNumber: 'MLC-2233', signalWord: 'Danger', hazardCodes: ['H225', 'H304', 'H315', 'H336', 'H411'], hazards: [],
     storageNotes: 'Flammables cabinet; boils near 58 °C, keep the cap tight.', shelfLifeMonths: 24, lowStockLevel: 50,
   },
   {
-    key: 'so2cl2', name: 'sulfuryl chloride', smiles: 'O=S(=O)(Cl)Cl', physicalState: 'liquid', density: 1.67, containerSize: 100, unit: 'mL',
+    key: 'so2cl2', name: 'sulfuryl chloride', smiles: 'O=S(=O)(Cl)Cl', casNumber: '7791-25-5',
+    physicalState: 'liquid', density: 1.67, containerSize: 100, unit: 'mL',
     ...MERIDIAN, catalogNumber: 'MLC-5010', signalWord: 'Danger', hazardCodes: ['H314', 'H331', 'H335'], hazards: ['sulfuryl-chloride'],
     storageNotes: 'Corrosives cabinet, dry, septum cap under nitrogen. Never near water or bases.', shelfLifeMonths: 12, lowStockLevel: 100,
   },
   {
-    key: 'aibn', name: 'azobisisobutyronitrile (AIBN)', smiles: 'CC(C)(C#N)N=NC(C)(C)C#N', physicalState: 'solid', containerSize: 100, unit: 'g',
+    key: 'aibn', name: 'azobisisobutyronitrile (AIBN)', smiles: 'CC(C)(C#N)N=NC(C)(C)C#N', casNumber: '78-67-1',
+    physicalState: 'solid', containerSize: 100, unit: 'g',
     ...MERIDIAN, catalogNumber: 'MLC-0911', signalWord: 'Danger', hazardCodes: ['H242', 'H302', 'H332', 'H412'], hazards: ['azo-initiator'],
     storageNotes: 'Refrigerator at 2–8 °C, away from heat and light. Keep only small bottles.', shelfLifeMonths: 24, lowStockLevel: 20,
   },
   {
-    key: 'chlorine', name: 'chlorine', smiles: 'ClCl', physicalState: 'gas', containerSize: 450, unit: 'g',
+    key: 'chlorine', name: 'chlorine', smiles: 'ClCl', casNumber: '7782-50-5',
+    physicalState: 'gas', containerSize: 450, unit: 'g',
     ...KESTREL, catalogNumber: 'KSG-CL2-LB', signalWord: 'Danger',
     hazardCodes: ['H270', 'H280', 'H330', 'H315', 'H319', 'H335', 'H400'], hazards: ['chlorine'],
     storageNotes: 'Ventilated gas cabinet; cylinder chained upright, valve cap on when not in use; away from ammonia and flammables. Weigh the cylinder before and after each session.',
     shelfLifeMonths: null, overagePercent: 25, lowStockLevel: 150,
   },
   {
-    key: 'dcm', name: 'dichloromethane', smiles: 'ClCCl', physicalState: 'liquid', density: 1.33, containerSize: 1000, unit: 'mL',
+    key: 'dcm', name: 'dichloromethane', smiles: 'ClCCl', casNumber: '75-09-2',
+    physicalState: 'liquid', density: 1.33, containerSize: 1000, unit: 'mL',
     ...NORTHFIELD, catalogNumber: 'NFS-DCM-1L', signalWord: 'Warning',
     hazardCodes: ['H315', 'H319', 'H336', 'H351'], hazards: ['halogenated-waste'],
     storageNotes: 'Solvent cabinet. GC sample diluent.', shelfLifeMonths: 36, lowStockLevel: 1000,
   },
   {
     // No SMILES for the salts: the formula and molar mass (IUPAC standard atomic weights) are typed.
-    key: 'bicarbonate', name: 'sodium bicarbonate', formula: 'NaHCO3', molarMass: 84.007, physicalState: 'solid', containerSize: 500, unit: 'g',
+    key: 'bicarbonate', name: 'sodium bicarbonate', formula: 'NaHCO3', molarMass: 84.007, casNumber: '144-55-8',
+    physicalState: 'solid', containerSize: 500, unit: 'g',
     ...NORTHFIELD, catalogNumber: 'NFS-1025', signalWord: null, hazardCodes: [], hazards: [],
     storageNotes: 'Dry shelf. Made up as a 5 % w/v wash in the prep room.', shelfLifeMonths: 60, lowStockLevel: 250,
   },
   {
-    key: 'mgso4', name: 'magnesium sulfate, anhydrous', formula: 'MgSO4', molarMass: 120.37, physicalState: 'solid', containerSize: 500, unit: 'g',
+    key: 'mgso4', name: 'magnesium sulfate, anhydrous', formula: 'MgSO4', molarMass: 120.37, casNumber: '7487-88-9',
+    physicalState: 'solid', containerSize: 500, unit: 'g',
     ...NORTHFIELD, catalogNumber: 'NFS-2050', signalWord: null, hazardCodes: [], hazards: [],
     storageNotes: 'Keep tightly closed: it takes up water from the air.', shelfLifeMonths: 60, lowStockLevel: 250,
   },
 ]
 
 /** Which reagent each demo item draws on, by practical and item role. */
-const LINKS: Record<'p1' | 'p2', Record<string, { key: string, gramsPerMl?: number }>> = {
+const LINKS: Record<'p1' | 'p2', Record<string, { key: string, percentWv?: number }>> = {
   p1: {
     'substrate': { key: 'chlorobutane' },
     'halogenating-agent': { key: 'so2cl2' },
     'initiator': { key: 'aibn' },
-    'wash': { key: 'bicarbonate', gramsPerMl: 0.05 },
+    'wash': { key: 'bicarbonate', percentWv: 5 },
     'drying-agent': { key: 'mgso4' },
   },
   p2: {
     'substrate': { key: 'dimethylbutane' },
     'halogenating-agent': { key: 'chlorine' },
-    'wash': { key: 'bicarbonate', gramsPerMl: 0.05 },
+    'wash': { key: 'bicarbonate', percentWv: 5 },
     'drying-agent': { key: 'mgso4' },
   },
 }
@@ -177,7 +186,7 @@ export async function seedStockroom(ctx: SeedContext): Promise<void> {
     const practicalId = ctx.ids.practicals.get(practicalKey)
     if (!practicalId) throw new Error(`seedStockroom: practical ${practicalKey} is missing; seedPracticals must run first`)
     for (const [role, link] of Object.entries(LINKS[practicalKey])) {
-      await db.updateTable('practicalItems').set({ reagentId: ids.get(link.key)!.id, reagentGramsPerMl: link.gramsPerMl ?? null })
+      await db.updateTable('practicalItems').set({ reagentId: ids.get(link.key)!.id, solutionPercentWv: link.percentWv ?? null })
         .where('practicalId', '=', practicalId).where('role', '=', role as 'substrate').execute()
     }
   }

@@ -20,6 +20,7 @@ export function toSubstrateListItem(row: Substrate, me: SessionUser, counts: { w
     molarMass: row.molarMass,
     density: row.density,
     boilingPointC: row.boilingPointC,
+    casNumber: row.casNumber,
     shared: row.ownerId === null,
     mine: row.ownerId === me.id,
     ...counts,

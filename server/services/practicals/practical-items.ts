@@ -27,8 +27,10 @@ export async function requireLibraryChoice(db: Db, me: { id: number }, choice: {
 }
 
 export function prefilledItems(substrate: Substrate, method: Pick<Method, 'reagent'>): ItemSpec[] {
-  return defaultItems({ name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density },
+  const items = defaultItems({ name: substrate.name, smiles: substrate.smiles, molarMass: substrate.molarMass, density: substrate.density },
     method.reagent)
+  // The substrate's CAS number travels with its item, for the stockroom's link proposal.
+  return items.map((item) => (item.role === 'substrate' ? { ...item, casNumber: substrate.casNumber } : item))
 }
 
 /**
@@ -48,7 +50,7 @@ export async function checkedItems(
       molarMass ??= Number(form.molarMass.toFixed(3))
     }
     return { role: item.role, name: item.name, smiles: item.smiles, molarMass, density: item.density, basis: item.basis,
-      amount: item.amount }
+      amount: item.amount, casNumber: item.casNumber ?? null }
   })
 }
 
@@ -57,7 +59,7 @@ export async function checkedItems(
  * across the edit, matched by role and name, so an instructor's change does not undo it.
  */
 export async function replacePracticalItems(trx: Transaction<Database>, practicalId: number, items: ItemSpec[]) {
-  const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'reagentId', 'reagentGramsPerMl'])
+  const before = await trx.selectFrom('practicalItems').select(['role', 'name', 'reagentId', 'solutionPercentWv'])
     .where('practicalId', '=', practicalId).execute()
   const key = (i: { role: string, name: string }) => `${i.role}|${i.name.trim().toLowerCase()}`
   const links = new Map(before.filter((b) => b.reagentId !== null).map((b) => [key(b), b]))
@@ -65,7 +67,7 @@ export async function replacePracticalItems(trx: Transaction<Database>, practica
   if (!items.length) return
   await trx.insertInto('practicalItems').values(items.map((item, position) => {
     const link = links.get(key(item))
-    return { practicalId, position, ...item, reagentId: link?.reagentId ?? null, reagentGramsPerMl: link?.reagentGramsPerMl ?? null }
+    return { practicalId, position, ...item, reagentId: link?.reagentId ?? null, solutionPercentWv: link?.solutionPercentWv ?? null }
   })).execute()
 }
 

@@ -50,7 +50,7 @@ export async function practicalSessionViews(practicalIds: number[], sectionIds: 
 export async function practicalItemViews(practicalId: number): Promise<ItemView[]> {
   const rows = await useDb().selectFrom('practicalItems').selectAll().where('practicalId', '=', practicalId).orderBy('position').execute()
   return rows.map((r) => ({ id: r.id, position: r.position, role: r.role, name: r.name, smiles: r.smiles, molarMass: r.molarMass,
-    density: r.density, basis: r.basis, amount: r.amount }))
+    density: r.density, basis: r.basis, amount: r.amount, casNumber: r.casNumber }))
 }
 
 /**

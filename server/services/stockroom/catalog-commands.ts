@@ -69,27 +69,27 @@ export async function deleteReagent(db: Kysely<Database>, actor: Actor, id: numb
 
 /**
  * Which catalog reagent a practical's item draws on (the stockroom's side of the procedure). A
- * concentration in g/mL makes the item a solution of the reagent: only for an item measured in
- * mL, of a reagent counted in g or with a density. Unlinking clears the concentration.
+ * strength in % w/v makes the item a solution made up with water from the reagent: only for an
+ * item measured in mL, of a solid counted in g. Unlinking clears the strength.
  */
 export async function linkItemToReagent(db: Kysely<Database>, actor: Actor, itemId: number, input: z.output<typeof itemLinkInputSchema>) {
-  const item = await db.selectFrom('practicalItems').select(['id', 'basis', 'reagentId', 'reagentGramsPerMl'])
+  const item = await db.selectFrom('practicalItems').select(['id', 'basis', 'reagentId', 'solutionPercentWv'])
     .where('id', '=', itemId).executeTakeFirst()
   if (!item) throw createError({ statusCode: 404, statusMessage: 'Practical item not found' })
   if (input.reagentId !== null) {
     const reagent = await requireReagent(db, input.reagentId)
       .catch(() => invalid([{ field: 'reagentId', message: 'Not a reagent in the catalog' }]))
-    if (input.gramsPerMl !== null && reagent.unit !== 'g' && !reagent.density) {
-      invalid([{ field: 'gramsPerMl', message: 'A concentration in g/mL needs a reagent counted in g, or one with a density' }])
+    if (input.percentWv !== null && (reagent.physicalState !== 'solid' || reagent.unit !== 'g')) {
+      invalid([{ field: 'reagentId', message: 'A solution in % w/v is made up from a solid reagent counted in g' }])
     }
   }
-  if (input.gramsPerMl !== null && item.basis !== 'mL') {
-    invalid([{ field: 'gramsPerMl', message: 'Only an item measured in mL can be a solution of the reagent' }])
+  if (input.percentWv !== null && item.basis !== 'mL') {
+    invalid([{ field: 'percentWv', message: 'Only an item measured in mL can be a solution made up from the reagent' }])
   }
-  const after = { reagentId: input.reagentId, reagentGramsPerMl: input.reagentId === null ? null : input.gramsPerMl }
+  const after = { reagentId: input.reagentId, solutionPercentWv: input.reagentId === null ? null : input.percentWv }
   await db.transaction().execute(async (trx) => {
     await trx.updateTable('practicalItems').set(after).where('id', '=', itemId).execute()
-    const before = { reagentId: item.reagentId, reagentGramsPerMl: item.reagentGramsPerMl }
+    const before = { reagentId: item.reagentId, solutionPercentWv: item.solutionPercentWv }
     await audit(trx, actor, { action: 'practical_item.reagent', entity: 'practical_item', entityId: itemId, before, after })
   })
   return { practicalItemId: itemId, ...after }

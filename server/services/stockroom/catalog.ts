@@ -14,7 +14,8 @@ import { isLowStock, lotRows, lotView, stockroomToday, stockTotals } from './lot
 
 export function reagentFields(r: Reagent): ReagentFields {
   return {
-    name: r.name, smiles: r.smiles, formula: r.formula, molarMass: r.molarMass, physicalState: r.physicalState, density: r.density,
+    name: r.name, smiles: r.smiles, casNumber: r.casNumber, formula: r.formula, molarMass: r.molarMass, physicalState: r.physicalState,
+    density: r.density,
     containerSize: r.containerSize, unit: r.unit, supplierName: r.supplierName, supplierEmail: r.supplierEmail,
     catalogNumber: r.catalogNumber,
     signalWord: r.signalWord, hazardCodes: r.hazardCodes, hazards: r.hazards as HazardKey[], storageNotes: r.storageNotes,
@@ -75,7 +76,7 @@ function linkedItemsOf(db: Kysely<Database>, reagentId: number, courseIds: numbe
     .innerJoin('practicals', 'practicals.id', 'practicalItems.practicalId')
     .innerJoin('courses', 'courses.id', 'practicals.courseId')
     .select([
-      'practicalItems.id', 'practicalItems.practicalId', 'practicalItems.role', 'practicalItems.name', 'practicalItems.reagentGramsPerMl',
+      'practicalItems.id', 'practicalItems.practicalId', 'practicalItems.role', 'practicalItems.name', 'practicalItems.solutionPercentWv',
       'practicals.title', 'courses.code',
     ])
     .where('practicalItems.reagentId', '=', reagentId).where('practicals.courseId', 'in', courseIds)
@@ -105,7 +106,7 @@ export async function reagentDetailView(
     })),
     linkedItems: linked.map((i) => ({
       practicalItemId: i.id, practicalId: i.practicalId, practicalTitle: i.title, courseCode: i.code, role: i.role, name: i.name,
-      gramsPerMl: i.reagentGramsPerMl,
+      percentWv: i.solutionPercentWv,
     })),
     canManage: me.role === 'coordinator',
   }

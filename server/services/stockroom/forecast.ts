@@ -49,7 +49,7 @@ async function forecastPracticals(db: Kysely<Database>, practicalIds: number[]):
     id: p.id, title: p.title, courseId: p.courseId, courseCode: p.courseCode, workUnit: p.workUnit,
     items: itemRows.filter((i) => i.practicalId === p.id).map((i): ForecastItem => ({
       id: i.id, role: i.role, name: i.name, smiles: i.smiles, molarMass: i.molarMass, density: i.density, basis: i.basis, amount: i.amount,
-      reagentId: i.reagentId, reagentGramsPerMl: i.reagentGramsPerMl,
+      reagentId: i.reagentId, solutionPercentWv: i.solutionPercentWv, casNumber: i.casNumber,
     })),
   }))
 }
@@ -85,13 +85,16 @@ const normalName = (name: string) => name.trim().toLowerCase().replace(/^(anhydr
 
 /**
  * A catalog reagent an unlinked item probably means: the same structure (`canonical`, null when
- * none), else the same name; never one the coordinator dismissed for this item.
+ * none), else the same CAS Registry Number, else the same name; never one the coordinator
+ * dismissed for this item.
  */
 function suggestReagent(
-  item: { name: string }, canonical: string | null, reagents: Reagent[],
-): { reagent: Reagent, because: 'structure' | 'name' } | null {
+  item: { name: string, casNumber?: string | null }, canonical: string | null, reagents: Reagent[],
+): { reagent: Reagent, because: NonNullable<UnlinkedItem['suggestedBecause']> } | null {
   const byStructure = canonical ? reagents.find((r) => r.smiles === canonical) : undefined
   if (byStructure) return { reagent: byStructure, because: 'structure' }
+  const byCas = item.casNumber ? reagents.find((r) => r.casNumber === item.casNumber) : undefined
+  if (byCas) return { reagent: byCas, because: 'cas' }
   const byName = reagents.find((r) => normalName(r.name) === normalName(item.name))
   return byName ? { reagent: byName, because: 'name' } : null
 }
@@ -113,6 +116,7 @@ async function unlinkedItemsOf(
     const suggestion = suggestReagent(i, i.smiles ? structures[next++] ?? null : null, reagents.filter((r) => !refused.has(r.id)))
     return {
       practicalItemId: i.id, practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, role: i.role, name: i.name,
+      basis: i.basis, casNumber: i.casNumber ?? null,
       suggestedReagentId: suggestion?.reagent.id ?? null, suggestedReagentName: suggestion?.reagent.name ?? null,
       suggestedBecause: suggestion?.because ?? null,
     }
