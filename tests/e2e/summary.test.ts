@@ -197,7 +197,7 @@ describe('the headline figure and the generalized ESD test', () => {
     expect(f!.mean! / 1e300).toBeCloseTo(2.5, 9)
     expect(f!.headline.statistic).toBe('geometric-mean')
     expect(Number.isFinite(f!.headline.ci95![1])).toBe(true)
-    expect(f!.notes.join(' ')).toMatch(/2 stored result\(s\) are not finite/)
+    expect(f!.notes.join(' ')).toMatch(/2 stored results are not finite/)
     // JSON turns NaN and Infinity into null: every figure must still be a number.
     for (const x of [f!.mean, f!.sd, f!.median, f!.mad, ...f!.ci95!, f!.headline.value, ...f!.headline.ci95!, f!.log.mean]) expect(typeof x).toBe('number')
     expect((await client.get('/api/results')).status).toBe(200)
