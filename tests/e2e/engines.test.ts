@@ -136,7 +136,10 @@ describe('a task over its time budget', () => {
     expect(analysis.refusal.statusMessage).toMatch(/^smiles: took too long/)
 
     expect((await client.get('/api/health')).status).toBe(200)
-    const small = await client.post('/api/chemistry/analyze', { smiles: 'CCC' })
+    // The budget is 0.1 s and a replaced worker starts cold: on two loaded cores even propane can
+    // run over once. What must hold is that the engine answers again, not a crash or a 500.
+    let small = await client.post('/api/chemistry/analyze', { smiles: 'CCC' })
+    for (let tries = 1; small.status === 422 && tries < 5; tries++) small = await client.post('/api/chemistry/analyze', { smiles: 'CCC' })
     expect(small.status).toBe(200)
     expect(small.body.products).toHaveLength(2)
   })
