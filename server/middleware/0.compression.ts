@@ -1,3 +1,4 @@
+import { ServerResponse } from 'node:http'
 import { constants } from 'node:zlib'
 import compression from 'compression'
 import type { NodeMiddleware } from 'h3'
@@ -16,4 +17,9 @@ const compress = fromNodeMiddleware(compression({
   brotli: { params: { [constants.BROTLI_PARAM_QUALITY]: 4 } },
 }) as unknown as NodeMiddleware)
 
-export default defineEventHandler((event) => compress(event))
+// Only what goes on the wire: Nitro's in-process fetches (the error page that Nuxt renders
+// through one, SSR data) run on stand-in responses, and a compressed body there came back empty
+// with its Content-Encoding copied onto the real answer.
+export default defineEventHandler((event) => {
+  if (event.node.res instanceof ServerResponse) return compress(event)
+})

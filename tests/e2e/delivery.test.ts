@@ -81,6 +81,14 @@ describe('compression of every kind of answer', () => {
     }
   })
 
+  it('an error page rendered for a refused page comes compressed and whole', async () => {
+    const headers = { 'cookie': cookie, 'accept': 'text/html', 'accept-encoding': 'br, gzip' }
+    const refused = await getRaw('/no-such-page-here', headers)
+    expect(refused.status).toBe(404)
+    expect(refused.headers['content-encoding']).toBe('br')
+    expect(decoded(refused).toString('utf8')).toMatch(/<html[\s\S]*<\/html>/)
+  })
+
   it('leaves an answer under 1 kB as it is', async () => {
     const raw = await getRaw('/api/health', { 'accept-encoding': 'br, gzip' })
     expect(raw.body.length).toBeLessThan(1024)
