@@ -2,6 +2,7 @@
 // without zod. The schema files (section.ts, course.ts, review.ts, results.ts) re-export them; a page that
 // only shows a label imports it from here, so it does not load the schemas and zod with them.
 // Not auto-imported (a folder below shared/types): import it explicitly.
+import type { HeadlineStatistic } from '../../utils/headline'
 import type { KeyFactor } from '../../utils/key-factor'
 
 export const WEEKDAYS = ['Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday', 'Sunday'] as const
@@ -31,3 +32,8 @@ export const KEY_FACTOR_LABELS: Record<KeyFactor, string> = {
 }
 export const RESULTS_FACTOR_LABELS = KEY_FACTOR_LABELS
 export const RESULTS_STATISTIC_SYMBOLS: Record<OutlierTest, string> = { 'gesd': 'R', 'grubbs': 'G', 'dixon': 'Q', 'modified-z': '|M|' }
+
+export const HEADLINE_LABELS: Record<HeadlineStatistic, string> = {
+  'geometric-mean': 'Geometric mean',
+  'median': 'Median',
+}
