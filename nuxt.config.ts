@@ -44,7 +44,22 @@ export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   srcDir: '.',
   buildDir: tag ? `.nuxt-${tag}` : '.nuxt',
-  nitro: { output: { dir: tag ? `.output-${tag}` : '.output' } },
+  nitro: {
+    output: { dir: tag ? `.output-${tag}` : '.output' },
+    // Build files are compressed once here (brotli at its best level, gzip), and Nitro serves the
+    // variant the request accepts with Content-Encoding and Vary; dynamic answers are compressed
+    // by server/middleware/0.compression.ts.
+    compressPublicAssets: { gzip: true, brotli: true },
+    // /_nuxt/ (hashed names) gets `public, max-age=31536000, immutable` from Nitro; the unhashed
+    // files of public/ may be kept a day.
+    routeRules: { '/favicon.svg': { headers: { 'cache-control': 'public, max-age=86400' } } },
+  },
+  experimental: {
+    // A link fetches its page's code when the pointer or focus reaches it, not as soon as it
+    // scrolls into view: a home page with a dozen links would otherwise fetch a dozen pages'
+    // code (openchemlib and chart.js among them) on every cold load.
+    defaults: { nuxtLink: { prefetchOn: { visibility: false, interaction: true } } },
+  },
   devtools: { enabled: false },
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@vueuse/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],

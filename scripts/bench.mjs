@@ -2,7 +2,7 @@
 // npm run bench: each case is measured against a baseline run side by side in the same
 // process and reported as a ratio, so numbers compare across machines. Results are printed
 // and written to test-results/bench.json. Nothing here is a test: no pass or fail.
-// `npm run bench -- summary` runs one case (http, uploads, summary, signin, loop).
+// `npm run bench -- summary` runs one case (http, uploads, summary, signin, loop, delivery).
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath, pathToFileURL } from 'node:url'
@@ -36,6 +36,8 @@ async function main() {
       ['signin', 'Sign-ins with argon2id against stored scrypt hashes',
         () => import('./bench/signin.mjs').then((m) => m.benchSignIn(world))],
       ['loop', 'Event-loop delay under uploads, chemistry and summaries', () => import('./bench/loop.mjs').then((m) => m.benchLoop(world))],
+      ['delivery', 'Compression, caching and the JavaScript each page loads',
+        () => import('./bench/delivery.mjs').then((m) => m.benchDelivery(world))],
     ]
     for (const [key, label, run] of cases) {
       if (only && only !== key) continue

@@ -108,7 +108,12 @@ const BROMO: Record<string, string> = {
 /** Canonical SMILES → IUPAC name. */
 export const BUILT_IN_PRODUCT_NAMES: Readonly<Record<string, string>> = { ...CHLORO, ...BROMO }
 
-/** The built-in name of a product, by its canonical SMILES; null when none is on file. */
-export function builtInProductName(canonicalSmiles: string): string | null {
-  return Object.hasOwn(BUILT_IN_PRODUCT_NAMES, canonicalSmiles) ? BUILT_IN_PRODUCT_NAMES[canonicalSmiles]! : null
+/**
+ * The built-in name of a product, by its canonical SMILES; null when none is on file. The
+ * parameter is not called `canonicalSmiles`: the app's auto-import reads that bare name as the
+ * engine function and would pull openchemlib (about 300 kB compressed) into every page that
+ * shows a product name.
+ */
+export function builtInProductName(smiles: string): string | null {
+  return Object.hasOwn(BUILT_IN_PRODUCT_NAMES, smiles) ? BUILT_IN_PRODUCT_NAMES[smiles]! : null
 }

@@ -1,22 +1,13 @@
 import { z } from 'zod'
+import { PASSWORD_MIN_LENGTH, type ROLES } from './roles'
 
-export const ROLES = ['instructor', 'ta', 'coordinator', 'student'] as const
 export type Role = (typeof ROLES)[number]
-
-export const ROLE_LABELS: Record<Role, string> = {
-  instructor: 'Instructor',
-  ta: 'Teaching assistant',
-  coordinator: 'Lab coordinator',
-  student: 'Student',
-}
 
 export const loginInputSchema = z.object({
   email: z.string().trim().toLowerCase().email('Enter an e-mail address').max(254),
   password: z.string().min(1, 'Enter your password').max(1024),
 })
 export type LoginInput = z.infer<typeof loginInputSchema>
-
-export const PASSWORD_MIN_LENGTH = 12
 
 export const newPasswordSchema = z
   .string()

@@ -1,18 +1,13 @@
 import { z } from 'zod'
 import { lineText } from './fields'
 import { RESUBMIT_DAYS_MAX } from '../utils/resubmit'
+import { OUTLIER_TESTS, RELEASE_POLICIES } from './lib/labels'
 
-// The generalized ESD test comes first: it is the default for new courses (it finds several
-// outliers at once, where repeated Grubbs' tests let two bad runs hide each other).
-export const OUTLIER_TESTS = ['gesd', 'grubbs', 'dixon', 'modified-z'] as const
+// The names pages show live in lib/labels.ts (without zod); they are re-exported here.
+
+export { DEFAULT_OUTLIER_TEST, OUTLIER_TEST_LABELS, OUTLIER_TESTS, RELEASE_POLICIES, RELEASE_POLICY_LABELS } from './lib/labels'
 export type OutlierTestName = (typeof OUTLIER_TESTS)[number]
-export const DEFAULT_OUTLIER_TEST: OutlierTestName = 'gesd'
-export const OUTLIER_TEST_LABELS: Record<OutlierTestName, string> = {
-  'gesd': 'Generalized ESD (several outliers)',
-  'grubbs': "Grubbs' test (two-sided, iterative)",
-  'dixon': "Dixon's Q test (r10, 3–10 results)",
-  'modified-z': 'Modified z-score (median and MAD)',
-}
+export type ReleasePolicyName = (typeof RELEASE_POLICIES)[number]
 
 /** One line each on when a test fits, for the settings form. */
 export const OUTLIER_TEST_HINTS: Record<OutlierTestName, string> = {
@@ -20,14 +15,6 @@ export const OUTLIER_TEST_HINTS: Record<OutlierTestName, string> = {
   'grubbs': 'One outlier at a time, repeated. Two similar bad runs can mask each other, and with 6 or fewer results it is unreliable.',
   'dixon': 'Only for 3 to 10 results; with more or fewer it does not run (and says so).',
   'modified-z': 'Scores each result against the median and MAD, which a few far-off runs barely move.',
-}
-
-export const RELEASE_POLICIES = ['on-review', 'after-due', 'manual'] as const
-export type ReleasePolicyName = (typeof RELEASE_POLICIES)[number]
-export const RELEASE_POLICY_LABELS: Record<ReleasePolicyName, string> = {
-  'on-review': 'As soon as a TA has reviewed the result',
-  'after-due': 'After the due date, once reviewed',
-  'manual': 'When the instructor releases the practical',
 }
 
 export const rubricCriterionSchema = z.object({

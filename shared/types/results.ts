@@ -3,14 +3,13 @@ import type { OutlierTestName as OutlierTest } from './course'
 import type { ClassHeadline } from '../utils/headline'
 import { instantField, recordIdList, recordIdParam } from './fields'
 import type { KeyFactor } from '../utils/key-factor'
-import { KEY_FACTOR_LABELS } from './review'
 
 // Class results pages, section digests and the cross-term comparison: API types and the
 // schemas shared by the forms and the routes.
 
 export type ResultsKeyFactor = KeyFactor
 
-export const RESULTS_FACTOR_LABELS = KEY_FACTOR_LABELS
+export { RESULTS_FACTOR_LABELS, RESULTS_STATISTIC_SYMBOLS } from './lib/labels'
 
 /** One line of GET /api/results: a practical the caller may see, with its headline factor. */
 export interface ResultsListItem {
@@ -93,7 +92,6 @@ export interface CrossTermComparison {
 }
 
 /** The statistic each outlier test compares with its critical value (magnitudes: |M| for z). */
-export const RESULTS_STATISTIC_SYMBOLS: Record<OutlierTest, string> = { 'gesd': 'R', 'grubbs': 'G', 'dixon': 'Q', 'modified-z': '|M|' }
 
 // Section digests.
 

@@ -8,10 +8,7 @@ import type { KeyFactor } from '../utils/key-factor'
 // bodies themselves are `reviewInputSchema` and `exclusionInputSchema` in ./submission.
 
 export type ReviewFactorKey = KeyFactor
-export const KEY_FACTOR_LABELS: Record<KeyFactor, string> = {
-  secondaryToPrimary: '2°:1°',
-  tertiaryToPrimary: '3°:1°',
-}
+export { KEY_FACTOR_LABELS } from './lib/labels'
 
 export const queueQuerySchema = z.object({
   section: recordIdParam().optional(),

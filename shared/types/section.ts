@@ -4,7 +4,7 @@ import { calendarDateProblem, dateField, lineText, MAX_TERM_DAYS, recordId } fro
 
 const time = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d(:[0-5]\d)?$/, 'Use HH:MM (24-hour)')
 
-export const WEEKDAYS = ['Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday', 'Sunday'] as const
+export { WEEKDAYS } from './lib/labels'
 
 export const sectionInputSchema = z.object({
   code: lineText(20, 'Enter a section code'),

@@ -8,13 +8,12 @@
 import jStat from 'jstat'
 import { StatisticsError, summarize } from './statistics'
 import { requireFiniteList } from './lib/moments'
+import { HEADLINE_LABELS } from '../types/lib/labels'
 
 export type HeadlineStatistic = 'geometric-mean' | 'median'
 
-export const HEADLINE_LABELS: Record<HeadlineStatistic, string> = {
-  'geometric-mean': 'Geometric mean',
-  'median': 'Median',
-}
+// The names pages show sit in shared/types/lib/labels.ts, away from jstat.
+export { HEADLINE_LABELS }
 
 export interface HeadlineInterval {
   /** 'log-t': exp(mean of ln x ± t·s/√n). 'order-statistics': x(k) to x(n − k + 1), binomial. */
