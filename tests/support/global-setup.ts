@@ -12,6 +12,8 @@ declare module 'vitest' {
     smtpPort: number
     smtpPidFile: string
     mailDir: string
+    /** The local identity provider the shared server's campus sign-in uses. */
+    idpUrl: string
     root: string
   }
 }
@@ -38,6 +40,7 @@ export default async function setup(project: TestProject) {
   project.provide('smtpPort', world.smtpPort)
   project.provide('smtpPidFile', world.smtpPidFile)
   project.provide('mailDir', world.mailDir)
+  project.provide('idpUrl', world.idpUrl)
   project.provide('root', root)
   return world.stop
 }
