@@ -136,7 +136,10 @@ async function interaction(req, res, uid, action) {
 
 const handle = provider.callback()
 const server = createServer((req, res) => {
-  const match = /^\/interaction\/([\w-]+)(?:\/(\w+))?$/.exec(new URL(req.url ?? '/', issuer).pathname)
+  const path = new URL(req.url ?? '/', issuer).pathname
+  // Browsers ask every site for an icon; "none" rather than a 404 in their console.
+  if (path === '/favicon.ico') return res.writeHead(204).end()
+  const match = /^\/interaction\/([\w-]+)(?:\/(\w+))?$/.exec(path)
   if (!match) return handle(req, res)
   interaction(req, res, match[1], match[2]).catch((error) => {
     console.error(`[identity-provider] ${error.message}`)
