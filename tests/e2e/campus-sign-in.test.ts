@@ -1,4 +1,4 @@
-import { afterAll, describe, expect, it } from 'vitest'
+import { afterAll, describe, expect, inject, it } from 'vitest'
 import { Client, DEMO } from '../support/http'
 import { closeTestDb, testDb } from '../support/db'
 import { callBack, campusCallbackUrl, campusSignIn } from '../support/campus'
@@ -76,6 +76,31 @@ describe('campus sign-in through the local provider', () => {
     const page = await client.get('/sign-in-problem?reason=unknown-person')
     expect(page.text).toContain('Halocline does not know you yet')
     expect(page.text).toContain('Ask your course instructor')
+  })
+})
+
+describe('signing out at the provider too', () => {
+  it('sends the browser to the provider\'s own sign-out, which asks, signs out there and comes back to our sign-in page', async () => {
+    const { client } = await campusSignIn(DEMO.student(8))
+    expect((await client.post('/api/auth/logout', {})).status).toBe(204)
+    const reply = await client.get('/auth/campus/sign-out')
+    expect(reply.status).toBe(302)
+    const to = new URL(reply.headers.get('location')!)
+    expect(to.origin + to.pathname).toBe(`${inject('idpUrl')}/session/end`)
+    expect(to.searchParams.get('post_logout_redirect_uri')).toBe(`${inject('baseUrl')}/login`)
+    const page = await client.get(to.href)
+    expect(page.status).toBe(200)
+    expect(page.text).toContain('Sign out of your campus account?')
+    const action = /<form[^>]*action="([^"]+)"/.exec(page.text)![1]!
+    const xsrf = /name="xsrf" value="([^"]+)"/.exec(page.text)![1]!
+    const confirmed = await client.request(new URL(action, to).href, { method: 'POST', body: new URLSearchParams({ xsrf, logout: 'yes' }) })
+    expect(confirmed.status).toBe(303)
+    expect(confirmed.headers.get('location')).toBe(`${inject('baseUrl')}/login`)
+    // Signed out there too: a new campus sign-in asks for the password again.
+    const start = await client.get('/auth/campus/start')
+    const atProvider = await client.get(start.headers.get('location')!)
+    const form = await client.get(new URL(atProvider.headers.get('location')!, inject('idpUrl')).href)
+    expect(form.text).toContain('E-mail or campus id')
   })
 })
 
