@@ -89,7 +89,7 @@ export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ign
     }))
     return {
       baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir,
-      idpUrl: `http://127.0.0.1:${idp.port}`, idpPidFile, stop,
+      idpUrl: `http://127.0.0.1:${idp.port}`, idpPidFile, campusEnv: localCampusEnv(idp), stop,
     }
   } catch (error) {
     await stop()

@@ -159,3 +159,22 @@ describe('password sign-in turned off', () => {
     expect((await new Client(server.baseUrl).post('/api/auth/login', { email: DEMO.student(3), password: 'halocline-demo' })).status).toBe(200)
   })
 })
+
+describe('the sign-in throttle on the callback', () => {
+  it('past the per-address limit a callback is refused with Retry-After and an audit row, before the provider is asked', async () => {
+    // Three failed callbacks from this address, then a server whose address limit is three.
+    for (let i = 0; i < 3; i++) await new Client(server.baseUrl).get(`/auth/campus/callback?code=x&state=unknown-${i}`)
+    const strict = await world.startServer({ NUXT_SIGN_IN_ADDRESS_LIMIT: '3' })
+    const before = await lastAuditId()
+    const client = new Client(strict.baseUrl)
+    const start = await client.get('/auth/campus/start')
+    const state = new URL(start.headers.get('location')!).searchParams.get('state')!
+    issuer.behaviour.tokenError = { status: 500, error: 'must_not_be_asked' }
+    const back = await client.get(`/auth/campus/callback?code=code-1&state=${encodeURIComponent(state)}`)
+    expect(back.status).toBe(302)
+    expect(back.headers.get('location')).toBe('/sign-in-problem?reason=throttled')
+    expect(Number(back.headers.get('retry-after'))).toBeGreaterThan(0)
+    expect(await campusAuditSince(before)).toEqual([{ action: 'sign-in.campus-refused', reason: 'throttled' }])
+    expect(await signedInUser(client)).toBeUndefined()
+  })
+})

@@ -3,6 +3,7 @@ import type { Browser, Page } from 'playwright-core'
 import { expectAccessible, launchBrowser, openTab, screenshot } from '../support/browser'
 import { DEMO } from '../support/http'
 import { closeTestDb, testDb } from '../support/db'
+import { startServerProcess } from '../support/fault-world'
 
 // The whole campus sign-in in Chromium, through the local identity provider the test world runs
 // (scripts/identity-provider.mjs): a student and a TA land on their own pages, a stranger is
@@ -81,5 +82,31 @@ describe('campus sign-in in Chromium', () => {
     await tab.page.getByRole('link', { name: 'Back to sign-in' }).click()
     await tab.page.waitForURL((url) => url.pathname === '/login')
     await tab.context.close()
+  })
+
+  it('with password sign-in off, the password form is folded away for the administrators, and the break-glass one gets in', async () => {
+    const locked = await startServerProcess({
+      databaseUrl: inject('databaseUrl'),
+      smtpPort: inject('smtpPort'),
+      env: { ...inject('campusEnv'), NUXT_PASSWORD_SIGN_IN_MODE: 'off', NUXT_PASSWORD_SIGN_IN_BREAK_GLASS: DEMO.coordinator },
+    })
+    const tab = await openTab(browser)
+    try {
+      await tab.page.goto(`${locked.baseUrl}/login`)
+      await tab.page.getByRole('link', { name: 'Sign in with your campus account' }).waitFor()
+      expect(await tab.page.getByLabel('E-mail').isVisible()).toBe(false)
+      await expectAccessible(tab.page)
+      await tab.page.getByText('Administrators: password').click()
+      await tab.page.getByLabel('E-mail').fill(DEMO.coordinator)
+      await tab.page.getByLabel(/^Password/).fill('halocline-demo')
+      await screenshot(tab.page, 'sign-in-break-glass')
+      await tab.page.getByRole('button', { name: 'Sign in', exact: true }).click()
+      await tab.page.waitForURL((url) => url.pathname === '/')
+      expect(await sessionOf(tab.page)).toEqual({ user: expect.objectContaining({ role: 'coordinator' }) })
+      expect(tab.problems).toEqual([])
+    } finally {
+      await tab.context.close()
+      await locked.kill()
+    }
   })
 })

@@ -14,6 +14,8 @@ declare module 'vitest' {
     mailDir: string
     /** The local identity provider the shared server's campus sign-in uses. */
     idpUrl: string
+    /** The NUXT_CAMPUS_* settings of the shared server, for servers of a test's own. */
+    campusEnv: Record<string, string>
     root: string
   }
 }
@@ -41,6 +43,7 @@ export default async function setup(project: TestProject) {
   project.provide('smtpPidFile', world.smtpPidFile)
   project.provide('mailDir', world.mailDir)
   project.provide('idpUrl', world.idpUrl)
+  project.provide('campusEnv', world.campusEnv)
   project.provide('root', root)
   return world.stop
 }
