@@ -127,6 +127,22 @@ export default defineNuxtConfig({
     // Sign-in throttle (server/utils/throttle.ts): failed or unfinished attempts per account and
     // per address in a sliding window; NUXT_SIGN_IN_ACCOUNT_LIMIT etc. at run time.
     signIn: { windowMinutes: 15, accountLimit: 10, addressLimit: 100 },
+    // Campus sign-in over OpenID Connect (server/services/campus-sign-in): off while the issuer or
+    // the client id is empty. NUXT_CAMPUS_ISSUER, NUXT_CAMPUS_CLIENT_ID … at run time.
+    campus: {
+      issuer: '',
+      clientId: '',
+      clientSecret: '',
+      idClaim: 'campus_id',
+      scopes: 'openid email profile',
+      buttonLabel: 'Sign in with your campus account',
+      helpContact: '',
+      timeoutSeconds: 8,
+      clockLeewaySeconds: 60,
+    },
+    // NUXT_PASSWORD_SIGN_IN_MODE=off leaves password sign-in only to the comma-separated e-mails in
+    // NUXT_PASSWORD_SIGN_IN_BREAK_GLASS (an administrator who must get in when the provider is down).
+    passwordSignIn: { mode: 'on', breakGlass: '' },
     demoMailDir: '',
     session: {
       // __Host- pins the cookie to this exact origin over HTTPS (browsers also accept it on

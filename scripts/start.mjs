@@ -12,7 +12,7 @@ import { ensureNodeModules } from './lib/deps.mjs'
 import { ensureEnvFile } from './lib/env.mjs'
 import { clusterPaths, databaseUrl, ensureDatabase, initCluster, startCluster, stopCluster } from './lib/postgres.mjs'
 import { ensureBuild } from './lib/build.mjs'
-import { startServer, startSmtpFake } from './lib/processes.mjs'
+import { localCampusEnv, startIdentityProvider, startServer, startSmtpFake } from './lib/processes.mjs'
 import { supervise } from './lib/supervise.mjs'
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
@@ -20,18 +20,19 @@ const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
 const dataDir = resolve(process.env.HALOCLINE_DATA_DIR ?? join(root, '.data'))
 const pgPort = Number(process.env.HALOCLINE_PG_PORT ?? 54329)
 const smtpPort = Number(process.env.HALOCLINE_SMTP_PORT ?? 2525)
+const idpPort = Number(process.env.HALOCLINE_IDP_PORT ?? 4455)
 const port = Number(process.env.PORT ?? 3000)
 const appUrl = `http://127.0.0.1:${port}`
 const shown = (path) => relative(root, path) || '.'
 
-const started = { cluster: null, smtp: null, server: null }
+const started = { cluster: null, smtp: null, idp: null, server: null }
 const serverLog = []
 let shuttingDown = false
 
 async function shutdown(code = 0) {
   if (shuttingDown) return
   shuttingDown = true
-  await Promise.all([started.server?.stop(), started.smtp?.stop()].map((p) => p?.catch(() => {})))
+  await Promise.all([started.server?.stop(), started.smtp?.stop(), started.idp?.stop()].map((p) => p?.catch(() => {})))
   if (started.cluster) {
     try { stopCluster(started.cluster) } catch { /* already down */ }
   }
@@ -98,6 +99,29 @@ async function startMail() {
   return mailDir
 }
 
+/**
+ * Campus sign-in: the operator's provider when .env or the environment names one
+ * (NUXT_CAMPUS_ISSUER), else the local stand-in, supervised like the SMTP fake.
+ * Returns the NUXT_CAMPUS_* settings for the server ({} for the operator's own).
+ */
+async function startCampusProvider(secrets) {
+  if (process.env.NUXT_CAMPUS_ISSUER ?? secrets.NUXT_CAMPUS_ISSUER) {
+    console.log('▸ Using the identity provider in NUXT_CAMPUS_ISSUER (no local provider started)')
+    return {}
+  }
+  const idp = { port: idpPort, clientId: 'halocline-local', clientSecret: secrets.HALOCLINE_IDP_CLIENT_SECRET }
+  await step(`Starting the local identity provider on 127.0.0.1:${idpPort}`, async () => {
+    started.idp = supervise({
+      name: 'The identity provider',
+      log: (line) => console.error(`[start] ${line}`),
+      start: () => startIdentityProvider({ root, ...idp, appUrl }),
+    })
+    await started.idp.first
+    return 'demo people only'
+  })
+  return localCampusEnv(idp)
+}
+
 let announced = false
 
 /** The built server, supervised; its first log waits until the progress lines are done. */
@@ -131,6 +155,8 @@ Demo accounts (password: halocline-demo)
   coordinator@larkspur.example   lab coordinator (stockroom)
   student01@larkspur.example     student (… through student64@)
 
+Campus sign-in goes to a local stand-in identity provider: the same e-mails (or demo
+student ids such as LS2640137) and the same password.
 E-mail goes to the local SMTP fake; read it at ${appUrl}/mailbox or in ${shown(mailDir)}/.
 If the server stops, it is started again; PostgreSQL and the SMTP fake keep running.
 Press Ctrl-C to stop everything.
@@ -148,6 +174,7 @@ async function main() {
   const url = await prepareDatabase(secrets)
   await migrateAndSeed(url)
   const mailDir = await startMail()
+  const campusEnv = await startCampusProvider(secrets)
   await step('Building the app', () => ensureBuild(root))
   await serve({
     NUXT_DATABASE_URL: url,
@@ -157,6 +184,7 @@ async function main() {
     NUXT_DEMO_MAIL_DIR: mailDir,
     NUXT_PUBLIC_DEMO: 'true',
     NUXT_PUBLIC_APP_URL: appUrl,
+    ...campusEnv,
     ...pickNuxtOverrides(secrets),
   })
   announce(mailDir)

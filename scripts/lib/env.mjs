@@ -19,6 +19,7 @@ export function ensureEnvFile(path) {
   const wanted = {
     NUXT_SESSION_PASSWORD: randomSecret(32),
     HALOCLINE_PG_PASSWORD: randomSecret(18),
+    HALOCLINE_IDP_CLIENT_SECRET: randomSecret(18),
   }
   const missing = Object.entries(wanted).filter(([key]) => !current[key])
   if (!missing.length) return { values: current, created: false }

@@ -21,6 +21,32 @@ export async function startSmtpFake({ root, port, dir, pidFile, holdFile, stdio 
   return child
 }
 
+/**
+ * The local identity provider (scripts/identity-provider.mjs) for an app at `appUrl`.
+ * @param {{ root: string, port: number, clientId: string, clientSecret: string, appUrl: string, pidFile?: string, stdio?: any }} options
+ */
+export async function startIdentityProvider({ root, port, clientId, clientSecret, appUrl, pidFile, stdio = 'ignore' }) {
+  if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set HALOCLINE_IDP_PORT to a free port, or stop what uses it')
+  const args = ['--port', String(port), '--client-id', clientId, '--client-secret', clientSecret, '--app-url', appUrl]
+  if (pidFile) args.push('--pid-file', pidFile)
+  const child = spawn(process.execPath, [join(root, 'scripts', 'identity-provider.mjs'), ...args], { cwd: root, stdio, detached: false })
+  if (!(await waitFor(() => isPortOpen(port), { timeoutMs: 15_000 }))) {
+    child.kill()
+    fail(`the local identity provider did not start on port ${port}`, 'run node scripts/identity-provider.mjs by hand to see why')
+  }
+  return child
+}
+
+/** The NUXT_CAMPUS_* settings that point the app at the local identity provider. */
+export function localCampusEnv({ port, clientId, clientSecret }) {
+  return {
+    NUXT_CAMPUS_ISSUER: `http://127.0.0.1:${port}`,
+    NUXT_CAMPUS_CLIENT_ID: clientId,
+    NUXT_CAMPUS_CLIENT_SECRET: clientSecret,
+    NUXT_CAMPUS_ID_CLAIM: 'campus_id',
+  }
+}
+
 export function killPidFile(pidFile, signal = 'SIGTERM') {
   if (!existsSync(pidFile)) return false
   const pid = Number(readFileSync(pidFile, 'utf8'))

@@ -6,7 +6,7 @@ import { join } from 'node:path'
 import { clusterPaths, databaseUrl, ensureDatabase, initCluster, startCluster, stopCluster } from './postgres.mjs'
 import { ensureBuild } from './build.mjs'
 import { freePort } from './ports.mjs'
-import { killPidFile, startServer, startSmtpFake } from './processes.mjs'
+import { killPidFile, localCampusEnv, startIdentityProvider, startServer, startSmtpFake } from './processes.mjs'
 import { randomSecret } from './env.mjs'
 
 /**
@@ -65,6 +65,11 @@ export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ign
 
     ensureBuild(root)
     const port = await freePort()
+    // The local identity provider, so campus sign-in works in the tests as in the demo.
+    const idp = { port: await freePort(), clientId: 'halocline-test', clientSecret: randomSecret(18) }
+    const idpPidFile = join(runRoot, 'idp.pid')
+    await startIdentityProvider({ root, ...idp, appUrl: `http://127.0.0.1:${port}`, pidFile: idpPidFile })
+    undo.push(() => killPidFile(idpPidFile))
     const server = await startServer({
       root, port, stdio,
       env: {
@@ -73,6 +78,7 @@ export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ign
         NUXT_SMTP_PORT: String(smtpPort),
         NUXT_DEMO_MAIL_DIR: mailDir,
         NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${port}`,
+        ...localCampusEnv(idp),
         ...serverEnv,
       },
     })
@@ -82,7 +88,8 @@ export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ign
       server.kill('SIGTERM')
     }))
     return {
-      baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir, stop,
+      baseUrl: `http://127.0.0.1:${port}`, serverPid: server.pid, databaseUrl: url, runRoot, pgPort, smtpPort, smtpPidFile, mailDir,
+      idpUrl: `http://127.0.0.1:${idp.port}`, idpPidFile, campusEnv: localCampusEnv(idp), stop,
     }
   } catch (error) {
     await stop()

@@ -35,6 +35,19 @@ export interface LoginAttemptsTable {
   createdAt: CreatedAt
 }
 
+/** A campus (OpenID Connect) sign-in started and not yet, or already, finished. */
+export interface CampusSignInRequestsTable {
+  id: Generated<number>
+  stateHash: string
+  /** Hash of the random value in the starting browser's cookie: the callback must come from it. */
+  browserHash: string
+  nonce: string
+  codeVerifier: string
+  nextPath: string
+  createdAt: CreatedAt
+  usedAt: Timestamp | null
+}
+
 export interface AuditLogTable {
   id: Generated<number>
   actorId: number | null
@@ -367,6 +380,7 @@ export interface Database extends StockroomTables, DigestTables, LibraryDataTabl
   reviews: ReviewsTable
   users: UsersTable
   loginAttempts: LoginAttemptsTable
+  campusSignInRequests: CampusSignInRequestsTable
   auditLog: AuditLogTable
   mailMessages: MailMessagesTable
   courses: CoursesTable

@@ -7,6 +7,8 @@ declare module '#auth-utils' {
   }
   interface UserSession {
     loggedInAt?: number
+    /** How the session was opened: with a password or through the campus identity provider. */
+    via?: 'password' | 'campus'
   }
   interface SecureSessionData {
     /** users.session_version when the session was issued; a bump ends it everywhere. */

@@ -12,6 +12,10 @@ declare module 'vitest' {
     smtpPort: number
     smtpPidFile: string
     mailDir: string
+    /** The local identity provider the shared server's campus sign-in uses. */
+    idpUrl: string
+    /** The NUXT_CAMPUS_* settings of the shared server, for servers of a test's own. */
+    campusEnv: Record<string, string>
     root: string
   }
 }
@@ -38,6 +42,8 @@ export default async function setup(project: TestProject) {
   project.provide('smtpPort', world.smtpPort)
   project.provide('smtpPidFile', world.smtpPidFile)
   project.provide('mailDir', world.mailDir)
+  project.provide('idpUrl', world.idpUrl)
+  project.provide('campusEnv', world.campusEnv)
   project.provide('root', root)
   return world.stop
 }
