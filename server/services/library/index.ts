@@ -9,7 +9,7 @@ export {
   setSubstrateReference, updateMethod, updateSubstrate,
 } from './library-commands'
 export { toMethodView } from './methods'
-export { substrateProductNamer, substrateReferenceFor } from './product-names'
+export { substrateProductNamer, substrateReferenceFor, type ProductNamer } from './product-names'
 export { referenceCandidates, resolveReferencePercents, substrateReferenceViews } from './reference-distributions'
 export { libraryProducts, renameLibraryProducts, resolveProductNames, resolveWindows, windowView } from './substrate-products'
 export { substrateDetail, substrateIdentity, toSubstrateListItem } from './substrate-views'
