@@ -8,7 +8,7 @@ import {
 import { computeQuantities, expectedProducts, hazardsForReagent } from '#shared/utils/procedure'
 import { readerSource } from '#shared/utils/source-line'
 import { useDb } from '../../utils/db'
-import { substrateAnalysis, substrateDepiction, substrateProductNamer } from '../library'
+import { substrateAnalysis, substrateDepiction, substrateProductNamer, substrateProductSmiles } from '../library'
 import { partnerNames } from '../roster'
 import { meetingsOf, sectionRows } from '../sections'
 
@@ -77,7 +77,7 @@ export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles
 }
 
 async function productSmilesOf(smiles: string, halogen: 'Cl' | 'Br'): Promise<Set<string>> {
-  return new Set((await substrateAnalysis(smiles, halogen)).products.map((p) => p.smiles))
+  return new Set(await substrateProductSmiles(smiles, halogen))
 }
 
 /** A student's due date is their own section's; anyone else sees the latest of those visible. */

@@ -6,7 +6,7 @@ import type { OutlierTestName } from '#shared/types/course'
 import { classColumns, type ClassFigureRow } from './class-columns'
 import type { FactorStatsJob } from '../../engines/statistics'
 import { keyFactorValue, type KeyFactor } from '#shared/utils/key-factor'
-import { classFactorStats } from './class-statistics'
+import { classFactorStats, rememberedClassFigures } from './class-statistics'
 import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
 
 /** The class figures of each group of rows (the whole class, then each section), computed together. */
@@ -49,7 +49,7 @@ function exclusionReasonFor(scope: PracticalScope, row: { sectionId: number, exc
 export async function practicalSummary(
   scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number },
 ): Promise<PracticalSummary> {
-  const [chemistry, { rows, excluded, percentsOf, sections: allSections }] = await Promise.all([
+  const [chemistry, { rows, excluded, percentsOf, sections: allSections, fingerprint }] = await Promise.all([
     practicalChemistry(scope.practical), classColumns(scope.practical.id)])
   const included = rows.filter((r) => r.excludedAt === null)
   const settings: OutlierSettings = {
@@ -78,7 +78,10 @@ export async function practicalSummary(
     }
   })
   const bySectionRows = sections.map((s) => included.filter((r) => r.sectionId === s.id))
-  const [factors, ...sectionFactors] = await factorSets([included, ...bySectionRows], settings, has, withoutOutliers)
+  // The figures' inputs: the values (fingerprint), the settings, which factors apply, the groups.
+  const figuresKey = JSON.stringify([fingerprint, settings, has, withoutOutliers, sections.map((s) => s.id)])
+  const [factors, ...sectionFactors] = await rememberedClassFigures(figuresKey, 2 * included.length,
+    () => factorSets([included, ...bySectionRows], settings, has, withoutOutliers))
   const key = factors![chemistry.keyFactor]
   return {
     n: included.length,

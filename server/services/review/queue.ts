@@ -12,7 +12,7 @@ import type { OutlierFinding } from '#shared/utils/outliers'
 import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
 import { classOutlierReport } from '../results/class-statistics'
-import { latestClassResults } from '../results/latest-versions'
+import { latestUnitVersions } from '../results/latest-versions'
 import { requireReviewerOf, reviewSectionIds } from './scope'
 import { practicalChemistry } from '../submissions/practical-chemistry'
 import { useDb } from '../../utils/db'
@@ -29,7 +29,9 @@ export interface ClassOutliers {
 
 /** The course's outlier test over every unit's latest pending-or-accepted, not excluded result. */
 export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<ClassOutliers> {
-  const rows = await latestClassResults(scope.practical.id)
+  // Only what the test reads: no mole percents to parse.
+  const rows = await latestUnitVersions(useDb(), [scope.practical.id])
+    .select(['s.id as submissionId', 's.factorSecondary', 's.factorTertiary', 's.excludedAt']).execute()
   const values = rows.filter((r) => r.excludedAt === null).flatMap((r) => {
     const value = keyFactorValue(r, keyFactor)
     return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]

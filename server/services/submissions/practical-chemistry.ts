@@ -27,7 +27,7 @@ async function chemistryRow(practical: { substrateId: number, methodId: number }
       coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'rtMin', rt_min, 'rtMax', rt_max,
           'responseFactor', response_factor) order by id)
         from substrate_windows where substrate_id = ${practical.substrateId}), '[]') as windows,
-      coalesce((select json_agg(json_build_object('productSmiles', product_smiles, 'name', name))
+      coalesce((select json_agg(json_build_object('productSmiles', product_smiles, 'name', name) order by product_smiles)
         from substrate_product_names where substrate_id = ${practical.substrateId}), '[]') as names,
       (select json_build_object('percents', r.percents, 'source', r.source, 'sourceKind', r.source_kind)
         from substrate_references r join methods m on m.id = ${practical.methodId} and r.reagent::text = m.reagent::text
@@ -41,7 +41,27 @@ async function chemistryRow(practical: { substrateId: number, methodId: number }
  * judged against (the substrate's reference distribution for the method's reagent, if any).
  */
 export async function practicalChemistry(practical: { substrateId: number, methodId: number }): Promise<PracticalChemistry> {
-  const { substrate, method, windows, names, reference } = await chemistryRow(practical)
+  const row = await chemistryRow(practical)
+  const key = JSON.stringify([row.substrate.smiles, row.method, row.windows, row.names, row.reference])
+  let known = chemistryMemo.get(key)
+  if (!known) {
+    known = chemistryOf(row)
+    if (chemistryMemo.size >= CHEMISTRY_MEMO_LIMIT) chemistryMemo.delete(chemistryMemo.keys().next().value!)
+    chemistryMemo.set(key, known)
+    known.catch(() => chemistryMemo.delete(key))
+  }
+  // A copy: the remembered answer is shared by every later caller.
+  return structuredClone(await known)
+}
+
+// Matching a reference distribution to the products parses SMILES with openchemlib: several
+// milliseconds on every summary, queue and review page. The answer depends only on the row
+// read above (and the substrate's analysis, itself a function of its SMILES), so it is kept per
+// row: an edit to the substrate, method, windows, names or reference makes a new key.
+const CHEMISTRY_MEMO_LIMIT = 500
+const chemistryMemo = new Map<string, Promise<PracticalChemistry>>()
+
+async function chemistryOf({ substrate, method, windows, names, reference }: ChemistryRow): Promise<PracticalChemistry> {
   const own = new Map(names.map((n) => [n.productSmiles, n.name]))
   const nameOf: ProductNamer = (smiles) => own.get(smiles) ?? builtInProductName(smiles)
   const analysis = await substrateAnalysis(substrate.smiles, method.halogen)
