@@ -10,7 +10,9 @@ import type { ClassRow } from './latest-versions'
 // one row of arrays; the mole percents come already gathered per product, in unit order and
 // then in their stored order, so the means are summed in the same order as before.
 
-export type ClassFigureRow = Omit<ClassRow, 'molePercents' | 'unitKey' | 'exclusionReason'>
+// The arrays come as JSON (parsed natively; pg's array parser reads text a character at a time).
+// When a result was excluded does not matter to the figures: only whether.
+export type ClassFigureRow = Omit<ClassRow, 'molePercents' | 'unitKey' | 'exclusionReason' | 'excludedAt'> & { excluded: boolean }
 
 export interface ClassColumns {
   rows: ClassFigureRow[]
@@ -29,8 +31,9 @@ interface ColumnsRow {
   statuses: SubmissionStatus[] | null
   secondary: Array<number | null> | null
   tertiary: Array<number | null> | null
-  excludedAt: Array<string | null> | null
-  excluded: ClassColumns['excluded'] | null
+  /** Whether each was excluded; when, only for the ones listed in excludedRows. */
+  excluded: boolean[] | null
+  excludedRows: ClassColumns['excluded'] | null
   percents: Array<{ smiles: string, percents: number[] }> | null
   sections: ClassColumns['sections'] | null
 }
@@ -48,12 +51,13 @@ export async function classColumns(practicalId: number): Promise<ClassColumns> {
         where latest.excluded_at is null group by 1) p) as percents,
       (select json_agg(json_build_object('id', s.id, 'code', s.code) order by s.code)
         from practical_sessions ps join sections s on s.id = ps.section_id where ps.practical_id = ${practicalId}) as sections
-    from (select array_agg(id order by unit_key) as ids, array_agg(section_id order by unit_key) as section_ids,
-        array_agg(status::text order by unit_key) as statuses,
-        array_agg(factor_secondary order by unit_key) as secondary, array_agg(factor_tertiary order by unit_key) as tertiary,
-        array_agg(excluded_at order by unit_key) as excluded_at,
+    from (select to_json(array_agg(id order by unit_key)) as ids, to_json(array_agg(section_id order by unit_key)) as section_ids,
+        to_json(array_agg(status::text order by unit_key)) as statuses,
+        to_json(array_agg(factor_secondary order by unit_key)) as secondary,
+        to_json(array_agg(factor_tertiary order by unit_key)) as tertiary,
+        to_json(array_agg(excluded_at is not null order by unit_key)) as excluded,
         json_agg(json_build_object('submissionId', id, 'sectionId', section_id, 'exclusionReason', exclusion_reason)
-          order by unit_key) filter (where excluded_at is not null) as excluded
+          order by unit_key) filter (where excluded_at is not null) as excluded_rows
       from latest) l`.execute(useDb())
   const ids = row?.ids ?? []
   const rows = ids.map((submissionId, i): ClassFigureRow => ({
@@ -62,12 +66,12 @@ export async function classColumns(practicalId: number): Promise<ClassColumns> {
     status: row!.statuses![i]!,
     factorSecondary: row!.secondary![i] ?? null,
     factorTertiary: row!.tertiary![i] ?? null,
-    excludedAt: row!.excludedAt![i] ? new Date(row!.excludedAt![i]!) : null,
+    excluded: row!.excluded![i]!,
   }))
   return {
     rows,
     fingerprint: fingerprintOf(row),
-    excluded: row?.excluded ?? [],
+    excluded: row?.excludedRows ?? [],
     percentsOf: new Map((row?.percents ?? []).map((p) => [p.smiles, p.percents])),
     sections: row?.sections ?? [],
   }
@@ -86,6 +90,6 @@ function fingerprintOf(row: ColumnsRow | undefined): string {
   numbers(row?.secondary ?? null)
   numbers(row?.tertiary ?? null)
   hash.update((row?.statuses ?? []).join(',')).update('|')
-  hash.update((row?.excludedAt ?? []).map((at) => (at ? '1' : '0')).join(''))
+  hash.update((row?.excluded ?? []).map((at) => (at ? '1' : '0')).join(''))
   return hash.digest('base64url')
 }

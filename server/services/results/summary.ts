@@ -51,7 +51,7 @@ export async function practicalSummary(
 ): Promise<PracticalSummary> {
   const [chemistry, { rows, excluded, percentsOf, sections: allSections, fingerprint }] = await Promise.all([
     practicalChemistry(scope.practical), classColumns(scope.practical.id)])
-  const included = rows.filter((r) => r.excludedAt === null)
+  const included = rows.filter((r) => !r.excluded)
   const settings: OutlierSettings = {
     test: options.method ?? scope.course.outlierTest,
     alpha: scope.course.outlierAlpha,
