@@ -1,5 +1,6 @@
 import type { H3Event } from 'h3'
-import type { Course, Section } from '../database/schema'
+import { sql, type SelectQueryBuilder } from 'kysely'
+import type { Course, Database, Section } from '../database/schema'
 import type { SessionUser } from '#shared/types/auth'
 
 // The few functions that load an object the caller may see, or throw. Every route uses them;
@@ -90,26 +91,25 @@ export async function requireSectionAccess(event: H3Event, sectionId: number, mo
   return { ...scope, section }
 }
 
-/** Course ids the caller may see at all, for list routes. */
-export async function visibleCourseIds(me: SessionUser): Promise<number[]> {
+/** The ids of the courses the caller may see, as a subquery for a where clause (`id in …`). */
+export function visibleCourseIdQuery(me: SessionUser): SelectQueryBuilder<Database, keyof Database, { id: number }> {
   const db = useDb()
-  let rows: Array<{ id: number }>
   switch (me.role) {
     case 'instructor':
-      rows = await db.selectFrom('courseOwners').select('courseId as id').where('userId', '=', me.id).execute()
-      break
+      return db.selectFrom('courseOwners').select('courseId as id').where('userId', '=', me.id)
     case 'coordinator':
-      rows = await db.selectFrom('courses').select('id').execute()
-      break
+      return db.selectFrom('courses').select('id')
     case 'ta':
-      rows = await db.selectFrom('sectionTas').innerJoin('sections', 'sections.id', 'sectionTas.sectionId')
-        .select('sections.courseId as id').distinct().where('sectionTas.userId', '=', me.id).execute()
-      break
+      return db.selectFrom('sectionTas').innerJoin('sections', 'sections.id', 'sectionTas.sectionId')
+        .select('sections.courseId as id').where('sectionTas.userId', '=', me.id)
     case 'student':
-      rows = await db.selectFrom('enrollments').select('courseId as id').distinct()
-        .where('userId', '=', me.id).where('status', '=', 'active').execute()
-      break
+      return db.selectFrom('enrollments').select('courseId as id').where('userId', '=', me.id).where('status', '=', 'active')
   }
+}
+
+/** Course ids the caller may see at all, for list routes. */
+export async function visibleCourseIds(me: SessionUser): Promise<number[]> {
+  const rows = await visibleCourseIdQuery(me).distinct().execute()
   return rows.map((r) => r.id)
 }
 
@@ -128,22 +128,69 @@ export interface PracticalScope extends CourseScope {
   sessionSectionIds: number[]
 }
 
-/** A practical is visible to a TA or student only when it runs in one of their sections. */
+/**
+ * The caller's link to a practical's course, read in the same query as the practical: owning it
+ * (instructor), their sections in it (TA, student), nothing to read (coordinator).
+ */
+function relationOf(me: SessionUser) {
+  switch (me.role) {
+    case 'instructor':
+      return sql<number[] | null>`case when exists (select 1 from course_owners o where o.course_id = c.id and o.user_id = ${me.id})
+        then '{}'::int[] end`
+    case 'ta':
+      return sql<number[] | null>`array(select s.id from section_tas st join sections s on s.id = st.section_id
+        where st.user_id = ${me.id} and s.course_id = c.id)`
+    case 'student':
+      return sql<number[] | null>`array(select e.section_id from enrollments e
+        where e.user_id = ${me.id} and e.course_id = c.id and e.status = 'active')`
+    default:
+      return sql<number[] | null>`'{}'::int[]`
+  }
+}
+
+/** The scope courseScope() would give, from the relation read with the course. */
+function scopeOf(me: SessionUser, course: Course, relation: number[] | null): CourseScope | null {
+  switch (me.role) {
+    case 'instructor':
+      return relation ? { me, course, role: 'owner', sectionIds: null } : null
+    case 'coordinator':
+      return { me, course, role: 'coordinator', sectionIds: null }
+    case 'ta':
+      return relation?.length ? { me, course, role: 'ta', sectionIds: relation } : null
+    case 'student':
+      return relation?.length ? { me, course, role: 'student', sectionIds: relation } : null
+  }
+}
+
+/**
+ * A practical is visible to a TA or student only when it runs in one of their sections.
+ * One query: the practical, its course, the caller's relation to it and its sessions' sections
+ * (every route under /api/practicals/:id starts here).
+ */
 export async function requirePracticalAccess(
   event: H3Event,
   practicalId: number,
   mode: 'view' | 'manage' = 'view',
 ): Promise<PracticalScope> {
   const me = requireUser(event)
-  const db = useDb()
-  const practical = await db.selectFrom('practicals')
-    .select(['id', 'courseId', 'title', 'substrateId', 'methodId', 'workUnit', 'notes', 'resultsReleasedAt'])
-    .where('id', '=', practicalId).executeTakeFirst()
-  const course = practical && await db.selectFrom('courses').selectAll().where('id', '=', practical.courseId).executeTakeFirst()
-  const scope = course && (await courseScope(me, course))
-  if (!practical || !scope) throw notFound('Practical')
-  const sessions = await db.selectFrom('practicalSessions').select('sectionId').where('practicalId', '=', practical.id).execute()
-  const sessionSectionIds = sessions.map((s) => s.sectionId).filter((id) => !scope.sectionIds || scope.sectionIds.includes(id))
+  const row = await useDb().selectFrom('practicals as p').innerJoin('courses as c', 'c.id', 'p.courseId')
+    .selectAll('c')
+    .select([
+      'p.id as practicalId', 'p.title as practicalTitle', 'p.substrateId', 'p.methodId', 'p.workUnit', 'p.notes', 'p.resultsReleasedAt',
+      relationOf(me).as('relation'),
+      sql<number[]>`array(select ps.section_id from practical_sessions ps where ps.practical_id = p.id order by ps.id)`
+        .as('sessionSections'),
+    ])
+    .where('p.id', '=', practicalId).executeTakeFirst()
+  if (!row) throw notFound('Practical')
+  const {
+    practicalId: id, practicalTitle: title, substrateId, methodId, workUnit, notes, resultsReleasedAt, relation, sessionSections,
+    ...course
+  } = row
+  const scope = scopeOf(me, course, relation)
+  if (!scope) throw notFound('Practical')
+  const practical = { id, courseId: course.id, title, substrateId, methodId, workUnit, notes, resultsReleasedAt }
+  const sessionSectionIds = sessionSections.filter((sectionId) => !scope.sectionIds || scope.sectionIds.includes(sectionId))
   if (scope.sectionIds && !sessionSectionIds.length) throw notFound('Practical')
   if (mode === 'manage' && scope.role !== 'owner') throw forbidden('Only the course’s instructors can change practicals')
   return { ...scope, practical, sessionSectionIds }

@@ -18,11 +18,29 @@ const DATE_SHAPE = /^\d{4}-\d{2}-\d{2}$/
 
 const textOf = (day: Date) => format(day, DATE_FORMAT, IN_UTC)
 
+/**
+ * Answers of the pure date functions below, per argument: date-fns in a zone takes tens of
+ * microseconds a call, and a forecast or a term's schedule asks about the same few hundred days
+ * thousands of times.
+ */
+function remembered<T>(compute: (value: string) => T): (value: string) => T {
+  const known = new Map<string, T>()
+  return (value) => {
+    let answer = known.get(value)
+    if (answer === undefined) {
+      answer = compute(value)
+      if (known.size >= 4096) known.delete(known.keys().next().value!)
+      known.set(value, answer)
+    }
+    return answer
+  }
+}
+
 /** Whether a 'YYYY-MM-DD' text names a day that exists (no 31 February). */
-export function isCalendarDate(value: string): boolean {
+export const isCalendarDate: (value: string) => boolean = remembered((value) => {
   const day = parseISO(value, IN_UTC)
   return DATE_SHAPE.test(value) && isValid(day) && textOf(day) === value
-}
+})
 
 function dayOf(date: string): Date {
   if (!isCalendarDate(date)) throw new RangeError(`Not a date (YYYY-MM-DD): ${date}`)
@@ -39,9 +57,14 @@ export function todayIn(timezone = 'UTC', now: Date = new Date()): string {
   return isoDateOf(now, timezone)
 }
 
+const movedDays = remembered((key) => {
+  const at = key.lastIndexOf('|')
+  return textOf(addDaysTo(dayOf(key.slice(0, at)), Number(key.slice(at + 1)), IN_UTC))
+})
+
 /** A date moved by whole days (negative: earlier). */
 export function addDays(date: string, days: number): string {
-  return textOf(addDaysTo(dayOf(date), days, IN_UTC))
+  return movedDays(`${date}|${days}`)
 }
 
 /** A date moved by whole months; a day the target month lacks becomes its last (31 Jan + 1 = 28/29 Feb). */
@@ -60,15 +83,13 @@ export function isoWeekday(date: string): number {
 }
 
 /** Monday of the ISO week holding the date. */
-export function weekStart(date: string): string {
-  return textOf(startOfISOWeek(dayOf(date), IN_UTC))
-}
+export const weekStart: (date: string) => string = remembered((date) => textOf(startOfISOWeek(dayOf(date), IN_UTC)))
 
 /** ISO 8601 week label: the week belongs to the year of its Thursday ('2026-W53', '2027-W01'). */
-export function isoWeekLabel(date: string): string {
+export const isoWeekLabel: (date: string) => string = remembered((date) => {
   const day = dayOf(date)
   return `${getISOWeekYear(day, IN_UTC)}-W${String(getISOWeek(day, IN_UTC)).padStart(2, '0')}`
-}
+})
 
 function parseTime(value: string): [number, number] {
   const m = /^(\d{2}):(\d{2})(?::\d{2})?$/.exec(value)

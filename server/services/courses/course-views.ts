@@ -1,13 +1,14 @@
-import type { CourseScope } from '../../utils/access'
+import type { SessionUser } from '#shared/types/auth'
+import { visibleCourseIdQuery, type CourseScope } from '../../utils/access'
 import { useDb } from '../../utils/db'
 import type { CourseDetail, CourseListItem } from '#shared/types/course'
 
-// Courses as the pages read them; the caller's scope comes from requireCourseAccess / visibleCourseIds.
+// Courses as the pages read them; the caller's scope comes from requireCourseAccess / visibleCourseIdQuery.
 
-export async function courseList(ids: number[]): Promise<CourseListItem[]> {
-  if (!ids.length) return []
+/** The courses the caller may see, newest term first, in one query (the scope is a subquery). */
+export function courseList(me: SessionUser): Promise<CourseListItem[]> {
   return useDb().selectFrom('courses').select(['id', 'code', 'title', 'term'])
-    .where('id', 'in', ids).orderBy('term', 'desc').orderBy('code').execute()
+    .where('id', 'in', visibleCourseIdQuery(me)).orderBy('term', 'desc').orderBy('code').execute()
 }
 
 /** The course with its settings; students do not see the owners' list. */

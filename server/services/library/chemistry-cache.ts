@@ -19,6 +19,11 @@ export async function substrateAnalysis(smiles: string, halogen: Halogen = 'Cl')
   return structuredClone(await analyses({ smiles, halogen }))
 }
 
+/** The SMILES of a substrate's products, from the remembered analysis without copying all of it. */
+export async function substrateProductSmiles(smiles: string, halogen: Halogen): Promise<string[]> {
+  return (await analyses({ smiles, halogen })).products.map((p) => p.smiles)
+}
+
 /** The substrate drawn with its positions lettered (see shared/utils/depiction.ts). */
 export function substrateDepiction(smiles: string, options: DepictOptions = {}): Promise<string> {
   return drawings({ smiles, options })

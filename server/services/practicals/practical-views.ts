@@ -1,4 +1,5 @@
-import type { Method, Substrate } from '../../database/schema'
+import { sql } from 'kysely'
+import type { Method, Section, Substrate, SubstrateWindow } from '../../database/schema'
 import type { CourseScope, PracticalScope } from '../../utils/access'
 import {
   PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type PracticalListItem, type ProcedureCardView,
@@ -7,7 +8,7 @@ import {
 import { computeQuantities, expectedProducts, hazardsForReagent } from '#shared/utils/procedure'
 import { readerSource } from '#shared/utils/source-line'
 import { useDb } from '../../utils/db'
-import { substrateAnalysis, substrateDepiction, substrateProductNamer } from '../library'
+import { substrateAnalysis, substrateDepiction, substrateProductNamer, substrateProductSmiles } from '../library'
 import { partnerNames } from '../roster'
 import { meetingsOf, sectionRows } from '../sections'
 
@@ -53,6 +54,18 @@ export async function practicalItemViews(practicalId: number): Promise<ItemView[
     density: r.density, basis: r.basis, amount: r.amount, casNumber: r.casNumber }))
 }
 
+type WindowRow = Pick<SubstrateWindow, 'kind' | 'productSmiles' | 'label' | 'rtMin' | 'rtMax' | 'responseFactor'>
+
+/** Product windows of the practical's products (its method's halogen), and the reference windows. */
+function windowViews(rows: WindowRow[], products: Set<string>): { windows: WindowView[], referenceWindows: ReferenceWindowView[] } {
+  return {
+    windows: rows.filter((w) => w.kind === 'product' && w.productSmiles && products.has(w.productSmiles))
+      .map((w) => ({ productSmiles: w.productSmiles!, rtMin: w.rtMin, rtMax: w.rtMax, responseFactor: w.responseFactor })),
+    referenceWindows: rows.filter((w) => w.kind !== 'product')
+      .map((w) => ({ kind: w.kind as ReferenceWindowView['kind'], label: w.label, rtMin: w.rtMin, rtMax: w.rtMax })),
+  }
+}
+
 /**
  * A substrate can carry windows for both its chloro and bromo products; a practical reads only
  * those of its method's halogen.
@@ -60,13 +73,11 @@ export async function practicalItemViews(practicalId: number): Promise<ItemView[
 export async function practicalWindows(substrate: Pick<Substrate, 'id' | 'smiles'>, halogen: 'Cl' | 'Br'): Promise<{ windows: WindowView[]
   referenceWindows: ReferenceWindowView[] }> {
   const rows = await useDb().selectFrom('substrateWindows').selectAll().where('substrateId', '=', substrate.id).orderBy('rtMin').execute()
-  const products = new Set((await substrateAnalysis(substrate.smiles, halogen)).products.map((p) => p.smiles))
-  return {
-    windows: rows.filter((w) => w.kind === 'product' && w.productSmiles && products.has(w.productSmiles))
-      .map((w) => ({ productSmiles: w.productSmiles!, rtMin: w.rtMin, rtMax: w.rtMax, responseFactor: w.responseFactor })),
-    referenceWindows: rows.filter((w) => w.kind !== 'product')
-      .map((w) => ({ kind: w.kind as ReferenceWindowView['kind'], label: w.label, rtMin: w.rtMin, rtMax: w.rtMax })),
-  }
+  return windowViews(rows, await productSmilesOf(substrate.smiles, halogen))
+}
+
+async function productSmilesOf(smiles: string, halogen: 'Cl' | 'Br'): Promise<Set<string>> {
+  return new Set(await substrateProductSmiles(smiles, halogen))
 }
 
 /** A student's due date is their own section's; anyone else sees the latest of those visible. */
@@ -76,13 +87,51 @@ export function dueAtFor(scope: Pick<PracticalScope, 'role'>, sessions: SessionV
   return sessions.map((s) => s.dueAt).sort().at(-1)!
 }
 
+interface DetailRow {
+  substrate: Pick<Substrate, 'id' | 'name' | 'smiles' | 'molarMass' | 'density'>
+  method: Pick<Method, 'id' | 'name' | 'reagent' | 'halogen' | 'temperatureC' | 'source'>
+  windows: WindowRow[]
+  items: ItemView[]
+  sessions: Array<Pick<Section, 'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates' | 'room'>
+  & Pick<SessionView, 'sectionId' | 'sectionCode' | 'meetingDate' | 'dueAt'>>
+}
+
+/** Everything a practical's page reads beyond its scope, in one query. */
+async function practicalDetailRow(scope: PracticalScope): Promise<DetailRow> {
+  const { practical } = scope
+  const all = scope.sectionIds === null
+  const { rows: [row] } = await sql<DetailRow>`select
+      (select json_build_object('id', id, 'name', name, 'smiles', smiles, 'molarMass', molar_mass, 'density', density)
+        from substrates where id = ${practical.substrateId}) as substrate,
+      (select json_build_object('id', id, 'name', name, 'reagent', reagent, 'halogen', halogen, 'temperatureC', temperature_c,
+          'source', source) from methods where id = ${practical.methodId}) as method,
+      coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'label', label, 'rtMin', rt_min,
+          'rtMax', rt_max, 'responseFactor', response_factor) order by rt_min, id)
+        from substrate_windows where substrate_id = ${practical.substrateId}), '[]') as windows,
+      coalesce((select json_agg(json_build_object('id', id, 'position', position, 'role', role, 'name', name, 'smiles', smiles,
+          'molarMass', molar_mass, 'density', density, 'basis', basis, 'amount', amount, 'casNumber', cas_number) order by position)
+        from practical_items where practical_id = ${practical.id}), '[]') as items,
+      coalesce((select json_agg(json_build_object('sectionId', s.id, 'sectionCode', s.code, 'meetingDate', ps.meeting_date,
+          'dueAt', ps.due_at, 'room', s.room, 'weekday', s.weekday, 'startTime', s.start_time, 'endTime', s.end_time,
+          'firstDate', s.first_date, 'lastDate', s.last_date, 'skippedDates', s.skipped_dates) order by ps.meeting_date, ps.id)
+        from practical_sessions ps join sections s on s.id = ps.section_id
+        where ps.practical_id = ${practical.id} and (${all} or ps.section_id = any(${scope.sectionIds ?? []}::int[]))), '[]') as sessions`
+    .execute(useDb())
+  if (!row?.substrate || !row.method) throw new Error(`practical ${practical.id}: substrate or method missing`)
+  return row
+}
+
 export async function practicalDetail(scope: PracticalScope): Promise<PracticalDetail> {
-  const db = useDb()
   const { practical, course } = scope
-  const substrate = await db.selectFrom('substrates').selectAll().where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
-  const method = await db.selectFrom('methods').selectAll().where('id', '=', practical.methodId).executeTakeFirstOrThrow()
-  const sessions = (await practicalSessionViews([practical.id], scope.sectionIds)).get(practical.id) ?? []
-  const { windows, referenceWindows } = await practicalWindows(substrate, method.halogen)
+  const { substrate, method, windows: windowRows, items, sessions: sessionRows } = await practicalDetailRow(scope)
+  const sessions = sessionRows.map((s): SessionView => {
+    const meeting = meetingsOf({ ...s, timezone: course.timezone }).find((m) => m.date === s.meetingDate)
+    return {
+      sectionId: s.sectionId, sectionCode: s.sectionCode, meetingDate: s.meetingDate, start: meeting?.start ?? null,
+      end: meeting?.end ?? null, room: s.room, dueAt: new Date(s.dueAt).toISOString(),
+    }
+  })
+  const { windows, referenceWindows } = windowViews(windowRows, await productSmilesOf(substrate.smiles, method.halogen))
   return {
     id: practical.id,
     title: practical.title,
@@ -99,7 +148,7 @@ export async function practicalDetail(scope: PracticalScope): Promise<PracticalD
     methodDetail: methodSummary(method),
     referenceWindows,
     sessions,
-    items: await practicalItemViews(practical.id),
+    items,
     role: scope.role,
     canManage: scope.role === 'owner',
   }

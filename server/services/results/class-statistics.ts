@@ -21,3 +21,33 @@ export function classOutlierReport(
     ? Promise.resolve(outlierReport({ values, settings }))
     : runEngine('outlierReport', { values, settings })
 }
+
+// A class's figures depend only on its values and the settings, and the generalized ESD test
+// over 20,000 results takes about a second in the engine worker. Pages read the summary far
+// more often than results change, so figures are kept per key: the caller's key holds a hash
+// of every value computed from (class-columns.ts), so a new or changed result is a new key,
+// never a stale answer. Bounded by the values held, oldest first out.
+const REMEMBERED_VALUES_LIMIT = 200_000
+const remembered = new Map<string, { figures: Promise<unknown>, size: number }>()
+let rememberedSize = 0
+
+export function rememberedClassFigures<T>(key: string, size: number, compute: () => Promise<T>): Promise<T> {
+  const known = remembered.get(key)
+  if (known) return known.figures as Promise<T>
+  const figures = compute()
+  if (size > REMEMBERED_VALUES_LIMIT) return figures
+  while (rememberedSize + size > REMEMBERED_VALUES_LIMIT) {
+    const [oldest, entry] = remembered.entries().next().value!
+    remembered.delete(oldest)
+    rememberedSize -= entry.size
+  }
+  remembered.set(key, { figures, size })
+  rememberedSize += size
+  figures.catch(() => {
+    if (remembered.get(key)?.figures === figures) {
+      remembered.delete(key)
+      rememberedSize -= size
+    }
+  })
+  return figures
+}

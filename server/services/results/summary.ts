@@ -3,17 +3,15 @@ import type { FactorSet, PracticalSummary } from '#shared/types/summary'
 import type { FactorValue } from '#shared/utils/class-summary'
 import type { OutlierSettings } from '#shared/utils/outliers'
 import type { OutlierTestName } from '#shared/types/course'
-import type { ClassRow } from './latest-versions'
+import { classColumns, type ClassFigureRow } from './class-columns'
 import type { FactorStatsJob } from '../../engines/statistics'
 import { keyFactorValue, type KeyFactor } from '#shared/utils/key-factor'
-import { classFactorStats } from './class-statistics'
-import { latestClassResults } from './latest-versions'
+import { classFactorStats, rememberedClassFigures } from './class-statistics'
 import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
-import { useDb } from '../../utils/db'
 
 /** The class figures of each group of rows (the whole class, then each section), computed together. */
 async function factorSets(
-  groups: ClassRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean,
+  groups: ClassFigureRow[][], settings: OutlierSettings, has: Record<KeyFactor, boolean>, withoutOutliers: boolean,
 ): Promise<FactorSet[]> {
   const keys = (['secondaryToPrimary', 'tertiaryToPrimary'] as const).filter((k) => has[k])
   const jobs: FactorStatsJob[] = groups.flatMap((rows) => {
@@ -51,9 +49,9 @@ function exclusionReasonFor(scope: PracticalScope, row: { sectionId: number, exc
 export async function practicalSummary(
   scope: PracticalScope, options: { method?: OutlierTestName, withoutOutliers?: boolean, maxOutliers?: number },
 ): Promise<PracticalSummary> {
-  const chemistry = await practicalChemistry(scope.practical)
-  const rows = await latestClassResults(scope.practical.id)
-  const included = rows.filter((r) => r.excludedAt === null)
+  const [chemistry, { rows, excluded, percentsOf, sections: allSections, fingerprint }] = await Promise.all([
+    practicalChemistry(scope.practical), classColumns(scope.practical.id)])
+  const included = rows.filter((r) => !r.excluded)
   const settings: OutlierSettings = {
     test: options.method ?? scope.course.outlierTest,
     alpha: scope.course.outlierAlpha,
@@ -65,12 +63,10 @@ export async function practicalSummary(
     tertiaryToPrimary: chemistry.products.some((p) => p.carbonClass === 'tertiary'),
   }
   const withoutOutliers = options.withoutOutliers ?? false
-  const sections = await useDb().selectFrom('practicalSessions').innerJoin('sections', 'sections.id', 'practicalSessions.sectionId')
-    .select(['sections.id', 'sections.code']).where('practicalSessions.practicalId', '=', scope.practical.id)
-    .where('sections.id', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1]).orderBy('sections.code').execute()
+  const sections = allSections.filter((s) => scope.sessionSectionIds.includes(s.id))
 
   const distribution = chemistry.products.map((p) => {
-    const xs = included.flatMap((r) => r.molePercents.filter((m) => m.smiles === p.smiles).map((m) => m.percent))
+    const xs = percentsOf.get(p.smiles) ?? []
     return {
       smiles: p.smiles,
       label: p.label,
@@ -82,14 +78,16 @@ export async function practicalSummary(
     }
   })
   const bySectionRows = sections.map((s) => included.filter((r) => r.sectionId === s.id))
-  const [factors, ...sectionFactors] = await factorSets([included, ...bySectionRows], settings, has, withoutOutliers)
+  // The figures' inputs: the values (fingerprint), the settings, which factors apply, the groups.
+  const figuresKey = JSON.stringify([fingerprint, settings, has, withoutOutliers, sections.map((s) => s.id)])
+  const [factors, ...sectionFactors] = await rememberedClassFigures(figuresKey, 2 * included.length,
+    () => factorSets([included, ...bySectionRows], settings, has, withoutOutliers))
   const key = factors![chemistry.keyFactor]
   return {
     n: included.length,
     headline: key ? { factor: chemistry.keyFactor, ...key.headline } : null,
     factors: factors!,
-    excluded: rows.filter((r) => r.excludedAt !== null)
-      .map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
+    excluded: excluded.map((r) => ({ submissionId: r.submissionId, reason: exclusionReasonFor(scope, r) })),
     bySection: sections.map((s, i) => ({ sectionId: s.id, code: s.code, n: bySectionRows[i]!.length, factors: sectionFactors[i]! })),
     keyFactor: chemistry.keyFactor,
     literature: chemistry.literature,

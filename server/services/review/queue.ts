@@ -12,10 +12,11 @@ import type { OutlierFinding } from '#shared/utils/outliers'
 import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
 import { classOutlierReport } from '../results/class-statistics'
-import { latestClassResults } from '../results/latest-versions'
+import { latestUnitVersions } from '../results/latest-versions'
 import { requireReviewerOf, reviewSectionIds } from './scope'
 import { practicalChemistry } from '../submissions/practical-chemistry'
 import { useDb } from '../../utils/db'
+import { sql } from 'kysely'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -28,7 +29,9 @@ export interface ClassOutliers {
 
 /** The course's outlier test over every unit's latest pending-or-accepted, not excluded result. */
 export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<ClassOutliers> {
-  const rows = await latestClassResults(scope.practical.id)
+  // Only what the test reads: no mole percents to parse.
+  const rows = await latestUnitVersions(useDb(), [scope.practical.id])
+    .select(['s.id as submissionId', 's.factorSecondary', 's.factorTertiary', 's.excludedAt']).execute()
   const values = rows.filter((r) => r.excludedAt === null).flatMap((r) => {
     const value = keyFactorValue(r, keyFactor)
     return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
@@ -93,6 +96,19 @@ export function compareQueueRows(a: QueueRow, b: QueueRow): number {
   return queueBucket(a) - queueBucket(b) || a.submittedAt.localeCompare(b.submittedAt) || a.id - b.id
 }
 
+type MemberRow = { id: number, name: string, email: string, station: number | null }
+
+/** A work unit as the queue shows it: its people (name order, once each) and their station. */
+function unitViewOf(row: { unitKey: string }, members: MemberRow[]): UnitView {
+  const people: UnitMember[] = [...new Map(members.map((m) => [m.id, { id: m.id, name: m.name, email: m.email }])).values()]
+  return {
+    key: row.unitKey,
+    label: people.map((p) => p.name).join(' & ') || row.unitKey,
+    members: people,
+    station: stationOfUnitKey(row.unitKey) ?? members.find((m) => m.station !== null)?.station ?? null,
+  }
+}
+
 /** Names, e-mails and station of the people behind some submissions. */
 export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>): Promise<Map<number, UnitView>> {
   const result = new Map<number, UnitView>()
@@ -105,17 +121,7 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
     .select(['submissionMembers.submissionId', 'users.id', 'users.name', 'users.email', 'enrollments.station'])
     .where('submissionMembers.submissionId', 'in', rows.map((r) => r.id))
     .orderBy('users.name').orderBy('users.id').execute()
-  for (const row of rows) {
-    const mine = members.filter((m) => m.submissionId === row.id)
-    const people: UnitMember[] = [...new Map(mine.map((m) => [m.id, { id: m.id, name: m.name, email: m.email }])).values()]
-    const keyed = stationOfUnitKey(row.unitKey)
-    result.set(row.id, {
-      key: row.unitKey,
-      label: people.map((p) => p.name).join(' & ') || row.unitKey,
-      members: people,
-      station: keyed ?? mine.find((m) => m.station !== null)?.station ?? null,
-    })
-  }
+  for (const row of rows) result.set(row.id, unitViewOf(row, members.filter((m) => m.submissionId === row.id)))
   return result
 }
 
@@ -125,17 +131,11 @@ export async function reviewQueueOf(scope: ReviewerScope) {
   return { chemistry, ...await buildReviewQueue(scope, chemistry.keyFactor) }
 }
 
-/** Accepted runs whose latest acceptance left criteria for a later pass (its total is still null). */
-async function acceptedWithPartsToMark(rows: Array<{ id: number, status: SubmissionStatus }>): Promise<Set<number>> {
-  const ids = rows.filter((r) => r.status === 'accepted').map((r) => r.id)
-  if (!ids.length) return new Set()
-  const latest = await useDb().selectFrom('reviews').distinctOn('submissionId').select(['submissionId', 'total'])
-    .where('submissionId', 'in', ids).where('decision', '=', 'accept')
-    .orderBy('submissionId').orderBy('createdAt', 'desc').orderBy('id', 'desc').execute()
-  return new Set(latest.filter((r) => r.total === null).map((r) => r.submissionId))
-}
-
-/** Every work unit's latest version in the caller's sections, flagged and sorted. */
+/**
+ * Every work unit's latest version in the caller's sections, flagged and sorted. One query reads
+ * the versions with their people (as unitViewsOf) and whether their latest acceptance left
+ * criteria for a later pass (its total is still null).
+ */
 export async function buildReviewQueue(
   scope: ReviewerScope, keyFactor: ReviewFactorKey,
 ): Promise<{ rows: QueueRow[], outliers: ClassOutliers }> {
@@ -147,17 +147,23 @@ export async function buildReviewQueue(
     .leftJoin('users as excluder', 'excluder.id', 's.excludedBy')
     .select(['s.id', 's.sectionId', 'sections.code as sectionCode', 's.unitKey', 's.version', 's.createdAt', 's.late', 's.status',
       's.flags',
-      's.factorSecondary', 's.factorTertiary', 's.excludedAt', 's.exclusionReason', 'excluder.name as excludedByName'])
+      's.factorSecondary', 's.factorTertiary', 's.excludedAt', 's.exclusionReason', 'excluder.name as excludedByName',
+      sql<MemberRow[]>`coalesce((select json_agg(json_build_object('id', u.id, 'name', u.name, 'email', u.email, 'station', e.station)
+          order by u.name, u.id)
+        from submission_members sm join users u on u.id = sm.user_id
+        left join enrollments e on e.user_id = sm.user_id and e.section_id = s.section_id
+        where sm.submission_id = s.id), '[]')`.as('members'),
+      sql<boolean | null>`(select r.total is null from reviews r where r.submission_id = s.id and r.decision = 'accept'
+        order by r.created_at desc, r.id desc limit 1)`.as('acceptedWithoutTotal'),
+    ])
   if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
-  const latest = await query.execute()
-  const [outliers, units, toMark] = await Promise.all([
-    classOutliersFor(scope, keyFactor), unitViewsOf(latest), acceptedWithPartsToMark(latest)])
+  const [latest, outliers] = await Promise.all([query.execute(), classOutliersFor(scope, keyFactor)])
   const rows = latest.map((s): QueueRow => {
     const { flags, attention } = flagsWithOutlier(s.flags as StoredFlag[], s.id, outliers, keyFactor)
     const excluded = s.excludedAt ? { at: s.excludedAt.toISOString(), by: s.excludedByName, reason: s.exclusionReason ?? '' } : null
     return {
       id: s.id,
-      unit: units.get(s.id)!,
+      unit: unitViewOf(s, s.members),
       section: { id: s.sectionId, code: s.sectionCode },
       version: s.version,
       submittedAt: s.createdAt.toISOString(),
@@ -168,7 +174,7 @@ export async function buildReviewQueue(
       attention,
       excluded,
       clean: s.status === 'pending' && attention === 0 && !excluded,
-      toMark: toMark.has(s.id),
+      toMark: s.status === 'accepted' && s.acceptedWithoutTotal === true,
     }
   })
   return { rows: rows.sort(compareQueueRows), outliers }

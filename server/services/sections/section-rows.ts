@@ -1,5 +1,5 @@
 import { sql, type Kysely, type Transaction } from 'kysely'
-import { findConflicts, sectionMeetings, type Conflict, type ScheduledSection } from '#shared/utils/schedule'
+import { findConflicts, sectionMeetings, type Conflict, type Meeting, type ScheduledSection } from '#shared/utils/schedule'
 import type { SectionView } from '#shared/types/section'
 import type { Database, Section } from '../../database/schema'
 import { useDb } from '../../utils/db'
@@ -29,9 +29,18 @@ export function sectionRows(db: Kysely<Database> | Transaction<Database> = useDb
     .orderBy('sections.code')
 }
 
+// A section's meetings are worked out from its timetable with date-fns in its zone: about a
+// millisecond for a term, paid on every page that lists sessions. The same timetable always
+// gives the same meetings, so each is kept (frozen: callers share it) for the process's life.
+const MEETING_MEMO_LIMIT = 5000
+const meetingMemo = new Map<string, Meeting[]>()
+
 export function meetingsOf(row: Pick<SectionRow,
-  'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates' | 'timezone'>) {
-  return sectionMeetings({
+  'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates' | 'timezone'>): Meeting[] {
+  const key = [row.weekday, row.startTime, row.endTime, row.firstDate, row.lastDate, row.timezone, ...row.skippedDates].join('|')
+  const known = meetingMemo.get(key)
+  if (known) return known
+  const meetings = Object.freeze(sectionMeetings({
     weekday: row.weekday,
     startTime: row.startTime,
     endTime: row.endTime,
@@ -39,7 +48,10 @@ export function meetingsOf(row: Pick<SectionRow,
     lastDate: row.lastDate,
     skippedDates: row.skippedDates,
     timezone: row.timezone,
-  })
+  }).map((m) => Object.freeze(m))) as Meeting[]
+  if (meetingMemo.size >= MEETING_MEMO_LIMIT) meetingMemo.delete(meetingMemo.keys().next().value!)
+  meetingMemo.set(key, meetings)
+  return meetings
 }
 
 function scheduled(row: SectionRow): ScheduledSection {

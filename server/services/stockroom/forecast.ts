@@ -1,6 +1,6 @@
-import type { Kysely } from 'kysely'
+import { sql, type Kysely } from 'kysely'
 import { createError } from 'h3'
-import type { Database } from '../../database/schema'
+import type { Database, Section } from '../../database/schema'
 import type { Reagent } from '../../database/schema-stockroom'
 import type { SessionUser } from '#shared/types/auth'
 import type { HazardKey } from '#shared/data/cautions'
@@ -8,75 +8,92 @@ import { STOCK_PLANNING_NOTE, WASTE_RULE, type ForecastAnswer, type UnlinkedItem
 import {
   buildForecast, workUnitsOf, type ForecastItem, type ForecastLot, type ForecastPractical, type ForecastReagent, type ForecastSessionInput,
 } from '#shared/utils/forecast'
-import { visibleCourseIds } from '../../utils/access'
+import { visibleCourseIdQuery } from '../../utils/access'
 import { canonicalForms } from '../library'
-import { meetingsOf, sectionRows } from '../sections'
-import { lotRows, stockroomToday } from './lots'
-import { stockroomSettings } from './settings'
+import { meetingsOf } from '../sections'
+import { stockroomToday } from './lots'
+import { DEFAULT_RINSE_ML_PER_UNIT } from './settings'
 
 // What the forecast engine (shared/utils/forecast.ts) is run on: the schedule, enrolment, the
-// practicals' items, the catalog and the stock, read for the caller's courses.
+// practicals' items, the catalog and the stock, read for the caller's courses in one query.
 
-/** Course ids whose practicals the caller's forecast covers: all for the coordinator, owned for an instructor. */
-async function forecastCourseIds(me: SessionUser, courseId?: number): Promise<number[]> {
-  const visible = await visibleCourseIds(me)
-  if (courseId === undefined) return visible
-  if (!visible.includes(courseId)) throw createError({ statusCode: 404, statusMessage: 'Course not found' })
-  return [courseId]
+type CatalogReagent = Pick<Reagent, 'id' | 'name' | 'smiles' | 'unit' | 'containerSize' | 'overagePercent' | 'molarMass' | 'density'
+  | 'physicalState' | 'supplierName' | 'hazards' | 'casNumber'>
+
+type ItemRow = ForecastItem & { dismissed: number[] }
+
+type ForecastMeetingRow = Pick<Section, 'weekday' | 'startTime' | 'endTime' | 'firstDate' | 'lastDate' | 'skippedDates'
+  | 'studentsPerStation'> & Pick<ForecastSessionInput, 'practicalId' | 'sectionId' | 'sectionCode' | 'meetingDate'> & {
+    timezone: string
+    stations: Array<number | null>
+  }
+
+interface ForecastInputs {
+  /** False when a course was asked for that the caller may not see. */
+  allowed: boolean
+  rinseMlPerUnit: number | null
+  reagents: CatalogReagent[]
+  /** Meetings in range with their section's timetable and the stations of its active students. */
+  sessions: ForecastMeetingRow[]
+  practicals: Array<Omit<ForecastPractical, 'items'> & { items: ItemRow[] }>
+  lots: ForecastLot[]
 }
 
-type SessionRow = { practicalId: number, sectionId: number, meetingDate: string }
-
-/** The practicals' meetings in the courses from one date to another. */
-async function scheduledSessions(db: Kysely<Database>, courseIds: number[], from: string, to: string): Promise<SessionRow[]> {
-  if (!courseIds.length) return []
-  return db.selectFrom('practicalSessions').innerJoin('practicals', 'practicals.id', 'practicalSessions.practicalId')
-    .select(['practicalSessions.practicalId', 'practicalSessions.sectionId', 'practicalSessions.meetingDate'])
-    .where('practicals.courseId', 'in', courseIds)
-    .where('practicalSessions.meetingDate', '>=', from).where('practicalSessions.meetingDate', '<=', to)
-    .execute()
+/**
+ * Everything the forecast is run on, in one query: the caller's courses (all for the
+ * coordinator, owned for an instructor, or the one asked for) and their meetings from one date
+ * to another, the practicals with their items (and the links the coordinator dismissed), the
+ * catalog, the stock that remains per lot and the rinse setting.
+ */
+async function forecastInputs(
+  db: Kysely<Database>, me: SessionUser, courseId: number | undefined, from: string, to: string,
+): Promise<ForecastInputs> {
+  const visible = visibleCourseIdQuery(me)
+  const courses = courseId === undefined ? sql`select id from (${visible}) v` : sql`select id from (${visible}) v where id = ${courseId}`
+  const { rows: [row] } = await sql<ForecastInputs>`with chosen as (${courses}),
+      meetings as (select ps.practical_id, ps.section_id, ps.meeting_date from practical_sessions ps
+        join practicals p on p.id = ps.practical_id
+        where p.course_id in (select id from chosen) and ps.meeting_date >= ${from} and ps.meeting_date <= ${to})
+    select ${courseId === undefined} or exists (select 1 from chosen) as allowed,
+      (select rinse_ml_per_unit from stockroom_settings where id = 1) as rinse_ml_per_unit,
+      coalesce((select json_agg(json_build_object('id', id, 'name', name, 'smiles', smiles, 'unit', unit, 'containerSize', container_size,
+          'overagePercent', overage_percent, 'molarMass', molar_mass, 'density', density, 'physicalState', physical_state,
+          'supplierName', supplier_name, 'hazards', hazards, 'casNumber', cas_number) order by id) from reagents), '[]') as reagents,
+      coalesce((select json_agg(json_build_object('practicalId', m.practical_id, 'sectionId', s.id, 'sectionCode', s.code,
+          'meetingDate', m.meeting_date, 'weekday', s.weekday, 'startTime', s.start_time, 'endTime', s.end_time,
+          'firstDate', s.first_date, 'lastDate', s.last_date, 'skippedDates', s.skipped_dates,
+          'studentsPerStation', s.students_per_station, 'timezone', c.timezone,
+          'stations', array(select e.station from enrollments e where e.section_id = s.id and e.status = 'active'))
+          order by m.meeting_date, m.section_id, m.practical_id)
+        from meetings m join sections s on s.id = m.section_id join courses c on c.id = s.course_id), '[]') as sessions,
+      coalesce((select json_agg(json_build_object('id', p.id, 'title', p.title, 'courseId', p.course_id, 'courseCode', c.code,
+          'workUnit', p.work_unit, 'items', coalesce((select json_agg(json_build_object('id', i.id, 'role', i.role, 'name', i.name,
+              'smiles', i.smiles, 'molarMass', i.molar_mass, 'density', i.density, 'basis', i.basis, 'amount', i.amount,
+              'reagentId', i.reagent_id, 'solutionPercentWv', i.solution_percent_wv, 'casNumber', i.cas_number,
+              'dismissed', array(select d.reagent_id from item_link_dismissals d where d.practical_item_id = i.id))
+            order by i.position) from practical_items i where i.practical_id = p.id), '[]')) order by p.id)
+        from practicals p join courses c on c.id = p.course_id where p.id in (select practical_id from meetings)), '[]') as practicals,
+      coalesce((select json_agg(json_build_object('id', l.id, 'reagentId', l.reagent_id, 'unit', l.unit, 'expiresOn', l.expires_on,
+          'remaining', l.quantity - coalesce((select sum(u.amount) from reagent_usage u where u.lot_id = l.id), 0)) order by l.id)
+        from reagent_lots l), '[]') as lots`.execute(db)
+  if (!row!.allowed) throw createError({ statusCode: 404, statusMessage: 'Course not found' })
+  return row!
 }
 
-/** The practicals with their items, as the engine takes them. */
-async function forecastPracticals(db: Kysely<Database>, practicalIds: number[]): Promise<ForecastPractical[]> {
-  if (!practicalIds.length) return []
-  const practicalRows = await db.selectFrom('practicals').innerJoin('courses', 'courses.id', 'practicals.courseId')
-    .select(['practicals.id', 'practicals.title', 'practicals.courseId', 'practicals.workUnit', 'courses.code as courseCode'])
-    .where('practicals.id', 'in', practicalIds).execute()
-  const itemRows = await db.selectFrom('practicalItems').selectAll().where('practicalId', 'in', practicalIds)
-    .orderBy('practicalId').orderBy('position').execute()
-  return practicalRows.map((p) => ({
-    id: p.id, title: p.title, courseId: p.courseId, courseCode: p.courseCode, workUnit: p.workUnit,
-    items: itemRows.filter((i) => i.practicalId === p.id).map((i): ForecastItem => ({
-      id: i.id, role: i.role, name: i.name, smiles: i.smiles, molarMass: i.molarMass, density: i.density, basis: i.basis, amount: i.amount,
-      reagentId: i.reagentId, solutionPercentWv: i.solutionPercentWv, casNumber: i.casNumber,
-    })),
-  }))
-}
-
-/** Each meeting with its section, whether the section still meets that day, and its work units. */
-async function forecastSessions(
-  db: Kysely<Database>, rows: SessionRow[], practicals: ForecastPractical[],
-): Promise<ForecastSessionInput[]> {
-  const sectionIds = [...new Set(rows.map((s) => s.sectionId))]
-  if (!sectionIds.length) return []
-  const sections = new Map((await sectionRows().where('sections.id', 'in', sectionIds).execute())
-    .map((row) => [row.id, { row, dates: new Set(meetingsOf(row).map((m) => m.date)) }]))
-  const enrolled = await db.selectFrom('enrollments').select(['sectionId', 'station'])
-    .where('sectionId', 'in', sectionIds).where('status', '=', 'active').execute()
-  const workUnitOf = new Map(practicals.map((p) => [p.id, p.workUnit]))
-  return rows.map((s) => {
-    const section = sections.get(s.sectionId)!
-    const students = enrolled.filter((e) => e.sectionId === s.sectionId)
+/** Each meeting with whether the section still meets that day and its work units. */
+function forecastSessions(inputs: ForecastInputs): ForecastSessionInput[] {
+  const workUnitOf = new Map(inputs.practicals.map((p) => [p.id, p.workUnit]))
+  return inputs.sessions.map((s) => {
+    const students = s.stations.map((station) => ({ station }))
     return {
-      practicalId: s.practicalId, sectionId: s.sectionId, sectionCode: section.row.code, meetingDate: s.meetingDate,
-      isMeeting: section.dates.has(s.meetingDate), students: students.length,
-      units: workUnitsOf(students, workUnitOf.get(s.practicalId) ?? 'pair', section.row.studentsPerStation),
+      practicalId: s.practicalId, sectionId: s.sectionId, sectionCode: s.sectionCode, meetingDate: s.meetingDate,
+      isMeeting: meetingsOf(s).some((m) => m.date === s.meetingDate), students: students.length,
+      units: workUnitsOf(students, workUnitOf.get(s.practicalId) ?? 'pair', s.studentsPerStation),
     }
   })
 }
 
-const forecastReagentOf = (r: Reagent): ForecastReagent => ({
+const forecastReagentOf = (r: CatalogReagent): ForecastReagent => ({
   id: r.id, name: r.name, unit: r.unit, containerSize: r.containerSize, overagePercent: r.overagePercent, molarMass: r.molarMass,
   density: r.density, physicalState: r.physicalState, supplierName: r.supplierName, hazards: r.hazards as HazardKey[],
 })
@@ -89,8 +106,8 @@ const normalName = (name: string) => name.trim().toLowerCase().replace(/^(anhydr
  * dismissed for this item.
  */
 function suggestReagent(
-  item: { name: string, casNumber?: string | null }, canonical: string | null, reagents: Reagent[],
-): { reagent: Reagent, because: NonNullable<UnlinkedItem['suggestedBecause']> } | null {
+  item: { name: string, casNumber?: string | null }, canonical: string | null, reagents: CatalogReagent[],
+): { reagent: CatalogReagent, because: NonNullable<UnlinkedItem['suggestedBecause']> } | null {
   const byStructure = canonical ? reagents.find((r) => r.smiles === canonical) : undefined
   if (byStructure) return { reagent: byStructure, because: 'structure' }
   const byCas = item.casNumber ? reagents.find((r) => r.casNumber === item.casNumber) : undefined
@@ -101,18 +118,14 @@ function suggestReagent(
 
 /** Items of the range's practicals that draw on no reagent yet, each with the reagent it probably means. */
 async function unlinkedItemsOf(
-  db: Kysely<Database>, practicals: ForecastPractical[], inRange: Set<number>, reagents: Reagent[],
+  practicals: ForecastInputs['practicals'], inRange: Set<number>, reagents: CatalogReagent[],
 ): Promise<UnlinkedItem[]> {
   const unlinked = practicals.filter((p) => inRange.has(p.id))
     .flatMap((p) => p.items.filter((i) => i.reagentId === null).map((i) => ({ p, i })))
   const structures = await canonicalForms(unlinked.flatMap(({ i }) => (i.smiles ? [i.smiles] : [])))
-  const dismissed = unlinked.length
-    ? await db.selectFrom('itemLinkDismissals').select(['practicalItemId', 'reagentId'])
-        .where('practicalItemId', 'in', unlinked.map(({ i }) => i.id)).execute()
-    : []
   let next = 0
   return unlinked.map(({ p, i }) => {
-    const refused = new Set(dismissed.filter((d) => d.practicalItemId === i.id).map((d) => d.reagentId))
+    const refused = new Set(i.dismissed)
     const suggestion = suggestReagent(i, i.smiles ? structures[next++] ?? null : null, reagents.filter((r) => !refused.has(r.id)))
     return {
       practicalItemId: i.id, practicalId: p.id, practicalTitle: p.title, courseCode: p.courseCode, role: i.role, name: i.name,
@@ -133,26 +146,21 @@ export interface ForecastRequest {
 /** Loads the schedule, enrolment, items, catalog and stock behind a forecast, and runs it. */
 export async function loadForecast(db: Kysely<Database>, me: SessionUser, request: ForecastRequest): Promise<ForecastAnswer> {
   const today = request.today ?? stockroomToday()
-  const courseIds = await forecastCourseIds(me, request.courseId)
-  const settings = await stockroomSettings(db)
-  const reagents = await db.selectFrom('reagents').selectAll().execute()
   // Meetings between today and the range draw on stock first.
-  const sessionRows = await scheduledSessions(db, courseIds, today < request.from ? today : request.from, request.to)
-  const practicals = await forecastPracticals(db, [...new Set(sessionRows.map((s) => s.practicalId))])
-  const sessions = await forecastSessions(db, sessionRows, practicals)
-  const lots: ForecastLot[] = (await lotRows(db).execute())
-    .map((l) => ({ id: l.id, reagentId: l.reagentId, remaining: Number(l.remaining), unit: l.unit, expiresOn: l.expiresOn }))
+  const inputs = await forecastInputs(db, me, request.courseId, today < request.from ? today : request.from, request.to)
+  const rinseMlPerUnit = inputs.rinseMlPerUnit ?? DEFAULT_RINSE_ML_PER_UNIT
+  const practicals = inputs.practicals.map((p) => ({ ...p, items: p.items.map(({ dismissed: _d, ...item }) => item) }))
   const result = buildForecast({
-    today, from: request.from, to: request.to, reagents: reagents.map(forecastReagentOf), practicals, sessions, lots,
-    rinseMlPerUnit: settings.rinseMlPerUnit,
+    today, from: request.from, to: request.to, reagents: inputs.reagents.map(forecastReagentOf), practicals,
+    sessions: forecastSessions(inputs), lots: inputs.lots, rinseMlPerUnit,
   })
   const inRange = new Set(result.sessions.map((s) => s.practicalId))
   return {
     ...result,
     from: request.from,
     to: request.to,
-    unlinkedItems: await unlinkedItemsOf(db, practicals, inRange, reagents),
-    rinseMlPerUnit: settings.rinseMlPerUnit,
+    unlinkedItems: await unlinkedItemsOf(inputs.practicals, inRange, inputs.reagents),
+    rinseMlPerUnit,
     wasteRule: WASTE_RULE,
     planningNote: STOCK_PLANNING_NOTE,
   }

@@ -4,9 +4,12 @@ import type { Database } from '../../database/schema'
 import type { settingsInputSchema, StockroomSettings } from '#shared/types/stockroom'
 import { audit, type Actor } from '../../utils/audit'
 
+/** The rinse allowance per work unit until the coordinator sets one. */
+export const DEFAULT_RINSE_ML_PER_UNIT = 10
+
 export async function stockroomSettings(db: Kysely<Database>): Promise<StockroomSettings> {
   const row = await db.selectFrom('stockroomSettings').select(['rinseMlPerUnit', 'deliverTo']).where('id', '=', 1).executeTakeFirst()
-  return { rinseMlPerUnit: row?.rinseMlPerUnit ?? 10, deliverTo: row?.deliverTo ?? '' }
+  return { rinseMlPerUnit: row?.rinseMlPerUnit ?? DEFAULT_RINSE_ML_PER_UNIT, deliverTo: row?.deliverTo ?? '' }
 }
 
 /** The one settings row, created on first save. */

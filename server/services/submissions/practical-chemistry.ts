@@ -1,27 +1,70 @@
 import type { ExpectationView } from '#shared/types/submission'
-import { practicalChemistryOf, type PracticalChemistry } from '#shared/utils/submission'
+import { sql } from 'kysely'
+import { practicalChemistryOf, type PracticalChemistry, type ReferenceDistribution } from '#shared/utils/submission'
 import { methodReference } from '#shared/utils/source-line'
-import { substrateAnalysis, substrateProductNamer, substrateReferenceFor } from '../library'
+import { builtInProductName } from '#shared/data/product-names'
+import type { Method, SubstrateWindow } from '../../database/schema'
+import { substrateAnalysis, type ProductNamer } from '../library'
 import { useDb } from '../../utils/db'
+
+type ChemistryMethod = Pick<Method, 'halogen' | 'reagent' | 'rPrimary' | 'rSecondary' | 'rTertiary' | 'name' | 'temperatureC' | 'source'>
+
+interface ChemistryRow {
+  substrate: { id: number, smiles: string }
+  method: ChemistryMethod
+  windows: Array<Pick<SubstrateWindow, 'kind' | 'productSmiles' | 'rtMin' | 'rtMax' | 'responseFactor'>>
+  names: Array<{ productSmiles: string, name: string }>
+  reference: ReferenceDistribution | null
+}
+
+/** The substrate, method, windows, stored product names and reference distribution, in one query. */
+async function chemistryRow(practical: { substrateId: number, methodId: number }): Promise<ChemistryRow> {
+  const { rows: [row] } = await sql<ChemistryRow>`select
+      (select json_build_object('id', id, 'smiles', smiles) from substrates where id = ${practical.substrateId}) as substrate,
+      (select json_build_object('halogen', halogen, 'reagent', reagent, 'rPrimary', r_primary, 'rSecondary', r_secondary,
+          'rTertiary', r_tertiary, 'name', name, 'temperatureC', temperature_c, 'source', source)
+        from methods where id = ${practical.methodId}) as method,
+      coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'rtMin', rt_min, 'rtMax', rt_max,
+          'responseFactor', response_factor) order by id)
+        from substrate_windows where substrate_id = ${practical.substrateId}), '[]') as windows,
+      coalesce((select json_agg(json_build_object('productSmiles', product_smiles, 'name', name) order by product_smiles)
+        from substrate_product_names where substrate_id = ${practical.substrateId}), '[]') as names,
+      (select json_build_object('percents', r.percents, 'source', r.source, 'sourceKind', r.source_kind)
+        from substrate_references r join methods m on m.id = ${practical.methodId} and r.reagent::text = m.reagent::text
+        where r.substrate_id = ${practical.substrateId}) as reference`.execute(useDb())
+  if (!row?.substrate || !row.method) throw new Error('practical chemistry: substrate or method missing')
+  return row
+}
 
 /**
  * A practical's products (named), windows, prediction, literature factors and what runs are
  * judged against (the substrate's reference distribution for the method's reagent, if any).
  */
 export async function practicalChemistry(practical: { substrateId: number, methodId: number }): Promise<PracticalChemistry> {
-  const db = useDb()
-  const substrate = await db.selectFrom('substrates').select(['id', 'smiles'])
-    .where('id', '=', practical.substrateId).executeTakeFirstOrThrow()
-  const method = await db.selectFrom('methods')
-    .select(['halogen', 'reagent', 'rPrimary', 'rSecondary', 'rTertiary', 'name', 'temperatureC', 'source'])
-    .where('id', '=', practical.methodId).executeTakeFirstOrThrow()
-  const [windows, nameOf, reference, analysis] = await Promise.all([
-    db.selectFrom('substrateWindows').select(['kind', 'productSmiles', 'rtMin', 'rtMax', 'responseFactor'])
-      .where('substrateId', '=', substrate.id).execute(),
-    substrateProductNamer(db, substrate.id),
-    substrateReferenceFor(db, substrate.id, method.reagent),
-    substrateAnalysis(substrate.smiles, method.halogen),
-  ])
+  const row = await chemistryRow(practical)
+  const key = JSON.stringify([row.substrate.smiles, row.method, row.windows, row.names, row.reference])
+  let known = chemistryMemo.get(key)
+  if (!known) {
+    known = chemistryOf(row)
+    if (chemistryMemo.size >= CHEMISTRY_MEMO_LIMIT) chemistryMemo.delete(chemistryMemo.keys().next().value!)
+    chemistryMemo.set(key, known)
+    known.catch(() => chemistryMemo.delete(key))
+  }
+  // A copy: the remembered answer is shared by every later caller.
+  return structuredClone(await known)
+}
+
+// Matching a reference distribution to the products parses SMILES with openchemlib: several
+// milliseconds on every summary, queue and review page. The answer depends only on the row
+// read above (and the substrate's analysis, itself a function of its SMILES), so it is kept per
+// row: an edit to the substrate, method, windows, names or reference makes a new key.
+const CHEMISTRY_MEMO_LIMIT = 500
+const chemistryMemo = new Map<string, Promise<PracticalChemistry>>()
+
+async function chemistryOf({ substrate, method, windows, names, reference }: ChemistryRow): Promise<PracticalChemistry> {
+  const own = new Map(names.map((n) => [n.productSmiles, n.name]))
+  const nameOf: ProductNamer = (smiles) => own.get(smiles) ?? builtInProductName(smiles)
+  const analysis = await substrateAnalysis(substrate.smiles, method.halogen)
   const chemistry = practicalChemistryOf(substrate.smiles, method, windows, { nameOf, reference, analysis })
   return { ...chemistry, literatureSource: methodReference(method) }
 }
