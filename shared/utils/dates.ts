@@ -18,10 +18,21 @@ const DATE_SHAPE = /^\d{4}-\d{2}-\d{2}$/
 
 const textOf = (day: Date) => format(day, DATE_FORMAT, IN_UTC)
 
+// Checking a date goes through a zoned parse and format; pages check the same few hundred dates
+// over and over, so the answers are kept (bounded).
+const CHECKED_KEPT = 10_000
+const checkedDates = new Map<string, boolean>()
+
 /** Whether a 'YYYY-MM-DD' text names a day that exists (no 31 February). */
 export function isCalendarDate(value: string): boolean {
+  if (typeof value !== 'string') return false
+  const known = checkedDates.get(value)
+  if (known !== undefined) return known
   const day = parseISO(value, IN_UTC)
-  return DATE_SHAPE.test(value) && isValid(day) && textOf(day) === value
+  const answer = DATE_SHAPE.test(value) && isValid(day) && textOf(day) === value
+  if (checkedDates.size >= CHECKED_KEPT) checkedDates.delete(checkedDates.keys().next().value!)
+  checkedDates.set(value, answer)
+  return answer
 }
 
 function dayOf(date: string): Date {

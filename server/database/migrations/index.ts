@@ -15,6 +15,7 @@ import * as rosterStudentIds from './2026_12_03_1320_roster_student_ids'
 import * as taDailySummary from './2026_12_03_1340_ta_daily_summary'
 import * as orderReceipts from './2026_12_03_1400_order_receipts'
 import * as readerSourceLines from './2026_12_03_1410_reader_source_lines'
+import * as departmentScaleIndexes from './2026_12_03_1500_department_scale_indexes'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -35,4 +36,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_1340_ta_daily_summary': taDailySummary,
   '2026_12_03_1400_order_receipts': orderReceipts,
   '2026_12_03_1410_reader_source_lines': readerSourceLines,
+  '2026_12_03_1500_department_scale_indexes': departmentScaleIndexes,
 }
