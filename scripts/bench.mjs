@@ -2,7 +2,8 @@
 // npm run bench: each case is measured against a baseline run side by side in the same
 // process and reported as a ratio, so numbers compare across machines. Results are printed
 // and written to test-results/bench.json. Nothing here is a test: no pass or fail.
-// `npm run bench -- summary` runs one case (http, uploads, summary, signin, loop, delivery).
+// `npm run bench -- summary` runs one case (http, uploads, summary, signin, loop, delivery, cluster,
+// department); several names run several.
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath, pathToFileURL } from 'node:url'
@@ -28,7 +29,7 @@ async function main() {
   }))
   const results = {}
   try {
-    const only = process.argv[2]
+    const only = process.argv.slice(2)
     const cases = [
       ['http', 'Request throughput against a bare node:http server', () => import('./bench/http.mjs').then((m) => m.benchHttp(world))],
       ['uploads', 'Uploads against papaparse alone', () => import('./bench/uploads.mjs').then((m) => m.benchUploads(world))],
@@ -38,9 +39,14 @@ async function main() {
       ['loop', 'Event-loop delay under uploads, chemistry and summaries', () => import('./bench/loop.mjs').then((m) => m.benchLoop(world))],
       ['delivery', 'Compression, caching and the JavaScript each page loads',
         () => import('./bench/delivery.mjs').then((m) => m.benchDelivery(world))],
+      ['cluster', 'Two server processes against one on the same database',
+        () => import('./bench/cluster.mjs').then((m) => m.benchCluster(world))],
+      // Last: it adds a 2,000-student term to the database the cases above read.
+      ['department', 'A department of 2,000 students: each role\'s routes at a tenth and at full size',
+        () => import('./bench/department.mjs').then((m) => m.benchDepartment(world))],
     ]
     for (const [key, label, run] of cases) {
-      if (only && only !== key) continue
+      if (only.length && !only.includes(key)) continue
       results[key] = await step(label, async () => Object.assign(await run(), { note: 'done' }))
     }
   } finally {

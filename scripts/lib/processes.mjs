@@ -59,10 +59,15 @@ export function killPidFile(pidFile, signal = 'SIGTERM') {
   }
 }
 
-/** Starts the built server and waits until it answers HTTP (health may still say 503). */
-export async function startServer({ root, port, env, stdio = ['ignore', 'pipe', 'inherit'] }) {
+/**
+ * Starts the built server and waits until it answers HTTP (health may still say 503). `workers`
+ * above 1 runs that many server processes on the one port behind Node's cluster module (cluster.mjs).
+ */
+export async function startServer({ root, port, env, stdio = ['ignore', 'pipe', 'inherit'], workers = 1 }) {
   if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set PORT to a free port, or stop what uses it')
-  const child = spawn(process.execPath, [join(outputDir(root), 'server', 'index.mjs')], {
+  const entry = join(outputDir(root), 'server', 'index.mjs')
+  const args = workers > 1 ? [join(root, 'scripts', 'lib', 'cluster.mjs'), entry, String(workers)] : [entry]
+  const child = spawn(process.execPath, args, {
     cwd: root,
     stdio,
     env: {

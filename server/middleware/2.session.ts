@@ -40,7 +40,7 @@ export default defineEventHandler(async (event) => {
       .select(['sessionVersion', 'disabledAt'])
       .where('id', '=', user.id)
       .executeTakeFirst()
-      .then((row) => row && { sessionVersion: row.sessionVersion, disabled: row.disabledAt !== null }))
+      .then((row) => row && { sessionVersion: row.sessionVersion, disabled: row.disabledAt !== null }), accountNoticesLive())
 
   if (!state || state.disabled || state.sessionVersion !== session.secure?.sv) {
     forgetSession(key)

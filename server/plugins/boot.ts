@@ -15,6 +15,7 @@ export default defineNitroPlugin((nitroApp) => {
     closing = true
     clearTimeout(timer)
     await stopQueue()
+    await stopAccountNotices()
     await closeDb()
   })
 })

@@ -30,6 +30,6 @@ export async function revokeSessions(userId: number): Promise<number> {
     .where('id', '=', userId)
     .returning('sessionVersion')
     .executeTakeFirst()
-  forgetAccount(userId)
+  await announceAccountChange(useDb(), userId)
   return row?.sessionVersion ?? 0
 }

@@ -1,6 +1,7 @@
 import { randomInt } from 'node:crypto'
 import pg from 'pg'
 import { sql, type Expression, type RawBuilder } from 'kysely'
+import { retryWithBackoff } from './backoff'
 
 // "This server process is alive", told through PostgreSQL: each process holds a session-level
 // advisory lock (PRESENCE_LOCK_CLASS, its own key) on a connection of its own. When the process
@@ -37,26 +38,16 @@ function startPresence(connectionString: string): Presence {
   let everHeld = false
   let client: pg.Client | undefined
   let since: number | null = null
-  let stopped = false
-  let timer: ReturnType<typeof setTimeout> | undefined
-  let delayMs = 250
+  // Reconnect quickly: a live process that lets another see its lock missing for long may
+  // have its messages sent again by that other process.
+  const retry = retryWithBackoff(() => void connect())
 
   const lost = (which: pg.Client) => {
     if (which !== client) return
     client = undefined
     since = null
     which.end().catch(() => {})
-    schedule()
-  }
-  const schedule = () => {
-    if (stopped || timer) return
-    timer = setTimeout(() => {
-      timer = undefined
-      void connect()
-    }, delayMs)
-    // Reconnect quickly: a live process that lets another see its lock missing for long may
-    // have its messages sent again by that other process.
-    delayMs = Math.min(delayMs * 2, 2000)
+    retry.schedule()
   }
   const connect = async () => {
     const candidate = new pg.Client({
@@ -80,10 +71,10 @@ function startPresence(connectionString: string): Presence {
         if (!everHeld) key = randomInt(1, 2 ** 31 - 1)
         throw new Error('presence lock is taken')
       }
-      if (stopped) return void candidate.end().catch(() => {})
+      if (retry.stopped) return void candidate.end().catch(() => {})
       everHeld = true
       since = Date.now()
-      delayMs = 250
+      retry.succeeded()
     } catch {
       lost(candidate)
     }
@@ -95,8 +86,7 @@ function startPresence(connectionString: string): Presence {
     held: () => since !== null,
     heldForMs: () => (since === null ? 0 : Date.now() - since),
     async stop() {
-      stopped = true
-      clearTimeout(timer)
+      retry.stop()
       const open = client
       client = undefined
       since = null

@@ -46,15 +46,23 @@ export function forgetSession(key: string) {
   sessions.delete(key)
 }
 
-export async function getAccountState(userId: number, load: () => Promise<AccountState | undefined>) {
-  const hit = accounts.get(userId)
+/**
+ * The account's session version and state, from this process's copy when `keep` (the process
+ * hears other processes' changes: account-notices.ts), else from `load` every time.
+ */
+export async function getAccountState(userId: number, load: () => Promise<AccountState | undefined>, keep = true) {
+  const hit = keep ? accounts.get(userId) : undefined
   if (hit && hit.expires >= Date.now()) return hit.value
   const value = await load()
-  if (value) boundedSet(accounts, userId, { value, expires: Date.now() + accountTtl() })
+  if (value && keep) boundedSet(accounts, userId, { value, expires: Date.now() + accountTtl() })
   return value
 }
 
-/** Call after bumping a session version or disabling an account, so this process sees it at once. */
+/** Call after bumping a session version or disabling an account (announceAccountChange does), so this process sees it at once. */
 export function forgetAccount(userId: number) {
   accounts.delete(userId)
+}
+
+export function forgetAllAccounts() {
+  accounts.clear()
 }

@@ -36,11 +36,15 @@ function remembered<T>(compute: (value: string) => T): (value: string) => T {
   }
 }
 
-/** Whether a 'YYYY-MM-DD' text names a day that exists (no 31 February). */
-export const isCalendarDate: (value: string) => boolean = remembered((value) => {
+const calendarDate = remembered((value) => {
   const day = parseISO(value, IN_UTC)
   return DATE_SHAPE.test(value) && isValid(day) && textOf(day) === value
 })
+
+/** Whether a 'YYYY-MM-DD' text names a day that exists (no 31 February). */
+export function isCalendarDate(value: string): boolean {
+  return typeof value === 'string' && calendarDate(value)
+}
 
 function dayOf(date: string): Date {
   if (!isCalendarDate(date)) throw new RangeError(`Not a date (YYYY-MM-DD): ${date}`)

@@ -28,8 +28,25 @@ export interface Meeting {
 const DAY_MS = 86_400_000
 const MAX_MEETINGS = 400
 
+// Turning wall-clock times into instants goes through the zone's rules for every meeting; a
+// department's 80 sections made that most of a page's time. A timetable's meetings depend on it
+// alone, so the last few thousand are kept (as copies: callers may change what they get).
+const MEETINGS_KEPT = 4000
+const meetingsKept = new Map<string, Meeting[]>()
+
 /** Every meeting from the first to the last date on the section's weekday, minus skipped dates. */
 export function sectionMeetings(t: SectionTimetable): Meeting[] {
+  const key = JSON.stringify([t.weekday, t.startTime, t.endTime, t.firstDate, t.lastDate, t.skippedDates, t.timezone])
+  let meetings = meetingsKept.get(key)
+  if (!meetings) {
+    meetings = computeMeetings(t)
+    if (meetingsKept.size >= MEETINGS_KEPT) meetingsKept.delete(meetingsKept.keys().next().value!)
+    meetingsKept.set(key, meetings)
+  }
+  return meetings.map((m) => ({ ...m }))
+}
+
+function computeMeetings(t: SectionTimetable): Meeting[] {
   const skipped = new Set(t.skippedDates)
   const meetings: Meeting[] = []
   let date = addDays(t.firstDate, (t.weekday - isoWeekday(t.firstDate) + 7) % 7)

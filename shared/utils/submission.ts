@@ -258,15 +258,19 @@ export function evaluateRun(input: RunInput): RunResult {
     ...countedAsProduct(input, assigned, molePercents),
     ...farFromPrediction(input, factors, molePercents),
   ]
-  // Peaks are matched by value: the engine may hand back copies.
-  const keyOf = (p: Peak) => `${p.retentionTime}|${p.area}`
-  const owner = new Map<string, string>()
-  for (const p of assigned.products) for (const peak of p.peaks) owner.set(keyOf(peak), p.smiles)
-  for (const peak of assigned.solvent?.peaks ?? []) owner.set(keyOf(peak), 'solvent')
-  for (const peak of assigned.startingMaterial?.peaks ?? []) owner.set(keyOf(peak), 'starting-material')
+  // Peaks are matched by value (the engine may hand back copies): retention time, then area, as
+  // numbers (writing thousands of them out as text was a good part of a large table's time).
+  const owner = new Map<number, Map<number, string>>()
+  const own = (peak: Peak, who: string) => {
+    const byArea = owner.get(peak.retentionTime) ?? new Map<number, string>()
+    owner.set(peak.retentionTime, byArea.set(peak.area, who))
+  }
+  for (const p of assigned.products) for (const peak of p.peaks) own(peak, p.smiles)
+  for (const peak of assigned.solvent?.peaks ?? []) own(peak, 'solvent')
+  for (const peak of assigned.startingMaterial?.peaks ?? []) own(peak, 'starting-material')
   return {
     kind,
-    peaks: peaks.map((p) => ({ ...p, assignedTo: owner.get(keyOf(p)) ?? null })),
+    peaks: peaks.map((p) => ({ ...p, assignedTo: owner.get(p.retentionTime)?.get(p.area) ?? null })),
     warnings,
     molePercents,
     factors,

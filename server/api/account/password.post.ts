@@ -18,7 +18,7 @@ export default defineEventHandler(async (event) => {
   }
 
   const version = await changePassword(db, actor, await hashUserPassword(newPassword))
-  forgetAccount(actor.id)
+  await announceAccountChange(db, actor.id)
   // Every other session dies with the old version; this one carries on with the new one.
   const { ip: _ip, ...user } = actor
   await replaceUserSession(event, { user, secure: { sv: version }, loggedInAt: Date.now() })

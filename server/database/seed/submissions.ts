@@ -1,4 +1,6 @@
 import { createHash } from 'node:crypto'
+import type { Kysely } from 'kysely'
+import type { Database } from '../schema'
 import type { SeedContext } from './context'
 import { DEMO_SECTIONS } from './course'
 import { DEMO_DOMAIN } from './people'
@@ -59,10 +61,8 @@ function pairDistribution(chem: PracticalChemistry, seed: number) {
   return chem.products.map((p, i) => ({ smiles: p.smiles, percent: (weights[i]! / total) * 100 }))
 }
 
-export async function seedSubmissions(ctx: SeedContext): Promise<void> {
-  const practicalId = ctx.ids.practicals.get('p1')
-  if (!practicalId) return
-  const db = ctx.db
+/** A practical's rubric and chemistry as the upload route computes it, for seeding its results. */
+export async function seededPracticalChemistry(db: Kysely<Database>, practicalId: number) {
   const practical = await db.selectFrom('practicals').innerJoin('substrates', 'substrates.id', 'practicals.substrateId')
     .innerJoin('methods', 'methods.id', 'practicals.methodId').innerJoin('courses', 'courses.id', 'practicals.courseId')
     .select([
@@ -79,6 +79,14 @@ export async function seedSubmissions(ctx: SeedContext): Promise<void> {
     nameOf: await substrateProductNamer(db, practical.substrateId),
     reference: await substrateReferenceFor(db, practical.substrateId, practical.reagent),
   })
+  return { practical, chem }
+}
+
+export async function seedSubmissions(ctx: SeedContext): Promise<void> {
+  const practicalId = ctx.ids.practicals.get('p1')
+  if (!practicalId) return
+  const db = ctx.db
+  const { practical, chem } = await seededPracticalChemistry(db, practicalId)
   const sessionRows = await db.selectFrom('practicalSessions')
     .select(['sectionId', 'meetingDate', 'dueAt'])
     .where('practicalId', '=', practicalId)
@@ -154,21 +162,24 @@ interface VersionToStore {
   seedNo: number
 }
 
-async function storeVersion(ctx: SeedContext, v: VersionToStore): Promise<Stored> {
+/**
+ * The rows an upload of `text` writes (the file and its submission version, as
+ * server/services/submissions/uploads.ts stores them), computed by the same engines; the caller
+ * inserts them (one at a time for the demo, in batches for the department benchmark).
+ */
+export function versionRowsOf(v: Omit<VersionToStore, 'unit' | 'seedNo'> & { sectionId: number, unitKey: string, fileName: string }) {
   const run = evaluateRun({ text: v.text, ...v.chem })
   const bytes = Buffer.from(v.text, 'utf8')
   const sha256 = createHash('sha256').update(bytes).digest('hex')
-  const file = await ctx.db.insertInto('files').values({
+  const file = {
     sha256, byteSize: bytes.length, mediaType: 'text/csv; profile=peak-table',
-    originalName: `gc-${v.unit.section.toLowerCase()}-station${v.unit.station}-v${v.version}.csv`,
-    content: bytes, uploadedBy: v.uploader, createdAt: v.uploadedAt,
-  }).returning('id').executeTakeFirstOrThrow()
-  const row = await ctx.db.insertInto('submissions').values({
+    originalName: v.fileName, content: bytes, uploadedBy: v.uploader, createdAt: v.uploadedAt,
+  }
+  const submission = {
     practicalId: v.practicalId,
-    sectionId: v.unit.sectionId,
-    unitKey: stationUnitKey(v.unit.sectionId, v.unit.station),
+    sectionId: v.sectionId,
+    unitKey: v.unitKey,
     version: v.version,
-    fileId: file.id,
     inputKind: run.kind,
     sha256,
     parsed: JSON.stringify(run.peaks),
@@ -182,11 +193,24 @@ async function storeVersion(ctx: SeedContext, v: VersionToStore): Promise<Stored
     idempotencyKey: null,
     createdAt: v.uploadedAt,
     updatedAt: v.uploadedAt,
-  }).returning(['id', 'attention']).executeTakeFirstOrThrow()
+  }
+  return { run, file, submission, factor: run.factors[v.chem.keyFactor] }
+}
+
+async function storeVersion(ctx: SeedContext, v: VersionToStore): Promise<Stored> {
+  const rows = versionRowsOf({
+    ...v,
+    sectionId: v.unit.sectionId,
+    unitKey: stationUnitKey(v.unit.sectionId, v.unit.station),
+    fileName: `gc-${v.unit.section.toLowerCase()}-station${v.unit.station}-v${v.version}.csv`,
+  })
+  const file = await ctx.db.insertInto('files').values(rows.file).returning('id').executeTakeFirstOrThrow()
+  const row = await ctx.db.insertInto('submissions').values({ ...rows.submission, fileId: file.id })
+    .returning(['id', 'attention']).executeTakeFirstOrThrow()
   await ctx.db.insertInto('submissionMembers')
     .values(v.unit.members.map((userId) => ({ submissionId: row.id, userId })))
     .execute()
-  return { id: row.id, attention: row.attention, factor: run.factors[v.chem.keyFactor] }
+  return { id: row.id, attention: row.attention, factor: rows.factor }
 }
 
 async function review(

@@ -84,6 +84,14 @@ export async function computeRun(
   }
 }
 
+// A version's row without its parsed peaks: an upload's answer never shows them, and reading
+// them back (thousands for a long table) only to drop them cost more than storing them.
+const CREATED_COLUMNS = [
+  'id', 'practicalId', 'sectionId', 'unitKey', 'version', 'fileId', 'inputKind', 'sha256', 'result', 'flags', 'attention',
+  'factorSecondary', 'factorTertiary', 'status', 'late', 'submittedBy', 'idempotencyKey', 'excludedAt', 'excludedBy',
+  'exclusionReason', 'createdAt', 'updatedAt',
+] as const satisfies ReadonlyArray<Exclude<keyof Submission, 'parsed'>>
+
 export function toCreated(
   row: Pick<Submission, 'id' | 'version' | 'status' | 'result' | 'flags' | 'late' | 'inputKind'>,
 ): SubmissionCreated {
@@ -120,7 +128,8 @@ export function previewOf(run: RunResult, chemistry: Awaited<ReturnType<typeof p
 }
 
 async function byIdempotencyKey(db: Kysely<Database>, userId: number, key: string) {
-  return db.selectFrom('submissions').selectAll().where('submittedBy', '=', userId).where('idempotencyKey', '=', key).executeTakeFirst()
+  return db.selectFrom('submissions').select(CREATED_COLUMNS)
+    .where('submittedBy', '=', userId).where('idempotencyKey', '=', key).executeTakeFirst()
 }
 
 const UNIQUE_VIOLATION = '23505'
@@ -143,7 +152,9 @@ export interface NewVersion {
  * peaks and the computed result, the unit's members and the audit row. One writer per work unit
  * at a time, so two partners uploading at once get versions n and n+1.
  */
-export async function storeSubmissionVersion(db: Kysely<Database>, actor: Actor, v: NewVersion): Promise<Submission> {
+export async function storeSubmissionVersion(
+  db: Kysely<Database>, actor: Actor, v: NewVersion,
+): Promise<Pick<Submission, (typeof CREATED_COLUMNS)[number]>> {
   return db.transaction().execute(async (trx) => {
     await sql`select pg_advisory_xact_lock(hashtext(${`submission:${v.practicalId}:${v.unit.unitKey}`}))`.execute(trx)
     const { next } = await trx.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
@@ -166,7 +177,7 @@ export async function storeSubmissionVersion(db: Kysely<Database>, actor: Actor,
       late: v.late,
       submittedBy: actor.id,
       idempotencyKey: v.idempotencyKey,
-    }).returningAll().executeTakeFirstOrThrow()
+    }).returning(CREATED_COLUMNS).executeTakeFirstOrThrow()
     await trx.insertInto('submissionMembers').values(v.unit.memberIds.map((userId) => ({ submissionId: inserted.id, userId }))).execute()
     await audit(trx, actor, {
       action: 'submission.create', entity: 'submission', entityId: inserted.id,
@@ -190,7 +201,7 @@ async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: 
 
 /** The newest version of a work unit, if any. */
 function latestOfUnit(db: Kysely<Database>, practicalId: number, unitKey: string) {
-  return db.selectFrom('submissions').selectAll()
+  return db.selectFrom('submissions').select(CREATED_COLUMNS)
     .where('practicalId', '=', practicalId).where('unitKey', '=', unitKey)
     .orderBy('version', 'desc').limit(1).executeTakeFirst()
 }

@@ -137,11 +137,21 @@ function parserProblemInWords(raw: string): string {
   return `it is not valid SMILES${where}. Check the atoms, brackets and ring-closure digits.`
 }
 
+// Every GC result names its products again (a 5,000-row upload spent more time in openchemlib
+// than in reading its rows): the answer depends on the text alone, so the last few hundred are kept.
+const CANONICAL_KEPT = 512
+const canonicalKept = new Map<string, string>()
+
 /** Canonical isomeric SMILES without stereo: any valid SMILES of the same constitution gives the same string. */
 export function canonicalSmiles(smiles: string): string {
+  const known = canonicalKept.get(smiles)
+  if (known !== undefined) return known
   const mol = readMolecule(smiles)
   mol.removeExplicitHydrogens()
-  return mol.toIsomericSmiles()
+  const canonical = mol.toIsomericSmiles()
+  if (canonicalKept.size >= CANONICAL_KEPT) canonicalKept.delete(canonicalKept.keys().next().value!)
+  canonicalKept.set(smiles, canonical)
+  return canonical
 }
 
 function label(mol: Molecule, atom: number): string {

@@ -171,7 +171,8 @@ function quickAnalysis(s: string): CellAnalysis | null {
   const c = s[mark] as Mark
   const groupable = whole.length <= 3 && whole[0] !== '0' && fraction.length === 3
   const asDecimal: NumberReading = {
-    value: Number(`${s.slice(0, mark)}.${fraction}`), grouped: false, intDigits: digitsOf(whole), ambiguous: groupable,
+    // With a point the text is already the number: no need to build it again.
+    value: Number(c === '.' ? s : `${s.slice(0, mark)}.${fraction}`), grouped: false, intDigits: digitsOf(whole), ambiguous: groupable,
   }
   const asGroup: NumberReading | null = groupable
     ? { value: Number(s.slice(0, mark) + fraction), grouped: true, intDigits: whole.length + 3, ambiguous: true }

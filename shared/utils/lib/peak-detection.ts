@@ -75,11 +75,52 @@ export class TraceError extends Error {
 
 const odd = (v: number) => { const r = Math.max(1, Math.round(v)); return r % 2 === 1 ? r : r + 1 }
 
+/**
+ * The k-th smallest of `a` (0-based), partly reordering `a`: Wirth's selection with a
+ * median-of-three pivot, O(n) on average. Afterwards a[0..k-1] <= a[k] <= a[k+1..].
+ */
+function selectKth(a: Float64Array, k: number): number {
+  let lo = 0
+  let hi = a.length - 1
+  while (lo < hi) {
+    const x = medianOfThree(a[lo]!, a[k]!, a[hi]!)
+    let i = lo
+    let j = hi
+    do {
+      while (a[i]! < x) i++
+      while (x < a[j]!) j--
+      if (i <= j) {
+        const swap = a[i]!
+        a[i] = a[j]!
+        a[j] = swap
+        i++
+        j--
+      }
+    } while (i <= j)
+    if (j < k) lo = i
+    if (k < i) hi = j
+  }
+  return a[k]!
+}
+
+const medianOfThree = (a: number, b: number, c: number) => Math.max(Math.min(a, b), Math.min(Math.max(a, b), c))
+
+// A 100,000-point trace takes a dozen medians of the whole signal: selecting the middle value
+// instead of sorting every copy was half of the detection's time. NaN has no place in an order,
+// so a copy holding one is sorted as before (NaN last).
 function median(values: Float64Array): number {
   if (values.length === 0) return 0
-  const s = Float64Array.from(values).sort()
+  const s = Float64Array.from(values)
   const m = s.length >> 1
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2
+  if (s.some(Number.isNaN)) {
+    s.sort()
+    return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2
+  }
+  const upper = selectKth(s, m)
+  if (s.length % 2) return upper
+  let lower = s[0]!
+  for (let i = 1; i < m; i++) if (s[i]! > lower) lower = s[i]!
+  return (lower + upper) / 2
 }
 
 function noiseSd(y: Float64Array): number {
