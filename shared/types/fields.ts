@@ -1,5 +1,6 @@
 import { z } from 'zod'
-import { isCalendarDate, isoDateOf } from '../utils/dates'
+import { isoDateOf } from '../utils/dates'
+import { calendarDateProblem, EARLIEST_DATE, LATEST_DATE } from './lib/date-range'
 import { textInputProblem } from '../utils/text-input'
 import { casNumberProblem, normalCasNumber } from '../utils/cas'
 
@@ -7,9 +8,8 @@ import { casNumberProblem, normalCasNumber } from '../utils/cas'
 // date a plausible range, each id a PostgreSQL integer and each list a size. Every helper gives
 // one message per problem, without the field name: the server puts "field: " in front.
 
-/** Teaching dates: anything outside is a typing slip (1000-01-01, 9999-12-31), not a term. */
-export const EARLIEST_DATE = '2000-01-01'
-export const LATEST_DATE = '2100-12-31'
+// The date range and its sentence live in a zod-free file the forms can load on their own.
+export { calendarDateProblem, EARLIEST_DATE, LATEST_DATE }
 /** A section's meetings span at most this many days (a long academic year). */
 export const MAX_TERM_DAYS = 366
 /** PostgreSQL's integer: ids beyond it name nothing. */
@@ -33,16 +33,6 @@ export function blockText(max: number, required?: string) {
       const problem = textInputProblem(value)
       if (problem) ctx.addIssue({ code: 'custom', message: problem })
     })
-}
-
-const DATE_SHAPE = /^\d{4}-\d{2}-\d{2}$/
-
-/** What is wrong with a YYYY-MM-DD date, or null: one sentence, whichever check fails first. */
-export function calendarDateProblem(value: string): string | null {
-  if (!DATE_SHAPE.test(value)) return 'Use YYYY-MM-DD'
-  if (!isCalendarDate(value)) return 'Not a calendar date'
-  if (value < EARLIEST_DATE || value > LATEST_DATE) return `Use a date from ${EARLIEST_DATE} to ${LATEST_DATE}`
-  return null
 }
 
 /** A calendar date, 'YYYY-MM-DD', between EARLIEST_DATE and LATEST_DATE. */

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { ITEM_ROLE_LABELS, ITEM_ROLES } from './lib/labels'
 import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
 import { blockText, casNumberField, dateField, instantField, lineText, recordId } from './fields'
@@ -13,17 +14,9 @@ export const WORK_UNIT_LABELS: Record<WorkUnit, string> = {
   student: 'Per student',
 }
 
-export const ITEM_ROLES = ['substrate', 'halogenating-agent', 'initiator', 'solvent', 'wash', 'drying-agent', 'other'] as const
+// The roles and their labels live in lib/labels.ts (zod-free, for pages that only show them).
+export { ITEM_ROLE_LABELS, ITEM_ROLES }
 export type ItemRoleName = (typeof ITEM_ROLES)[number]
-export const ITEM_ROLE_LABELS: Record<ItemRoleName, string> = {
-  'substrate': 'Substrate',
-  'halogenating-agent': 'Halogenating agent',
-  'initiator': 'Initiator',
-  'solvent': 'Solvent',
-  'wash': 'Wash',
-  'drying-agent': 'Drying agent',
-  'other': 'Other',
-}
 
 export const ITEM_BASES = ['mmol', 'equivalents', 'mol-percent', 'mL', 'g'] as const
 export type ItemBasisName = (typeof ITEM_BASES)[number]

@@ -3,7 +3,7 @@
 import { z } from 'zod'
 import { smilesField } from './smiles'
 import type { HazardKey } from '../data/cautions'
-import { daysBetween } from '../utils/dates'
+import { forecastEndProblem } from './lib/date-range'
 import { blockText, calendarDateProblem, casNumberField, dateField, lineText, recordId, recordIdParam } from './fields'
 
 export const PHYSICAL_STATES = ['solid', 'liquid', 'gas', 'solution'] as const
@@ -194,7 +194,7 @@ export const linkDismissSchema = z.object({ reagentId: recordId('Pick a reagent 
 
 // ── Forecast ────────────────────────────────────────────────────────────────────────────
 
-export const FORECAST_MAX_DAYS = 366
+export { FORECAST_MAX_DAYS } from './lib/date-range'
 
 export const forecastQuerySchema = z.object({
   from: isoDate(),
@@ -205,10 +205,8 @@ export const forecastQuerySchema = z.object({
 /** The end of a forecast range: on or after its start, at most FORECAST_MAX_DAYS later. */
 function forecastRangeIssue(q: { from?: string, to?: string }, ctx: z.RefinementCtx) {
   if (!q.from || !q.to || calendarDateProblem(q.from) || calendarDateProblem(q.to)) return
-  if (q.to < q.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'Must be on or after from' })
-  else if (daysBetween(q.from, q.to) > FORECAST_MAX_DAYS) {
-    ctx.addIssue({ code: 'custom', path: ['to'], message: `At most ${FORECAST_MAX_DAYS} days after from` })
-  }
+  const problem = forecastEndProblem(q.from, q.to)
+  if (problem) ctx.addIssue({ code: 'custom', path: ['to'], message: problem })
 }
 export type ForecastQuery = z.input<typeof forecastQuerySchema>
 
@@ -248,11 +246,6 @@ export interface ForecastSolution {
   percentWv: number
   /** mL of solution in the range (with the reagent's overage); about as much water, not stocked. */
   solutionMl: number
-}
-
-/** How a prepared solution reads on a forecast line: "5 % w/v, 5 g per 100 mL, made up with water (water, not stocked)". */
-export function solutionWording(percentWv: number): string {
-  return `${percentWv} % w/v, ${percentWv} g per 100 mL, made up with water (water, not stocked)`
 }
 
 export interface ForecastWeek {
@@ -572,17 +565,8 @@ export interface StockroomOverview {
   orders: OrderSummary[]
 }
 
-/** "0.05 g" / "1 250 mL" / "3 × 100 mL": figures for the stockroom's tables. */
-export function formatStock(value: number | null | undefined, unit: string, digits = 3): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—'
-  const abs = Math.abs(value)
-  const maximumFractionDigits = abs === 0 ? 0 : abs < 1 ? digits : abs < 10 ? 2 : abs < 100 ? 1 : 0
-  return `${new Intl.NumberFormat('en', { maximumFractionDigits }).format(value)} ${unit}`
-}
-
-export function formatContainers(containers: number, size: number, unit: string): string {
-  return `${containers} × ${formatStock(size, unit)}`
-}
+// The tables' figures live in a zod-free file the forecast page loads on its own.
+export { formatContainers, formatStock, solutionWording } from './lib/stock-figures'
 
 // ── Forms ───────────────────────────────────────────────────────────────────────────────
 

@@ -6,11 +6,8 @@ import type { KeyFactor } from '../utils/key-factor'
 export type SubmissionStatusName = 'pending' | 'accepted' | 'returned'
 export type FlagSeverity = 'info' | 'warning' | 'danger'
 
-export const SUBMISSION_STATUS_LABELS: Record<SubmissionStatusName, string> = {
-  pending: 'Waiting for review',
-  accepted: 'Accepted',
-  returned: 'Returned for resubmission',
-}
+// The labels live in lib/labels.ts (zod-free, for pages that only show them).
+export { SUBMISSION_STATUS_LABELS } from './lib/labels'
 
 export interface FlagView {
   code: string

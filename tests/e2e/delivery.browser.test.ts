@@ -3,6 +3,7 @@ import type { Browser } from 'playwright-core'
 import { coldLoad, signedInState } from '../../scripts/lib/page-weight.mjs'
 import { LOGIN_JS_GOAL, SIGNED_IN_JS_GOAL } from '../../scripts/bench/delivery.mjs'
 import { launchBrowser } from '../support/browser'
+import { testDb } from '../support/db'
 import { DEMO, signedIn } from '../support/http'
 
 // JavaScript budgets, counted as bytes on the wire for a cold load in Chromium (empty cache,
@@ -44,5 +45,29 @@ describe('JavaScript a cold load transfers', () => {
     expect(id, 'the demo has a practical with class results').toBeTruthy()
     const chartPage = await coldLoad(browser, inject('baseUrl'), `/results/practicals/${id}`, { storageState: state })
     expect(chartPage.chartJs, listed(chartPage)).toBe(true)
+  })
+
+  // The heaviest signed-in pages. Their charts are lazy components (chart.js comes as a prefetch,
+  // counted here, not ahead of the page) and their forms check input without zod.
+  it.each([
+    ['coordinator', DEMO.coordinator],
+    ['instructor', DEMO.instructor],
+  ])('the %s\'s stockroom forecast stays within the signed-in budget', async (_role, email) => {
+    const state = await signedInState(browser, inject('baseUrl'), email)
+    const load = await coldLoad(browser, inject('baseUrl'), '/stockroom/forecast', { storageState: state })
+    expect(load.finalPath).toBe('/stockroom/forecast')
+    expect(load.zod, listed(load)).toBe(false)
+    expect(load.jsBytes, listed(load)).toBeLessThanOrEqual(SIGNED_IN_JS_GOAL)
+  })
+
+  it('a student\'s upload page for a practical stays within the signed-in budget', async () => {
+    const practical = await testDb().selectFrom('practicals').select('id')
+      .where('title', '=', 'Photochlorination of 2,3-dimethylbutane').executeTakeFirstOrThrow()
+    const state = await signedInState(browser, inject('baseUrl'), DEMO.student(1))
+    const path = `/practicals/${practical.id}/results`
+    const load = await coldLoad(browser, inject('baseUrl'), path, { storageState: state })
+    expect(load.finalPath).toBe(path)
+    expect(load.zod, listed(load)).toBe(false)
+    expect(load.jsBytes, listed(load)).toBeLessThanOrEqual(SIGNED_IN_JS_GOAL)
   })
 })

@@ -1,5 +1,5 @@
-// Names of weekdays, outlier tests, release policies and selectivity figures as pages show them,
-// without zod. The schema files (section.ts, course.ts, review.ts, results.ts) re-export them; a page that
+// Names of weekdays, outlier tests, release policies, item roles, upload states and selectivity figures as pages show them,
+// without zod. The schema files (section.ts, course.ts, review.ts, results.ts, practical.ts, submission.ts) re-export them; a page that
 // only shows a label imports it from here, so it does not load the schemas and zod with them.
 // Not auto-imported (a folder below shared/types): import it explicitly.
 import type { HeadlineStatistic } from '../../utils/headline'
@@ -32,6 +32,23 @@ export const KEY_FACTOR_LABELS: Record<KeyFactor, string> = {
 }
 export const RESULTS_FACTOR_LABELS = KEY_FACTOR_LABELS
 export const RESULTS_STATISTIC_SYMBOLS: Record<OutlierTest, string> = { 'gesd': 'R', 'grubbs': 'G', 'dixon': 'Q', 'modified-z': '|M|' }
+
+export const ITEM_ROLES = ['substrate', 'halogenating-agent', 'initiator', 'solvent', 'wash', 'drying-agent', 'other'] as const
+export const ITEM_ROLE_LABELS: Record<(typeof ITEM_ROLES)[number], string> = {
+  'substrate': 'Substrate',
+  'halogenating-agent': 'Halogenating agent',
+  'initiator': 'Initiator',
+  'solvent': 'Solvent',
+  'wash': 'Wash',
+  'drying-agent': 'Drying agent',
+  'other': 'Other',
+}
+
+export const SUBMISSION_STATUS_LABELS: Record<'pending' | 'accepted' | 'returned', string> = {
+  pending: 'Waiting for review',
+  accepted: 'Accepted',
+  returned: 'Returned for resubmission',
+}
 
 export const HEADLINE_LABELS: Record<HeadlineStatistic, string> = {
   'geometric-mean': 'Geometric mean',
