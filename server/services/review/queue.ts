@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto'
 import type { PracticalChemistry } from '#shared/utils/submission'
 import type { H3Event } from 'h3'
 import type { ReviewerScope } from './scope'
@@ -11,7 +12,7 @@ import {
 import type { OutlierFinding } from '#shared/utils/outliers'
 import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
-import { classOutlierReport } from '../results/class-statistics'
+import { classOutlierReport, rememberedClassFigures } from '../results/class-statistics'
 import { latestUnitVersions } from '../results/latest-versions'
 import { requireReviewerOf, reviewSectionIds } from './scope'
 import { practicalChemistry } from '../submissions/practical-chemistry'
@@ -37,7 +38,10 @@ export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFa
     return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
   })
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
-  const report = await classOutlierReport(values, settings)
+  // Every home page and review list runs the test on each practical: the report depends only on
+  // the values and settings, so it is remembered under a hash of both (a new result is a new key).
+  const key = `outliers:${createHash('sha256').update(JSON.stringify([values, settings])).digest('hex')}`
+  const report = await rememberedClassFigures(key, values.length, () => classOutlierReport(values, settings))
   return {
     run: {
       test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit,
