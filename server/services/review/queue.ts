@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto'
 import type { PracticalChemistry } from '#shared/utils/submission'
 import type { H3Event } from 'h3'
 import type { ReviewerScope } from './scope'
@@ -11,7 +12,7 @@ import {
 import type { OutlierFinding } from '#shared/utils/outliers'
 import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
-import { classOutlierReport } from '../results/class-statistics'
+import { classOutlierReport, rememberedClassFigures } from '../results/class-statistics'
 import { latestUnitVersions } from '../results/latest-versions'
 import { requireReviewerOf, reviewSectionIds } from './scope'
 import { practicalChemistry } from '../submissions/practical-chemistry'
@@ -37,7 +38,10 @@ export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFa
     return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
   })
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
-  const report = await classOutlierReport(values, settings)
+  // Every home page and review list runs the test on each practical: the report depends only on
+  // the values and settings, so it is remembered under a hash of both (a new result is a new key).
+  const key = `outliers:${createHash('sha256').update(JSON.stringify([values, settings])).digest('hex')}`
+  const report = await rememberedClassFigures(key, values.length, () => classOutlierReport(values, settings))
   return {
     run: {
       test: report.test, applied: report.applied, n: values.length, alpha: settings.alpha, zscoreLimit: settings.zscoreLimit,
@@ -180,7 +184,7 @@ export async function buildReviewQueue(
   return { rows: rows.sort(compareQueueRows), outliers }
 }
 
-export function countQueueRows(rows: QueueRow[]): QueueCounts {
+export function countQueueRows(rows: Array<Pick<QueueRow, 'status' | 'attention'> & { excluded: unknown }>): QueueCounts {
   return {
     total: rows.length,
     pending: rows.filter((r) => r.status === 'pending').length,
@@ -231,19 +235,38 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
     : await db.selectFrom('practicals').innerJoin('practicalSessions', 'practicalSessions.practicalId', 'practicals.id')
         .innerJoin('sectionTas', 'sectionTas.sectionId', 'practicalSessions.sectionId')
         .select('practicals.id').distinct().where('sectionTas.userId', '=', me.id).orderBy('practicals.id').execute()
-  const items: ReviewPracticalItem[] = []
-  for (const { id } of candidates) {
+  // The practicals are independent: read side by side rather than one after another.
+  return Promise.all(candidates.map(async ({ id }): Promise<ReviewPracticalItem> => {
     const scope = await requireReviewerOf(event, id)
-    const { rows } = await reviewQueueOf(scope)
-    items.push({
+    const [counts, sections] = await Promise.all([reviewQueueCounts(scope), reviewSectionsOf(scope)])
+    return {
       id,
       title: scope.practical.title,
       course: { id: scope.course.id, code: scope.course.code, title: scope.course.title, term: scope.course.term },
-      sections: (await reviewSectionsOf(scope)).map((s) => s.code),
-      counts: countQueueRows(rows),
-    })
-  }
-  return items
+      sections: sections.map((s) => s.code),
+      counts,
+    }
+  }))
+}
+
+/**
+ * The queue's counts without its rows: the same latest versions and flags as buildReviewQueue,
+ * but only the columns a count reads (no people, excluder or review look-ups per unit).
+ */
+export async function reviewQueueCounts(scope: ReviewerScope): Promise<QueueCounts> {
+  const { keyFactor } = await practicalChemistry(scope.practical)
+  const sections = reviewSectionIds(scope)
+  let query = useDb().selectFrom((eb) => eb.selectFrom('submissions').distinctOn('unitKey')
+    .select(['id', 'sectionId', 'status', 'flags', 'excludedAt'])
+    .where('practicalId', '=', scope.practical.id).orderBy('unitKey').orderBy('version', 'desc').as('s'))
+    .select(['s.id', 's.status', 's.flags', 's.excludedAt'])
+  if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
+  const [latest, outliers] = await Promise.all([query.execute(), classOutliersFor(scope, keyFactor)])
+  return countQueueRows(latest.map((s) => ({
+    status: s.status,
+    attention: flagsWithOutlier(s.flags as StoredFlag[], s.id, outliers, keyFactor).attention,
+    excluded: s.excludedAt,
+  })))
 }
 
 type ParsedQueueQuery = z.output<typeof queueQuerySchema>
