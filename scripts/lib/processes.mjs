@@ -30,7 +30,11 @@ export async function startIdentityProvider({ root, port, clientId, clientSecret
   const args = ['--port', String(port), '--client-id', clientId, '--client-secret', clientSecret, '--app-url', appUrl]
   if (pidFile) args.push('--pid-file', pidFile)
   const child = spawn(process.execPath, [join(root, 'scripts', 'identity-provider.mjs'), ...args], { cwd: root, stdio, detached: false })
-  if (!(await waitFor(() => isPortOpen(port), { timeoutMs: 15_000 }))) {
+  // A child that ends before it listens (its port taken meanwhile) fails at once, not after the wait.
+  let ended = false
+  child.once('exit', () => { ended = true })
+  const up = await waitFor(async () => ended || (await isPortOpen(port)), { timeoutMs: 30_000 })
+  if (!up || ended) {
     child.kill()
     fail(`the local identity provider did not start on port ${port}`, 'run node scripts/identity-provider.mjs by hand to see why')
   }

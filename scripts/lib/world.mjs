@@ -66,9 +66,18 @@ export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ign
     ensureBuild(root)
     const port = await freePort()
     // The local identity provider, so campus sign-in works in the tests as in the demo.
-    const idp = { port: await freePort(), clientId: 'halocline-test', clientSecret: randomSecret(18) }
+    // A free port can be taken by an outgoing connection before the provider binds it: try another.
     const idpPidFile = join(runRoot, 'idp.pid')
-    await startIdentityProvider({ root, ...idp, appUrl: `http://127.0.0.1:${port}`, pidFile: idpPidFile })
+    let idp
+    for (let attempt = 1; ; attempt++) {
+      idp = { port: await freePort(), clientId: 'halocline-test', clientSecret: randomSecret(18) }
+      try {
+        await startIdentityProvider({ root, ...idp, appUrl: `http://127.0.0.1:${port}`, pidFile: idpPidFile })
+        break
+      } catch (error) {
+        if (attempt >= 3) throw error
+      }
+    }
     undo.push(() => killPidFile(idpPidFile))
     const server = await startServer({
       root, port, stdio,
