@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { dateField, lineText, MAX_TERM_DAYS } from './fields'
 import { daysBetween } from '../utils/dates'
+import type { SectionView } from './section'
 
 // Copying a course into a new term: what the instructor enters, and the preview they review.
 
@@ -17,18 +18,10 @@ export const courseCopySchema = z.object({
 })
 export type CourseCopyInput = z.input<typeof courseCopySchema>
 
-export interface CopiedSectionView {
-  code: string
-  weekday: number
-  startTime: string
-  endTime: string
-  room: string
-  hoodStations: number
-  studentsPerStation: number
+export interface CopiedSectionView extends Pick<SectionView,
+  'code' | 'weekday' | 'startTime' | 'endTime' | 'room' | 'hoodStations' | 'studentsPerStation' | 'firstDate' | 'lastDate'> {
   oldFirstDate: string
   oldLastDate: string
-  firstDate: string
-  lastDate: string
   /** Meetings in the new term. */
   meetings: number
   shortened: boolean

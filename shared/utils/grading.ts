@@ -70,15 +70,8 @@ export function startingScores(
   input: AccuracyInput,
   given: Record<string, number> = {},
 ): Record<string, number> {
-  const scores: Record<string, number> = {}
-  for (const c of rubric) {
-    if (given[c.key] !== undefined) scores[c.key] = given[c.key]!
-    else if (c.kind === 'manual') scores[c.key] = c.maxPoints
-    else {
-      const suggested = suggestAccuracyPoints(c, input)
-      if (suggested !== null) scores[c.key] = suggested
-    }
-  }
+  const scores = judgedScores(rubric, input, given)
+  for (const c of rubric) if (c.kind === 'manual' && scores[c.key] === undefined) scores[c.key] = c.maxPoints
   return scores
 }
 
