@@ -7,7 +7,7 @@ import autocannon from 'autocannon'
 import pg from 'pg'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
-import { freePort } from '../lib/ports.mjs'
+import { onFreePort } from '../lib/ports.mjs'
 import { startServer } from '../lib/processes.mjs'
 import { randomSecret } from '../lib/env.mjs'
 import { signIn } from '../lib/world.mjs'
@@ -22,8 +22,10 @@ function run(url, requests, seconds) {
 }
 
 async function start(world, env, workers) {
-  const port = await freePort()
-  const child = await startServer({ root, port, env, workers, stdio: ['ignore', 'ignore', 'inherit'] })
+  const { port, child } = await onFreePort(async (port) => {
+    const child = await startServer({ root, port, env, workers, stdio: ['ignore', 'ignore', 'inherit'] })
+    return { port, child }
+  })
   const stop = () => new Promise((resolve) => {
     if (child.exitCode !== null) return resolve(undefined)
     child.once('exit', resolve)

@@ -1,7 +1,7 @@
 import { spawn } from 'node:child_process'
 import { existsSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
-import { isPortOpen, waitFor } from './ports.mjs'
+import { childListening, isPortOpen } from './ports.mjs'
 import { fail } from './steps.mjs'
 import { outputDir } from './build.mjs'
 
@@ -14,7 +14,7 @@ export async function startSmtpFake({ root, port, dir, pidFile, holdFile, stdio 
   const child = spawn(process.execPath, [join(root, 'scripts', 'smtp-fake.mjs'), '--port', String(port), '--dir', dir, ...extra], {
     cwd: root, stdio, detached: false,
   })
-  if (!(await waitFor(() => isPortOpen(port), { timeoutMs: 10_000 }))) {
+  if ((await childListening(child, port, 10_000)) !== 'up') {
     child.kill()
     fail(`the SMTP fake did not start on port ${port}`, 'run node scripts/smtp-fake.mjs by hand to see why')
   }
@@ -31,10 +31,7 @@ export async function startIdentityProvider({ root, port, clientId, clientSecret
   if (pidFile) args.push('--pid-file', pidFile)
   const child = spawn(process.execPath, [join(root, 'scripts', 'identity-provider.mjs'), ...args], { cwd: root, stdio, detached: false })
   // A child that ends before it listens (its port taken meanwhile) fails at once, not after the wait.
-  let ended = false
-  child.once('exit', () => { ended = true })
-  const up = await waitFor(async () => ended || (await isPortOpen(port)), { timeoutMs: 30_000 })
-  if (!up || ended) {
+  if ((await childListening(child, port, 30_000)) !== 'up') {
     child.kill()
     fail(`the local identity provider did not start on port ${port}`, 'run node scripts/identity-provider.mjs by hand to see why')
   }
@@ -84,9 +81,9 @@ export async function startServer({ root, port, env, stdio = ['ignore', 'pipe', 
       NODE_ENV: 'production',
     },
   })
-  let exited = false
-  child.once('exit', () => { exited = true })
-  const up = await waitFor(async () => exited || (await isPortOpen(port)), { timeoutMs: 30_000 })
-  if (!up || exited) fail('the Halocline server did not start', 'run node .output/server/index.mjs by hand to see its error')
+  if ((await childListening(child, port, 30_000)) !== 'up') {
+    child.kill()
+    fail(`the Halocline server did not start on port ${port}`, 'run node .output/server/index.mjs by hand to see its error')
+  }
   return child
 }

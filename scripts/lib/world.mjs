@@ -5,7 +5,7 @@ import { mkdirSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { clusterPaths, databaseUrl, ensureDatabase, initCluster, startCluster, stopCluster } from './postgres.mjs'
 import { ensureBuild } from './build.mjs'
-import { freePort } from './ports.mjs'
+import { onFreePort } from './ports.mjs'
 import { killPidFile, localCampusEnv, startIdentityProvider, startServer, startSmtpFake } from './processes.mjs'
 import { randomSecret } from './env.mjs'
 
@@ -28,10 +28,12 @@ export async function startDatabaseWorld(root, { name = 'world', database = 'hal
   }
   try {
     const password = randomSecret(12)
-    const pgPort = await freePort()
     const paths = clusterPaths(runRoot)
     initCluster(paths, password)
-    startCluster(paths, pgPort)
+    const pgPort = await onFreePort(async (port) => {
+      startCluster(paths, port)
+      return port
+    })
     undo.push(() => stopCluster(paths, 'immediate'))
     await ensureDatabase({ password, port: pgPort, database })
     const url = databaseUrl({ password, port: pgPort, database })
@@ -57,40 +59,45 @@ export async function startDatabaseWorld(root, { name = 'world', database = 'hal
 export async function startWorld(root, { serverEnv = {}, stdio = ['ignore', 'ignore', 'inherit'], ...databaseOptions } = {}) {
   const { databaseUrl: url, runRoot, pgPort, undo, stop } = await startDatabaseWorld(root, databaseOptions)
   try {
-    const smtpPort = await freePort()
     const smtpPidFile = join(runRoot, 'smtp.pid')
     const mailDir = join(runRoot, 'mail')
-    await startSmtpFake({ root, port: smtpPort, dir: mailDir, pidFile: smtpPidFile })
+    // Every port is tried again on another when our child cannot bind it (ports.mjs onFreePort).
+    const smtpPort = await onFreePort(async (port) => {
+      await startSmtpFake({ root, port, dir: mailDir, pidFile: smtpPidFile })
+      return port
+    })
     undo.push(() => killPidFile(smtpPidFile))
 
     ensureBuild(root)
-    const port = await freePort()
-    // The local identity provider, so campus sign-in works in the tests as in the demo.
-    // A free port can be taken by an outgoing connection before the provider binds it: try another.
+    // The local identity provider, so campus sign-in works in the tests as in the demo. It knows
+    // the app's address, so a new app port means a new provider.
     const idpPidFile = join(runRoot, 'idp.pid')
-    let idp
-    for (let attempt = 1; ; attempt++) {
-      idp = { port: await freePort(), clientId: 'halocline-test', clientSecret: randomSecret(18) }
+    const { port, idp, server } = await onFreePort(async (port) => {
+      const idp = await onFreePort(async (idpPort) => {
+        const settings = { port: idpPort, clientId: 'halocline-test', clientSecret: randomSecret(18) }
+        await startIdentityProvider({ root, ...settings, appUrl: `http://127.0.0.1:${port}`, pidFile: idpPidFile })
+        return settings
+      })
       try {
-        await startIdentityProvider({ root, ...idp, appUrl: `http://127.0.0.1:${port}`, pidFile: idpPidFile })
-        break
+        const server = await startServer({
+          root, port, stdio,
+          env: {
+            NUXT_DATABASE_URL: url,
+            NUXT_SESSION_PASSWORD: randomSecret(32),
+            NUXT_SMTP_PORT: String(smtpPort),
+            NUXT_DEMO_MAIL_DIR: mailDir,
+            NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${port}`,
+            ...localCampusEnv(idp),
+            ...serverEnv,
+          },
+        })
+        return { port, idp, server }
       } catch (error) {
-        if (attempt >= 3) throw error
+        killPidFile(idpPidFile)
+        throw error
       }
-    }
-    undo.push(() => killPidFile(idpPidFile))
-    const server = await startServer({
-      root, port, stdio,
-      env: {
-        NUXT_DATABASE_URL: url,
-        NUXT_SESSION_PASSWORD: randomSecret(32),
-        NUXT_SMTP_PORT: String(smtpPort),
-        NUXT_DEMO_MAIL_DIR: mailDir,
-        NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${port}`,
-        ...localCampusEnv(idp),
-        ...serverEnv,
-      },
     })
+    undo.push(() => killPidFile(idpPidFile))
     undo.push(() => new Promise((resolve) => {
       if (server.exitCode !== null) return resolve(undefined)
       server.once('exit', resolve)

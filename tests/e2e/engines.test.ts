@@ -1,7 +1,7 @@
 import type { ChildProcess } from 'node:child_process'
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest'
 import { startServer } from '../../scripts/lib/processes.mjs'
-import { freePort } from '../../scripts/lib/ports.mjs'
+import { onFreePort } from '../../scripts/lib/ports.mjs'
 import { randomSecret } from '../../scripts/lib/env.mjs'
 import { formatTrace, simulateTrace } from '../../shared/utils/simulation'
 import { Client, DEMO, signedIn } from '../support/http'
@@ -103,20 +103,21 @@ describe('a task over its time budget', () => {
   let server: ChildProcess
   let baseUrl: string
   beforeAll(async () => {
-    const port = await freePort()
-    baseUrl = `http://127.0.0.1:${port}`
     // A second server on the same database whose engines give each task a tenth of a second
     // and keep at most one task waiting.
-    server = await startServer({
-      root: inject('root'), port, stdio: ['ignore', 'ignore', 'inherit'],
-      env: {
-        NUXT_DATABASE_URL: inject('databaseUrl'),
-        NUXT_SESSION_PASSWORD: randomSecret(32),
-        NUXT_SMTP_PORT: String(inject('smtpPort')),
-        NUXT_PUBLIC_APP_URL: baseUrl,
-        NUXT_ENGINES_TASK_TIMEOUT_MS: '100',
-        NUXT_ENGINES_MAX_QUEUE: '1',
-      },
+    server = await onFreePort(async (port: number) => {
+      baseUrl = `http://127.0.0.1:${port}`
+      return await startServer({
+        root: inject('root'), port, stdio: ['ignore', 'ignore', 'inherit'],
+        env: {
+          NUXT_DATABASE_URL: inject('databaseUrl'),
+          NUXT_SESSION_PASSWORD: randomSecret(32),
+          NUXT_SMTP_PORT: String(inject('smtpPort')),
+          NUXT_PUBLIC_APP_URL: baseUrl,
+          NUXT_ENGINES_TASK_TIMEOUT_MS: '100',
+          NUXT_ENGINES_MAX_QUEUE: '1',
+        },
+      }) as ChildProcess
     })
   })
   afterAll(async () => {

@@ -22,7 +22,7 @@ afterAll(async () => {
 /** Message-IDs our messageIdFor() gave these rows, as found in the fake's .eml files. */
 function arrivedFor(rows: Array<{ id: number }>) {
   const ids = new Set(rows.map((r) => r.id))
-  return deliveredMessageIds(world.mailDir).filter((m) => ids.has(Number(/^<halocline\.(\d+)\./.exec(m)?.[1])))
+  return deliveredMessageIds(world).filter((m) => ids.has(Number(/^<halocline\.(\d+)\./.exec(m)?.[1])))
 }
 
 async function allSent(digestIds: number[], recipients: number, timeoutMs: number) {
@@ -71,11 +71,11 @@ describe('mail delivery through faults', () => {
   it('PostgreSQL restarted while a batch is with the SMTP server: the sends are recorded, none repeated', async () => {
     const { server, digestIds, recipients, held } = await digestCaughtMidDelivery()
     stopDatabase('fast')
-    const before = deliveredMessageIds(world.mailDir).length
+    const before = deliveredMessageIds(world).length
     try {
       // The SMTP server now accepts the held messages while their outcome cannot be written.
       world.hold(false)
-      await eventually(async () => deliveredMessageIds(world.mailDir).length >= before + held)
+      await eventually(async () => deliveredMessageIds(world).length >= before + held)
     } finally {
       startDatabase()
     }

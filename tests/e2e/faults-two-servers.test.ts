@@ -47,7 +47,7 @@ describe('two server processes on one database', () => {
       return list.length === recipients && list.every((r) => r.status === 'sent') && list
     }, 60_000, 250)
     const ids = new Set(rows.map((r) => r.id))
-    const arrived = deliveredMessageIds(world.mailDir).filter((m) => ids.has(Number(/^<halocline\.(\d+)\./.exec(m)?.[1])))
+    const arrived = deliveredMessageIds(world).filter((m) => ids.has(Number(/^<halocline\.(\d+)\./.exec(m)?.[1])))
     expect(arrived).toHaveLength(recipients)
     expect(new Set(arrived).size).toBe(recipients)
     expect(rows.every((r) => r.attempts === 1)).toBe(true)

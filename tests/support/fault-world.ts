@@ -8,7 +8,7 @@ import type { Kysely } from 'kysely'
 import { createDatabase } from '../../server/database/connection'
 import type { Database } from '../../server/database/schema'
 import * as tasks from '../../server/database/tasks'
-import { freePort } from '../../scripts/lib/ports.mjs'
+import { onFreePort } from '../../scripts/lib/ports.mjs'
 import { killPidFile, startServer, startSmtpFake } from '../../scripts/lib/processes.mjs'
 import { randomSecret } from '../../scripts/lib/env.mjs'
 import { eventually } from './services'
@@ -41,22 +41,25 @@ const running = new Set<ServerProcess>()
 
 /** A Halocline server from the built output, with its own port; its output is kept for the test. */
 export async function startServerProcess(options: ServerOptions): Promise<ServerProcess> {
-  const port = await freePort()
-  const baseUrl = `http://127.0.0.1:${port}`
-  const child = await startServer({
-    root: inject('root'),
-    port,
-    stdio: ['ignore', 'pipe', 'pipe'],
-    env: {
-      NUXT_DATABASE_URL: options.databaseUrl,
-      NUXT_SESSION_PASSWORD: options.sessionPassword ?? randomSecret(32),
-      NUXT_SMTP_PORT: String(options.smtpPort),
-      NUXT_DEMO_MAIL_DIR: options.mailDir ?? '',
-      NUXT_PUBLIC_APP_URL: baseUrl,
-      NUXT_PUBLIC_DEMO: 'true',
-      ...options.env,
-    },
-  }) as ChildProcess
+  const sessionPassword = options.sessionPassword ?? randomSecret(32)
+  const { baseUrl, child } = await onFreePort(async (port: number) => {
+    const baseUrl = `http://127.0.0.1:${port}`
+    const child = await startServer({
+      root: inject('root'),
+      port,
+      stdio: ['ignore', 'pipe', 'pipe'],
+      env: {
+        NUXT_DATABASE_URL: options.databaseUrl,
+        NUXT_SESSION_PASSWORD: sessionPassword,
+        NUXT_SMTP_PORT: String(options.smtpPort),
+        NUXT_DEMO_MAIL_DIR: options.mailDir ?? '',
+        NUXT_PUBLIC_APP_URL: baseUrl,
+        NUXT_PUBLIC_DEMO: 'true',
+        ...options.env,
+      },
+    }) as ChildProcess
+    return { baseUrl, child }
+  })
   const chunks: string[] = []
   child.stdout?.on('data', (c) => chunks.push(String(c)))
   child.stderr?.on('data', (c) => chunks.push(String(c)))
@@ -88,6 +91,8 @@ export interface FaultWorld {
   db: Kysely<Database>
   smtpPort: number
   mailDir: string
+  /** The From address this world's servers send with: what tells its messages from any other world's. */
+  sender: string
   sessionPassword: string
   /** While this file exists the SMTP fake holds new connections before its greeting. */
   holdFile: string
@@ -119,15 +124,20 @@ export async function createFaultWorld(name: string, serverEnv: Record<string, s
   const mailDir = join(runRoot, `mail-${database}`)
   const pidFile = join(runRoot, `smtp-${database}.pid`)
   const holdFile = join(runRoot, `smtp-${database}.hold`)
-  const smtpPort = await freePort()
   let held = 0
-  const startSmtp = async () => {
-    const child = await startSmtpFake({ root: inject('root'), port: smtpPort, dir: mailDir, pidFile, holdFile, stdio: ['ignore', 'pipe', 'ignore'] }) as ChildProcess
+  const startSmtpOn = async (port: number) => {
+    const child = await startSmtpFake({ root: inject('root'), port, dir: mailDir, pidFile, holdFile, stdio: ['ignore', 'pipe', 'ignore'] }) as ChildProcess
     child.stdout?.on('data', (c) => { held += (String(c).match(/holding connection/g) ?? []).length })
     child.unref()
+    return port
   }
-  await startSmtp()
+  // The servers are told this port, so a restart (startSmtp) comes back on the same one.
+  const smtpPort = await onFreePort(startSmtpOn)
+  const startSmtp = async () => {
+    await startSmtpOn(smtpPort)
+  }
   const sessionPassword = randomSecret(32)
+  const sender = `${database}@halocline.test`
   const db = createDatabase(databaseUrl, { max: 2, onError: () => {} })
   const mine = new Set<ServerProcess>()
   return {
@@ -135,10 +145,11 @@ export async function createFaultWorld(name: string, serverEnv: Record<string, s
     db,
     smtpPort,
     mailDir,
+    sender,
     sessionPassword,
     holdFile,
     startServer: async (env = {}) => {
-      const server = await startServerProcess({ databaseUrl, smtpPort, mailDir, sessionPassword, env: { ...serverEnv, ...env } })
+      const server = await startServerProcess({ databaseUrl, smtpPort, mailDir, sessionPassword, env: { NUXT_SMTP_FROM: `Halocline <${sender}>`, ...serverEnv, ...env } })
       mine.add(server)
       return server
     },
@@ -162,10 +173,13 @@ export async function createFaultWorld(name: string, serverEnv: Record<string, s
 }
 
 /** The Message-ID of every .eml file the fake wrote. */
-export function deliveredMessageIds(mailDir: string): string[] {
-  if (!existsSync(mailDir)) return []
-  return readdirSync(mailDir).filter((f) => f.endsWith('.eml'))
-    .map((f) => /^Message-ID:\s*(<[^>]+>)/im.exec(readFileSync(join(mailDir, f), 'utf8'))?.[1] ?? `(none in ${f})`)
+export function deliveredMessageIds(world: Pick<FaultWorld, 'mailDir' | 'sender'>): string[] {
+  if (!existsSync(world.mailDir)) return []
+  return readdirSync(world.mailDir).filter((f) => f.endsWith('.eml'))
+    .map((f) => readFileSync(join(world.mailDir, f), 'utf8'))
+    // Another world's server told an old port of ours would write here too: count only our own.
+    .filter((text) => /^From:.*$/im.exec(text)?.[0].includes(world.sender))
+    .map((text) => /^Message-ID:\s*(<[^>]+>)/im.exec(text)?.[1] ?? '(no Message-ID)')
 }
 
 /** The demo instructor sends a digest of the demo's first practical to all its sections, through `server`. */
