@@ -18,6 +18,8 @@ export interface UsersTable {
   name: string
   role: Role
   passwordHash: string | null
+  /** First campus sign-in. Joined = a password set or this (roster/invitations.ts `hasJoined`). */
+  campusJoinedAt: Timestamp | null
   sessionVersion: Generated<number>
   disabledAt: Timestamp | null
   /** Whether the person gets the daily summary of new runs in their sections (TAs); opt-out. */

@@ -203,6 +203,13 @@ export interface InvitationView {
   name: string
   email: string
   expiresAt: string
+  /**
+   * How this person will sign in: with a password they choose on the invitation page, or (where
+   * password sign-in is off for them) with the campus sign-in, which accepts the invitation.
+   */
+  signIn: 'password' | 'campus'
+  /** The campus button's label, when campus sign-in is set up. */
+  campusLabel: string | null
 }
 
 export type InvitationState = 'accepted' | 'invited' | 'expired' | 'none'

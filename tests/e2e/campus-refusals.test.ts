@@ -1,7 +1,9 @@
+import { randomBytes } from 'node:crypto'
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { Client, DEMO } from '../support/http'
 import { createFaultWorld, type FaultWorld, type ServerProcess } from '../support/fault-world'
 import { startTestIssuer, type TestIssuer } from '../support/test-issuer'
+import { hashInvitationToken } from '../../server/services/roster/invitations'
 
 // A server of its own (its own seeded database) whose campus provider is the misbehaving test
 // issuer, so each refusal can be made on purpose. Every refusal must end on the explanation page
@@ -151,6 +153,47 @@ describe('password sign-in turned off', () => {
     expect(await signedInUser(admin)).toMatchObject({ role: 'coordinator' })
     // A wrong password is still a wrong password for the administrator.
     expect((await new Client(locked.baseUrl).post('/api/auth/login', { email: DEMO.coordinator, password: 'not-it-at-all' })).status).toBe(401)
+  })
+
+  it('an invitation is accepted by the campus sign-in, never with a password nobody could use', async () => {
+    const locked = await world.startServer({ NUXT_PASSWORD_SIGN_IN_MODE: 'off' })
+    const email = `joiner-${Math.random().toString(36).slice(2, 8)}@larkspur.example`
+    const person = await world.db.insertInto('users').values({ email, name: 'Joiner Campus', role: 'student', passwordHash: null })
+      .returning('id').executeTakeFirstOrThrow()
+    const token = randomBytes(32).toString('base64url')
+    const later = new Date(Date.now() + 86_400_000)
+    const [open, other] = await world.db.insertInto('invitations')
+      .values([{ userId: person.id, tokenHash: hashInvitationToken(token), expiresAt: later },
+        { userId: person.id, tokenHash: hashInvitationToken(`${token}-older`), expiresAt: later }])
+      .returning('id').execute()
+
+    const view = await new Client(locked.baseUrl).get(`/api/invitations/${token}`)
+    expect(view.body).toMatchObject({ email, signIn: 'campus', campusLabel: 'Sign in with your campus account' })
+    const page = await new Client(locked.baseUrl).get(`/invite/${token}`)
+    expect(page.text).toContain('Join with your campus account')
+    expect(page.text).toContain('/auth/campus/start?next=%2F')
+    expect(page.text).not.toContain('New password')
+
+    const refused = await new Client(locked.baseUrl).post('/api/invitations/accept', { token, password: 'a long enough sentence 42' })
+    expect(refused.status).toBe(403)
+    expect(refused.refusal.statusMessage).toBe('Password sign-in is turned off here. Accept the invitation with the campus sign-in.')
+    const untouched = await world.db.selectFrom('users').select(['passwordHash', 'campusJoinedAt']).where('id', '=', person.id).executeTakeFirstOrThrow()
+    expect(untouched).toEqual({ passwordHash: null, campusJoinedAt: null })
+
+    issuer.behaviour.claims = { campus_id: 'LS0000002', email, email_verified: true }
+    const { client, landed } = await signInThroughIssuer(new Client(locked.baseUrl))
+    expect(landed).toBe('/')
+    expect(await signedInUser(client)).toMatchObject({ id: person.id, role: 'student' })
+    const joined = await world.db.selectFrom('users').select(['passwordHash', 'campusJoinedAt']).where('id', '=', person.id).executeTakeFirstOrThrow()
+    expect(joined.passwordHash).toBeNull()
+    expect(joined.campusJoinedAt).toBeInstanceOf(Date)
+    const links = await world.db.selectFrom('invitations').select(['id', 'usedAt']).where('userId', '=', person.id).orderBy('id').execute()
+    expect(links.map((l) => [l.id, l.usedAt instanceof Date])).toEqual([[open!.id, true], [other!.id, true]])
+    const accepted = await world.db.selectFrom('auditLog').select(['after']).where('action', '=', 'invitation.accept')
+      .where('entityId', '=', String(person.id)).execute()
+    expect(accepted.map((a) => a.after)).toEqual([{ invitationIds: [open!.id, other!.id], through: 'campus' }])
+    // The link is spent: the page says so instead of offering the sign-in again.
+    expect((await new Client(locked.baseUrl).get(`/api/invitations/${token}`)).status).toBe(410)
   })
 
   it('is on for everyone by default', async () => {

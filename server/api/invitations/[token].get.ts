@@ -12,5 +12,11 @@ export default defineEventHandler(async (event): Promise<InvitationView> => {
   if (!invitationTokenSchema.safeParse(token).success) invitationGone('missing')
   const found = await findInvitation(useDb(), token)
   if (found.status !== 'open') invitationGone(found.status)
-  return { name: found.name, email: found.email, expiresAt: found.expiresAt.toISOString() }
+  return {
+    name: found.name,
+    email: found.email,
+    expiresAt: found.expiresAt.toISOString(),
+    signIn: passwordSignInOpenTo(found.email) ? 'password' : 'campus',
+    campusLabel: campusSettings()?.buttonLabel ?? null,
+  }
 })

@@ -8,6 +8,7 @@ import { audit, type AuditActor } from '../../utils/audit'
 import { reserveLoginAttempt, settleLoginAttempt } from '../../utils/throttle'
 import { forgetProviderConfig, providerConfig, refusalFor } from './provider'
 import { consumeSignInRequest, saveSignInRequest } from './requests'
+import { joinThroughCampus } from '../roster'
 import { findLinkedAccount, type LinkedAccount } from './linking'
 
 /** Sends the browser to the provider: a fresh state, nonce and PKCE verifier, kept on our side. */
@@ -59,9 +60,11 @@ export async function finishCampusSignIn(db: Kysely<Database>, settings: CampusS
     await settleLoginAttempt(trx, reservation.attemptId, 'signedIn' in outcome)
     if ('signedIn' in outcome) {
       const account = outcome.signedIn
-      await audit(trx, { id: account.id, ip: callback.who.ip }, {
+      const who = { id: account.id, ip: callback.who.ip }
+      await audit(trx, who, {
         action: 'sign-in.campus', entity: 'user', entityId: account.id, after: { linkedBy: account.linkedBy },
       })
+      await joinThroughCampus(trx, who, account.id)
     } else {
       await audit(trx, { id: outcome.accountId ?? null, ip: callback.who.ip }, {
         action: 'sign-in.campus-refused', entity: 'user', entityId: outcome.accountId ?? null,

@@ -5,6 +5,7 @@ import type { Database } from '../../database/schema'
 import type { InvitationRoundResult, OpenInvitations, TaInvited } from '#shared/types/roster'
 import { audit, type Actor } from '../../utils/audit'
 import { invalid } from '../../utils/validation'
+import { hasJoined } from './invitations'
 import { inviteToCourse, withRosterRace, type RosterWriteContext } from './roster-import'
 
 // A course's invitations as a whole: the people who have not set a password yet, a fresh link
@@ -13,15 +14,17 @@ import { inviteToCourse, withRosterRace, type RosterWriteContext } from './roste
 type Db = Kysely<Database> | Transaction<Database>
 type Person = { userId: number, email: string, name: string, role: 'student' | 'ta' }
 
-/** Enrolled students and the sections' TAs with no password yet (disabled accounts left out). */
-async function peopleWithoutPassword(db: Db, courseId: number): Promise<Person[]> {
+/** Enrolled students and the sections' TAs who have not joined yet: no password, no campus sign-in (disabled accounts left out). */
+async function peopleNotJoined(db: Db, courseId: number): Promise<Person[]> {
   const students = await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
     .select(['users.id as userId', 'users.email', 'users.name'])
     .where('enrollments.courseId', '=', courseId).where('enrollments.status', '=', 'active')
-    .where('users.role', '=', 'student').where('users.passwordHash', 'is', null).where('users.disabledAt', 'is', null)
+    .where('users.role', '=', 'student')
+    .where('users.passwordHash', 'is', null).where('users.campusJoinedAt', 'is', null).where('users.disabledAt', 'is', null)
     .orderBy('users.id').execute()
   const tas = await db.selectFrom('users').select(['users.id as userId', 'users.email', 'users.name'])
-    .where('users.role', '=', 'ta').where('users.passwordHash', 'is', null).where('users.disabledAt', 'is', null)
+    .where('users.role', '=', 'ta')
+    .where('users.passwordHash', 'is', null).where('users.campusJoinedAt', 'is', null).where('users.disabledAt', 'is', null)
     .where('users.id', 'in', (eb) => eb.selectFrom('sectionTas').innerJoin('sections', 'sections.id', 'sectionTas.sectionId')
       .select('sectionTas.userId').where('sections.courseId', '=', courseId))
     .orderBy('users.id').execute()
@@ -29,7 +32,7 @@ async function peopleWithoutPassword(db: Db, courseId: number): Promise<Person[]
 }
 
 export async function openInvitationsOf(db: Db, courseId: number): Promise<OpenInvitations> {
-  const people = await peopleWithoutPassword(db, courseId)
+  const people = await peopleNotJoined(db, courseId)
   return { students: people.filter((p) => p.role === 'student').length, tas: people.filter((p) => p.role === 'ta').length }
 }
 
@@ -46,7 +49,7 @@ export async function resendOpenInvitations(
   return db.transaction().execute(async (trx) => {
     // One round at a time per course, so two copies of the same request cannot both pass the check below.
     await sql`select pg_advisory_xact_lock(hashtext(${`invitation-round:${ctx.course.id}`}))`.execute(trx)
-    const people = await peopleWithoutPassword(trx, ctx.course.id)
+    const people = await peopleNotJoined(trx, ctx.course.id)
     let sent = 0
     for (const person of people) {
       const key = `invitation-round:${ctx.course.id}:${round}:${person.userId}`
@@ -79,7 +82,7 @@ export async function inviteTa(
       .where('id', 'in', sectionIds).execute()
     const stranger = sectionIds.find((id) => !sections.some((s) => s.id === id))
     if (stranger !== undefined) invalid([{ field: 'sectionIds', message: `Section ${stranger} is not part of this course` }])
-    const user = await trx.selectFrom('users').select(['id', 'name', 'role', 'passwordHash', 'disabledAt'])
+    const user = await trx.selectFrom('users').select(['id', 'name', 'role', 'passwordHash', 'campusJoinedAt', 'disabledAt'])
       .where('email', '=', input.email).executeTakeFirst()
     if (user && user.role !== 'ta') {
       const kind = user.role === 'instructor' ? 'an instructor' : `a ${user.role}`
@@ -91,7 +94,7 @@ export async function inviteTa(
       .returning('id').executeTakeFirstOrThrow()).id
     await trx.insertInto('sectionTas').values(sectionIds.map((sectionId) => ({ sectionId, userId })))
       .onConflict((oc) => oc.doNothing()).execute()
-    const invited = !user || user.passwordHash === null
+    const invited = !user || !hasJoined(user)
     if (invited) await inviteToCourse(trx, ctx, { userId, email: input.email, name: user?.name ?? input.name }, { role: 'ta' })
     await audit(trx, actor, {
       action: 'course.invite-ta', entity: 'course', entityId: ctx.course.id,

@@ -1,6 +1,6 @@
 // Rosters: enrolments, hood stations and seats, roster files, invitations. Routes import from here.
 
-export { acceptInvitation, resendInvitation } from './invitation-commands'
+export { acceptInvitation, joinThroughCampus, resendInvitation } from './invitation-commands'
 export { findInvitation, invitationGone } from './invitations'
 export { inviteTa, openInvitationsOf, resendOpenInvitations } from './course-invitations'
 export { confirmedIdChanges, planRosterImport, rosterImportHistory, rosterPreviewRows, skippedRowsCsv } from './roster-import'

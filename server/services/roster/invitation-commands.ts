@@ -2,7 +2,7 @@ import { createError } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database } from '../../database/schema'
 import { audit, type Actor, type AuditActor } from '../../utils/audit'
-import { findInvitation, invitationGone } from './invitations'
+import { findInvitation, hasJoined, invitationGone } from './invitations'
 import { inviteToCourse } from './roster-import'
 
 // Invitation links after the first: sent again by an instructor, spent by the student.
@@ -18,13 +18,13 @@ export async function resendInvitation(db: Db, actor: Actor, me: { id: number, n
     .innerJoin('courseOwners', 'courseOwners.courseId', 'enrollments.courseId')
     .innerJoin('courses', 'courses.id', 'enrollments.courseId')
     .innerJoin('users', 'users.id', 'enrollments.userId')
-    .select(['users.id', 'users.email', 'users.name', 'users.passwordHash', 'users.disabledAt',
+    .select(['users.id', 'users.email', 'users.name', 'users.passwordHash', 'users.campusJoinedAt', 'users.disabledAt',
       'courses.id as courseId', 'courses.code', 'courses.title', 'courses.term', 'courses.timezone'])
     .where('enrollments.userId', '=', studentId).where('courseOwners.userId', '=', me.id).where('users.role', '=', 'student')
     .orderBy((eb) => eb.case().when('enrollments.status', '=', 'active').then(0).else(1).end())
     .orderBy('enrollments.createdAt', 'desc').executeTakeFirst()
   if (!found) throw createError({ statusCode: 404, statusMessage: 'Student not found' })
-  if (found.passwordHash) throw createError({ statusCode: 409, statusMessage: 'This student has already set a password' })
+  if (hasJoined(found)) throw createError({ statusCode: 409, statusMessage: 'This student has already joined' })
   if (found.disabledAt) throw createError({ statusCode: 409, statusMessage: 'This account is disabled' })
 
   const invitation = await db.transaction().execute(async (trx) => {
@@ -59,4 +59,22 @@ export async function acceptInvitation(db: Db, actor: AuditActor, token: string,
       { action: 'invitation.accept', entity: 'user', entityId: row.id, after: { invitationId: invitation.invitationId } })
     return row
   })
+}
+
+/**
+ * A campus sign-in of a linked account, in the sign-in's transaction: the person has joined
+ * (first time only), and their open invitations are spent, since the campus sign-in is how
+ * they accepted. One audit row when it spent any.
+ */
+export async function joinThroughCampus(db: Db, actor: AuditActor, userId: number) {
+  const now = new Date()
+  await db.updateTable('users').set({ campusJoinedAt: now }).where('id', '=', userId).where('campusJoinedAt', 'is', null).execute()
+  const spent = await db.updateTable('invitations').set({ usedAt: now })
+    .where('userId', '=', userId).where('usedAt', 'is', null).where('expiresAt', '>', now)
+    .returning('id').execute()
+  if (spent.length) {
+    await audit(db, actor, {
+      action: 'invitation.accept', entity: 'user', entityId: userId, after: { invitationIds: spent.map((i) => i.id), through: 'campus' },
+    })
+  }
 }

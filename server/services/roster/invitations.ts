@@ -138,12 +138,17 @@ export function invitationGone(status: 'used' | 'expired' | 'missing'): never {
   })
 }
 
-export type InvitationStateRow = { passwordSet: boolean, lastExpiresAt: Date | null, lastUsedAt: Date | null }
+/** A person has joined once they chose a password or signed in through the campus provider. */
+export function hasJoined(user: { passwordHash: string | null, campusJoinedAt: Date | null }): boolean {
+  return user.passwordHash !== null || user.campusJoinedAt !== null
+}
 
-/** accepted: a password is set; invited: an open link; expired: the latest link ran out. */
+export type InvitationStateRow = { joined: boolean, lastExpiresAt: Date | null, lastUsedAt: Date | null }
+
+/** accepted: the person has joined; invited: an open link; expired: the latest link ran out. */
 export function invitationStateOf(row: InvitationStateRow): { state: 'accepted' | 'invited' | 'expired' | 'none'
   expiresAt: string | null } {
-  if (row.passwordSet) return { state: 'accepted', expiresAt: null }
+  if (row.joined) return { state: 'accepted', expiresAt: null }
   if (!row.lastExpiresAt) return { state: 'none', expiresAt: null }
   if (!row.lastUsedAt && row.lastExpiresAt.getTime() > Date.now()) return { state: 'invited', expiresAt: row.lastExpiresAt.toISOString() }
   return { state: 'expired', expiresAt: row.lastExpiresAt.toISOString() }

@@ -172,11 +172,11 @@ export async function writeRosterRows(
   }
 }
 
-/** Existing accounts that never set a password and hold no open invitation. */
+/** Existing accounts that have not joined (no password, no campus sign-in) and hold no open invitation. */
 async function uninvitedAccounts(db: Db, userIds: number[]) {
   if (!userIds.length) return []
   return db.selectFrom('users').select(['id as userId', 'email', 'name'])
-    .where('id', 'in', userIds).where('passwordHash', 'is', null)
+    .where('id', 'in', userIds).where('passwordHash', 'is', null).where('campusJoinedAt', 'is', null)
     .where((eb) => eb.not(eb.exists(eb.selectFrom('invitations').select('invitations.id')
       .whereRef('invitations.userId', '=', 'users.id').where('invitations.usedAt', 'is', null)
       .where('invitations.expiresAt', '>', new Date()))))

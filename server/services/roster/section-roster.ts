@@ -6,7 +6,7 @@ import { findConflicts } from '#shared/utils/schedule'
 import type { RosterConflictView, RosterStudent, SectionRosterView } from '#shared/types/roster'
 import { requireSectionAccess } from '../../utils/access'
 import { useDb } from '../../utils/db'
-import { invitationStateOf } from './invitations'
+import { hasJoined, invitationStateOf } from './invitations'
 import { createError } from 'h3'
 
 // One section's roster: who is in it, where they sit, and the changes made to one student.
@@ -19,7 +19,7 @@ const byName = (a: { name: string, id: number }, b: { name: string, id: number }
 export async function loadSectionRoster(db: Db, section: Section): Promise<SectionRosterView> {
   const rows = await db.selectFrom('enrollments').innerJoin('users', 'users.id', 'enrollments.userId')
     .select(['enrollments.id', 'enrollments.userId', 'enrollments.status', 'enrollments.station', 'enrollments.seat',
-      'enrollments.withdrawnAt', 'enrollments.studentId', 'users.name', 'users.email', 'users.passwordHash'])
+      'enrollments.withdrawnAt', 'enrollments.studentId', 'users.name', 'users.email', 'users.passwordHash', 'users.campusJoinedAt'])
     .where('enrollments.sectionId', '=', section.id).execute()
   const userIds = [...new Set(rows.map((r) => r.userId))]
   const latest = userIds.length
@@ -41,7 +41,7 @@ export async function loadSectionRoster(db: Db, section: Section): Promise<Secti
       ? []
       : active.filter((o) => o.id !== r.id && o.station === r.station).sort((a, b) => (a.seat ?? 0) - (b.seat ?? 0)).map((o) => o.name),
     invitation: invitationStateOf({
-      passwordSet: r.passwordHash !== null,
+      joined: hasJoined(r),
       lastExpiresAt: invitationOf.get(r.userId)?.expiresAt ?? null,
       lastUsedAt: invitationOf.get(r.userId)?.usedAt ?? null,
     }),

@@ -2,7 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { closeTestDb, createUser, testDb } from '../../support/db'
 import { APP_URL, auditRows, instructorWithCourse, sectionOf, stubNitroGlobals } from '../arrange'
 import { inviteTa, resendOpenInvitations } from '../../../server/services/roster/course-invitations'
-import { invitationExpiry } from '../../../server/services/roster/invitations'
+import { hasJoined, invitationExpiry, invitationStateOf } from '../../../server/services/roster/invitations'
+import { joinThroughCampus } from '../../../server/services/roster/invitation-commands'
 import { zonedInstant } from '#shared/utils/dates'
 
 beforeAll(stubNitroGlobals)
@@ -60,5 +61,23 @@ describe('course invitations', () => {
       .where('dedupeKey', 'like', `invitation-round:${course.id}:%:${userId}`).execute()
     expect(mails).toHaveLength(2)
     expect(await auditRows('invitation.resend-all', course.id)).toHaveLength(2)
+  })
+
+  it('someone who joined through the campus sign-in, with no password, is no longer invited, resent or re-invited', async () => {
+    const { actor, ctx, course, section } = await world()
+    const email = `ta4-${course.id}@service.example`
+    const { userId } = await inviteTa(testDb(), actor, ctx, { email, name: 'D', sectionIds: [section.id] })
+    await testDb().transaction().execute((trx) => joinThroughCampus(trx, { id: userId, ip: '127.0.0.1' }, userId))
+    const after = await testDb().selectFrom('users').select(['passwordHash', 'campusJoinedAt']).where('id', '=', userId).executeTakeFirstOrThrow()
+    expect(after.passwordHash).toBeNull()
+    expect(after.campusJoinedAt).toBeInstanceOf(Date)
+    const open = await testDb().selectFrom('invitations').select('id').where('userId', '=', userId).where('usedAt', 'is', null).execute()
+    expect(open).toEqual([])
+    expect(await resendOpenInvitations(testDb(), actor, ctx, 'round-campus')).toEqual({ sent: 0, alreadySent: 0 })
+    // Put on another section: staffed, but not invited again.
+    const other = await sectionOf(course.id, 'L02')
+    expect((await inviteTa(testDb(), actor, ctx, { email, name: 'D', sectionIds: [other.id] })).invited).toBe(false)
+    const roster = invitationStateOf({ joined: hasJoined(after), lastExpiresAt: new Date(Date.now() + 1000), lastUsedAt: new Date() })
+    expect(roster.state).toBe('accepted')
   })
 })
