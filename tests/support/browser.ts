@@ -27,8 +27,11 @@ export interface Tab {
   problems: string[]
 }
 
-export async function openTab(browser: Browser, viewport = { width: 1280, height: 860 }): Promise<Tab> {
-  const context = await browser.newContext({ viewport, baseURL: inject('baseUrl'), reducedMotion: 'reduce' })
+/** `timezoneId`: the zone the browser's clock is in (the machine's when not given). */
+export async function openTab(
+  browser: Browser, viewport = { width: 1280, height: 860 }, options: { timezoneId?: string } = {},
+): Promise<Tab> {
+  const context = await browser.newContext({ viewport, baseURL: inject('baseUrl'), reducedMotion: 'reduce', ...options })
   const page = await context.newPage()
   // Every full page load waits for the app to hydrate (plugins/hydrated.client.ts), so a test's
   // first click reaches Vue's handler instead of a page still starting up.
