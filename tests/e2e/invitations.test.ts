@@ -46,7 +46,11 @@ describe('invitations', () => {
     const visitor = new Client()
     const shown = await visitor.get(`/api/invitations/${token}`)
     expect(shown.status).toBe(200)
-    expect(shown.body).toEqual({ name: 'Zoë <Quill> & Co', email, expiresAt: stored[0]!.expiresAt.toISOString() })
+    // Password sign-in is on here, so the page asks for a password (campus-refusals.test.ts: off).
+    expect(shown.body).toEqual({
+      name: 'Zoë <Quill> & Co', email, expiresAt: stored[0]!.expiresAt.toISOString(),
+      signIn: 'password', campusLabel: 'Sign in with your campus account',
+    })
 
     expect((await visitor.post('/api/invitations/accept', { token, password: 'short' })).status).toBe(400)
     const common = await visitor.post('/api/invitations/accept', { token, password: 'password1234' })
