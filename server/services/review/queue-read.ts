@@ -1,4 +1,4 @@
-import { sql, type Kysely } from 'kysely'
+import { CompiledQuery, sql, type Kysely, type RawBuilder } from 'kysely'
 import type { Database, StoredFlag, SubmissionStatus } from '../../database/schema'
 import { latestUnitVersions } from '../results/latest-versions'
 
@@ -45,8 +45,39 @@ export function latestUnitIdsOf(db: Kysely<Database>, practicalId: number, secti
   return db.selectFrom('submissions').distinctOn('unitKey').select(['id', 'sectionId'])
     .where('practicalId', '=', practicalId)
     .$if(sections !== null, (query) => query.where('unitKey', 'in', (eb) => eb.selectFrom('submissions').select('unitKey')
-      .where('practicalId', '=', practicalId).where('sectionId', 'in', sections!.length ? sections! : [-1])))
+      .where('practicalId', '=', practicalId).where(sql<boolean>`section_id = ${sectionsIn(sections!)}`)))
     .orderBy('unitKey').orderBy('version', 'desc')
+}
+
+// The queue's statements are built by Kysely once per shape (every section, or some) with
+// placeholders where a request's values go, and kept compiled: building and compiling them took
+// a good part of a small queue's time. Each request puts its values in the placeholders' places.
+const PRACTICAL = Symbol('practical')
+const SECTIONS = Symbol('sections')
+const SESSION_SECTIONS = Symbol('session sections')
+const compiled = new Map<string, CompiledQuery>()
+
+interface Placeholders { practicalId: number, sections: number[] | null, sessionSectionIds: number[] }
+
+async function executeCompiled<R>(
+  db: Kysely<Database>, name: string, values: Placeholders, build: (placeholders: Placeholders) => RawBuilder<R>,
+): Promise<R> {
+  const key = `${name}:${values.sections === null ? 'every section' : 'some sections'}`
+  let query = compiled.get(key)
+  if (!query) {
+    // Typed as what they stand for: the builders only pass them on as parameters.
+    const placeholders = {
+      practicalId: PRACTICAL, sections: values.sections === null ? null : SECTIONS, sessionSectionIds: SESSION_SECTIONS,
+    } as unknown as Placeholders
+    query = build(placeholders).compile(db)
+    compiled.set(key, query)
+  }
+  const byPlaceholder = new Map<unknown, unknown>([
+    [PRACTICAL, values.practicalId], [SECTIONS, values.sections], [SESSION_SECTIONS, values.sessionSectionIds],
+  ])
+  const parameters = query.parameters.map((p) => (byPlaceholder.has(p) ? byPlaceholder.get(p) : p))
+  const { rows: [row] } = await db.executeQuery<R>(CompiledQuery.raw(query.sql, parameters))
+  return row!
 }
 
 /** Numbers in JSON arrive as numbers; NaN or Infinity stored in a numeric arrives as text. */
@@ -60,7 +91,7 @@ export interface QueueRead {
 
 interface QueueScope { practicalId: number, sections: number[] | null, sessionSectionIds: number[] }
 
-const sectionsIn = (sections: number[]) => sql`any(${sections.length ? sections : [-1]}::int[])`
+const sectionsIn = (sections: number[]) => sql`any(${sections}::int[])`
 
 /** Whether the latest version `l` (latestUnitIdsOf) is in the caller's sections. */
 export const latestInScope = (sections: number[] | null) => (sections === null ? sql`true` : sql`l.section_id = ${sectionsIn(sections)}`)
@@ -97,7 +128,8 @@ export const acceptanceJson = (withScores: boolean) => sql`(select
 export async function readReviewQueue(
   db: Kysely<Database>, { practicalId, sections, sessionSectionIds }: QueueScope,
 ): Promise<QueueRead> {
-  const { rows: [row] } = await sql<{ rows: QueueSqlRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }>`
+  type Row = { rows: QueueSqlRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }
+  const row = await executeCompiled(db, 'queue', { practicalId, sections, sessionSectionIds }, (p) => sql<Row>`
     select
       coalesce((select json_agg(json_build_object(
           'id', s.id, 'sectionId', s.section_id, 'sectionCode', c.code, 'unitKey', s.unit_key, 'version', s.version,
@@ -105,18 +137,18 @@ export async function readReviewQueue(
           'factorSecondary', s.factor_secondary, 'factorTertiary', s.factor_tertiary,
           'excludedAt', s.excluded_at, 'exclusionReason', s.exclusion_reason, 'excludedByName', x.name,
           'members', ${membersJson}, 'acceptance', ${acceptanceJson(false)}))
-        from (${latestUnitIdsOf(db, practicalId, sections)}) l
+        from (${latestUnitIdsOf(db, p.practicalId, p.sections)}) l
         join submissions s on s.id = l.id
         join sections c on c.id = s.section_id
         left join users x on x.id = s.excluded_by
-        where ${latestInScope(sections)}), '[]') as rows,
-      ${sectionsJson(sessionSectionIds)} as sections,
-      ${classValuesJson(db, practicalId)} as class_values`.execute(db)
-  for (const r of row!.rows) {
+        where ${latestInScope(p.sections)}), '[]') as rows,
+      ${sectionsJson(p.sessionSectionIds)} as sections,
+      ${classValuesJson(db, p.practicalId)} as class_values`)
+  for (const r of row.rows) {
     r.factorSecondary = numberOrNull(r.factorSecondary)
     r.factorTertiary = numberOrNull(r.factorTertiary)
   }
-  return { rows: row!.rows, sections: row!.sections, classValues: classValuesOf(row!.classValues) }
+  return { rows: row.rows, sections: row.sections, classValues: classValuesOf(row.classValues) }
 }
 
 /** What ordering and counting the queue reads of each row: no people, excluder or reviews. */
@@ -132,13 +164,14 @@ export interface QueueOrderRow {
 export async function readReviewQueueOrder(
   db: Kysely<Database>, { practicalId, sections, sessionSectionIds }: QueueScope,
 ): Promise<{ rows: QueueOrderRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }> {
-  const { rows: [row] } = await sql<{ rows: QueueOrderRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }>`
+  type Row = { rows: QueueOrderRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }
+  const row = await executeCompiled(db, 'queue order', { practicalId, sections, sessionSectionIds }, (p) => sql<Row>`
     select
       coalesce((select json_agg(json_build_object('id', s.id, 'status', s.status, 'flags', s.flags, 'createdAt', s.created_at,
           'excluded', s.excluded_at is not null))
-        from (${latestUnitIdsOf(db, practicalId, sections)}) l join submissions s on s.id = l.id
-        where ${latestInScope(sections)}), '[]') as rows,
-      ${sectionsJson(sessionSectionIds)} as sections,
-      ${classValuesJson(db, practicalId)} as class_values`.execute(db)
-  return { rows: row!.rows, sections: row!.sections, classValues: classValuesOf(row!.classValues) }
+        from (${latestUnitIdsOf(db, p.practicalId, p.sections)}) l join submissions s on s.id = l.id
+        where ${latestInScope(p.sections)}), '[]') as rows,
+      ${sectionsJson(p.sessionSectionIds)} as sections,
+      ${classValuesJson(db, p.practicalId)} as class_values`)
+  return { rows: row.rows, sections: row.sections, classValues: classValuesOf(row.classValues) }
 }
