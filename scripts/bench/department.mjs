@@ -81,12 +81,13 @@ const ACCOUNTS = {
   coordinator: 'coordinator@larkspur.example',
 }
 
-/** p50 and p95 of `rounds` sequential requests per route, after two warm-up requests. */
-export async function timeRoutes(world, t, rounds) {
+/** p50 and p95 of `rounds` sequential requests per route, after two warm-up requests; `only` picks routes by "role name". */
+export async function timeRoutes(world, t, rounds, only = null) {
   const cookies = {}
   for (const [role, email] of Object.entries(ACCOUNTS)) cookies[role] = await signIn(world.baseUrl, email)
   const out = new Map()
   for (const [role, name, path] of routesOf(t)) {
+    if (only && !only.test(`${role} ${name}`)) continue
     const times = []
     // Warm-up: a server just started may still be starting its queue (503 for a moment).
     for (let i = 0; i < 60; i++) {

@@ -5,7 +5,7 @@ import type { AccuracySuggestionView, ReviewView, SubmissionDetail, VersionDiff 
 import { defaultResubmitDue } from '#shared/utils/resubmit'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
 import { keyFactorValue } from '#shared/utils/key-factor'
-import { buildReviewQueue, flagsWithOutlier, nextPendingAfter, queuePracticalOf, unitViewsOf } from './queue'
+import { flagsWithOutlier, nextPendingAfter, queuePracticalOf, reviewQueueOrder, unitViewsOf } from './queue'
 import { reviewSectionIds } from './scope'
 import { diffVersions } from './version-diff'
 import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
@@ -119,7 +119,8 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
   const key = chemistry.keyFactor
   const [versions, queue, units, { names, section, nameOf }] = await Promise.all([
     unitVersions(scope, submission),
-    buildReviewQueue(scope, key),
+    // Where the queue goes next: its order and counts only, not its people and reviews.
+    reviewQueueOrder(scope, key),
     unitViewsOf([submission]),
     detailFacts(scope, submission),
   ])

@@ -16,8 +16,8 @@ import { classOutlierReport, rememberedClassFigures } from '../results/class-sta
 import { latestUnitVersions } from '../results/latest-versions'
 import { requireReviewerOf, reviewSectionIds } from './scope'
 import { practicalChemistry } from '../submissions/practical-chemistry'
+import { readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow } from './queue-read'
 import { useDb } from '../../utils/db'
-import { sql } from 'kysely'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -32,10 +32,18 @@ export interface ClassOutliers {
 export async function classOutliersFor(scope: ReviewerScope, keyFactor: ReviewFactorKey): Promise<ClassOutliers> {
   // Only what the test reads: no mole percents to parse.
   const rows = await latestUnitVersions(useDb(), [scope.practical.id])
-    .select(['s.id as submissionId', 's.factorSecondary', 's.factorTertiary', 's.excludedAt']).execute()
-  const values = rows.filter((r) => r.excludedAt === null).flatMap((r) => {
-    const value = keyFactorValue(r, keyFactor)
-    return value === null || !Number.isFinite(value) ? [] : [{ submissionId: r.submissionId, value }]
+    .select(['s.id', 's.factorSecondary', 's.factorTertiary', 's.excludedAt']).execute()
+  const values = rows.filter((r) => r.excludedAt === null).map((r): ClassValueRow => [r.id, r.factorSecondary, r.factorTertiary])
+  return classOutliersOf(scope, keyFactor, values)
+}
+
+/** The outlier test over class values already read (readReviewQueue reads them with the rows). */
+export async function classOutliersOf(
+  scope: ReviewerScope, keyFactor: ReviewFactorKey, classValues: ClassValueRow[],
+): Promise<ClassOutliers> {
+  const values = classValues.flatMap(([submissionId, factorSecondary, factorTertiary]) => {
+    const value = keyFactorValue({ factorSecondary, factorTertiary }, keyFactor)
+    return value === null || !Number.isFinite(value) ? [] : [{ submissionId, value }]
   })
   const settings = { test: scope.course.outlierTest, alpha: scope.course.outlierAlpha, zscoreLimit: scope.course.zscoreLimit }
   // Every home page and review list runs the test on each practical: the report depends only on
@@ -96,14 +104,16 @@ export function queueBucket(row: { status: SubmissionStatus, attention: number }
 }
 
 /** What needs attention first; within a group, the oldest submission first. */
-export function compareQueueRows(a: QueueRow, b: QueueRow): number {
-  return queueBucket(a) - queueBucket(b) || a.submittedAt.localeCompare(b.submittedAt) || a.id - b.id
+export function compareQueueRows(
+  a: Pick<QueueRow, 'id' | 'status' | 'attention' | 'submittedAt'>, b: Pick<QueueRow, 'id' | 'status' | 'attention' | 'submittedAt'>,
+): number {
+  // submittedAt is always toISOString()'s fixed format: plain string order is time order, and
+  // costs far less than a locale comparison over thousands of rows.
+  return queueBucket(a) - queueBucket(b) || (a.submittedAt < b.submittedAt ? -1 : a.submittedAt > b.submittedAt ? 1 : 0) || a.id - b.id
 }
 
-type MemberRow = { id: number, name: string, email: string, station: number | null }
-
 /** A work unit as the queue shows it: its people (name order, once each) and their station. */
-function unitViewOf(row: { unitKey: string }, members: MemberRow[]): UnitView {
+export function unitViewOf(row: { unitKey: string }, members: MemberRow[]): UnitView {
   const people: UnitMember[] = [...new Map(members.map((m) => [m.id, { id: m.id, name: m.name, email: m.email }])).values()]
   return {
     key: row.unitKey,
@@ -129,48 +139,32 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
   return result
 }
 
-/** The practical's chemistry and its review queue, as the queue page, the grade sheet and bulk accept read them. */
-export async function reviewQueueOf(scope: ReviewerScope) {
-  const chemistry = await practicalChemistry(scope.practical)
-  return { chemistry, ...await buildReviewQueue(scope, chemistry.keyFactor) }
-}
-
 /**
- * Every work unit's latest version in the caller's sections, flagged and sorted. One query reads
- * the versions with their people (as unitViewsOf) and whether their latest acceptance left
- * criteria for a later pass (its total is still null).
+ * The practical's chemistry and its review queue, as the queue page, the grade sheet and bulk
+ * accept read them: every work unit's latest version in the caller's sections, flagged and
+ * sorted, with the sections the caller reviews. The chemistry and the one queue statement
+ * (readReviewQueue) run side by side.
  */
-export async function buildReviewQueue(
-  scope: ReviewerScope, keyFactor: ReviewFactorKey,
-): Promise<{ rows: QueueRow[], outliers: ClassOutliers }> {
-  const db = useDb()
-  const sections = reviewSectionIds(scope)
-  let query = db.selectFrom((eb) => eb.selectFrom('submissions').distinctOn('unitKey').selectAll()
-    .where('practicalId', '=', scope.practical.id).orderBy('unitKey').orderBy('version', 'desc').as('s'))
-    .innerJoin('sections', 'sections.id', 's.sectionId')
-    .leftJoin('users as excluder', 'excluder.id', 's.excludedBy')
-    .select(['s.id', 's.sectionId', 'sections.code as sectionCode', 's.unitKey', 's.version', 's.createdAt', 's.late', 's.status',
-      's.flags',
-      's.factorSecondary', 's.factorTertiary', 's.excludedAt', 's.exclusionReason', 'excluder.name as excludedByName',
-      sql<MemberRow[]>`coalesce((select json_agg(json_build_object('id', u.id, 'name', u.name, 'email', u.email, 'station', e.station)
-          order by u.name, u.id)
-        from submission_members sm join users u on u.id = sm.user_id
-        left join enrollments e on e.user_id = sm.user_id and e.section_id = s.section_id
-        where sm.submission_id = s.id), '[]')`.as('members'),
-      sql<boolean | null>`(select r.total is null from reviews r where r.submission_id = s.id and r.decision = 'accept'
-        order by r.created_at desc, r.id desc limit 1)`.as('acceptedWithoutTotal'),
-    ])
-  if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
-  const [latest, outliers] = await Promise.all([query.execute(), classOutliersFor(scope, keyFactor)])
-  const rows = latest.map((s): QueueRow => {
-    const { flags, attention } = flagsWithOutlier(s.flags as StoredFlag[], s.id, outliers, keyFactor)
-    const excluded = s.excludedAt ? { at: s.excludedAt.toISOString(), by: s.excludedByName, reason: s.exclusionReason ?? '' } : null
+export async function reviewQueueOf(scope: ReviewerScope) {
+  const [chemistry, read] = await Promise.all([
+    practicalChemistry(scope.practical),
+    readReviewQueue(useDb(), {
+      practicalId: scope.practical.id, sections: reviewSectionIds(scope), sessionSectionIds: scope.sessionSectionIds,
+    }),
+  ])
+  const keyFactor = chemistry.keyFactor
+  const outliers = await classOutliersOf(scope, keyFactor, read.classValues)
+  const rows = read.rows.map((s): QueueRow => {
+    const { flags, attention } = flagsWithOutlier(s.flags, s.id, outliers, keyFactor)
+    const excluded = s.excludedAt
+      ? { at: new Date(s.excludedAt).toISOString(), by: s.excludedByName, reason: s.exclusionReason ?? '' }
+      : null
     return {
       id: s.id,
       unit: unitViewOf(s, s.members),
       section: { id: s.sectionId, code: s.sectionCode },
       version: s.version,
-      submittedAt: s.createdAt.toISOString(),
+      submittedAt: new Date(s.createdAt).toISOString(),
       late: s.late,
       status: s.status,
       keyFactor: keyFactorValue(s, keyFactor),
@@ -178,10 +172,10 @@ export async function buildReviewQueue(
       attention,
       excluded,
       clean: s.status === 'pending' && attention === 0 && !excluded,
-      toMark: s.status === 'accepted' && s.acceptedWithoutTotal === true,
+      toMark: s.status === 'accepted' && s.acceptance !== null && s.acceptance.total === null,
     }
   })
-  return { rows: rows.sort(compareQueueRows), outliers }
+  return { chemistry, rows: rows.sort(compareQueueRows), outliers, sections: read.sections }
 }
 
 export function countQueueRows(rows: Array<Pick<QueueRow, 'status' | 'attention'> & { excluded: unknown }>): QueueCounts {
@@ -196,7 +190,7 @@ export function countQueueRows(rows: Array<Pick<QueueRow, 'status' | 'attention'
 }
 
 /** The first pending row after `currentId` in queue order (wrapping round), never the current one. */
-export function nextPendingAfter(rows: QueueRow[], currentId: number): number | null {
+export function nextPendingAfter(rows: Array<Pick<QueueRow, 'id' | 'status'>>, currentId: number): number | null {
   const pending = rows.filter((r) => r.status === 'pending')
   const at = rows.findIndex((r) => r.id === currentId)
   const after = pending.find((r) => r.id !== currentId && rows.indexOf(r) > at)
@@ -219,13 +213,6 @@ export function queuePracticalOf(scope: ReviewerScope, chemistry: Pick<Practical
   }
 }
 
-/** Sections running the practical that the caller reviews, for the filter. */
-export async function reviewSectionsOf(scope: ReviewerScope): Promise<Array<{ id: number, code: string }>> {
-  const ids = scope.sessionSectionIds
-  if (!ids.length) return []
-  return useDb().selectFrom('sections').select(['id', 'code']).where('id', 'in', ids).orderBy('code').execute()
-}
-
 /** The practicals a reviewer works on (owned courses; a TA's sections), with their queue counts. */
 export async function reviewPracticalItems(event: H3Event, me: SessionUser): Promise<ReviewPracticalItem[]> {
   const db = useDb()
@@ -238,35 +225,44 @@ export async function reviewPracticalItems(event: H3Event, me: SessionUser): Pro
   // The practicals are independent: read side by side rather than one after another.
   return Promise.all(candidates.map(async ({ id }): Promise<ReviewPracticalItem> => {
     const scope = await requireReviewerOf(event, id)
-    const [counts, sections] = await Promise.all([reviewQueueCounts(scope), reviewSectionsOf(scope)])
+    const { rows, sections } = await reviewQueueOrder(scope)
     return {
       id,
       title: scope.practical.title,
       course: { id: scope.course.id, code: scope.course.code, title: scope.course.title, term: scope.course.term },
       sections: sections.map((s) => s.code),
-      counts,
+      counts: countQueueRows(rows),
     }
   }))
 }
 
 /**
- * The queue's counts without its rows: the same latest versions and flags as buildReviewQueue,
- * but only the columns a count reads (no people, excluder or review look-ups per unit).
+ * The queue's rows as far as counting and ordering go (id, status, attention with the outlier
+ * test, when, excluded), sorted as the queue is, with the reviewer's sections: what the counts,
+ * the home pages' cards and a submission's "next pending" need, without people or reviews. A
+ * caller that has the practical's key factor passes it, sparing the chemistry's read.
  */
-export async function reviewQueueCounts(scope: ReviewerScope): Promise<QueueCounts> {
-  const { keyFactor } = await practicalChemistry(scope.practical)
-  const sections = reviewSectionIds(scope)
-  let query = useDb().selectFrom((eb) => eb.selectFrom('submissions').distinctOn('unitKey')
-    .select(['id', 'sectionId', 'status', 'flags', 'excludedAt'])
-    .where('practicalId', '=', scope.practical.id).orderBy('unitKey').orderBy('version', 'desc').as('s'))
-    .select(['s.id', 's.status', 's.flags', 's.excludedAt'])
-  if (sections) query = query.where('s.sectionId', 'in', sections.length ? sections : [-1])
-  const [latest, outliers] = await Promise.all([query.execute(), classOutliersFor(scope, keyFactor)])
-  return countQueueRows(latest.map((s) => ({
+export async function reviewQueueOrder(scope: ReviewerScope, knownKeyFactor?: ReviewFactorKey) {
+  const [keyFactor, read] = await Promise.all([
+    knownKeyFactor ?? practicalChemistry(scope.practical).then((c) => c.keyFactor),
+    readReviewQueueOrder(useDb(), {
+      practicalId: scope.practical.id, sections: reviewSectionIds(scope), sessionSectionIds: scope.sessionSectionIds,
+    }),
+  ])
+  const outliers = await classOutliersOf(scope, keyFactor, read.classValues)
+  const rows = read.rows.map((s) => ({
+    id: s.id,
     status: s.status,
-    attention: flagsWithOutlier(s.flags as StoredFlag[], s.id, outliers, keyFactor).attention,
-    excluded: s.excludedAt,
-  })))
+    attention: flagsWithOutlier(s.flags, s.id, outliers, keyFactor).attention,
+    submittedAt: new Date(s.createdAt).toISOString(),
+    excluded: s.excluded,
+  }))
+  return { rows: rows.sort(compareQueueRows), sections: read.sections, outliers }
+}
+
+/** The queue's counts without its rows (reviewQueueOrder). */
+export async function reviewQueueCounts(scope: ReviewerScope): Promise<QueueCounts> {
+  return countQueueRows((await reviewQueueOrder(scope)).rows)
 }
 
 type ParsedQueueQuery = z.output<typeof queueQuerySchema>
@@ -287,12 +283,12 @@ function flagCodeCounts(rows: QueueRow[]): QueueResponse['flagCodes'] {
 
 /** The queue page of one practical: counts and flag codes over the chosen section, rows filtered. */
 export async function reviewQueueView(scope: ReviewerScope, query: ParsedQueueQuery): Promise<QueueResponse> {
-  const { chemistry, rows, outliers } = await reviewQueueOf(scope)
+  const { chemistry, rows, outliers, sections } = await reviewQueueOf(scope)
   const inSection = query.section ? rows.filter((r) => r.section.id === query.section) : rows
   return {
     practical: queuePracticalOf(scope, chemistry),
     role: scope.role,
-    sections: await reviewSectionsOf(scope),
+    sections,
     rows: inSection.filter((r) => matchesQueueQuery(r, query)),
     counts: countQueueRows(inSection),
     flagCodes: flagCodeCounts(inSection),
