@@ -122,6 +122,9 @@ function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: bo
 
 function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
   return peaks.filter((p, i) => {
+    // The usual peak, checked without building the message that names it.
+    if (p && typeof p.area === 'number' && typeof p.retentionTime === 'number' && p.area >= 0 && p.retentionTime >= 0
+      && p.area <= MAX_PEAK_AREA && p.retentionTime <= MAX_RETENTION_MINUTES) return true
     const where = p.row ? `row ${p.row}` : `peak ${i + 1}`
     if (!Number.isFinite(p?.retentionTime) || !Number.isFinite(p?.area)) {
       flags.push({

@@ -2,8 +2,9 @@
 import type { TimeUnit } from './header-names'
 import {
   type Mark, type CellRead, type ColumnStyle, type ReadProblem,
-  analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness,
+  decideStyles, excerpt, ungroupedWitness,
 } from './number-text'
+import { readScanned, scanColumn } from './plain-number'
 import { type ColumnMap, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
 import { type Delimiter, splitLines, utf8Length } from './table-text'
 import { MAX_UPLOAD_BYTES } from '../limits'
@@ -140,10 +141,10 @@ interface Column {
  */
 function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[]): Column[] {
   const cells = specs.map((s) => rows.map((r) => r.cells[s.index] ?? ''))
-  const analyses = cells.map((column) => column.map(analyseCell))
-  const styles = decideStyles(analyses.map(tallyColumn), 0)
+  const scanned = cells.map(scanColumn)
+  const styles = decideStyles(scanned.map((c) => c.tally), 0)
   return specs.map((spec, k) => {
-    const reads = analyses[k]!.map((a) => readCell(a, styles[k]!))
+    const reads = readScanned(scanned[k]!, styles[k]!)
     const regrouped = new Map<number, string>()
     const witness = ungroupedWitness(reads)
     reads.forEach((r, i) => {

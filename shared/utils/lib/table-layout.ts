@@ -2,9 +2,10 @@
 // around them (totals, report furniture, page breaks that reprint the header).
 import { type ColumnKind, type TimeUnit, classifyHeader, timeUnitOf } from './header-names'
 import { excerpt, looksNumeric } from './number-text'
+import { fastPaths } from './plain-number'
 import {
   type Cell, type Delimiter,
-  SEPARATOR_LINE, alignCells, furnitureOf, isUnitCell, mergeHeaderTokens, splitCells, splitWideGaps,
+  SEPARATOR_LINE, alignCells, furnitureOf, isUnitCell, mergeHeaderTokens, splitCells, splitTexts, splitWideGaps,
 } from './table-text'
 
 export interface HeaderCandidate {
@@ -58,12 +59,13 @@ export function findHeader(lines: string[], wanted: ColumnKind[] = ['rt', 'area'
   return partial
 }
 
+const LETTER = /\p{L}/u
 const TOTALS = /^(grand\s+)?(totals?|totale|totaal|totaux|sum|suma|summe|somme|soma|gesamt|insgesamt|razem)\b|^[σΣ∑]/i
 
 function rowCells(line: string, header: HeaderCandidate): (string | undefined)[] | null {
+  if (header.delimiter !== 'whitespace') return splitTexts(line, header.delimiter)
   const cells = splitCells(line, header.delimiter)
-  if (header.delimiter !== 'whitespace' || cells.length === header.cells.length) return cells.map((c) => c.text)
-  return alignCells(cells, header.cells)
+  return cells.length === header.cells.length ? cells.map((c) => c.text) : alignCells(cells, header.cells)
 }
 
 const CLOCK_UNIT = /^(h+:)?m+:s+$/i
@@ -120,13 +122,16 @@ export function collectRows(
     const line = raw.includes('\f') ? raw.replace(/\f/g, ' ') : raw
     if (line !== raw) pageBreak = true
     if (line.trim() === '' || SEPARATOR_LINE.test(line)) continue
-    const furniture = furnitureOf(line)
+    // Furniture and totals start with a word (or a sum sign): a row of bare numbers needs neither test.
+    const words = LETTER.test(line) || !fastPaths.enabled
+    const totalsPossible = words || line.includes('\u2211')
+    const furniture = words ? furnitureOf(line) : null
     if (furniture && furniture !== 'label') {
       if (furniture === 'page') pageBreak = true
       skip(i + 1, line)
       continue
     }
-    if (TOTALS.test(line.trim())) {
+    if (totalsPossible && TOTALS.test(line.trim())) {
       warnings.push(`Row ${i + 1} looks like a totals row and was skipped.`)
       continue
     }
@@ -160,7 +165,7 @@ export function collectRows(
     }
     reprinted = false
     const filled = cells.filter((c): c is string => c !== undefined && c.trim() !== '')
-    if (filled.some((c) => TOTALS.test(c.trim()))) {
+    if (totalsPossible && filled.some((c) => TOTALS.test(c.trim()))) {
       warnings.push(`Row ${i + 1} looks like a totals row and was skipped.`)
       continue
     }

@@ -1,11 +1,12 @@
 // Raw detector traces (time, signal) as text, and telling a trace from a peak table.
 import { type TimeUnit, classifyHeader, timeUnitOf } from './header-names'
-import { type ColumnStyle, type ReadProblem, decideStyles, excerpt, looksNumeric, readCell, tallyColumn } from './number-text'
+import { type ColumnStyle, type ReadProblem, decideStyles, excerpt, looksNumeric, readCell } from './number-text'
+import { readPlain, tallyCells } from './plain-number'
 import {
   type RowError, type TableMeta, type PeakTableOptions,
   MAX_PEAK_AREA, MAX_RETENTION_MINUTES, chooseTimeUnit, describeProblem, findHeader, toMinutes,
 } from './peak-table'
-import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, utf8Length } from './table-text'
+import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, splitTexts, utf8Length } from './table-text'
 
 export interface TraceOptions {
   timeUnit?: PeakTableOptions['timeUnit']
@@ -67,6 +68,40 @@ function headerAbove(lines: string[], start: number, delimiter: Delimiter) {
   return null
 }
 
+/** One filled cell that is not a number: a label or a note between the rows. */
+function loneText(cells: string[]): boolean {
+  let filled = -1
+  for (let k = 0; k < cells.length; k++) {
+    if (cells[k] === '') continue
+    if (filled >= 0) return false
+    filled = k
+  }
+  return filled >= 0 && !looksNumeric(cells[filled]!)
+}
+
+/** A row's time and signal (plain decimals straight away, anything else through readCell), or the row's error. */
+function readPoint(
+  row: number, tRaw: string, timeStyle: ColumnStyle, yRaw: string, signalStyle: ColumnStyle,
+): { t: number, y: number } | RowError {
+  const tPlain = readPlain(tRaw, timeStyle)
+  const yPlain = readPlain(yRaw, signalStyle)
+  if (tPlain !== undefined && yPlain !== undefined) return { t: tPlain, y: yPlain }
+  const t = tPlain === undefined ? readCell(tRaw, timeStyle) : { value: tPlain }
+  const y = yPlain === undefined ? readCell(yRaw, signalStyle) : { value: yPlain }
+  if (t === null || y === null) return { row, code: 'non-numeric', message: `Row ${row}: the time and signal must both be numbers.` }
+  if ('problem' in t || 'problem' in y) {
+    const [what, raw, problem] = 'problem' in t
+      ? ['time', tRaw, t.problem] as const
+      : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
+    return {
+      row,
+      code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric',
+      message: `Row ${row}: ${describeProblem(what, raw, problem)}.`,
+    }
+  }
+  return { t: t.value, y: y.value }
+}
+
 /** Reads a two-column (or wider) time/signal trace; tolerates preambles, BOM, decimal commas and footers. */
 export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrace {
   const warnings: string[] = []
@@ -89,11 +124,11 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   const timeSample: string[] = []
   const signalSample: string[] = []
   for (let i = start.index; i < lines.length && timeSample.length < STYLE_SAMPLE; i++) {
-    const cells = splitCells(lines[i]!, start.delimiter)
-    timeSample.push(cells[timeIdx]?.text ?? '')
-    signalSample.push(cells[signalIdx]?.text ?? '')
+    const cells = splitTexts(lines[i]!, start.delimiter)
+    timeSample.push(cells[timeIdx] ?? '')
+    signalSample.push(cells[signalIdx] ?? '')
   }
-  const [timeStyle, signalStyle] = decideStyles([tallyColumn(timeSample), tallyColumn(signalSample)], 0) as [ColumnStyle, ColumnStyle]
+  const [timeStyle, signalStyle] = decideStyles([tallyCells(timeSample), tallyCells(signalSample)], 0) as [ColumnStyle, ColumnStyle]
   const decimalMark = timeStyle.decimal
   const maxPoints = options.maxPoints ?? MAX_TRACE_POINTS
   const time: number[] = []
@@ -102,32 +137,19 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   for (let i = start.index; i < lines.length && errors.length < MAX_ERRORS; i++) {
     const line = lines[i]!
     if (line.trim() === '') continue
-    const cells = splitCells(line, start.delimiter)
-    const filled = cells.filter((c) => c.text !== '')
-    if (filled.length === 1 && !looksNumeric(filled[0]!.text)) {
+    const cells = splitTexts(line, start.delimiter)
+    if (loneText(cells)) {
       warnings.push(`Row ${i + 1} is not part of the trace and was skipped.`)
       continue
     }
-    const tRaw = cells[timeIdx]?.text ?? ''
-    const yRaw = cells[signalIdx]?.text ?? ''
-    const t = readCell(tRaw, timeStyle)
-    const y = readCell(yRaw, signalStyle)
-    if (t === null || y === null) {
-      errors.push({ row: i + 1, code: 'non-numeric', message: `Row ${i + 1}: the time and signal must both be numbers.` })
+    const tRaw = cells[timeIdx] ?? ''
+    const yRaw = cells[signalIdx] ?? ''
+    const point = readPoint(i + 1, tRaw, timeStyle, yRaw, signalStyle)
+    if ('message' in point) {
+      errors.push(point)
       continue
     }
-    if ('problem' in t || 'problem' in y) {
-      const [what, raw, problem] = 'problem' in t
-        ? ['time', tRaw, t.problem] as const
-        : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
-      errors.push({
-        row: i + 1,
-        code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric',
-        message: `Row ${i + 1}: ${describeProblem(what, raw, problem)}.`,
-      })
-      continue
-    }
-    if (Math.abs(y.value) > MAX_PEAK_AREA) {
+    if (Math.abs(point.y) > MAX_PEAK_AREA) {
       errors.push({
         row: i + 1,
         code: 'out-of-range',
@@ -135,7 +157,7 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       })
       continue
     }
-    if (time.length > 0 && !(t.value > time[time.length - 1]!)) {
+    if (time.length > 0 && !(point.t > time[time.length - 1]!)) {
       errors.push({
         row: i + 1,
         code: 'non-monotonic-time',
@@ -144,8 +166,8 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       continue
     }
     if (time.length >= maxPoints) return refuse(i + 1, 'too-many-rows', `The trace has more than ${maxPoints} points.`)
-    time.push(t.value)
-    signal.push(y.value)
+    time.push(point.t)
+    signal.push(point.y)
   }
   if (errors.length) return { time: [], signal: [], warnings, errors, meta: null }
   if (time.length < 10) return refuse(start.index + 1, 'too-few-points', 'A trace needs at least 10 points.')
