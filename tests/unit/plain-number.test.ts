@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import { parsePeakTable, parseTrace, sniffUpload } from '../../shared/utils/chromatography'
 import { type ColumnStyle, readCell, tallyColumn } from '../../shared/utils/lib/number-text'
-import { fastPaths, plainKind, readPlain, readScanned, scanColumn, tallyCells } from '../../shared/utils/lib/plain-number'
+import { fastPaths, plainKind, readPlain, readScanned, readingAt, scanColumn, tallyCells } from '../../shared/utils/lib/plain-number'
 import { splitCells, splitTexts } from '../../shared/utils/lib/table-text'
 
 // The readers' shortcuts (plain decimals read as written, cells split without positions, rows of
@@ -71,7 +71,10 @@ describe('plain decimals read the way the general path reads them', () => {
       expect(tallyCells(cells)).toEqual(tallyColumn(cells))
       const scanned = scanColumn(cells)
       expect(scanned.tally).toEqual(tallyColumn(cells))
-      expect(readScanned(scanned, style)).toEqual(cells.map((c) => readCell(c, style)))
+      const reads = readScanned(scanned, style)
+      expect(cells.map((_, i) => readingAt(scanned, reads, i))).toEqual(cells.map((c) => readCell(c, style)))
+      // The plain numbers are the readings' values, and only where readCell reads a number.
+      reads.plain.forEach((v, i) => { if (!Number.isNaN(v)) expect(v).toBe((readCell(cells[i]!, style) as { value: number }).value) })
     }), { numRuns: 1500 })
   })
 })

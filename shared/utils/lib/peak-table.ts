@@ -1,12 +1,12 @@
 // Peak-table reader for integration reports exported as CSV, TSV, semicolon or aligned text.
 import type { TimeUnit } from './header-names'
 import {
-  type Mark, type CellRead, type ColumnStyle, type ReadProblem,
+  type Mark, type ColumnStyle, type ReadProblem,
   decideStyles, excerpt, ungroupedWitness,
 } from './number-text'
-import { readScanned, scanColumn } from './plain-number'
+import { type ColumnReads, type ScannedColumn, readScanned, readingAt, scanColumn } from './plain-number'
 import { type ColumnMap, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
-import { type Delimiter, splitLines, utf8Length } from './table-text'
+import { type Delimiter, mayExceed, splitLines } from './table-text'
 import { MAX_UPLOAD_BYTES } from '../limits'
 
 export type { HeaderCandidate } from './table-layout'
@@ -129,9 +129,18 @@ interface Column {
   what: string
   index: number
   style: ColumnStyle
-  reads: CellRead[]
+  /** Plain cells' numbers (NaN elsewhere) and the other cells' readings. */
+  reads: ColumnReads
   /** Cells whose reading as grouped thousands is refused: a retention time, or a column that writes long numbers ungrouped. */
   regrouped: Map<number, string>
+}
+
+/** The index of the cell that shows the column ungrouped (ungroupedWitness), reading every cell only when one is grouped. */
+function witnessOf(column: ScannedColumn, reads: ColumnReads): number {
+  // Plain cells are never grouped: without a grouped reading among the others there is no witness to find.
+  const anyGrouped = reads.others.some((r) => r && !('problem' in r) && r.grouped)
+  if (!anyGrouped) return -1
+  return ungroupedWitness(column.cells.map((_, i) => readingAt(column, reads, i)))
 }
 
 /**
@@ -146,8 +155,8 @@ function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 're
   return specs.map((spec, k) => {
     const reads = readScanned(scanned[k]!, styles[k]!)
     const regrouped = new Map<number, string>()
-    const witness = ungroupedWitness(reads)
-    reads.forEach((r, i) => {
+    const witness = witnessOf(scanned[k]!, reads)
+    reads.others.forEach((r, i) => {
       if (!r || 'problem' in r || !r.grouped || !r.ambiguous) return
       const readings = `the ${spec.what} ${excerpt(cells[k]![i]!)} could be ${r.value} or ${String(r.value / 1000)}`
       // Retention times are never grouped by thousands, so a grouped reading is the file's marks disagreeing.
@@ -167,7 +176,9 @@ function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 're
 
 /** A cell's number, the row's error, or null when the cell is empty. */
 function valueAt(col: Column, i: number, row: number, raw: string): number | RowError | null {
-  const r = col.reads[i]
+  const plain = col.reads.plain[i]!
+  if (plain === plain) return plain
+  const r = col.reads.others[i]
   if (r === null || r === undefined) return null
   const regrouped = col.regrouped.get(i)
   if (regrouped) return { row, code: 'ambiguous-number', message: `Row ${row}: ${regrouped}.` }
@@ -241,6 +252,8 @@ function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, w
   const seen = new Map<number, number>()
   let areaSum = 0
   const leftOut = new Set<string>()
+  const extras = columns.slice(2)
+  const areaLimit = fromPercent ? 100 : MAX_PEAK_AREA
   rows.forEach(({ row, cells }, i) => {
     if (errors.length >= MAX_ERRORS) return
     const raw = { rt: cells[rtCol.index] ?? '', area: cells[areaCol.index] ?? '' }
@@ -250,13 +263,18 @@ function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, w
       warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
       return
     }
-    const problems = peakRowProblems(row, rt, area, raw, areaCol, fromPercent, seen)
-    if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
-    seen.set(rt, row)
-    areaSum += area
-    const peak: Peak = { retentionTime: rt, area, row }
-    if (fromPercent) peak.areaPercent = area
-    addOptionalValues(peak, columns.slice(2), i, row, cells, leftOut)
+    // The usual row (two numbers in range, a time not seen before) needs no list of its problems.
+    const clean = typeof rt === 'number' && typeof area === 'number' && rt >= 0 && area >= 0 && area <= areaLimit && !seen.has(rt)
+    if (!clean) {
+      const problems = peakRowProblems(row, rt, area, raw, areaCol, fromPercent, seen)
+      if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
+    }
+    const retentionTime = rt as number
+    seen.set(retentionTime, row)
+    areaSum += area as number
+    const peak: Peak = { retentionTime, area: area as number, row }
+    if (fromPercent) peak.areaPercent = area as number
+    if (extras.length) addOptionalValues(peak, extras, i, row, cells, leftOut)
     parsed.push(peak)
   })
   for (const name of leftOut) warnings.push(`Some ${name} values are not numbers or out of range and were left out.`)
@@ -285,7 +303,7 @@ function retentionInMinutes(
 }
 
 /** Reads a peak table. Any error refuses the whole table: `peaks` is then empty. */
-export function parsePeakTable(text: string, options: PeakTableOptions = {}): ParsedPeakTable {
+export function parsePeakTable(text: string, options: PeakTableOptions = {}, split?: string[]): ParsedPeakTable {
   const warnings: string[] = []
   const errors: RowError[] = []
   const refuse = (row: number, code: ParseErrorCode, message: string): ParsedPeakTable => (
@@ -293,14 +311,14 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   )
   const maxBytes = options.maxBytes ?? MAX_UPLOAD_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
-  if (text.length > maxBytes || utf8Length(text) > maxBytes) {
+  if (mayExceed(text, maxBytes)) {
     return refuse(
       0,
       'too-large',
       `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`,
     )
   }
-  const lines = splitLines(text)
+  const lines = split ?? splitLines(text)
   const header = findHeader(lines)
   if (!header) return refuse(0, 'no-header', 'No header row naming the retention time and area columns was found.')
   if (!header.kinds.has('rt')) {

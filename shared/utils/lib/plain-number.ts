@@ -103,19 +103,38 @@ export function scanColumn(cells: readonly string[]): ScannedColumn {
   return { cells, kinds, analyses, tally }
 }
 
+/** A column read in its style: the plain cells' numbers, and readCell's answer for every other cell. */
+export interface ColumnReads {
+  /** The number of each plain cell the style reads as written; NaN for the others. */
+  plain: Float64Array
+  /** readCell's reading of each other cell (a hole where `plain` holds the number). */
+  others: CellRead[]
+}
+
 /**
- * Every cell read in the column's style exactly as readCell reads it: a plain cell the style
- * reads as written becomes its own number (with the digit count and the "could be a group"
- * mark readCell gives it); any other cell goes through readCell.
+ * Every cell read in the column's style: a plain cell the style reads as written becomes its own
+ * number, any other cell goes through readCell. readingAt gives the full reading of any cell.
  */
-export function readScanned(column: ScannedColumn, style: ColumnStyle): CellRead[] {
+export function readScanned(column: ScannedColumn, style: ColumnStyle): ColumnReads {
   const { cells, kinds, analyses } = column
-  const reads: CellRead[] = new Array(cells.length)
+  const plain = new Float64Array(cells.length)
+  const others: CellRead[] = new Array(cells.length)
   for (let i = 0; i < cells.length; i++) {
     const kind = kinds[i]!
-    reads[i] = kind !== NOT_PLAIN && readsAsWritten(kind, style)
-      ? { value: Number(cells[i]), grouped: false, intDigits: intDigits(cells[i]!, kind), ambiguous: kind === PLAIN_POINT_OR_GROUP }
-      : readCell(analyses[i] ?? cells[i]!, style)
+    if (kind !== NOT_PLAIN && readsAsWritten(kind, style)) {
+      plain[i] = Number(cells[i])
+    } else {
+      plain[i] = Number.NaN
+      others[i] = readCell(analyses[i] ?? cells[i]!, style)
+    }
   }
-  return reads
+  return { plain, others }
+}
+
+/** Cell i's reading exactly as readCell gives it (with the digit count and the "could be a group" mark). */
+export function readingAt(column: ScannedColumn, reads: ColumnReads, i: number): CellRead {
+  const value = reads.plain[i]!
+  if (Number.isNaN(value)) return reads.others[i]!
+  const kind = column.kinds[i]!
+  return { value, grouped: false, intDigits: intDigits(column.cells[i]!, kind), ambiguous: kind === PLAIN_POINT_OR_GROUP }
 }

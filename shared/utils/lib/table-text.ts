@@ -18,6 +18,12 @@ export function splitLines(text: string): string[] {
   return text.replace(/^\uFEFF/, '').split(/\r\n|\r|\n/)
 }
 
+/** The text is more than maxBytes in UTF-8. A UTF-16 unit is at most 3 bytes, so a short text is not counted. */
+export function mayExceed(text: string, maxBytes: number): boolean {
+  if (text.length > maxBytes) return true
+  return text.length * 3 > maxBytes && utf8Length(text) > maxBytes
+}
+
 export function utf8Length(text: string): number {
   let bytes = 0
   for (let i = 0; i < text.length; i++) {

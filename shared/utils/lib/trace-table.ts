@@ -6,7 +6,7 @@ import {
   type RowError, type TableMeta, type PeakTableOptions,
   MAX_PEAK_AREA, MAX_RETENTION_MINUTES, chooseTimeUnit, describeProblem, findHeader, toMinutes,
 } from './peak-table'
-import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, splitTexts, utf8Length } from './table-text'
+import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, splitTexts, mayExceed } from './table-text'
 
 export interface TraceOptions {
   timeUnit?: PeakTableOptions['timeUnit']
@@ -38,6 +38,13 @@ function numericCells(line: string, d: Delimiter): number {
   return cells.every((c) => c.text === '' || looksNumeric(c.text)) ? cells.filter((c) => c.text !== '').length : 0
 }
 
+/** How many non-blank lines follow line i, counting no further than `enough`. */
+function filledAfter(lines: string[], i: number, enough: number): number {
+  let n = 0
+  for (let j = i + 1; j < lines.length && n < enough; j++) if (lines[j]!.trim() !== '') n++
+  return n
+}
+
 /** First line from which three consecutive non-blank lines share a delimiter with ≥ 2 numbers each. */
 function findDataStart(lines: string[]): { index: number, delimiter: Delimiter } | null {
   for (let i = 0; i < Math.min(lines.length, 500); i++) {
@@ -51,7 +58,7 @@ function findDataStart(lines: string[]): { index: number, delimiter: Delimiter }
         if (numericCells(lines[j]!, d) !== count) break
         ok++
       }
-      if (ok >= Math.min(2, lines.slice(i + 1).filter((l) => l.trim() !== '').length)) return { index: i, delimiter: d }
+      if (ok >= Math.min(2, filledAfter(lines, i, 2))) return { index: i, delimiter: d }
     }
   }
   return null
@@ -103,17 +110,17 @@ function readPoint(
 }
 
 /** Reads a two-column (or wider) time/signal trace; tolerates preambles, BOM, decimal commas and footers. */
-export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrace {
+export function parseTrace(text: string, options: TraceOptions = {}, split?: string[]): ParsedTrace {
   const warnings: string[] = []
   const refuse = (row: number, code: RowError['code'], message: string): ParsedTrace => (
     { time: [], signal: [], warnings, errors: [{ row, code, message }], meta: null }
   )
   const maxBytes = options.maxBytes ?? MAX_TRACE_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
-  if (text.length > maxBytes || utf8Length(text) > maxBytes) {
+  if (mayExceed(text, maxBytes)) {
     return refuse(0, 'too-large', `The trace file is larger than ${Math.round(maxBytes / 1e6)} MB.`)
   }
-  const lines = splitLines(text)
+  const lines = split ?? splitLines(text)
   const start = findDataStart(lines)
   if (!start) return refuse(0, 'no-header', 'No rows with a time and a signal value were found.')
   const header = headerAbove(lines, start.index, start.delimiter)
@@ -199,17 +206,18 @@ export interface UploadSniff {
 }
 
 /** Says whether a text upload is a peak table or a raw trace (many rows, increasing time, no area column). */
-export function sniffUpload(text: string): UploadSniff {
+export function sniffUpload(text: string, split?: string[]): UploadSniff {
   if (typeof text !== 'string' || text.trim() === '') return { kind: 'unknown', reason: 'The file is empty.' }
-  const lines = splitLines(text)
+  const lines = split ?? splitLines(text)
   const header = findHeader(lines)
   if (header?.kinds.has('rt') && (header.kinds.has('area') || header.kinds.has('areaPercent'))) {
     return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
   }
   const start = findDataStart(lines)
   if (start) {
-    const probe = lines.slice(0, Math.min(lines.length, start.index + 2000)).join('\n')
-    const trace = parseTrace(probe, { maxBytes: Number.POSITIVE_INFINITY })
+    const head = lines.slice(0, Math.min(lines.length, start.index + 2000))
+    // The probe's lines are the head itself, unless a second BOM would be taken off again.
+    const trace = parseTrace(head.join('\n'), { maxBytes: Number.POSITIVE_INFINITY }, head[0]?.startsWith('\uFEFF') ? undefined : head)
     const rows = lines.length - start.index
     if (trace.errors.length === 0 && rows >= MIN_TRACE_POINTS) {
       return { kind: 'trace', reason: `About ${rows} rows of time and signal with increasing time and no area column.` }
