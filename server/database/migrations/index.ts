@@ -18,6 +18,7 @@ import * as readerSourceLines from './2026_12_03_1410_reader_source_lines'
 import * as casNumbersPreparedSolutions from './2026_12_03_1420_cas_numbers_prepared_solutions'
 import * as campusSignInRequests from './2026_12_03_1500_campus_sign_in_requests'
 import * as departmentScaleIndexes from './2026_12_03_1500_department_scale_indexes'
+import * as uploadStorageLz4 from './2026_12_03_1610_upload_storage_lz4'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -41,4 +42,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_1420_cas_numbers_prepared_solutions': casNumbersPreparedSolutions,
   '2026_12_03_1500_campus_sign_in_requests': campusSignInRequests,
   '2026_12_03_1500_department_scale_indexes': departmentScaleIndexes,
+  '2026_12_03_1610_upload_storage_lz4': uploadStorageLz4,
 }
