@@ -7,6 +7,7 @@ import { positionLetter } from './depiction'
 import { readerSource } from './source-line'
 import type { RunSource } from './lib/upload-content'
 import { splitLines } from './lib/table-text'
+import { peakWith } from './lib/peak-table'
 import { keyFactorOf, type KeyFactor } from './key-factor'
 import { KEY_FACTOR_LABELS } from '../types/review'
 
@@ -231,18 +232,6 @@ function farFromPrediction(input: RunInput, factors: RunResult['factors'], moleP
   }]
 }
 
-/**
- * A peak with the product it went to. Written out field by field: spreading thousands of peaks
- * of a few shapes (with or without area % and height) was a tenth of a large table's time.
- */
-function withOwner(p: Peak, assignedTo: string | null): Peak & { assignedTo: string | null } {
-  const out: Peak & { assignedTo: string | null } = { retentionTime: p.retentionTime, area: p.area, assignedTo }
-  if (p.areaPercent !== undefined) out.areaPercent = p.areaPercent
-  if (p.height !== undefined) out.height = p.height
-  if (p.row !== undefined) out.row = p.row
-  return out
-}
-
 export function evaluateRun(input: RunInput): RunResult {
   // The last window's end tells seconds from minutes when a file does not say (a 65 s peak is not a 65 min one).
   const ends = [...input.windows.map((w) => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
@@ -285,7 +274,7 @@ export function evaluateRun(input: RunInput): RunResult {
   for (const peak of assigned.startingMaterial?.peaks ?? []) own(peak, 'starting-material')
   return {
     kind,
-    peaks: peaks.map((p) => withOwner(p, owner.get(p.retentionTime)?.get(p.area) ?? null)),
+    peaks: peaks.map((p) => peakWith(p, 'assignedTo', owner.get(p.retentionTime)?.get(p.area) ?? null)),
     warnings,
     molePercents,
     factors,

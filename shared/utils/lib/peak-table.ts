@@ -22,6 +22,19 @@ export interface Peak {
   row?: number
 }
 
+/**
+ * A copy of a peak with one more field. Written out field by field: spreading thousands of
+ * peaks of a few shapes (with or without area % and height) was a tenth of a long table's time.
+ */
+export function peakWith<K extends string, V>(p: Peak, key: K, value: V): Peak & Record<K, V> {
+  const out = { retentionTime: p.retentionTime, area: p.area } as Peak & Record<K, V>
+  if (p.areaPercent !== undefined) out.areaPercent = p.areaPercent
+  if (p.height !== undefined) out.height = p.height
+  if (p.row !== undefined) out.row = p.row
+  ;(out as Record<K, V>)[key] = value
+  return out
+}
+
 export type ParseErrorCode =
   | 'too-large' | 'empty' | 'no-header' | 'no-rt-column' | 'no-area-column' | 'no-peaks'
   | 'non-numeric' | 'negative-value' | 'duplicate-rt' | 'too-many-rows' | 'misaligned' | 'non-monotonic-time' | 'too-few-points'
