@@ -162,7 +162,9 @@ function witnessOf(column: ScannedColumn, reads: ColumnReads): number {
  * so the comma may be a decimal after all. A retention time is never read as grouped.
  */
 function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[]): Column[] {
-  const cells = specs.map((s) => rows.map((r) => r.cells[s.index] ?? ''))
+  // One pass over the rows for all the columns.
+  const cells: string[][] = specs.map(() => [])
+  for (const r of rows) for (let k = 0; k < specs.length; k++) cells[k]!.push(r.cells[specs[k]!.index] ?? '')
   const scanned = cells.map(scanColumn)
   const styles = decideStyles(scanned.map((c) => c.tally), 0)
   return specs.map((spec, k) => {
@@ -221,7 +223,7 @@ function columnSpecs(kinds: ColumnMap, fromPercent: boolean): ColumnSpec[] {
 /** What is wrong with one row's retention time and area (missing, unreadable, negative, out of range, repeated). */
 function peakRowProblems(
   row: number, rt: number | RowError | null, area: number | RowError | null, raw: { rt: string, area: string },
-  areaCol: Column, fromPercent: boolean, seen: Map<number, number>,
+  areaCol: Column, fromPercent: boolean, seen: SeenTimes,
 ): RowError[] {
   const problems: RowError[] = []
   if (rt === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time is missing.` })
@@ -248,6 +250,45 @@ function peakRowProblems(
   return problems
 }
 
+/**
+ * The retention times read so far, with their rows. While the times keep increasing (as in
+ * nearly every export) a new time cannot be a repeat and nothing is hashed; the first time that
+ * does not increase turns the list into a Map.
+ */
+class SeenTimes {
+  private times: number[] = []
+  private rows: number[] = []
+  private map: Map<number, number> | null = null
+  private max = Number.NEGATIVE_INFINITY
+
+  has(rt: number): boolean {
+    if (!this.map && rt > this.max) return false
+    return this.asMap().has(rt)
+  }
+
+  get(rt: number): number | undefined {
+    return this.asMap().get(rt)
+  }
+
+  set(rt: number, row: number): void {
+    if (!this.map && rt > this.max) {
+      this.max = rt
+      this.times.push(rt)
+      this.rows.push(row)
+    } else {
+      this.asMap().set(rt, row)
+    }
+  }
+
+  private asMap(): Map<number, number> {
+    if (!this.map) {
+      this.map = new Map()
+      for (let k = 0; k < this.times.length; k++) this.map.set(this.times[k]!, this.rows[k]!)
+    }
+    return this.map
+  }
+}
+
 /** Area % and height where the row has them in range; the names of columns with values left out go to `leftOut`. */
 function addOptionalValues(peak: Peak, extras: Column[], i: number, row: number, cells: RawRow['cells'], leftOut: Set<string>) {
   for (const col of extras) {
@@ -262,16 +303,15 @@ function addOptionalValues(peak: Peak, extras: Column[], i: number, row: number,
 function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, warnings: string[], errors: RowError[]): Peak[] {
   const [rtCol, areaCol] = columns as [Column, Column]
   const parsed: Peak[] = []
-  const seen = new Map<number, number>()
+  const seen = new SeenTimes()
   let areaSum = 0
   const leftOut = new Set<string>()
   const extras = columns.slice(2)
   const areaLimit = fromPercent ? 100 : MAX_PEAK_AREA
   rows.forEach(({ row, cells }, i) => {
     if (errors.length >= MAX_ERRORS) return
-    const raw = { rt: cells[rtCol.index] ?? '', area: cells[areaCol.index] ?? '' }
-    const rt = valueAt(rtCol, i, row, raw.rt)
-    const area = valueAt(areaCol, i, row, raw.area)
+    const rt = valueAt(rtCol, i, row, cells[rtCol.index] ?? '')
+    const area = valueAt(areaCol, i, row, cells[areaCol.index] ?? '')
     if (rt === null && typeof area === 'number' && parsed.length > 1 && Math.abs(area - areaSum) <= 0.005 * areaSum) {
       warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
       return
@@ -279,6 +319,7 @@ function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, w
     // The usual row (two numbers in range, a time not seen before) needs no list of its problems.
     const clean = typeof rt === 'number' && typeof area === 'number' && rt >= 0 && area >= 0 && area <= areaLimit && !seen.has(rt)
     if (!clean) {
+      const raw = { rt: cells[rtCol.index] ?? '', area: cells[areaCol.index] ?? '' }
       const problems = peakRowProblems(row, rt, area, raw, areaCol, fromPercent, seen)
       if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
     }

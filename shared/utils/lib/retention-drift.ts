@@ -91,9 +91,16 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
   const near = new Map<DriftSlot, Peak[]>()
   const outcome: DriftOutcome = { drifted: [], contested: [], beside: [], between: [], unassigned: [] }
   for (const p of unassigned) {
-    const hits = slots.filter((s, i) => outside(p.retentionTime, s, reach[i]!) !== null)
-    if (hits.length === 1) near.set(hits[0]!, [...(near.get(hits[0]!) ?? []), p])
-    else outcome.unassigned.push(p)
+    // Most unassigned peaks of a long table are near no window: find the first hit before building a list.
+    const first = slots.findIndex((s, i) => outside(p.retentionTime, s, reach[i]!) !== null)
+    const hits = first < 0 ? [] : slots.filter((s, i) => i >= first && outside(p.retentionTime, s, reach[i]!) !== null)
+    if (hits.length === 1) {
+      const list = near.get(hits[0]!)
+      if (list) list.push(p)
+      else near.set(hits[0]!, [p])
+    } else {
+      outcome.unassigned.push(p)
+    }
     // At the exact midpoint between two windows both reach it: it belongs to neither.
     if (hits.length > 1) outcome.between.push({ slots: hits, peak: p })
   }

@@ -2,7 +2,7 @@
 // around them (totals, report furniture, page breaks that reprint the header).
 import { type ColumnKind, type TimeUnit, classifyHeader, timeUnitOf } from './header-names'
 import { excerpt, looksNumeric } from './number-text'
-import { fastPaths } from './plain-number'
+import { NOT_PLAIN, fastPaths, plainKind } from './plain-number'
 import {
   type Cell, type Delimiter,
   SEPARATOR_LINE, alignCells, furnitureOf, isUnitCell, mergeHeaderTokens, splitCells, splitTexts, splitWideGaps,
@@ -90,6 +90,16 @@ function isRepeatedHeader(line: string, cells: (string | undefined)[] | null, he
   return classifyHeader(cells[rt] ?? '').kind === 'rt' && area !== undefined && classifyHeader(cells[area] ?? '').kind !== null
 }
 
+/**
+ * Whether isRepeatedHeader needs asking: a line without words that does not hold the header's
+ * first name, and whose retention-time cell is a plain number, can be neither the header line
+ * nor a header row (a plain number is never a column name).
+ */
+function mayRepeatHeader(words: boolean, line: string, cells: (string | undefined)[] | null, header: HeaderCandidate): boolean {
+  if (words || !cells || line.includes(header.cells[0]!.text)) return true
+  return plainKind(cells[header.kinds.get('rt')!.index] ?? '') === NOT_PLAIN
+}
+
 /** A line that does not fit the columns and reads as words ("GC bay 2 - injection report"), not as a row of numbers. */
 function looksLikeText(line: string): boolean {
   const tokens = line.trim().split(/\s+/)
@@ -136,7 +146,7 @@ export function collectRows(
       continue
     }
     const cells = rowCells(line, header)
-    if (isRepeatedHeader(line, cells, header, headerLine)) {
+    if (mayRepeatHeader(words, line, cells, header) && isRepeatedHeader(line, cells, header, headerLine)) {
       if (rows.length > 0 && !pageBreak) {
         // Reports with several detector signals repeat the table; the first one is the product run.
         warnings.push(`A second table starts at row ${i + 1}; only the first table was read.`)
@@ -182,7 +192,7 @@ export function collectRows(
       if (t.cells) rows.push({ row: t.row, cells: t.cells })
       else errors.push({ row: t.row, code: 'misaligned', message: `Row ${t.row}: the values do not line up with the header columns.` })
     }
-    pending = []
+    if (pending.length) pending = []
     if (header.delimiter === ',' && filled.length > header.cells.length) {
       errors.push({
         row: i + 1,
