@@ -1,6 +1,6 @@
 // GC results to mole fractions: peak tables and raw traces in, products' mole % and flags out.
 // Method: PRODUCT.md, "GC peak tables → mole fractions". Pure: no I/O, no clock.
-import { MAX_PEAK_AREA, MAX_RETENTION_MINUTES, type Peak, type RowError } from './lib/peak-table'
+import { MAX_PEAK_AREA, MAX_RETENTION_MINUTES, peakWith, type Peak, type RowError } from './lib/peak-table'
 import { DEFAULT_DRIFT_TOLERANCE, driftFlags, rescueDriftedPeaks, type DriftSlot, type DriftTolerance } from './lib/retention-drift'
 
 export { parsePeakTable, MAX_PEAK_ROWS, SECONDS_THRESHOLD, MAX_PEAK_AREA, MAX_RETENTION_MINUTES } from './lib/peak-table'
@@ -122,6 +122,9 @@ function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: bo
 
 function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
   return peaks.filter((p, i) => {
+    // The usual peak, checked without building the message that names it.
+    if (p && typeof p.area === 'number' && typeof p.retentionTime === 'number' && p.area >= 0 && p.retentionTime >= 0
+      && p.area <= MAX_PEAK_AREA && p.retentionTime <= MAX_RETENTION_MINUTES) return true
     const where = p.row ? `row ${p.row}` : `peak ${i + 1}`
     if (!Number.isFinite(p?.retentionTime) || !Number.isFinite(p?.area)) {
       flags.push({
@@ -232,7 +235,7 @@ export function assignPeaks(peaks: Peak[], windows: ProductWindow[], options: As
     products,
     solvent,
     startingMaterial,
-    unassigned: unassigned.map((p) => ({ ...p, percentOfTotal: nonSolvent > 0 ? (p.area / nonSolvent) * 100 : 0 })),
+    unassigned: unassigned.map((p) => peakWith(p, 'percentOfTotal', nonSolvent > 0 ? (p.area / nonSolvent) * 100 : 0)),
     unassignedPercent,
     conversion,
     flags,

@@ -6,6 +6,8 @@ import { analyzeSubstrate, predictDistribution, relativeReactivities, type Carbo
 import { positionLetter } from './depiction'
 import { readerSource } from './source-line'
 import type { RunSource } from './lib/upload-content'
+import { splitLines } from './lib/table-text'
+import { peakWith } from './lib/peak-table'
 import { keyFactorOf, type KeyFactor } from './key-factor'
 import { KEY_FACTOR_LABELS } from '../types/review'
 
@@ -124,14 +126,16 @@ function readPeaks(
   if (source.kind === 'trace') return integrate(source.time, source.signal, source.warnings ?? [])
   if (source.kind === 'peaks') return { kind: 'peak-table', peaks: source.peaks, warnings: source.warnings ?? [], flags: [] }
   const { text } = source
-  const sniff = sniffUpload(text)
+  // Split once: the sniff and the reader look at the same lines.
+  const lines = typeof text === 'string' ? splitLines(text) : undefined
+  const sniff = sniffUpload(text, lines)
   if (sniff.kind === 'trace') {
-    const trace = parseTrace(text, { expectedMaxMinutes })
+    const trace = parseTrace(text, { expectedMaxMinutes }, lines)
     if (trace.errors.length) throw new RunInputError(`The trace has ${trace.errors.length} unreadable row(s)`, trace.errors)
     return integrate(trace.time, trace.signal, [...source.warnings ?? [], ...trace.warnings])
   }
   if (sniff.kind === 'unknown') throw new RunInputError(`This is neither a peak table nor a detector trace: ${sniff.reason}`)
-  const table = parsePeakTable(text, { expectedMaxMinutes })
+  const table = parsePeakTable(text, { expectedMaxMinutes }, lines)
   if (table.errors.length) {
     const first = table.errors[0]!
     throw new RunInputError(first.message, table.errors)
@@ -270,7 +274,7 @@ export function evaluateRun(input: RunInput): RunResult {
   for (const peak of assigned.startingMaterial?.peaks ?? []) own(peak, 'starting-material')
   return {
     kind,
-    peaks: peaks.map((p) => ({ ...p, assignedTo: owner.get(p.retentionTime)?.get(p.area) ?? null })),
+    peaks: peaks.map((p) => peakWith(p, 'assignedTo', owner.get(p.retentionTime)?.get(p.area) ?? null)),
     warnings,
     molePercents,
     factors,

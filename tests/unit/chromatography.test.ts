@@ -156,6 +156,11 @@ describe('parsePeakTable refusals', () => {
 
   it('names the duplicate row and the row it repeats', () => {
     expect(parsePeakTable(fixture('invalid-04-duplicate-rt.csv')).errors[0]!.message).toMatch(/row 3/)
+    // Times out of order: the repeat is still found, and named against the row it repeats.
+    const shuffled = parsePeakTable('RT,Area\n3.1,100\n2.0,200\n4.2,300\n2.0,50\n3.1,60\n-0,1\n0,2\n')
+    expect(shuffled.errors.map((e) => [e.row, e.code])).toEqual([[5, 'duplicate-rt'], [6, 'duplicate-rt'], [8, 'duplicate-rt']])
+    expect(shuffled.errors[0]!.message).toMatch(/already appears on row 3/)
+    expect(shuffled.errors[1]!.message).toMatch(/already appears on row 2/)
   })
 
   it('lists every bad row, not only the first', () => {

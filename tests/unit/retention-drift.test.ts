@@ -76,6 +76,25 @@ describe('retention drift: a lone peak just outside an empty window', () => {
     expect(beside.message).toMatch(/1,1-dichlorobutane .* already has its peak/)
   })
 
+  it('gives the peaks beside one window, and those at one edge of a window, one flag each, listing their times', () => {
+    // A long table: twelve small peaks just after the 1,1- window (which has its own), three in its last 0.025 min.
+    const after = Array.from({ length: 12 }, (_, i) => peak(3.56 + i * 0.01, 50))
+    const edge = [peak(3.53, 40), peak(3.54, 40), peak(3.548, 40)]
+    const r = assignPeaks(base(peak(3.9, 23e3), [...edge, ...after]), WINDOWS, OPTIONS)
+    const drift = r.flags.filter((f) => f.code === 'retention-drift')
+    const beside = drift.filter((f) => /just outside the window for 1,1-dichlorobutane/.test(f.message))
+    expect(beside).toHaveLength(1)
+    expect(beside[0]!.retentionTimes).toEqual(after.map((p) => p.retentionTime))
+    expect(beside[0]!.message).toMatch(/^12 peaks \(3\.56, 3\.57, 3\.58, 3\.59, 3\.60, 3\.61, 3\.62, 3\.63 and 4 more min\) lie just outside/)
+    expect(beside[0]!.message).toMatch(/these are probably other compounds/)
+    const atEnd = drift.filter((f) => /at the end of the window for 1,1-dichlorobutane/.test(f.message))
+    expect(atEnd).toHaveLength(1)
+    expect(atEnd[0]!.message).toMatch(/^3 peaks \(3\.53, 3\.54, 3\.55 min\) sit at the end/)
+    // Every peak is still counted where it belongs: the window's own three and its first peak, the rest unassigned.
+    expect(r.products[0]!.peaks).toHaveLength(4)
+    expect(r.unassigned.filter((p) => p.retentionTime > 3.55 && p.retentionTime < 3.7)).toHaveLength(12)
+  })
+
   it('is not counted when two peaks compete for the same empty window', () => {
     const r = assignPeaks(base(peak(4.1, 12e3), [peak(4.15, 11e3)]), WINDOWS, OPTIONS)
     expect(r.products.find((p) => p.smiles === B)!.area).toBe(0)

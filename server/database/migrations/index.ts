@@ -19,6 +19,7 @@ import * as casNumbersPreparedSolutions from './2026_12_03_1420_cas_numbers_prep
 import * as campusSignInRequests from './2026_12_03_1500_campus_sign_in_requests'
 import * as departmentScaleIndexes from './2026_12_03_1500_department_scale_indexes'
 import * as campusJoinedAt from './2026_12_03_1600_campus_joined_at'
+import * as uploadStorageLz4 from './2026_12_03_1610_upload_storage_lz4'
 import * as latestVersionCover from './2026_12_03_1700_latest_version_cover'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
@@ -44,5 +45,6 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_1500_campus_sign_in_requests': campusSignInRequests,
   '2026_12_03_1500_department_scale_indexes': departmentScaleIndexes,
   '2026_12_03_1600_campus_joined_at': campusJoinedAt,
+  '2026_12_03_1610_upload_storage_lz4': uploadStorageLz4,
   '2026_12_03_1700_latest_version_cover': latestVersionCover,
 }

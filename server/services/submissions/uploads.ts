@@ -44,12 +44,15 @@ export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): 
     .where('sectionId', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1])
     .executeTakeFirst()
   if (!enrollment) throw createError({ statusCode: 404, statusMessage: 'Practical not found' })
-  const session = await db.selectFrom('practicalSessions').select(['dueAt', 'meetingDate'])
-    .where('practicalId', '=', scope.practical.id).where('sectionId', '=', enrollment.sectionId).executeTakeFirst()
   const student = { userId: scope.me.id, sectionId: enrollment.sectionId, station: enrollment.station }
   const unitKey = unitKeyOf(scope.practical.workUnit, student)
-  const partners = stationOfUnitKey(unitKey) === null ? [] : await stationMates(db, enrollment.sectionId, enrollment.station!)
-  const last = await lastUnitDecision(db, scope.practical.id, unitKey)
+  // Three reads that need only the enrolment, side by side: an upload waits for each round trip.
+  const [session, partners, last] = await Promise.all([
+    db.selectFrom('practicalSessions').select(['dueAt', 'meetingDate'])
+      .where('practicalId', '=', scope.practical.id).where('sectionId', '=', enrollment.sectionId).executeTakeFirst(),
+    stationOfUnitKey(unitKey) === null ? [] : stationMates(db, enrollment.sectionId, enrollment.station!),
+    lastUnitDecision(db, scope.practical.id, unitKey),
+  ])
   return {
     sectionId: enrollment.sectionId,
     unitKey,
@@ -157,14 +160,15 @@ export async function storeSubmissionVersion(
 ): Promise<Pick<Submission, (typeof CREATED_COLUMNS)[number]>> {
   return db.transaction().execute(async (trx) => {
     await sql`select pg_advisory_xact_lock(hashtext(${`submission:${v.practicalId}:${v.unit.unitKey}`}))`.execute(trx)
-    const { next } = await trx.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
-      .where('practicalId', '=', v.practicalId).where('unitKey', '=', v.unit.unitKey).executeTakeFirstOrThrow()
     const fileId = await storeFile(trx, v.file, actor.id, v.mediaType)
-    const inserted = await trx.insertInto('submissions').values({
+    // The next version number is read by the insert itself (one round trip less); its snapshot
+    // is taken after the lock above, so it sees every version committed before.
+    const inserted = await trx.insertInto('submissions').values((eb) => ({
       practicalId: v.practicalId,
       sectionId: v.unit.sectionId,
       unitKey: v.unit.unitKey,
-      version: next,
+      version: eb.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
+        .where('practicalId', '=', v.practicalId).where('unitKey', '=', v.unit.unitKey),
       fileId,
       inputKind: v.run.kind,
       sha256: v.file.sha256,
@@ -177,12 +181,13 @@ export async function storeSubmissionVersion(
       late: v.late,
       submittedBy: actor.id,
       idempotencyKey: v.idempotencyKey,
-    }).returning(CREATED_COLUMNS).executeTakeFirstOrThrow()
+    })).returning(CREATED_COLUMNS).executeTakeFirstOrThrow()
     await trx.insertInto('submissionMembers').values(v.unit.memberIds.map((userId) => ({ submissionId: inserted.id, userId }))).execute()
     await audit(trx, actor, {
       action: 'submission.create', entity: 'submission', entityId: inserted.id,
       after: {
-        practicalId: v.practicalId, unitKey: v.unit.unitKey, version: next, sha256: v.file.sha256, fileName: v.file.name, late: v.late,
+        practicalId: v.practicalId, unitKey: v.unit.unitKey, version: inserted.version,
+        sha256: v.file.sha256, fileName: v.file.name, late: v.late,
       },
     })
     return inserted
@@ -215,9 +220,15 @@ export async function createSubmission(
 ): Promise<{ status: number, body: SubmissionCreated }> {
   const earlier = await earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
   if (earlier) return earlier
+  // The engine reads the file while the unit and its latest version are looked up; the unit's
+  // own refusal (not enrolled) still comes first.
+  const computing = computeRun(scope, file)
+  computing.catch(() => {})
   const unit = await studentUnit(db, scope)
-  const { run, chemistry, mediaType } = await computeRun(scope, file)
-  const latest = await latestOfUnit(db, scope.practical.id, unit.unitKey)
+  const latestRead = latestOfUnit(db, scope.practical.id, unit.unitKey)
+  latestRead.catch(() => {})
+  const { run, chemistry, mediaType } = await computing
+  const latest = await latestRead
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
   const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()
   try {

@@ -191,20 +191,24 @@ export interface Tally {
   numbers: number
 }
 
-export function tallyColumn(cells: Iterable<CellAnalysis | string>): Tally {
-  const t: Tally = { sure: { '.': 0, ',': 0 }, ambiguous: { '.': 0, ',': 0 }, clock: 0, numbers: 0 }
-  for (const cell of cells) {
-    const a = typeof cell === 'string' ? analyseCell(cell) : cell
-    if (a.kind === 'empty' || a.kind === 'bad') continue
-    t.numbers++
-    if (a.kind === 'clock') {
-      t.clock++
-      if (a.mark) t.sure[a.mark]++
-    } else if (a.mark) {
-      if (a.dot && a.comma) t.ambiguous[a.mark]++
-      else t.sure[a.dot ? '.' : ',']++
-    }
+export const emptyTally = (): Tally => ({ sure: { '.': 0, ',': 0 }, ambiguous: { '.': 0, ',': 0 }, clock: 0, numbers: 0 })
+
+/** Counts one analysed cell into a column's tally. */
+export function tallyCell(t: Tally, a: CellAnalysis): void {
+  if (a.kind === 'empty' || a.kind === 'bad') return
+  t.numbers++
+  if (a.kind === 'clock') {
+    t.clock++
+    if (a.mark) t.sure[a.mark]++
+  } else if (a.mark) {
+    if (a.dot && a.comma) t.ambiguous[a.mark]++
+    else t.sure[a.dot ? '.' : ',']++
   }
+}
+
+export function tallyColumn(cells: Iterable<CellAnalysis | string>): Tally {
+  const t = emptyTally()
+  for (const cell of cells) tallyCell(t, typeof cell === 'string' ? analyseCell(cell) : cell)
   return t
 }
 

@@ -109,10 +109,18 @@ const medianOfThree = (a: number, b: number, c: number) => Math.max(Math.min(a, 
 // instead of sorting every copy was half of the detection's time. NaN has no place in an order,
 // so a copy holding one is sorted as before (NaN last).
 function median(values: Float64Array): number {
-  if (values.length === 0) return 0
-  const s = Float64Array.from(values)
+  return medianInPlace(Float64Array.from(values))
+}
+
+/**
+ * The median of a scratch array the caller no longer needs in its order (the values stay, their
+ * order does not): no copy. A median does not depend on the order, so a second median of values
+ * computed from the reordered array is the same as from the original.
+ */
+function medianInPlace(s: Float64Array): number {
+  if (s.length === 0) return 0
   const m = s.length >> 1
-  if (s.some(Number.isNaN)) {
+  if (hasNaN(s)) {
     s.sort()
     return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2
   }
@@ -123,12 +131,17 @@ function median(values: Float64Array): number {
   return (lower + upper) / 2
 }
 
+function hasNaN(s: Float64Array): boolean {
+  for (let i = 0; i < s.length; i++) if (s[i] !== s[i]) return true
+  return false
+}
+
 function noiseSd(y: Float64Array): number {
   const d = new Float64Array(y.length - 1)
   for (let i = 1; i < y.length; i++) d[i - 1] = y[i]! - y[i - 1]!
-  const md = median(d)
+  const md = medianInPlace(d)
   for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i]! - md)
-  return (1.4826 * median(d)) / Math.SQRT2
+  return (1.4826 * medianInPlace(d)) / Math.SQRT2
 }
 
 function movingAverage(y: Float64Array, w: number): Float64Array {
@@ -304,9 +317,9 @@ function pickPeaks(t: Float64Array, y: Float64Array, w: number, noise: number, k
     for (let i = 0; i < n; i++) if (!mask[i]) r[free++] = s[i]! - base[i]!
     if (free > 20) {
       const f = r.slice(0, free)
-      const m = median(f)
+      const m = medianInPlace(f)
       for (let i = 0; i < f.length; i++) f[i] = Math.abs(f[i]! - m)
-      sigmaS = Math.max(sigmaS * 0.5, 1.4826 * median(f))
+      sigmaS = Math.max(sigmaS * 0.5, 1.4826 * medianInPlace(f))
     }
   }
   const raw: RawPeak[] = []

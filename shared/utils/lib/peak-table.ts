@@ -1,11 +1,12 @@
 // Peak-table reader for integration reports exported as CSV, TSV, semicolon or aligned text.
 import type { TimeUnit } from './header-names'
 import {
-  type Mark, type CellRead, type ColumnStyle, type ReadProblem,
-  analyseCell, decideStyles, excerpt, readCell, tallyColumn, ungroupedWitness,
+  type Mark, type ColumnStyle, type ReadProblem,
+  decideStyles, excerpt, ungroupedWitness,
 } from './number-text'
+import { type ColumnReads, type ScannedColumn, readScanned, readingAt, scanColumn } from './plain-number'
 import { type ColumnMap, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
-import { type Delimiter, splitLines, utf8Length } from './table-text'
+import { type Delimiter, mayExceed, splitLines } from './table-text'
 import { MAX_UPLOAD_BYTES } from '../limits'
 
 export type { HeaderCandidate } from './table-layout'
@@ -19,6 +20,19 @@ export interface Peak {
   height?: number
   /** 1-based line of the file the peak came from (absent for detected peaks). */
   row?: number
+}
+
+/**
+ * A copy of a peak with one more field. Written out field by field: spreading thousands of
+ * peaks of a few shapes (with or without area % and height) was a tenth of a long table's time.
+ */
+export function peakWith<K extends string, V>(p: Peak, key: K, value: V): Peak & Record<K, V> {
+  const out = { retentionTime: p.retentionTime, area: p.area } as Peak & Record<K, V>
+  if (p.areaPercent !== undefined) out.areaPercent = p.areaPercent
+  if (p.height !== undefined) out.height = p.height
+  if (p.row !== undefined) out.row = p.row
+  ;(out as Record<K, V>)[key] = value
+  return out
 }
 
 export type ParseErrorCode =
@@ -128,9 +142,18 @@ interface Column {
   what: string
   index: number
   style: ColumnStyle
-  reads: CellRead[]
+  /** Plain cells' numbers (NaN elsewhere) and the other cells' readings. */
+  reads: ColumnReads
   /** Cells whose reading as grouped thousands is refused: a retention time, or a column that writes long numbers ungrouped. */
   regrouped: Map<number, string>
+}
+
+/** The index of the cell that shows the column ungrouped (ungroupedWitness), reading every cell only when one is grouped. */
+function witnessOf(column: ScannedColumn, reads: ColumnReads): number {
+  // Plain cells are never grouped: without a grouped reading among the others there is no witness to find.
+  const anyGrouped = reads.others.some((r) => r && !('problem' in r) && r.grouped)
+  if (!anyGrouped) return -1
+  return ungroupedWitness(column.cells.map((_, i) => readingAt(column, reads, i)))
 }
 
 /**
@@ -139,14 +162,16 @@ interface Column {
  * so the comma may be a decimal after all. A retention time is never read as grouped.
  */
 function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 'regrouped'>[]): Column[] {
-  const cells = specs.map((s) => rows.map((r) => r.cells[s.index] ?? ''))
-  const analyses = cells.map((column) => column.map(analyseCell))
-  const styles = decideStyles(analyses.map(tallyColumn), 0)
+  // One pass over the rows for all the columns.
+  const cells: string[][] = specs.map(() => [])
+  for (const r of rows) for (let k = 0; k < specs.length; k++) cells[k]!.push(r.cells[specs[k]!.index] ?? '')
+  const scanned = cells.map(scanColumn)
+  const styles = decideStyles(scanned.map((c) => c.tally), 0)
   return specs.map((spec, k) => {
-    const reads = analyses[k]!.map((a) => readCell(a, styles[k]!))
+    const reads = readScanned(scanned[k]!, styles[k]!)
     const regrouped = new Map<number, string>()
-    const witness = ungroupedWitness(reads)
-    reads.forEach((r, i) => {
+    const witness = witnessOf(scanned[k]!, reads)
+    reads.others.forEach((r, i) => {
       if (!r || 'problem' in r || !r.grouped || !r.ambiguous) return
       const readings = `the ${spec.what} ${excerpt(cells[k]![i]!)} could be ${r.value} or ${String(r.value / 1000)}`
       // Retention times are never grouped by thousands, so a grouped reading is the file's marks disagreeing.
@@ -166,7 +191,9 @@ function readColumns(rows: RawRow[], specs: Omit<Column, 'style' | 'reads' | 're
 
 /** A cell's number, the row's error, or null when the cell is empty. */
 function valueAt(col: Column, i: number, row: number, raw: string): number | RowError | null {
-  const r = col.reads[i]
+  const plain = col.reads.plain[i]!
+  if (plain === plain) return plain
+  const r = col.reads.others[i]
   if (r === null || r === undefined) return null
   const regrouped = col.regrouped.get(i)
   if (regrouped) return { row, code: 'ambiguous-number', message: `Row ${row}: ${regrouped}.` }
@@ -196,7 +223,7 @@ function columnSpecs(kinds: ColumnMap, fromPercent: boolean): ColumnSpec[] {
 /** What is wrong with one row's retention time and area (missing, unreadable, negative, out of range, repeated). */
 function peakRowProblems(
   row: number, rt: number | RowError | null, area: number | RowError | null, raw: { rt: string, area: string },
-  areaCol: Column, fromPercent: boolean, seen: Map<number, number>,
+  areaCol: Column, fromPercent: boolean, seen: SeenTimes,
 ): RowError[] {
   const problems: RowError[] = []
   if (rt === null) problems.push({ row, code: 'non-numeric', message: `Row ${row}: the retention time is missing.` })
@@ -223,6 +250,45 @@ function peakRowProblems(
   return problems
 }
 
+/**
+ * The retention times read so far, with their rows. While the times keep increasing (as in
+ * nearly every export) a new time cannot be a repeat and nothing is hashed; the first time that
+ * does not increase turns the list into a Map.
+ */
+class SeenTimes {
+  private times: number[] = []
+  private rows: number[] = []
+  private map: Map<number, number> | null = null
+  private max = Number.NEGATIVE_INFINITY
+
+  has(rt: number): boolean {
+    if (!this.map && rt > this.max) return false
+    return this.asMap().has(rt)
+  }
+
+  get(rt: number): number | undefined {
+    return this.asMap().get(rt)
+  }
+
+  set(rt: number, row: number): void {
+    if (!this.map && rt > this.max) {
+      this.max = rt
+      this.times.push(rt)
+      this.rows.push(row)
+    } else {
+      this.asMap().set(rt, row)
+    }
+  }
+
+  private asMap(): Map<number, number> {
+    if (!this.map) {
+      this.map = new Map()
+      for (let k = 0; k < this.times.length; k++) this.map.set(this.times[k]!, this.rows[k]!)
+    }
+    return this.map
+  }
+}
+
 /** Area % and height where the row has them in range; the names of columns with values left out go to `leftOut`. */
 function addOptionalValues(peak: Peak, extras: Column[], i: number, row: number, cells: RawRow['cells'], leftOut: Set<string>) {
   for (const col of extras) {
@@ -237,25 +303,32 @@ function addOptionalValues(peak: Peak, extras: Column[], i: number, row: number,
 function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, warnings: string[], errors: RowError[]): Peak[] {
   const [rtCol, areaCol] = columns as [Column, Column]
   const parsed: Peak[] = []
-  const seen = new Map<number, number>()
+  const seen = new SeenTimes()
   let areaSum = 0
   const leftOut = new Set<string>()
+  const extras = columns.slice(2)
+  const areaLimit = fromPercent ? 100 : MAX_PEAK_AREA
   rows.forEach(({ row, cells }, i) => {
     if (errors.length >= MAX_ERRORS) return
-    const raw = { rt: cells[rtCol.index] ?? '', area: cells[areaCol.index] ?? '' }
-    const rt = valueAt(rtCol, i, row, raw.rt)
-    const area = valueAt(areaCol, i, row, raw.area)
+    const rt = valueAt(rtCol, i, row, cells[rtCol.index] ?? '')
+    const area = valueAt(areaCol, i, row, cells[areaCol.index] ?? '')
     if (rt === null && typeof area === 'number' && parsed.length > 1 && Math.abs(area - areaSum) <= 0.005 * areaSum) {
       warnings.push(`Row ${row} has no retention time and its area equals the sum of the peaks: it was skipped as a totals row.`)
       return
     }
-    const problems = peakRowProblems(row, rt, area, raw, areaCol, fromPercent, seen)
-    if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
-    seen.set(rt, row)
-    areaSum += area
-    const peak: Peak = { retentionTime: rt, area, row }
-    if (fromPercent) peak.areaPercent = area
-    addOptionalValues(peak, columns.slice(2), i, row, cells, leftOut)
+    // The usual row (two numbers in range, a time not seen before) needs no list of its problems.
+    const clean = typeof rt === 'number' && typeof area === 'number' && rt >= 0 && area >= 0 && area <= areaLimit && !seen.has(rt)
+    if (!clean) {
+      const raw = { rt: cells[rtCol.index] ?? '', area: cells[areaCol.index] ?? '' }
+      const problems = peakRowProblems(row, rt, area, raw, areaCol, fromPercent, seen)
+      if (problems.length || typeof rt !== 'number' || typeof area !== 'number') { errors.push(...problems); return }
+    }
+    const retentionTime = rt as number
+    seen.set(retentionTime, row)
+    areaSum += area as number
+    const peak: Peak = { retentionTime, area: area as number, row }
+    if (fromPercent) peak.areaPercent = area as number
+    if (extras.length) addOptionalValues(peak, extras, i, row, cells, leftOut)
     parsed.push(peak)
   })
   for (const name of leftOut) warnings.push(`Some ${name} values are not numbers or out of range and were left out.`)
@@ -284,7 +357,7 @@ function retentionInMinutes(
 }
 
 /** Reads a peak table. Any error refuses the whole table: `peaks` is then empty. */
-export function parsePeakTable(text: string, options: PeakTableOptions = {}): ParsedPeakTable {
+export function parsePeakTable(text: string, options: PeakTableOptions = {}, split?: string[]): ParsedPeakTable {
   const warnings: string[] = []
   const errors: RowError[] = []
   const refuse = (row: number, code: ParseErrorCode, message: string): ParsedPeakTable => (
@@ -292,14 +365,14 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}): Pa
   )
   const maxBytes = options.maxBytes ?? MAX_UPLOAD_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
-  if (text.length > maxBytes || utf8Length(text) > maxBytes) {
+  if (mayExceed(text, maxBytes)) {
     return refuse(
       0,
       'too-large',
       `The file is larger than ${(maxBytes / 1e6).toFixed(0)} MB; a peak table is much smaller, so check that the right file was chosen.`,
     )
   }
-  const lines = splitLines(text)
+  const lines = split ?? splitLines(text)
   const header = findHeader(lines)
   if (!header) return refuse(0, 'no-header', 'No header row naming the retention time and area columns was found.')
   if (!header.kinds.has('rt')) {

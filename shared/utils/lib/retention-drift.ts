@@ -91,9 +91,16 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
   const near = new Map<DriftSlot, Peak[]>()
   const outcome: DriftOutcome = { drifted: [], contested: [], beside: [], between: [], unassigned: [] }
   for (const p of unassigned) {
-    const hits = slots.filter((s, i) => outside(p.retentionTime, s, reach[i]!) !== null)
-    if (hits.length === 1) near.set(hits[0]!, [...(near.get(hits[0]!) ?? []), p])
-    else outcome.unassigned.push(p)
+    // Most unassigned peaks of a long table are near no window: find the first hit before building a list.
+    const first = slots.findIndex((s, i) => outside(p.retentionTime, s, reach[i]!) !== null)
+    const hits = first < 0 ? [] : slots.filter((s, i) => i >= first && outside(p.retentionTime, s, reach[i]!) !== null)
+    if (hits.length === 1) {
+      const list = near.get(hits[0]!)
+      if (list) list.push(p)
+      else near.set(hits[0]!, [p])
+    } else {
+      outcome.unassigned.push(p)
+    }
     // At the exact midpoint between two windows both reach it: it belongs to neither.
     if (hits.length > 1) outcome.between.push({ slots: hits, peak: p })
   }
@@ -132,18 +139,10 @@ export function driftFlags(slots: readonly DriftSlot[], outcome: DriftOutcome, e
       severity: 'warning',
       productSmiles: c.slot.productSmiles,
       retentionTimes: c.peaks.map((p) => p.retentionTime),
-      message: `${c.peaks.length} peaks (${c.peaks.map((p) => fmt(p.retentionTime)).join(', ')} min) lie just outside the empty window for ${c.slot.name} (${range(c.slot)}); none was counted, because only one of them can be that product. ${CHECK.charAt(0).toUpperCase()}${CHECK.slice(1)}.`,
+      message: `${c.peaks.length} peaks (${timesList(c.peaks)}) lie just outside the empty window for ${c.slot.name} (${range(c.slot)}); none was counted, because only one of them can be that product. ${CHECK.charAt(0).toUpperCase()}${CHECK.slice(1)}.`,
     })
   }
-  for (const b of outcome.beside) {
-    const why = b.slot.product
-      ? 'That window already has its peak, so this one is probably another compound (an impurity or a shoulder)'
-      : 'If it is that compound, the retention times have drifted'
-    flags.push({
-      code: 'retention-drift', severity: 'warning', retentionTimes: [b.peak.retentionTime],
-      message: `The peak at ${fmt(b.peak.retentionTime)} min lies just outside the window for ${b.slot.name} (${range(b.slot)}) and was not counted. ${why}: ask your TA to check the windows.`,
-    })
-  }
+  for (const [slot, peaks] of groupBy(outcome.beside, (b) => b.slot, (b) => b.peak)) flags.push(besideFlag(slot, peaks))
   for (const b of outcome.between) {
     flags.push({
       code: 'retention-drift', severity: 'warning', retentionTimes: [b.peak.retentionTime],
@@ -151,25 +150,77 @@ export function driftFlags(slots: readonly DriftSlot[], outcome: DriftOutcome, e
     })
   }
   const shifts: number[] = outcome.drifted.map((d) => d.minutes)
+  const drifted = new Set(outcome.drifted.map((d) => d.peak))
   for (const s of slots) {
     const margin = edgeFraction * (s.window.rtMax - s.window.rtMin)
+    const atEdge: Record<'start' | 'end', Peak[]> = { start: [], end: [] }
     for (const p of s.peaks) {
-      if (outcome.drifted.some((d) => d.peak === p)) continue
+      if (drifted.has(p)) continue
       const late = s.window.rtMax - p.retentionTime < margin
       if (!late && p.retentionTime - s.window.rtMin >= margin) continue
       // Inside the window the direction is what counts: from its centre toward the edge.
       shifts.push(p.retentionTime - (s.window.rtMin + s.window.rtMax) / 2)
-      flags.push({
-        code: 'retention-drift',
-        severity: 'info',
-        retentionTimes: [p.retentionTime],
-        message: `The peak at ${fmt(p.retentionTime)} min sits at the ${late ? 'end' : 'start'} of the window for ${s.name} (${range(s)}); retention times may have drifted, so compare with the standard run.`,
-      })
+      atEdge[late ? 'end' : 'start'].push(p)
     }
+    for (const edge of ['start', 'end'] as const) if (atEdge[edge].length) flags.push(edgeFlag(s, edge, atEdge[edge]))
   }
   const agreement = shiftAgreement(shifts, outcome.drifted.length)
   if (agreement) flags.push(agreement)
   return flags
+}
+
+// A long table can put dozens of peaks beside or at the edge of one window: they get one flag
+// per window (and edge), listing their times, so neither the page nor the stored version fills
+// with the same sentence.
+const MAX_LISTED = 8
+
+/** "3.61, 3.62, 3.64 min"; past MAX_LISTED the rest are counted ("… and 12 more min"). */
+function timesList(peaks: readonly Peak[]): string {
+  const shown = peaks.slice(0, MAX_LISTED).map((p) => fmt(p.retentionTime))
+  const rest = peaks.length - shown.length
+  return `${shown.join(', ')}${rest > 0 ? ` and ${rest} more` : ''} min`
+}
+
+function groupBy<T, K, V>(items: readonly T[], key: (item: T) => K, value: (item: T) => V): Map<K, V[]> {
+  const groups = new Map<K, V[]>()
+  for (const item of items) {
+    const k = key(item)
+    const group = groups.get(k)
+    if (group) group.push(value(item))
+    else groups.set(k, [value(item)])
+  }
+  return groups
+}
+
+function besideFlag(slot: DriftSlot, peaks: readonly Peak[]): Flag {
+  const times = peaks.map((p) => p.retentionTime)
+  if (peaks.length === 1) {
+    const why = slot.product
+      ? 'That window already has its peak, so this one is probably another compound (an impurity or a shoulder)'
+      : 'If it is that compound, the retention times have drifted'
+    return {
+      code: 'retention-drift', severity: 'warning', retentionTimes: times,
+      message: `The peak at ${fmt(times[0]!)} min lies just outside the window for ${slot.name} (${range(slot)}) and was not counted. ${why}: ask your TA to check the windows.`,
+    }
+  }
+  const why = slot.product
+    ? 'That window already has its peak, so these are probably other compounds (impurities or shoulders)'
+    : 'If they are that compound, the retention times have drifted'
+  return {
+    code: 'retention-drift', severity: 'warning', retentionTimes: times,
+    message: `${peaks.length} peaks (${timesList(peaks)}) lie just outside the window for ${slot.name} (${range(slot)}) and were not counted. ${why}: ask your TA to check the windows.`,
+  }
+}
+
+function edgeFlag(slot: DriftSlot, edge: 'start' | 'end', peaks: readonly Peak[]): Flag {
+  const times = peaks.map((p) => p.retentionTime)
+  const where = peaks.length === 1
+    ? `The peak at ${fmt(times[0]!)} min sits`
+    : `${peaks.length} peaks (${timesList(peaks)}) sit`
+  return {
+    code: 'retention-drift', severity: 'info', retentionTimes: times,
+    message: `${where} at the ${edge} of the window for ${slot.name} (${range(slot)}); retention times may have drifted, so compare with the standard run.`,
+  }
 }
 
 /**

@@ -2,9 +2,10 @@
 // around them (totals, report furniture, page breaks that reprint the header).
 import { type ColumnKind, type TimeUnit, classifyHeader, timeUnitOf } from './header-names'
 import { excerpt, looksNumeric } from './number-text'
+import { NOT_PLAIN, fastPaths, plainKind } from './plain-number'
 import {
   type Cell, type Delimiter,
-  SEPARATOR_LINE, alignCells, furnitureOf, isUnitCell, mergeHeaderTokens, splitCells, splitWideGaps,
+  SEPARATOR_LINE, alignCells, furnitureOf, isUnitCell, mergeHeaderTokens, splitCells, splitTexts, splitWideGaps,
 } from './table-text'
 
 export interface HeaderCandidate {
@@ -58,12 +59,13 @@ export function findHeader(lines: string[], wanted: ColumnKind[] = ['rt', 'area'
   return partial
 }
 
+const LETTER = /\p{L}/u
 const TOTALS = /^(grand\s+)?(totals?|totale|totaal|totaux|sum|suma|summe|somme|soma|gesamt|insgesamt|razem)\b|^[σΣ∑]/i
 
 function rowCells(line: string, header: HeaderCandidate): (string | undefined)[] | null {
+  if (header.delimiter !== 'whitespace') return splitTexts(line, header.delimiter)
   const cells = splitCells(line, header.delimiter)
-  if (header.delimiter !== 'whitespace' || cells.length === header.cells.length) return cells.map((c) => c.text)
-  return alignCells(cells, header.cells)
+  return cells.length === header.cells.length ? cells.map((c) => c.text) : alignCells(cells, header.cells)
 }
 
 const CLOCK_UNIT = /^(h+:)?m+:s+$/i
@@ -86,6 +88,16 @@ function isRepeatedHeader(line: string, cells: (string | undefined)[] | null, he
   const rt = header.kinds.get('rt')!.index
   const area = (header.kinds.get('area') ?? header.kinds.get('areaPercent'))?.index
   return classifyHeader(cells[rt] ?? '').kind === 'rt' && area !== undefined && classifyHeader(cells[area] ?? '').kind !== null
+}
+
+/**
+ * Whether isRepeatedHeader needs asking: a line without words that does not hold the header's
+ * first name, and whose retention-time cell is a plain number, can be neither the header line
+ * nor a header row (a plain number is never a column name).
+ */
+function mayRepeatHeader(words: boolean, line: string, cells: (string | undefined)[] | null, header: HeaderCandidate): boolean {
+  if (words || !cells || line.includes(header.cells[0]!.text)) return true
+  return plainKind(cells[header.kinds.get('rt')!.index] ?? '') === NOT_PLAIN
 }
 
 /** A line that does not fit the columns and reads as words ("GC bay 2 - injection report"), not as a row of numbers. */
@@ -120,18 +132,21 @@ export function collectRows(
     const line = raw.includes('\f') ? raw.replace(/\f/g, ' ') : raw
     if (line !== raw) pageBreak = true
     if (line.trim() === '' || SEPARATOR_LINE.test(line)) continue
-    const furniture = furnitureOf(line)
+    // Furniture and totals start with a word (or a sum sign): a row of bare numbers needs neither test.
+    const words = LETTER.test(line) || !fastPaths.enabled
+    const totalsPossible = words || line.includes('\u2211')
+    const furniture = words ? furnitureOf(line) : null
     if (furniture && furniture !== 'label') {
       if (furniture === 'page') pageBreak = true
       skip(i + 1, line)
       continue
     }
-    if (TOTALS.test(line.trim())) {
+    if (totalsPossible && TOTALS.test(line.trim())) {
       warnings.push(`Row ${i + 1} looks like a totals row and was skipped.`)
       continue
     }
     const cells = rowCells(line, header)
-    if (isRepeatedHeader(line, cells, header, headerLine)) {
+    if (mayRepeatHeader(words, line, cells, header) && isRepeatedHeader(line, cells, header, headerLine)) {
       if (rows.length > 0 && !pageBreak) {
         // Reports with several detector signals repeat the table; the first one is the product run.
         warnings.push(`A second table starts at row ${i + 1}; only the first table was read.`)
@@ -160,7 +175,7 @@ export function collectRows(
     }
     reprinted = false
     const filled = cells.filter((c): c is string => c !== undefined && c.trim() !== '')
-    if (filled.some((c) => TOTALS.test(c.trim()))) {
+    if (totalsPossible && filled.some((c) => TOTALS.test(c.trim()))) {
       warnings.push(`Row ${i + 1} looks like a totals row and was skipped.`)
       continue
     }
@@ -177,7 +192,7 @@ export function collectRows(
       if (t.cells) rows.push({ row: t.row, cells: t.cells })
       else errors.push({ row: t.row, code: 'misaligned', message: `Row ${t.row}: the values do not line up with the header columns.` })
     }
-    pending = []
+    if (pending.length) pending = []
     if (header.delimiter === ',' && filled.length > header.cells.length) {
       errors.push({
         row: i + 1,

@@ -3,6 +3,7 @@
 
 import { classifyHeader, isFillerWord } from './header-names'
 import { looksNumeric } from './number-text'
+import { fastPaths } from './plain-number'
 
 export type Delimiter = ',' | ';' | '\t' | '|' | 'whitespace'
 
@@ -15,6 +16,12 @@ export interface Cell {
 /** Lines without BOM and line-ending noise; index i is file line i + 1. */
 export function splitLines(text: string): string[] {
   return text.replace(/^\uFEFF/, '').split(/\r\n|\r|\n/)
+}
+
+/** The text is more than maxBytes in UTF-8. A UTF-16 unit is at most 3 bytes, so a short text is not counted. */
+export function mayExceed(text: string, maxBytes: number): boolean {
+  if (text.length > maxBytes) return true
+  return text.length * 3 > maxBytes && utf8Length(text) > maxBytes
 }
 
 export function utf8Length(text: string): number {
@@ -47,6 +54,20 @@ export function splitCells(line: string, delimiter: Delimiter): Cell[] {
     return cells
   }
   return splitQuoted(line, delimiter)
+}
+
+const mayBeSpace = (c: number) => c <= 32 || c >= 0x80
+
+/** The cells' texts only (splitCells without positions): what the readers of data rows need. */
+export function splitTexts(line: string, delimiter: Delimiter): string[] {
+  if (delimiter === 'whitespace' || line.includes('"') || !fastPaths.enabled) return splitCells(line, delimiter).map((c) => c.text)
+  const texts = line.split(delimiter)
+  for (let k = 0; k < texts.length; k++) {
+    const text = texts[k]!
+    // Trimming only when an end may be white space (ASCII space and controls, or any non-ASCII) saves a string per cell.
+    if (text !== '' && (mayBeSpace(text.charCodeAt(0)) || mayBeSpace(text.charCodeAt(text.length - 1)))) texts[k] = text.trim()
+  }
+  return texts
 }
 
 // Hand-written rather than papaparse: a parser set up per line costs more than the whole line's work.

@@ -1,11 +1,12 @@
 // Raw detector traces (time, signal) as text, and telling a trace from a peak table.
 import { type TimeUnit, classifyHeader, timeUnitOf } from './header-names'
-import { type ColumnStyle, type ReadProblem, decideStyles, excerpt, looksNumeric, readCell, tallyColumn } from './number-text'
+import { type ColumnStyle, type ReadProblem, decideStyles, excerpt, looksNumeric, readCell } from './number-text'
+import { readPlain, tallyCells } from './plain-number'
 import {
   type RowError, type TableMeta, type PeakTableOptions,
   MAX_PEAK_AREA, MAX_RETENTION_MINUTES, chooseTimeUnit, describeProblem, findHeader, toMinutes,
 } from './peak-table'
-import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, utf8Length } from './table-text'
+import { type Delimiter, SEPARATOR_LINE, mergeHeaderTokens, splitCells, splitLines, splitTexts, mayExceed } from './table-text'
 
 export interface TraceOptions {
   timeUnit?: PeakTableOptions['timeUnit']
@@ -37,6 +38,13 @@ function numericCells(line: string, d: Delimiter): number {
   return cells.every((c) => c.text === '' || looksNumeric(c.text)) ? cells.filter((c) => c.text !== '').length : 0
 }
 
+/** How many non-blank lines follow line i, counting no further than `enough`. */
+function filledAfter(lines: string[], i: number, enough: number): number {
+  let n = 0
+  for (let j = i + 1; j < lines.length && n < enough; j++) if (lines[j]!.trim() !== '') n++
+  return n
+}
+
 /** First line from which three consecutive non-blank lines share a delimiter with ≥ 2 numbers each. */
 function findDataStart(lines: string[]): { index: number, delimiter: Delimiter } | null {
   for (let i = 0; i < Math.min(lines.length, 500); i++) {
@@ -50,7 +58,7 @@ function findDataStart(lines: string[]): { index: number, delimiter: Delimiter }
         if (numericCells(lines[j]!, d) !== count) break
         ok++
       }
-      if (ok >= Math.min(2, lines.slice(i + 1).filter((l) => l.trim() !== '').length)) return { index: i, delimiter: d }
+      if (ok >= Math.min(2, filledAfter(lines, i, 2))) return { index: i, delimiter: d }
     }
   }
   return null
@@ -67,18 +75,52 @@ function headerAbove(lines: string[], start: number, delimiter: Delimiter) {
   return null
 }
 
+/** One filled cell that is not a number: a label or a note between the rows. */
+function loneText(cells: string[]): boolean {
+  let filled = -1
+  for (let k = 0; k < cells.length; k++) {
+    if (cells[k] === '') continue
+    if (filled >= 0) return false
+    filled = k
+  }
+  return filled >= 0 && !looksNumeric(cells[filled]!)
+}
+
+/** A row's time and signal (plain decimals straight away, anything else through readCell), or the row's error. */
+function readPoint(
+  row: number, tRaw: string, timeStyle: ColumnStyle, yRaw: string, signalStyle: ColumnStyle,
+): { t: number, y: number } | RowError {
+  const tPlain = readPlain(tRaw, timeStyle)
+  const yPlain = readPlain(yRaw, signalStyle)
+  if (tPlain !== undefined && yPlain !== undefined) return { t: tPlain, y: yPlain }
+  const t = tPlain === undefined ? readCell(tRaw, timeStyle) : { value: tPlain }
+  const y = yPlain === undefined ? readCell(yRaw, signalStyle) : { value: yPlain }
+  if (t === null || y === null) return { row, code: 'non-numeric', message: `Row ${row}: the time and signal must both be numbers.` }
+  if ('problem' in t || 'problem' in y) {
+    const [what, raw, problem] = 'problem' in t
+      ? ['time', tRaw, t.problem] as const
+      : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
+    return {
+      row,
+      code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric',
+      message: `Row ${row}: ${describeProblem(what, raw, problem)}.`,
+    }
+  }
+  return { t: t.value, y: y.value }
+}
+
 /** Reads a two-column (or wider) time/signal trace; tolerates preambles, BOM, decimal commas and footers. */
-export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrace {
+export function parseTrace(text: string, options: TraceOptions = {}, split?: string[]): ParsedTrace {
   const warnings: string[] = []
   const refuse = (row: number, code: RowError['code'], message: string): ParsedTrace => (
     { time: [], signal: [], warnings, errors: [{ row, code, message }], meta: null }
   )
   const maxBytes = options.maxBytes ?? MAX_TRACE_BYTES
   if (typeof text !== 'string' || text.trim() === '') return refuse(0, 'empty', 'The file is empty.')
-  if (text.length > maxBytes || utf8Length(text) > maxBytes) {
+  if (mayExceed(text, maxBytes)) {
     return refuse(0, 'too-large', `The trace file is larger than ${Math.round(maxBytes / 1e6)} MB.`)
   }
-  const lines = splitLines(text)
+  const lines = split ?? splitLines(text)
   const start = findDataStart(lines)
   if (!start) return refuse(0, 'no-header', 'No rows with a time and a signal value were found.')
   const header = headerAbove(lines, start.index, start.delimiter)
@@ -89,11 +131,11 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   const timeSample: string[] = []
   const signalSample: string[] = []
   for (let i = start.index; i < lines.length && timeSample.length < STYLE_SAMPLE; i++) {
-    const cells = splitCells(lines[i]!, start.delimiter)
-    timeSample.push(cells[timeIdx]?.text ?? '')
-    signalSample.push(cells[signalIdx]?.text ?? '')
+    const cells = splitTexts(lines[i]!, start.delimiter)
+    timeSample.push(cells[timeIdx] ?? '')
+    signalSample.push(cells[signalIdx] ?? '')
   }
-  const [timeStyle, signalStyle] = decideStyles([tallyColumn(timeSample), tallyColumn(signalSample)], 0) as [ColumnStyle, ColumnStyle]
+  const [timeStyle, signalStyle] = decideStyles([tallyCells(timeSample), tallyCells(signalSample)], 0) as [ColumnStyle, ColumnStyle]
   const decimalMark = timeStyle.decimal
   const maxPoints = options.maxPoints ?? MAX_TRACE_POINTS
   const time: number[] = []
@@ -102,32 +144,19 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
   for (let i = start.index; i < lines.length && errors.length < MAX_ERRORS; i++) {
     const line = lines[i]!
     if (line.trim() === '') continue
-    const cells = splitCells(line, start.delimiter)
-    const filled = cells.filter((c) => c.text !== '')
-    if (filled.length === 1 && !looksNumeric(filled[0]!.text)) {
+    const cells = splitTexts(line, start.delimiter)
+    if (loneText(cells)) {
       warnings.push(`Row ${i + 1} is not part of the trace and was skipped.`)
       continue
     }
-    const tRaw = cells[timeIdx]?.text ?? ''
-    const yRaw = cells[signalIdx]?.text ?? ''
-    const t = readCell(tRaw, timeStyle)
-    const y = readCell(yRaw, signalStyle)
-    if (t === null || y === null) {
-      errors.push({ row: i + 1, code: 'non-numeric', message: `Row ${i + 1}: the time and signal must both be numbers.` })
+    const tRaw = cells[timeIdx] ?? ''
+    const yRaw = cells[signalIdx] ?? ''
+    const point = readPoint(i + 1, tRaw, timeStyle, yRaw, signalStyle)
+    if ('message' in point) {
+      errors.push(point)
       continue
     }
-    if ('problem' in t || 'problem' in y) {
-      const [what, raw, problem] = 'problem' in t
-        ? ['time', tRaw, t.problem] as const
-        : ['signal', yRaw, (y as { problem: ReadProblem }).problem] as const
-      errors.push({
-        row: i + 1,
-        code: problem.kind === 'ambiguous' ? 'ambiguous-number' : 'non-numeric',
-        message: `Row ${i + 1}: ${describeProblem(what, raw, problem)}.`,
-      })
-      continue
-    }
-    if (Math.abs(y.value) > MAX_PEAK_AREA) {
+    if (Math.abs(point.y) > MAX_PEAK_AREA) {
       errors.push({
         row: i + 1,
         code: 'out-of-range',
@@ -135,7 +164,7 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       })
       continue
     }
-    if (time.length > 0 && !(t.value > time[time.length - 1]!)) {
+    if (time.length > 0 && !(point.t > time[time.length - 1]!)) {
       errors.push({
         row: i + 1,
         code: 'non-monotonic-time',
@@ -144,8 +173,8 @@ export function parseTrace(text: string, options: TraceOptions = {}): ParsedTrac
       continue
     }
     if (time.length >= maxPoints) return refuse(i + 1, 'too-many-rows', `The trace has more than ${maxPoints} points.`)
-    time.push(t.value)
-    signal.push(y.value)
+    time.push(point.t)
+    signal.push(point.y)
   }
   if (errors.length) return { time: [], signal: [], warnings, errors, meta: null }
   if (time.length < 10) return refuse(start.index + 1, 'too-few-points', 'A trace needs at least 10 points.')
@@ -177,17 +206,18 @@ export interface UploadSniff {
 }
 
 /** Says whether a text upload is a peak table or a raw trace (many rows, increasing time, no area column). */
-export function sniffUpload(text: string): UploadSniff {
+export function sniffUpload(text: string, split?: string[]): UploadSniff {
   if (typeof text !== 'string' || text.trim() === '') return { kind: 'unknown', reason: 'The file is empty.' }
-  const lines = splitLines(text)
+  const lines = split ?? splitLines(text)
   const header = findHeader(lines)
   if (header?.kinds.has('rt') && (header.kinds.has('area') || header.kinds.has('areaPercent'))) {
     return { kind: 'peak-table', reason: `Row ${header.row} names retention-time and area columns.` }
   }
   const start = findDataStart(lines)
   if (start) {
-    const probe = lines.slice(0, Math.min(lines.length, start.index + 2000)).join('\n')
-    const trace = parseTrace(probe, { maxBytes: Number.POSITIVE_INFINITY })
+    const head = lines.slice(0, Math.min(lines.length, start.index + 2000))
+    // The probe's lines are the head itself, unless a second BOM would be taken off again.
+    const trace = parseTrace(head.join('\n'), { maxBytes: Number.POSITIVE_INFINITY }, head[0]?.startsWith('\uFEFF') ? undefined : head)
     const rows = lines.length - start.index
     if (trace.errors.length === 0 && rows >= MIN_TRACE_POINTS) {
       return { kind: 'trace', reason: `About ${rows} rows of time and signal with increasing time and no area column.` }

@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto'
+import { sql } from 'kysely'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { closeTestDb, createUser, testDb } from '../../support/db'
 import { auditRowsOf, demoPracticalScope } from '../../support/services-fixtures'
@@ -71,5 +72,24 @@ describe('storeSubmissionVersion', () => {
     // The file row of the refused version went with it.
     const filesAfter = await testDb().selectFrom('files').select('id').where('uploadedBy', '=', actor.id).execute()
     expect(filesAfter).toHaveLength(filesBefore.length)
+  })
+
+  it('keeps a long file and its peaks byte for byte, compressed with lz4 where the server has it', async () => {
+    const { actor, unit } = await pair()
+    const lines = ['Time (min),Signal (pA)', ...Array.from({ length: 3000 }, (_, i) => `${(i / 300).toFixed(5)},${(0.5 + (i % 17) / 100).toFixed(4)}`)]
+    const file = upload(`${lines.join('\n')}\n`)
+    const peaks = Array.from({ length: 2000 }, (_, i) => ({ retentionTime: 0.5 + i / 500, area: 1000 + i, row: i + 2, assignedTo: null }))
+    const stored = await storeSubmissionVersion(testDb(), actor, {
+      practicalId: scope.practical.id, unit, mediaType: 'text/plain', run: { ...run, peaks },
+      keyFactor: 'secondaryToPrimary', late: false, file, idempotencyKey: null,
+    })
+    const { rows: [row] } = await sql<{ content: Buffer, parsed: unknown, fileCompression: string | null, peaksCompression: string | null, lz4: boolean }>`
+      select f.content, s.parsed, pg_column_compression(f.content) as "fileCompression", pg_column_compression(s.parsed) as "peaksCompression",
+        (select 'lz4' = any(enumvals) from pg_settings where name = 'default_toast_compression') as lz4
+      from submissions s join files f on f.id = s.file_id where s.id = ${stored.id}`.execute(testDb())
+    expect(Buffer.compare(row!.content, file.bytes)).toBe(0)
+    expect(row!.parsed).toEqual(peaks)
+    const expected = row!.lz4 ? 'lz4' : 'pglz'
+    expect([row!.fileCompression, row!.peaksCompression]).toEqual([expected, expected])
   })
 })
