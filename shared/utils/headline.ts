@@ -6,7 +6,7 @@
 // The arithmetic mean is still given, never leading, and is marked as pulled by outliers while
 // flagged runs wait for a reviewer. Pure: engines take plain data and return plain data.
 import jStat from 'jstat'
-import { StatisticsError, summarize } from './statistics'
+import { StatisticsError, summarize, type Summary } from './statistics'
 import { requireFiniteList } from './lib/moments'
 import { HEADLINE_LABELS } from '../types/lib/labels'
 
@@ -74,12 +74,17 @@ const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? o
 
 export function chooseHeadline(
   values: readonly number[],
-  options: { unreviewedOutliers?: number, confidence?: number } = {},
+  options: {
+    unreviewedOutliers?: number
+    confidence?: number
+    /** summarize() of these values at this confidence, linear and (every value above zero) log: saves two passes. */
+    summaries?: { linear: Summary, log: Summary | null }
+  } = {},
 ): ClassHeadline {
   const xs = requireFiniteList(values, (message) => new StatisticsError(message))
   const confidence = options.confidence ?? 0.95
   const unreviewed = Math.max(0, options.unreviewedOutliers ?? 0)
-  const linear = summarize(xs, { confidence })
+  const linear = options.summaries?.linear ?? summarize(xs, { confidence })
   const notes: string[] = []
   const base = {
     n: xs.length, median: linear.median, mean: linear.mean, meanCi95: linear.ci,
@@ -88,7 +93,7 @@ export function chooseHeadline(
   if (!xs.length) return { ...base, statistic: null, value: null, ci95: null, interval: null, reason: 'No results yet.' }
 
   if (xs.every((x) => x > 0)) {
-    const log = summarize(xs, { confidence, logScale: true })
+    const log = options.summaries?.log ?? summarize(xs, { confidence, logScale: true })
     // The back-transform can overflow for values near the largest double; the median then leads.
     if (log.mean !== null && Number.isFinite(log.mean) && (xs.length < 2 || log.ci !== null)) {
       if (!log.ci) notes.push('An interval needs at least 2 results.')
