@@ -7,7 +7,7 @@
 // flagged runs wait for a reviewer. Pure: engines take plain data and return plain data.
 import jStat from 'jstat'
 import { StatisticsError, summarize, type Summary } from './statistics'
-import { requireFiniteList } from './lib/moments'
+import { ascending, requireFiniteList } from './lib/moments'
 import { HEADLINE_LABELS } from '../types/lib/labels'
 
 export type HeadlineStatistic = 'geometric-mean' | 'median'
@@ -58,7 +58,7 @@ export function medianInterval(
   const xs = requireFiniteList(values, (message) => new StatisticsError(message))
   if (!(confidence > 0 && confidence < 1)) throw new StatisticsError('The confidence level must lie strictly between 0 and 1.')
   const n = xs.length
-  const sorted = [...xs].sort((a, b) => a - b)
+  const sorted = ascending(xs)
   // P(B ≤ j) for B ~ Binomial(n, ½) is the regularised incomplete beta I_½(n − j, j + 1): stable for large n.
   const lowerTail = (j: number) => (j < 0 ? 0 : j >= n ? 1 : jStat.ibeta(0.5, n - j, j + 1))
   let best: number | null = null
