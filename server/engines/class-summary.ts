@@ -142,7 +142,10 @@ export function classSummary(input: ClassSummaryInput): PracticalSummary {
   }
 }
 
-/** The summary as the JSON the route sends, written where it was computed. */
-export function classSummaryJson(input: ClassSummaryInput): string {
-  return JSON.stringify(classSummary(input))
+/**
+ * The summary as the JSON the route sends, written where it was computed, as UTF-8 bytes: sent
+ * as they are, every time, with nothing to encode or measure again on the request loop.
+ */
+export function classSummaryJson(input: ClassSummaryInput): Uint8Array {
+  return new TextEncoder().encode(JSON.stringify(classSummary(input)))
 }

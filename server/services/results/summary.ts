@@ -82,8 +82,8 @@ export function practicalSummary(scope: PracticalScope, options: SummaryOptions)
   return summaryAnswer(scope, options, 'object', (input, inline) => (inline ? classSummary(input) : runEngine('classSummary', input)))
 }
 
-/** The same summary as the JSON text the route sends: a large class's is written in the engine worker. */
-export function practicalSummaryJson(scope: PracticalScope, options: SummaryOptions): Promise<string> {
+/** The same summary as the JSON (UTF-8) the route sends: a large class's is written in the engine worker. */
+export function practicalSummaryJson(scope: PracticalScope, options: SummaryOptions): Promise<Uint8Array> {
   return summaryAnswer(scope, options, 'json',
     (input, inline) => (inline ? classSummaryJson(input) : runEngine('classSummaryJson', input)))
 }
