@@ -6,6 +6,7 @@ import type { PracticalChemistry } from '#shared/utils/submission'
 import { classSummary, classSummaryJson, type ClassSummaryInput, type SummaryChemistry } from '../../engines/class-summary'
 import { sizedMemo } from '../../engines/memo'
 import { runEngine } from '../../utils/engines'
+import { jsonBytes, type JsonBytes } from '../../utils/json-text'
 import { classColumnsText, classFingerprint } from './class-columns'
 import { INLINE_RESULTS } from './class-statistics'
 import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
@@ -82,8 +83,11 @@ export function practicalSummary(scope: PracticalScope, options: SummaryOptions)
   return summaryAnswer(scope, options, 'object', (input, inline) => (inline ? classSummary(input) : runEngine('classSummary', input)))
 }
 
-/** The same summary as the JSON (UTF-8) the route sends: a large class's is written in the engine worker. */
-export function practicalSummaryJson(scope: PracticalScope, options: SummaryOptions): Promise<Uint8Array> {
+/**
+ * The same summary as the JSON (UTF-8) the route sends, remembered with its compressed forms
+ * (server/utils/json-text.ts): a large class's is written in the engine worker.
+ */
+export function practicalSummaryJson(scope: PracticalScope, options: SummaryOptions): Promise<JsonBytes> {
   return summaryAnswer(scope, options, 'json',
-    (input, inline) => (inline ? classSummaryJson(input) : runEngine('classSummaryJson', input)))
+    async (input, inline) => jsonBytes(inline ? classSummaryJson(input) : await runEngine('classSummaryJson', input)))
 }

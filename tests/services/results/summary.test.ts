@@ -82,7 +82,7 @@ async function expectSameAsBefore(s: PracticalScope) {
     .toEqual(before.bySection.filter((b) => now.bySection.some((x) => x.sectionId === b.sectionId)))
   expect(now.excluded.map((e) => e.submissionId)).toEqual(before.excluded)
   expect(now.distribution.map((d) => d.observed)).toEqual(before.observed)
-  expect(JSON.parse(new TextDecoder().decode(await practicalSummaryJson(s, {})))).toEqual(JSON.parse(JSON.stringify(now)))
+  expect(JSON.parse(new TextDecoder().decode((await practicalSummaryJson(s, {})).bytes))).toEqual(JSON.parse(JSON.stringify(now)))
   return now
 }
 
