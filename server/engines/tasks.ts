@@ -6,6 +6,7 @@ import { depictSubstrate, type DepictOptions } from '../../shared/utils/depictio
 import { analyzeRequest, reactivityRequest } from './chemistry'
 import { evaluateUpload, standardRunPeaks } from './uploads'
 import { factorStatistics, outlierReport } from './statistics'
+import { classSummary, classSummaryJson } from './class-summary'
 
 export interface ReagentForm {
   smiles: string
@@ -20,6 +21,8 @@ export const ENGINE_TASKS = {
   standardRunPeaks,
   factorStatistics,
   outlierReport,
+  classSummary,
+  classSummaryJson,
   substrateAnalysis: ({ smiles, halogen }: { smiles: string, halogen: Halogen }): SubstrateAnalysis =>
     analyzeSubstrate(smiles, { halogen }),
   depictions: (items: Array<{ smiles: string, options: DepictOptions }>): string[] =>

@@ -46,7 +46,7 @@ export function factorStats(values: FactorValue[], settings: OutlierSettings, op
     max: s.max,
     log: { mean: log?.mean ?? null, ci95: log?.ci ?? null, sd: log?.sd ?? null },
     test: { name: report.test, applied: report.applied, note: report.note, maxOutliers: report.maxOutliers },
-    headline: chooseHeadline(xs, { unreviewedOutliers }),
+    headline: chooseHeadline(xs, { unreviewedOutliers, summaries: { linear: s, log } }),
     notes: [
       ...s.notes,
       ...(xs.length && !positive ? ['Some values are zero or negative, so no log-scale summary.'] : []),

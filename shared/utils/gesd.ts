@@ -45,9 +45,21 @@ export function gesdDefaultMaxOutliers(n: number): number {
 export function gesdCritical(n: number, i: number, alpha: number): number {
   const df = n - i - 1
   if (df < 1) throw new StatisticsError(`Step ${i} of the generalized ESD test needs n - i - 1 >= 1 degrees of freedom; n is ${n}.`)
+  // λ_i depends on n and i only through the values left, n − i + 1; a class of 20,000 needs
+  // 4,000 of them (a t quantile each, about a fifth of a second), and one more upload shifts
+  // them by one. Kept per α and size, so a class that grows reuses all but one.
+  const key = `${alpha}:${n - i + 1}`
+  const known = criticalValues.get(key)
+  if (known !== undefined) return known
   const t = tCritical(1 - alpha / (2 * (n - i + 1)), df)
-  return ((n - i) * t) / Math.sqrt((df + t * t) * (n - i + 1))
+  const lambda = ((n - i) * t) / Math.sqrt((df + t * t) * (n - i + 1))
+  if (criticalValues.size >= CRITICAL_VALUES_LIMIT) criticalValues.clear()
+  criticalValues.set(key, lambda)
+  return lambda
 }
+
+const CRITICAL_VALUES_LIMIT = 200_000
+const criticalValues = new Map<string, number>()
 
 /** Below this many values Rosner's λ is only roughly right (e-Handbook §1.3.5.17.3, from memory). */
 const GESD_ACCURATE_N = 15

@@ -6,8 +6,8 @@
 // The arithmetic mean is still given, never leading, and is marked as pulled by outliers while
 // flagged runs wait for a reviewer. Pure: engines take plain data and return plain data.
 import jStat from 'jstat'
-import { StatisticsError, summarize } from './statistics'
-import { requireFiniteList } from './lib/moments'
+import { StatisticsError, summarize, type Summary } from './statistics'
+import { ascending, requireFiniteList } from './lib/moments'
 import { HEADLINE_LABELS } from '../types/lib/labels'
 
 export type HeadlineStatistic = 'geometric-mean' | 'median'
@@ -58,7 +58,7 @@ export function medianInterval(
   const xs = requireFiniteList(values, (message) => new StatisticsError(message))
   if (!(confidence > 0 && confidence < 1)) throw new StatisticsError('The confidence level must lie strictly between 0 and 1.')
   const n = xs.length
-  const sorted = [...xs].sort((a, b) => a - b)
+  const sorted = ascending(xs)
   // P(B ≤ j) for B ~ Binomial(n, ½) is the regularised incomplete beta I_½(n − j, j + 1): stable for large n.
   const lowerTail = (j: number) => (j < 0 ? 0 : j >= n ? 1 : jStat.ibeta(0.5, n - j, j + 1))
   let best: number | null = null
@@ -74,12 +74,17 @@ const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? o
 
 export function chooseHeadline(
   values: readonly number[],
-  options: { unreviewedOutliers?: number, confidence?: number } = {},
+  options: {
+    unreviewedOutliers?: number
+    confidence?: number
+    /** summarize() of these values at this confidence, linear and (every value above zero) log: saves two passes. */
+    summaries?: { linear: Summary, log: Summary | null }
+  } = {},
 ): ClassHeadline {
   const xs = requireFiniteList(values, (message) => new StatisticsError(message))
   const confidence = options.confidence ?? 0.95
   const unreviewed = Math.max(0, options.unreviewedOutliers ?? 0)
-  const linear = summarize(xs, { confidence })
+  const linear = options.summaries?.linear ?? summarize(xs, { confidence })
   const notes: string[] = []
   const base = {
     n: xs.length, median: linear.median, mean: linear.mean, meanCi95: linear.ci,
@@ -88,7 +93,7 @@ export function chooseHeadline(
   if (!xs.length) return { ...base, statistic: null, value: null, ci95: null, interval: null, reason: 'No results yet.' }
 
   if (xs.every((x) => x > 0)) {
-    const log = summarize(xs, { confidence, logScale: true })
+    const log = options.summaries?.log ?? summarize(xs, { confidence, logScale: true })
     // The back-transform can overflow for values near the largest double; the median then leads.
     if (log.mean !== null && Number.isFinite(log.mean) && (xs.length < 2 || log.ci !== null)) {
       if (!log.ci) notes.push('An interval needs at least 2 results.')

@@ -3,7 +3,7 @@
 // Rorabacher, Anal. Chem. 63 (1991) 139 (Dixon r10), Iglewicz & Hoaglin (modified z).
 import jStat from 'jstat'
 import {
-  madOf, meanOf as mean, medianOf, quantileOf as quantile, requireFiniteList, sampleSdOf as sampleSd, tameScale,
+  ascending, madOf, meanOf as mean, medianOf, quantileOf as quantile, requireFiniteList, sampleSdOf as sampleSd, tameScale,
 } from './lib/moments'
 
 export class StatisticsError extends Error {
@@ -78,7 +78,7 @@ export function summarize(values: readonly number[], options: { confidence?: num
   // Order statistics come from the values themselves (quantile() cannot overflow).
   const { values: tamed, scale } = logScale ? { values: xs, scale: 1 } : tameScale(xs)
   const unit = (v: number) => v * scale
-  const sorted = [...xs].sort((a, b) => a - b)
+  const sorted = ascending(xs)
   const median = quantile(sorted, 0.5)
   const q1 = quantile(sorted, 0.25)
   const q3 = quantile(sorted, 0.75)

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { memoizeAsync } from '../../server/engines/memo'
+import { memoizeAsync, sizedMemo } from '../../server/engines/memo'
 
 // The cache in front of the engine worker: answers by argument, least recently used dropped
 // first, concurrent calls sharing one computation, failures never remembered.
@@ -31,5 +31,32 @@ describe('memoizeAsync', () => {
     await expect(flaky('CC')).rejects.toThrow('busy')
     fail = false
     await expect(flaky('CC')).resolves.toBe('CC')
+  })
+})
+
+// The class summary's caches: bounded by a size the caller measures (results held), not a count.
+describe('sizedMemo', () => {
+  it('keeps values within the total size, least recently used out first, and never one larger than all', () => {
+    const remember = sizedMemo(10)
+    const calls: string[] = []
+    const get = (key: string, size: number) => remember(key, size, () => { calls.push(key); return key.toUpperCase() })
+    expect(get('a', 4)).toBe('A')
+    expect(get('b', 4)).toBe('B')
+    expect(get('a', 4)).toBe('A') // a is now the most recent
+    expect(get('c', 4)).toBe('C') // 12 > 10: b goes
+    expect(get('a', 4)).toBe('A')
+    expect(get('b', 4)).toBe('B')
+    expect(get('huge', 11)).toBe('HUGE')
+    expect(get('huge', 11)).toBe('HUGE')
+    expect(calls).toEqual(['a', 'b', 'c', 'b', 'huge', 'huge'])
+  })
+
+  it('forgets a promise that failed, so the next call computes again', async () => {
+    const remember = sizedMemo(10)
+    let fail = true
+    const get = () => remember('k', 1, async () => { if (fail) throw new Error('busy'); return 'ok' })
+    await expect(get()).rejects.toThrow('busy')
+    fail = false
+    await expect(get()).resolves.toBe('ok')
   })
 })

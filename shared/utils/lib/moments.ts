@@ -49,7 +49,7 @@ export function momentsOf(xs: readonly number[]): { mean: number, sd: number } {
  * a + w(b − a) is exact when a = b, even among subnormal values; only when the gap itself
  * overflows (huge values of opposite sign) does it fall back to the weighted sum.
  */
-export function quantileOf(sorted: readonly number[], p: number): number {
+export function quantileOf(sorted: ArrayLike<number>, p: number): number {
   const h = (sorted.length - 1) * p
   const lo = Math.floor(h)
   const w = h - lo
@@ -59,7 +59,14 @@ export function quantileOf(sorted: readonly number[], p: number): number {
   return w === 0 ? a : Number.isFinite(gap) ? a + w * gap : a * (1 - w) + b * w
 }
 
-export const medianOf = (xs: readonly number[]) => quantileOf([...xs].sort((a, b) => a - b), 0.5)
+/**
+ * The values in ascending order, as a typed array: its sort is numeric and native, several times
+ * faster than Array#sort with a comparator at 20,000 values (the order is the same; only a -0
+ * beside a 0 may swap places, which no figure can tell apart).
+ */
+export const ascending = (xs: readonly number[]): Float64Array => Float64Array.from(xs).sort()
+
+export const medianOf = (xs: readonly number[]) => quantileOf(ascending(xs), 0.5)
 
 /** Raw median absolute deviation (not scaled by 1.4826), through scaled values when needed. */
 export function madOf(xs: readonly number[], med: number): number {

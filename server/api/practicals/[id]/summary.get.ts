@@ -1,13 +1,16 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { summaryQuerySchema } from '#shared/types/summary'
-import { practicalSummary } from '../../../services/results'
+import { summaryQuerySchema, type PracticalSummary } from '#shared/types/summary'
+import { practicalSummaryJson } from '../../../services/results'
 
 // Public contract: the class-wide factors with their spread, the outliers by the course's test
-// (or ?method=), the exclusions, and the caller's sections one by one.
+// (or ?method=), the exclusions, and the caller's sections one by one. The JSON is written where
+// it was computed (at 20,000 results, in the engine worker) and sent as it is, compressed once.
 export default defineEventHandler(async (event) => {
   requireRole(event, 'instructor', 'ta', 'student')
   const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id)
   const query = readQueryAs(event, summaryQuerySchema)
-  return practicalSummary(scope, { method: query.method, withoutOutliers: query.withoutOutliers, maxOutliers: query.maxOutliers })
+  const { method, withoutOutliers, maxOutliers } = query
+  const answer = await practicalSummaryJson(scope, { method, withoutOutliers, maxOutliers })
+  return sendJsonBytes<PracticalSummary>(event, answer)
 })
