@@ -15,6 +15,8 @@ export interface ConnectionOptions {
   max?: number
   applicationName?: string
   onError?: (error: Error) => void
+  /** How long to wait for a connection, new or from a full pool (3 s unless given). */
+  connectionTimeoutMillis?: number
 }
 
 export function createPool(connectionString: string, options: ConnectionOptions = {}): pg.Pool {
@@ -22,7 +24,7 @@ export function createPool(connectionString: string, options: ConnectionOptions 
     connectionString,
     max: options.max ?? 10,
     // Fail fast when PostgreSQL is down: requests answer 503 instead of hanging.
-    connectionTimeoutMillis: 3000,
+    connectionTimeoutMillis: options.connectionTimeoutMillis ?? 3000,
     idleTimeoutMillis: 30_000,
     application_name: options.applicationName ?? 'halocline',
   })

@@ -9,7 +9,9 @@ let db: Kysely<Database> | undefined
 
 /** Direct access to the test database, for arranging data and checking what was written. */
 export function testDb(): Kysely<Database> {
-  db ??= createDatabase(inject('databaseUrl'), { max: 2, onError: () => {} })
+  // A test's reads queue behind its own slow ones on two busy cores: wait for a connection
+  // rather than fail after the server's 3 s (which is there so a request answers 503 at once).
+  db ??= createDatabase(inject('databaseUrl'), { max: 2, onError: () => {}, connectionTimeoutMillis: 30_000 })
   return db
 }
 
