@@ -6,7 +6,6 @@ import type { MessagePort } from 'node:worker_threads'
 import { analyzeSubstrate } from '../../shared/utils/halogenation'
 import { depictSubstrate } from '../../shared/utils/depiction'
 import { toPlainError, type PlainEngineError } from './errors'
-import { yieldToRequestLoop } from './priority'
 import { runEngineTask, type EngineTaskName } from './tasks'
 
 export interface EngineMessage {
@@ -17,9 +16,6 @@ export interface EngineMessage {
 }
 
 export type EngineReply = { ok: true, value: unknown } | { ok: false, error: PlainEngineError }
-
-// This thread steps back when the request loop wants its core (priority.ts).
-yieldToRequestLoop()
 
 // openchemlib builds its tables on first use (about half a second here): pay that while the
 // worker starts, not inside the first request's time budget.

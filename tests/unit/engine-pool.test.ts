@@ -1,6 +1,4 @@
-import { readdirSync, readFileSync } from 'node:fs'
 import { afterEach, describe, expect, it } from 'vitest'
-import { ENGINE_THREAD_NICE } from '../../server/engines/priority'
 import { createEnginePool, EngineBusyError, EngineTimeoutError, type EnginePool, type EnginePoolOptions } from '../../server/engines/pool'
 import { SubstrateError } from '../../shared/utils/halogenation'
 import { RunInputError, practicalChemistryOf } from '../../shared/utils/submission'
@@ -33,16 +31,6 @@ describe('engine pool', () => {
     const analysis = await pool().run('substrateAnalysis', { smiles: 'CCC', halogen: 'Cl' })
     // Propane has two kinds of C-H: six primary and two secondary hydrogens (common practice).
     expect(analysis.products.map((p) => [p.carbonClass, p.hydrogens])).toEqual([['primary', 6], ['secondary', 2]])
-  }, 30_000)
-
-  it.runIf(process.platform === 'linux')('runs its worker thread at a lower priority than the request loop', async () => {
-    await pool().run('substrateAnalysis', { smiles: 'CC', halogen: 'Cl' })
-    // proc(5): field 19 of /proc/<pid>/task/<tid>/stat is the thread's nice value; the command
-    // name in parentheses may hold spaces, so count from its closing parenthesis.
-    const niceOf = (tid: string) => Number(readFileSync(`/proc/self/task/${tid}/stat`, 'utf8').split(') ')[1]!.split(' ')[16])
-    const nices = readdirSync('/proc/self/task').map(niceOf)
-    expect(niceOf(String(process.pid))).toBe(0)
-    expect(nices).toContain(ENGINE_THREAD_NICE)
   }, 30_000)
 
   it('gives back engine errors as their own classes, with their fields', async () => {
