@@ -35,6 +35,38 @@ function serverUtilsOnly(config: NitroConfig) {
   config.imports.dirs = (config.imports.dirs ?? []).filter((dir) => typeof dir !== 'string' || !resolve(dir).startsWith(shared))
 }
 
+// Nuxt hints every dynamic import of a rendered page as a prefetch, so a lazy chart component
+// (components/**/*Chart.vue, `<Lazy…>`) had the browser fetch chart.js (54 kB) right after the
+// forecast or the upload page loaded, chart or not. Its code and what it imports are fetched when
+// the chart renders (a page that imports them statically still preloads them); what the entry and
+// the layouts load is prefetched as before.
+interface ClientChunk {
+  imports?: string[]
+  dynamicImports?: string[]
+  isEntry?: boolean
+  isDynamicEntry?: boolean
+  prefetch?: boolean
+}
+type ClientManifest = Record<string, ClientChunk>
+
+function chartsWhenDrawn(manifest: ClientManifest) {
+  const reach = (ids: string[], into = new Set<string>()) => {
+    for (const id of ids) {
+      if (into.has(id) || !manifest[id]) continue
+      into.add(id)
+      reach(manifest[id].imports ?? [], into)
+    }
+    return into
+  }
+  // The entry's dynamic imports also list every page here (Nuxt drops those after this hook): only
+  // the layouts among them are prefetched.
+  const entries = Object.keys(manifest).filter((id) => manifest[id]!.isEntry)
+  const layouts = entries.flatMap((id) => manifest[id]!.dynamicImports ?? []).filter((id) => id.startsWith('layouts/'))
+  const always = reach([...entries, ...layouts])
+  const charts = Object.keys(manifest).filter((id) => manifest[id]!.isDynamicEntry && /Chart\.vue$/.test(id))
+  for (const id of reach(charts)) if (!always.has(id)) manifest[id]!.prefetch = false
+}
+
 // Several builds can live side by side (parallel work, benchmarks): HALOCLINE_BUILD_TAG=x
 // builds into .nuxt-x and .output-x instead of .nuxt and .output.
 const tag = process.env.HALOCLINE_BUILD_TAG?.replace(/[^\w-]/g, '')
@@ -171,5 +203,6 @@ export default defineNuxtConfig({
       serverUtilsOnly(config)
     },
     'nitro:init': addEngineWorker,
+    'build:manifest': chartsWhenDrawn,
   },
 })

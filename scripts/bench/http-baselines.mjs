@@ -41,7 +41,8 @@ const SQL = {
     where e.user_id = $1 and e.status = 'active'`,
 
   // GET /api/practicals/:id as a student: the practical, its substrate, method, the student's
-  // sessions, the substrate's windows and the items; nothing when not enrolled where it runs.
+  // sessions, the substrate's windows and the items (with CAS numbers); nothing when not enrolled
+  // where it runs.
   detail: `select json_build_object('id', p.id, 'title', p.title, 'workUnit', p.work_unit, 'notes', p.notes,
       'courseId', c.id, 'courseCode', c.code, 'timezone', c.timezone,
       'substrate', json_build_object('id', sb.id, 'name', sb.name, 'smiles', sb.smiles, 'molarMass', sb.molar_mass, 'density', sb.density),
@@ -56,7 +57,8 @@ const SQL = {
           'rtMin', w.rt_min, 'rtMax', w.rt_max, 'responseFactor', w.response_factor) order by w.rt_min), '[]')
         from substrate_windows w where w.substrate_id = sb.id),
       'items', (select coalesce(json_agg(json_build_object('id', i.id, 'position', i.position, 'role', i.role, 'name', i.name,
-          'smiles', i.smiles, 'molarMass', i.molar_mass, 'density', i.density, 'basis', i.basis, 'amount', i.amount) order by i.position), '[]')
+          'smiles', i.smiles, 'molarMass', i.molar_mass, 'density', i.density, 'basis', i.basis, 'amount', i.amount,
+          'casNumber', i.cas_number) order by i.position), '[]')
         from practical_items i where i.practical_id = p.id)
     ) as body
     from practicals p join courses c on c.id = p.course_id join substrates sb on sb.id = p.substrate_id join methods m on m.id = p.method_id
@@ -99,7 +101,8 @@ const SQL = {
     from practicals p join course_owners o on o.course_id = p.course_id and o.user_id = $2 where p.id = $1`,
 
   // GET /api/stockroom/forecast as the coordinator: the meetings in range with their section and
-  // enrolment, the practicals' items, the catalog, the lots with what remains, the settings.
+  // enrolment, the practicals' items with the reagent links the coordinator dismissed, the
+  // catalog, the lots with what remains, the settings.
   forecast: `select json_build_object(
       'sessions', (select coalesce(json_agg(json_build_object('practicalId', ps.practical_id, 'sectionId', s.id, 'sectionCode', s.code,
           'meetingDate', ps.meeting_date, 'weekday', s.weekday, 'firstDate', s.first_date, 'lastDate', s.last_date,
@@ -107,8 +110,9 @@ const SQL = {
           'stations', (select json_agg(e.station) from enrollments e where e.section_id = s.id and e.status = 'active'))), '[]')
         from practical_sessions ps join sections s on s.id = ps.section_id where ps.meeting_date between $1 and $2),
       'practicals', (select coalesce(json_agg(json_build_object('id', p.id, 'title', p.title, 'courseId', p.course_id, 'courseCode', c.code,
-          'workUnit', p.work_unit, 'items', (select coalesce(json_agg(i order by i.position), '[]') from practical_items i
-            where i.practical_id = p.id))), '[]')
+          'workUnit', p.work_unit, 'items', (select coalesce(json_agg(json_build_object('item', i, 'dismissed',
+              array(select d.reagent_id from item_link_dismissals d where d.practical_item_id = i.id)) order by i.position), '[]')
+            from practical_items i where i.practical_id = p.id))), '[]')
         from practicals p join courses c on c.id = p.course_id
         where exists (select 1 from practical_sessions ps where ps.practical_id = p.id and ps.meeting_date between $1 and $2)),
       'reagents', (select coalesce(json_agg(r), '[]') from reagents r),

@@ -26,7 +26,7 @@ const QUIET_MS = 800
  * of quiet, before an idle-time prefetch may start).
  * @param {import('playwright-core').Page} page
  */
-async function networkQuiet(page) {
+export async function networkQuiet(page) {
   let open = 0
   let last = Date.now()
   const started = () => { open++; last = Date.now() }
@@ -44,16 +44,11 @@ async function networkQuiet(page) {
 }
 
 /**
- * Loads `path` in a fresh browser context (empty cache; the session from `storageState` when
- * given) and counts the JavaScript it fetched.
- * @param {import('playwright-core').Browser} browser
- * @param {string} baseUrl
- * @param {string} path
- * @param {{ storageState?: any }} [options]
+ * Every .js file a page fetches from now on, with its bytes on the wire and which library it
+ * carries. `scripts()` answers those fetched so far.
+ * @param {import('playwright-core').Page} page
  */
-export async function coldLoad(browser, baseUrl, path, { storageState } = {}) {
-  const context = await browser.newContext({ baseURL: baseUrl, storageState, viewport: { width: 1280, height: 860 } })
-  const page = await context.newPage()
+export function trackScripts(page) {
   /** @type {Promise<{ url: string, bytes: number, encoding: string, chartJs: boolean, zod: boolean }>[]} */
   const pending = []
   page.on('requestfinished', (request) => {
@@ -71,10 +66,25 @@ export async function coldLoad(browser, baseUrl, path, { storageState } = {}) {
       }
     })())
   })
+  return { scripts: () => Promise.all(pending) }
+}
+
+/**
+ * Loads `path` in a fresh browser context (empty cache; the session from `storageState` when
+ * given) and counts the JavaScript it fetched.
+ * @param {import('playwright-core').Browser} browser
+ * @param {string} baseUrl
+ * @param {string} path
+ * @param {{ storageState?: any }} [options]
+ */
+export async function coldLoad(browser, baseUrl, path, { storageState } = {}) {
+  const context = await browser.newContext({ baseURL: baseUrl, storageState, viewport: { width: 1280, height: 860 } })
+  const page = await context.newPage()
+  const tracked = trackScripts(page)
   try {
     const response = await page.goto(path, { waitUntil: 'load' })
     await networkQuiet(page)
-    const scripts = await Promise.all(pending)
+    const scripts = await tracked.scripts()
     const links = await page.$$eval('a[href^="/"]:not([download])', (anchors) => anchors.map((a) => a.getAttribute('href') ?? ''))
     return {
       path,

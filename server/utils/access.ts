@@ -1,5 +1,5 @@
 import type { H3Event } from 'h3'
-import { sql, type SelectQueryBuilder } from 'kysely'
+import { sql, type RawBuilder, type SelectQueryBuilder } from 'kysely'
 import type { Course, Database, Section } from '../database/schema'
 import type { SessionUser } from '#shared/types/auth'
 
@@ -163,6 +163,15 @@ function scopeOf(me: SessionUser, course: Course, relation: number[] | null): Co
 }
 
 /**
+ * Rows of `column` (a section id) the caller may see, as a where condition in a query that
+ * joins a practical as `p` and its course as `c`: every section for its owners and the
+ * coordinator, their own for TAs and students.
+ */
+export function visibleSectionCondition(me: SessionUser, column: string) {
+  return me.role === 'ta' || me.role === 'student' ? sql<boolean>`${sql.ref(column)} = any(${relationOf(me)})` : sql<boolean>`true`
+}
+
+/**
  * A practical is visible to a TA or student only when it runs in one of their sections.
  * One query: the practical, its course, the caller's relation to it and its sessions' sections
  * (every route under /api/practicals/:id starts here).
@@ -172,19 +181,58 @@ export async function requirePracticalAccess(
   practicalId: number,
   mode: 'view' | 'manage' = 'view',
 ): Promise<PracticalScope> {
+  return (await practicalAccess(event, practicalId, mode, null)).scope
+}
+
+/**
+ * requirePracticalAccess, and in the same statement what the route reads next (`columns`: SQL
+ * over the practical `p` and its course `c`, limited with visibleSectionCondition), so a page's
+ * read costs one round trip. The columns are read before the caller's access is known, and
+ * dropped when it has none.
+ */
+export async function requirePracticalAccessWith<T>(
+  event: H3Event,
+  practicalId: number,
+  columns: (me: SessionUser) => RawBuilder<T>,
+  mode: 'view' | 'manage' = 'view',
+): Promise<{ scope: PracticalScope, columns: T }> {
+  return practicalAccess(event, practicalId, mode, columns) as Promise<{ scope: PracticalScope, columns: T }>
+}
+
+type PracticalColumns = (me: SessionUser) => RawBuilder<unknown>
+
+// One compiled statement per role and kind of extra columns (none, a page's).
+const practicalAccessReads = new Map<PracticalColumns | null, ReturnType<typeof practicalAccessRead>>()
+
+function practicalAccessRead(columns: PracticalColumns | null) {
+  return readOnceCompiled((role: SessionUser['role'], userId: number, practicalId: number) => {
+    const me = { id: userId, role, name: '' }
+    return useDb().selectFrom('practicals as p').innerJoin('courses as c', 'c.id', 'p.courseId')
+      .selectAll('c')
+      .select([
+        'p.id as practicalId', 'p.title as practicalTitle', 'p.substrateId', 'p.methodId', 'p.workUnit', 'p.notes', 'p.resultsReleasedAt',
+        relationOf(me).as('relation'),
+        sql<number[]>`array(select ps.section_id from practical_sessions ps where ps.practical_id = p.id order by ps.id)`
+          .as('sessionSections'),
+        (columns ? columns(me) : sql<null>`null`).as('readWith'),
+      ])
+      .where('p.id', '=', practicalId)
+  })
+}
+
+async function practicalAccess(
+  event: H3Event,
+  practicalId: number,
+  mode: 'view' | 'manage',
+  columns: PracticalColumns | null,
+): Promise<{ scope: PracticalScope, columns: unknown }> {
   const me = requireUser(event)
-  const row = await useDb().selectFrom('practicals as p').innerJoin('courses as c', 'c.id', 'p.courseId')
-    .selectAll('c')
-    .select([
-      'p.id as practicalId', 'p.title as practicalTitle', 'p.substrateId', 'p.methodId', 'p.workUnit', 'p.notes', 'p.resultsReleasedAt',
-      relationOf(me).as('relation'),
-      sql<number[]>`array(select ps.section_id from practical_sessions ps where ps.practical_id = p.id order by ps.id)`
-        .as('sessionSections'),
-    ])
-    .where('p.id', '=', practicalId).executeTakeFirst()
+  let read = practicalAccessReads.get(columns)
+  if (!read) practicalAccessReads.set(columns, read = practicalAccessRead(columns))
+  const [row] = await read(me.role, me.id, practicalId)
   if (!row) throw notFound('Practical')
   const {
-    practicalId: id, practicalTitle: title, substrateId, methodId, workUnit, notes, resultsReleasedAt, relation, sessionSections,
+    practicalId: id, practicalTitle: title, substrateId, methodId, workUnit, notes, resultsReleasedAt, relation, sessionSections, readWith,
     ...course
   } = row
   const scope = scopeOf(me, course, relation)
@@ -193,5 +241,5 @@ export async function requirePracticalAccess(
   const sessionSectionIds = sessionSections.filter((sectionId) => !scope.sectionIds || scope.sectionIds.includes(sectionId))
   if (scope.sectionIds && !sessionSectionIds.length) throw notFound('Practical')
   if (mode === 'manage' && scope.role !== 'owner') throw forbidden('Only the course’s instructors can change practicals')
-  return { ...scope, practical, sessionSectionIds }
+  return { scope: { ...scope, practical, sessionSectionIds }, columns: readWith }
 }

@@ -6,7 +6,7 @@
 // (`isoDateOf`), and wall-clock times become instants only through one (`zonedInstant`).
 // Formatting dates for people is not done here.
 import {
-  addDays as addDaysTo, addMonths as addMonthsTo, differenceInCalendarDays, format, getISODay, getISOWeek, getISOWeekYear,
+  addDays as addDaysTo, addMonths as addMonthsTo, format, getISODay, getISOWeek, getISOWeekYear,
   isValid, parseISO, startOfISOWeek,
 } from 'date-fns'
 import { TZDate, tz } from '@date-fns/tz'
@@ -53,7 +53,10 @@ function dayOf(date: string): Date {
 
 /** The calendar day an instant falls on in a zone (UTC unless named). */
 export function isoDateOf(instant: Date | number | string, timezone = 'UTC'): string {
-  return format(new Date(instant), DATE_FORMAT, { in: tz(timezone) })
+  const at = new Date(instant)
+  // In UTC the ISO text already starts with the day (years 0-9999), without a zoned date-fns call.
+  if (timezone === 'UTC' && at.getUTCFullYear() >= 0 && at.getUTCFullYear() <= 9999) return at.toISOString().slice(0, 10)
+  return format(at, DATE_FORMAT, { in: tz(timezone) })
 }
 
 /** Today in a zone (UTC unless named). */
@@ -76,9 +79,22 @@ export function addMonths(date: string, months: number): string {
   return textOf(addMonthsTo(dayOf(date), months, IN_UTC))
 }
 
-/** Whole days from one date to another (negative when `to` is earlier). */
+const DAY_MS = 86_400_000
+
+/** Days since 1970-01-01 of a checked calendar date: midnight UTC has no daylight saving to skip. */
+function epochDay(date: string): number {
+  if (!isCalendarDate(date)) throw new RangeError(`Not a date (YYYY-MM-DD): ${date}`)
+  // setUTCFullYear, not Date.UTC, which reads years 0-99 as 1900-1999.
+  return new Date(0).setUTCFullYear(Number(date.slice(0, 4)), Number(date.slice(5, 7)) - 1, Number(date.slice(8, 10))) / DAY_MS
+}
+
+/**
+ * Whole days from one date to another (negative when `to` is earlier). Plain arithmetic on UTC
+ * midnights, the same answer as date-fns' differenceInCalendarDays in UTC: that one built four
+ * zoned dates a call, a tenth of the forecast route's time when it checked its range.
+ */
 export function daysBetween(from: string, to: string): number {
-  return differenceInCalendarDays(dayOf(to), dayOf(from), IN_UTC)
+  return epochDay(to) - epochDay(from)
 }
 
 /** ISO weekday: 1 = Monday … 7 = Sunday. */

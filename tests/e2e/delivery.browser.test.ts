@@ -1,9 +1,10 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { coldLoad, signedInState } from '../../scripts/lib/page-weight.mjs'
+import { coldLoad, networkQuiet, signedInState, trackScripts } from '../../scripts/lib/page-weight.mjs'
 import { LOGIN_JS_GOAL, SIGNED_IN_JS_GOAL } from '../../scripts/bench/delivery.mjs'
 import { launchBrowser } from '../support/browser'
-import { testDb } from '../support/db'
+import { TEST_PASSWORD, testDb } from '../support/db'
+import { gcTable, makeGcPractical } from '../support/gc'
 import { DEMO, signedIn } from '../support/http'
 
 // JavaScript budgets, counted as bytes on the wire for a cold load in Chromium (empty cache,
@@ -47,8 +48,8 @@ describe('JavaScript a cold load transfers', () => {
     expect(chartPage.chartJs, listed(chartPage)).toBe(true)
   })
 
-  // The heaviest signed-in pages. Their charts are lazy components (chart.js comes as a prefetch,
-  // counted here, not ahead of the page) and their forms check input without zod.
+  // The heaviest signed-in pages. Their charts are lazy components (chart.js comes when a chart
+  // is drawn, counted here when it is) and their forms check input without zod.
   it.each([
     ['coordinator', DEMO.coordinator],
     ['instructor', DEMO.instructor],
@@ -69,5 +70,66 @@ describe('JavaScript a cold load transfers', () => {
     expect(load.finalPath).toBe(path)
     expect(load.zod, listed(load)).toBe(false)
     expect(load.jsBytes, listed(load)).toBeLessThanOrEqual(SIGNED_IN_JS_GOAL)
+  })
+})
+
+// Lazy chart components are not prefetched (nuxt.config.ts, chartsWhenDrawn): chart.js comes
+// when a chart is drawn, not because the page could draw one.
+describe('chart.js comes with the first chart drawn', () => {
+  /** A page in a fresh context, with every script it fetches from the start. */
+  async function openTracked(path: string, storageState: Awaited<ReturnType<typeof signedInState>>) {
+    const context = await browser.newContext({ baseURL: inject('baseUrl'), storageState, viewport: { width: 1280, height: 860 } })
+    const page = await context.newPage()
+    const tracked = trackScripts(page)
+    await page.goto(path, { waitUntil: 'load' })
+    await networkQuiet(page)
+    const chartJsLoaded = async () => (await tracked.scripts()).some((s) => s.chartJs)
+    return { context, page, chartJsLoaded }
+  }
+
+  it('the forecast of a range without meetings draws no chart and loads no chart.js; a range with meetings does both', async () => {
+    const state = await signedInState(browser, inject('baseUrl'), DEMO.coordinator)
+    const empty = await openTracked('/stockroom/forecast?from=2099-01-05&to=2099-02-01', state)
+    try {
+      await empty.page.getByRole('heading', { name: 'Week by week' }).waitFor()
+      expect(await empty.page.locator('canvas').count()).toBe(0)
+      expect(await empty.chartJsLoaded()).toBe(false)
+    } finally {
+      await empty.context.close()
+    }
+
+    const first = await testDb().selectFrom('practicalSessions').select((eb) => eb.fn.min('meetingDate').as('date'))
+      .executeTakeFirstOrThrow()
+    const from = String(first.date)
+    const to = new Date(Date.parse(`${from}T00:00:00Z`) + 180 * 86_400_000).toISOString().slice(0, 10)
+    const drawn = await openTracked(`/stockroom/forecast?from=${from}&to=${to}`, state)
+    try {
+      await drawn.page.locator('canvas').first().waitFor()
+      await networkQuiet(drawn.page)
+      expect(await drawn.chartJsLoaded()).toBe(true)
+    } finally {
+      await drawn.context.close()
+    }
+  })
+
+  it('a student\'s results page loads chart.js only when the preview of an upload draws its chart', async () => {
+    const practical = await makeGcPractical({ students: 2 })
+    try {
+      const state = await signedInState(browser, inject('baseUrl'), practical.students[0]!.email, TEST_PASSWORD)
+      const tab = await openTracked(`/practicals/${practical.practicalId}/results`, state)
+      try {
+        await tab.page.getByRole('heading', { name: 'GC results', level: 1 }).waitFor()
+        expect(await tab.chartJsLoaded()).toBe(false)
+        const file = gcTable(practical, { seed: 7 }).text
+        await tab.page.getByLabel('Choose a GC file').setInputFiles({ name: 'run-1.csv', mimeType: 'text/csv', buffer: Buffer.from(file) })
+        await tab.page.locator('[data-test=gc-preview] canvas').waitFor()
+        await networkQuiet(tab.page)
+        expect(await tab.chartJsLoaded()).toBe(true)
+      } finally {
+        await tab.context.close()
+      }
+    } finally {
+      await practical.cleanup()
+    }
   })
 })

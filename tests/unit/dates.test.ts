@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest'
+import { differenceInCalendarDays, format, parseISO } from 'date-fns'
+import { tz } from '@date-fns/tz'
 import {
   addDays, addMonths, daysBetween, isCalendarDate, isoDateOf, isoWeekday, isoWeekLabel, todayIn, weekStart, zonedInstant,
 } from '../../shared/utils/dates'
+
+const IN_UTC = { in: tz('UTC') }
 
 describe('calendar dates', () => {
   it('moves by days across month, year and leap-day ends', () => {
@@ -10,6 +14,16 @@ describe('calendar dates', () => {
     expect(addDays('2027-03-01', -1)).toBe('2027-02-28')
     expect(daysBetween('2027-02-01', '2027-03-01')).toBe(28)
     expect(daysBetween('2027-03-01', '2027-02-01')).toBe(-28)
+  })
+
+  it('counts days as date-fns does, across leap days, year ends and years below 100', () => {
+    // The reference is date-fns' own differenceInCalendarDays at UTC midnights.
+    const reference = (from: string, to: string) => differenceInCalendarDays(parseISO(to, IN_UTC), parseISO(from, IN_UTC), IN_UTC)
+    const dates = ['2000-02-28', '2000-02-29', '2000-03-01', '2026-03-08', '2026-11-01', '2027-12-31', '2028-01-01', '2100-12-31',
+      '0050-06-15', '0099-12-31', '0100-01-01']
+    for (const from of dates) for (const to of dates) expect(daysBetween(from, to), `${from} to ${to}`).toBe(reference(from, to))
+    expect(daysBetween('2028-01-01', '2029-01-01')).toBe(366) // 2028 is a leap year (Gregorian rule)
+    expect(() => daysBetween('2027-02-29', '2027-03-01')).toThrow(RangeError)
   })
 
   it('adds months with one rule: a missing day becomes the month’s last (common practice for shelf lives)', () => {
@@ -39,6 +53,10 @@ describe('calendar dates', () => {
     // 03:00 UTC on 2 Nov 2026 is still 1 Nov in Chicago (UTC−6 after the DST end on 1 Nov, IANA tz database).
     expect(isoDateOf('2026-11-02T03:00:00Z', 'America/Chicago')).toBe('2026-11-01')
     expect(isoDateOf('2026-11-02T03:00:00Z')).toBe('2026-11-02')
+    // The UTC shortcut agrees with date-fns' own UTC formatting, at both ends of a day and of a year.
+    for (const at of ['2026-12-31T23:59:59.999Z', '2027-01-01T00:00:00Z', '2028-02-29T12:00:00Z', '0099-12-31T23:00:00Z']) {
+      expect(isoDateOf(at), at).toBe(format(new Date(at), 'yyyy-MM-dd', IN_UTC))
+    }
     expect(todayIn('Pacific/Kiritimati', new Date('2026-11-01T12:00:00Z'))).toBe('2026-11-02') // UTC+14
   })
 

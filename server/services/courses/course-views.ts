@@ -1,14 +1,17 @@
 import type { SessionUser } from '#shared/types/auth'
 import { visibleCourseIdQuery, type CourseScope } from '../../utils/access'
-import { useDb } from '../../utils/db'
+import { readOnceCompiled, useDb } from '../../utils/db'
 import type { CourseDetail, CourseListItem } from '#shared/types/course'
 
 // Courses as the pages read them; the caller's scope comes from requireCourseAccess / visibleCourseIdQuery.
 
+const courseListRead = readOnceCompiled((role: SessionUser['role'], userId: number) =>
+  useDb().selectFrom('courses').select(['id', 'code', 'title', 'term'])
+    .where('id', 'in', visibleCourseIdQuery({ id: userId, role, name: '' })).orderBy('term', 'desc').orderBy('code'))
+
 /** The courses the caller may see, newest term first, in one query (the scope is a subquery). */
 export function courseList(me: SessionUser): Promise<CourseListItem[]> {
-  return useDb().selectFrom('courses').select(['id', 'code', 'title', 'term'])
-    .where('id', 'in', visibleCourseIdQuery(me)).orderBy('term', 'desc').orderBy('code').execute()
+  return courseListRead(me.role, me.id)
 }
 
 /** The course with its settings; students do not see the owners' list. */

@@ -2,4 +2,6 @@
 
 export { createPractical, deletePractical, savePracticalItems, setPracticalSessions, updatePractical } from './practical-commands'
 export { checkedItems } from './practical-items'
-export { coursePracticals, practicalDetail, practicalItemViews, practicalSessionViews, procedureCard } from './practical-views'
+export {
+  coursePracticals, practicalDetail, practicalItemViews, practicalSessionViews, procedureCard, readPracticalDetail,
+} from './practical-views'

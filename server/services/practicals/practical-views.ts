@@ -1,6 +1,10 @@
 import { sql } from 'kysely'
 import type { Method, Section, Substrate, SubstrateWindow } from '../../database/schema'
-import type { CourseScope, PracticalScope } from '../../utils/access'
+import type { H3Event } from 'h3'
+import type { SessionUser } from '#shared/types/auth'
+import {
+  requirePracticalAccessWith, visibleSectionCondition, type CourseScope, type PracticalScope,
+} from '../../utils/access'
 import {
   PLANNING_NOTE, type ItemView, type MethodSummary, type PracticalDetail, type PracticalListItem, type ProcedureCardView,
   type ReferenceWindowView, type SessionView, type WindowView,
@@ -96,34 +100,48 @@ interface DetailRow {
   & Pick<SessionView, 'sectionId' | 'sectionCode' | 'meetingDate' | 'dueAt'>>
 }
 
-/** Everything a practical's page reads beyond its scope, in one query. */
-async function practicalDetailRow(scope: PracticalScope): Promise<DetailRow> {
-  const { practical } = scope
-  const all = scope.sectionIds === null
-  const { rows: [row] } = await sql<DetailRow>`select
-      (select json_build_object('id', id, 'name', name, 'smiles', smiles, 'molarMass', molar_mass, 'density', density)
-        from substrates where id = ${practical.substrateId}) as substrate,
-      (select json_build_object('id', id, 'name', name, 'reagent', reagent, 'halogen', halogen, 'temperatureC', temperature_c,
-          'source', source) from methods where id = ${practical.methodId}) as method,
-      coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'label', label, 'rtMin', rt_min,
-          'rtMax', rt_max, 'responseFactor', response_factor) order by rt_min, id)
-        from substrate_windows where substrate_id = ${practical.substrateId}), '[]') as windows,
-      coalesce((select json_agg(json_build_object('id', id, 'position', position, 'role', role, 'name', name, 'smiles', smiles,
+/**
+ * Everything a practical's page reads beyond its scope, as one JSON column over the practical
+ * `p` (the sessions limited to the sections the caller may see): read with the scope itself
+ * (requirePracticalAccessWith) or after it (practicalDetail).
+ */
+function detailColumns(me: SessionUser) {
+  return sql<DetailRow>`json_build_object(
+      'substrate', (select json_build_object('id', id, 'name', name, 'smiles', smiles, 'molarMass', molar_mass, 'density', density)
+        from substrates where id = p.substrate_id),
+      'method', (select json_build_object('id', id, 'name', name, 'reagent', reagent, 'halogen', halogen, 'temperatureC', temperature_c,
+          'source', source) from methods where id = p.method_id),
+      'windows', coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'label', label,
+          'rtMin', rt_min, 'rtMax', rt_max, 'responseFactor', response_factor) order by rt_min, id)
+        from substrate_windows where substrate_id = p.substrate_id), '[]'),
+      'items', coalesce((select json_agg(json_build_object('id', id, 'position', position, 'role', role, 'name', name, 'smiles', smiles,
           'molarMass', molar_mass, 'density', density, 'basis', basis, 'amount', amount, 'casNumber', cas_number) order by position)
-        from practical_items where practical_id = ${practical.id}), '[]') as items,
-      coalesce((select json_agg(json_build_object('sectionId', s.id, 'sectionCode', s.code, 'meetingDate', ps.meeting_date,
+        from practical_items where practical_id = p.id), '[]'),
+      'sessions', coalesce((select json_agg(json_build_object('sectionId', s.id, 'sectionCode', s.code, 'meetingDate', ps.meeting_date,
           'dueAt', ps.due_at, 'room', s.room, 'weekday', s.weekday, 'startTime', s.start_time, 'endTime', s.end_time,
           'firstDate', s.first_date, 'lastDate', s.last_date, 'skippedDates', s.skipped_dates) order by ps.meeting_date, ps.id)
         from practical_sessions ps join sections s on s.id = ps.section_id
-        where ps.practical_id = ${practical.id} and (${all} or ps.section_id = any(${scope.sectionIds ?? []}::int[]))), '[]') as sessions`
-    .execute(useDb())
-  if (!row?.substrate || !row.method) throw new Error(`practical ${practical.id}: substrate or method missing`)
-  return row
+        where ps.practical_id = p.id and ${visibleSectionCondition(me, 'ps.section_id')}), '[]'))`
 }
 
+/** A practical's page for the caller: its scope and everything the page reads, in one statement. */
+export async function readPracticalDetail(event: H3Event, practicalId: number): Promise<PracticalDetail> {
+  const { scope, columns } = await requirePracticalAccessWith(event, practicalId, detailColumns)
+  return practicalDetailOf(scope, columns)
+}
+
+/** A practical's page for a scope already read (after a change). */
 export async function practicalDetail(scope: PracticalScope): Promise<PracticalDetail> {
+  const { rows: [row] } = await sql<{ detail: DetailRow }>`select ${detailColumns(scope.me)} as detail
+    from practicals p join courses c on c.id = p.course_id where p.id = ${scope.practical.id}`.execute(useDb())
+  if (!row) throw new Error(`practical ${scope.practical.id}: gone`)
+  return practicalDetailOf(scope, row.detail)
+}
+
+async function practicalDetailOf(scope: PracticalScope, row: DetailRow): Promise<PracticalDetail> {
   const { practical, course } = scope
-  const { substrate, method, windows: windowRows, items, sessions: sessionRows } = await practicalDetailRow(scope)
+  if (!row.substrate || !row.method) throw new Error(`practical ${practical.id}: substrate or method missing`)
+  const { substrate, method, windows: windowRows, items, sessions: sessionRows } = row
   const sessions = sessionRows.map((s): SessionView => {
     const meeting = meetingsOf({ ...s, timezone: course.timezone }).find((m) => m.date === s.meetingDate)
     return {
