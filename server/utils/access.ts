@@ -205,9 +205,9 @@ type PracticalColumns = (me: SessionUser) => RawBuilder<unknown>
 const practicalAccessReads = new Map<PracticalColumns | null, ReturnType<typeof practicalAccessRead>>()
 
 function practicalAccessRead(columns: PracticalColumns | null) {
-  return readOnceCompiled((role: SessionUser['role'], userId: number, practicalId: number) => {
+  return readOnceCompiled((db, role: SessionUser['role'], userId: number, practicalId: number) => {
     const me = { id: userId, role, name: '' }
-    return useDb().selectFrom('practicals as p').innerJoin('courses as c', 'c.id', 'p.courseId')
+    return db.selectFrom('practicals as p').innerJoin('courses as c', 'c.id', 'p.courseId')
       .selectAll('c')
       .select([
         'p.id as practicalId', 'p.title as practicalTitle', 'p.substrateId', 'p.methodId', 'p.workUnit', 'p.notes', 'p.resultsReleasedAt',

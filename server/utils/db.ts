@@ -1,4 +1,4 @@
-import { CompiledQuery, type Compilable, type Kysely } from 'kysely'
+import { CompiledQuery, type Compilable, type Kysely, type RawBuilder } from 'kysely'
 import { createDatabase } from '../database/connection'
 import type { Database } from '../database/schema'
 
@@ -20,29 +20,42 @@ export async function closeDb(): Promise<void> {
   await db?.destroy()
 }
 
+/** A read's values: scalars, or a list sent as one parameter (`any(${ids}::int[])`, never `in`). */
+type ReadValue = string | number | boolean | null | number[]
+
 /**
  * A read whose SQL text depends only on its `shape` (a role; which options were given), never
  * on its values: Kysely builds it, rewrites it (CamelCasePlugin) and compiles it once per shape,
  * and every call sends that text with its own values. On a small route that work cost more than
- * the rest of the handler (a tenth of GET /api/courses under load). `build` is first called with
- * placeholders for the values, so a value may only be a parameter: never a list (`in` writes one
- * placeholder per item) nor something the code branches on.
+ * the rest of the handler (a tenth of GET /api/courses under load; a tenth of a small review
+ * queue). `build` is first called with placeholders for the values, so a value may only be a
+ * parameter, never something the code branches on; a list goes in as one parameter (Kysely's
+ * `in` writes one placeholder per item, so it cannot take a list here).
  */
-export function readOnceCompiled<S extends string, V extends Array<string | number | boolean | null>, O>(
-  build: (shape: S, ...values: V) => Compilable<O>,
-): (shape: S, ...values: V) => Promise<O[]> {
+export function compiledOnce<S extends string, V extends ReadValue[], O>(
+  build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
+): (db: Kysely<Database>, shape: S, ...values: V) => Promise<O[]> {
   const plans = new Map<S, { sql: string, parameters: Array<number | { fixed: unknown }> }>()
-  return async (shape, ...values) => {
+  return async (db, shape, ...values) => {
     let plan = plans.get(shape)
     if (!plan) {
       const marks = values.map((_, i) => `\u0000value ${i}\u0000`)
-      const query = build(shape, ...(marks as V)).compile()
+      const built = build(db, shape, ...(marks as V))
+      const query = 'isRawBuilder' in built ? built.compile(db) : built.compile()
       const parameters = query.parameters.map((p) => (typeof p === 'string' && marks.includes(p) ? marks.indexOf(p) : { fixed: p }))
-      if (marks.some((m) => query.sql.includes(m))) throw new Error(`readOnceCompiled(${shape}): a value was written into the SQL text`)
+      if (marks.some((m) => query.sql.includes(m))) throw new Error(`compiledOnce(${shape}): a value was written into the SQL text`)
       plan = { sql: query.sql, parameters }
       plans.set(shape, plan)
     }
     const parameters = plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed))
-    return (await useDb().executeQuery(CompiledQuery.raw(plan.sql, parameters))).rows as O[]
+    return (await db.executeQuery<O>(CompiledQuery.raw(plan.sql, parameters))).rows
   }
+}
+
+/** compiledOnce on the process's pool. */
+export function readOnceCompiled<S extends string, V extends ReadValue[], O>(
+  build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
+): (shape: S, ...values: V) => Promise<O[]> {
+  const read = compiledOnce(build)
+  return (shape, ...values) => read(useDb(), shape, ...values)
 }

@@ -5,8 +5,8 @@ import type { CourseDetail, CourseListItem } from '#shared/types/course'
 
 // Courses as the pages read them; the caller's scope comes from requireCourseAccess / visibleCourseIdQuery.
 
-const courseListRead = readOnceCompiled((role: SessionUser['role'], userId: number) =>
-  useDb().selectFrom('courses').select(['id', 'code', 'title', 'term'])
+const courseListRead = readOnceCompiled((db, role: SessionUser['role'], userId: number) =>
+  db.selectFrom('courses').select(['id', 'code', 'title', 'term'])
     .where('id', 'in', visibleCourseIdQuery({ id: userId, role, name: '' })).orderBy('term', 'desc').orderBy('code'))
 
 /** The courses the caller may see, newest term first, in one query (the scope is a subquery). */

@@ -1,5 +1,6 @@
-import { CompiledQuery, sql, type Kysely, type RawBuilder } from 'kysely'
+import { sql, type Kysely } from 'kysely'
 import type { Database, StoredFlag, SubmissionStatus } from '../../database/schema'
+import { compiledOnce } from '../../utils/db'
 import { latestUnitVersions } from '../results/latest-versions'
 
 // What the review queue reads, in one statement: each work unit's latest version in the
@@ -49,36 +50,11 @@ export function latestUnitIdsOf(db: Kysely<Database>, practicalId: number, secti
     .orderBy('unitKey').orderBy('version', 'desc')
 }
 
-// The queue's statements are built by Kysely once per shape (every section, or some) with
-// placeholders where a request's values go, and kept compiled: building and compiling them was
-// about a tenth of a small queue's time in a profile. Each request puts its values in their places.
-const PRACTICAL = Symbol('practical')
-const SECTIONS = Symbol('sections')
-const SESSION_SECTIONS = Symbol('session sections')
-const compiled = new Map<string, CompiledQuery>()
-
-interface Placeholders { practicalId: number, sections: number[] | null, sessionSectionIds: number[] }
-
-async function executeCompiled<R>(
-  db: Kysely<Database>, name: string, values: Placeholders, build: (placeholders: Placeholders) => RawBuilder<R>,
-): Promise<R> {
-  const key = `${name}:${values.sections === null ? 'every section' : 'some sections'}`
-  let query = compiled.get(key)
-  if (!query) {
-    // Typed as what they stand for: the builders only pass them on as parameters.
-    const placeholders = {
-      practicalId: PRACTICAL, sections: values.sections === null ? null : SECTIONS, sessionSectionIds: SESSION_SECTIONS,
-    } as unknown as Placeholders
-    query = build(placeholders).compile(db)
-    compiled.set(key, query)
-  }
-  const byPlaceholder = new Map<unknown, unknown>([
-    [PRACTICAL, values.practicalId], [SECTIONS, values.sections], [SESSION_SECTIONS, values.sessionSectionIds],
-  ])
-  const parameters = query.parameters.map((p) => (byPlaceholder.has(p) ? byPlaceholder.get(p) : p))
-  const { rows: [row] } = await db.executeQuery<R>(CompiledQuery.raw(query.sql, parameters))
-  return row!
-}
+// The queue's statements are built and compiled once per shape (every section, or some) and
+// then only given each request's values (compiledOnce, server/utils/db.ts).
+type QueueShape = 'every section' | 'some sections'
+const shapeOf = (sections: number[] | null): QueueShape => (sections === null ? 'every section' : 'some sections')
+const sectionsFor = (shape: QueueShape, sections: number[]) => (shape === 'every section' ? null : sections)
 
 /** Numbers in JSON arrive as numbers; NaN or Infinity stored in a numeric arrives as text. */
 export const numberOrNull = (value: unknown): number | null => (value === null || value === undefined ? null : Number(value))
@@ -125,11 +101,9 @@ export const acceptanceJson = (withScores: boolean) => sql`(select
  * The queue's rows in `sections` (null: every section), the reviewer's sections for the filter
  * (`sessionSectionIds`) and the class values, in one round trip.
  */
-export async function readReviewQueue(
-  db: Kysely<Database>, { practicalId, sections, sessionSectionIds }: QueueScope,
-): Promise<QueueRead> {
-  type Row = { rows: QueueSqlRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }
-  const row = await executeCompiled(db, 'queue', { practicalId, sections, sessionSectionIds }, (p) => sql<Row>`
+type QueueRow = { rows: QueueSqlRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }
+const queueRead = compiledOnce((db, shape: QueueShape, practicalId: number, sections: number[], sessionSectionIds: number[]) =>
+  sql<QueueRow>`
     select
       coalesce((select json_agg(json_build_object(
           'id', s.id, 'sectionId', s.section_id, 'sectionCode', c.code, 'unitKey', s.unit_key, 'version', s.version,
@@ -137,18 +111,27 @@ export async function readReviewQueue(
           'factorSecondary', s.factor_secondary, 'factorTertiary', s.factor_tertiary,
           'excludedAt', s.excluded_at, 'exclusionReason', s.exclusion_reason, 'excludedByName', x.name,
           'members', ${membersJson}, 'acceptance', ${acceptanceJson(false)}))
-        from (${latestUnitIdsOf(db, p.practicalId, p.sections)}) l
+        from (${latestUnitIdsOf(db, practicalId, sectionsFor(shape, sections))}) l
         join submissions s on s.id = l.id
         join sections c on c.id = s.section_id
         left join users x on x.id = s.excluded_by
-        where ${latestInScope(p.sections)}), '[]') as rows,
-      ${sectionsJson(p.sessionSectionIds)} as sections,
-      ${classValuesJson(db, p.practicalId)} as class_values`)
-  for (const r of row.rows) {
+        where ${latestInScope(sectionsFor(shape, sections))}), '[]') as rows,
+      ${sectionsJson(sessionSectionIds)} as sections,
+      ${classValuesJson(db, practicalId)} as class_values`)
+
+/**
+ * The queue's rows in `sections` (null: every section), the reviewer's sections for the filter
+ * (`sessionSectionIds`) and the class values, in one round trip.
+ */
+export async function readReviewQueue(
+  db: Kysely<Database>, { practicalId, sections, sessionSectionIds }: QueueScope,
+): Promise<QueueRead> {
+  const [row] = await queueRead(db, shapeOf(sections), practicalId, sections ?? [], sessionSectionIds)
+  for (const r of row!.rows) {
     r.factorSecondary = numberOrNull(r.factorSecondary)
     r.factorTertiary = numberOrNull(r.factorTertiary)
   }
-  return { rows: row.rows, sections: row.sections, classValues: classValuesOf(row.classValues) }
+  return { rows: row!.rows, sections: row!.sections, classValues: classValuesOf(row!.classValues) }
 }
 
 /** What ordering and counting the queue reads of each row: no people, excluder or reviews. */
@@ -160,18 +143,21 @@ export interface QueueOrderRow {
   excluded: boolean
 }
 
+type QueueOrderSqlRow = { rows: QueueOrderRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }
+const queueOrderRead = compiledOnce((db, shape: QueueShape, practicalId: number, sections: number[], sessionSectionIds: number[]) =>
+  sql<QueueOrderSqlRow>`
+    select
+      coalesce((select json_agg(json_build_object('id', s.id, 'status', s.status, 'flags', s.flags, 'createdAt', s.created_at,
+          'excluded', s.excluded_at is not null))
+        from (${latestUnitIdsOf(db, practicalId, sectionsFor(shape, sections))}) l join submissions s on s.id = l.id
+        where ${latestInScope(sectionsFor(shape, sections))}), '[]') as rows,
+      ${sectionsJson(sessionSectionIds)} as sections,
+      ${classValuesJson(db, practicalId)} as class_values`)
+
 /** The queue's rows as far as its order and counts go, the sections and the class values, in one round trip. */
 export async function readReviewQueueOrder(
   db: Kysely<Database>, { practicalId, sections, sessionSectionIds }: QueueScope,
 ): Promise<{ rows: QueueOrderRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }> {
-  type Row = { rows: QueueOrderRow[], sections: QueueRead['sections'], classValues: ClassValueRow[] }
-  const row = await executeCompiled(db, 'queue order', { practicalId, sections, sessionSectionIds }, (p) => sql<Row>`
-    select
-      coalesce((select json_agg(json_build_object('id', s.id, 'status', s.status, 'flags', s.flags, 'createdAt', s.created_at,
-          'excluded', s.excluded_at is not null))
-        from (${latestUnitIdsOf(db, p.practicalId, p.sections)}) l join submissions s on s.id = l.id
-        where ${latestInScope(p.sections)}), '[]') as rows,
-      ${sectionsJson(p.sessionSectionIds)} as sections,
-      ${classValuesJson(db, p.practicalId)} as class_values`)
-  return { rows: row.rows, sections: row.sections, classValues: classValuesOf(row.classValues) }
+  const [row] = await queueOrderRead(db, shapeOf(sections), practicalId, sections ?? [], sessionSectionIds)
+  return { rows: row!.rows, sections: row!.sections, classValues: classValuesOf(row!.classValues) }
 }

@@ -12,7 +12,10 @@ import { stubNitroGlobals } from '../arrange'
 // give the rows, order and counts the owner's queue gives for those sections, and a unit whose
 // latest version moved to another section must leave it as before.
 
-vi.mock('../../../server/utils/db', () => ({ useDb: () => testDb() }))
+vi.mock('../../../server/utils/db', async (importOriginal) => ({
+  ...(await importOriginal<typeof import('../../../server/utils/db')>()),
+  useDb: () => testDb(),
+}))
 // The chemistry runs in the engine worker of a built server; the queue reads only which factor
 // leads, and the demo's first practical (1-chlorobutane, no tertiary C-H) leads with 2°:1°.
 vi.mock('../../../server/services/submissions/practical-chemistry', () => ({
