@@ -106,11 +106,16 @@ function plainSteps(xs: number[], r: number): Array<{ index: number, R: number }
   let left = xs.map((value, index) => ({ value, index }))
   const steps: Array<{ index: number, R: number }> = []
   for (let i = 0; i < r; i++) {
-    const mean = left.reduce((s, v) => s + v.value, 0) / left.length
-    const sd = Math.sqrt(left.reduce((s, v) => s + (v.value - mean) ** 2, 0) / (left.length - 1))
+    // Measured from one of the values (R does not change with a shift): values a rounding
+    // apart, such as 1000 and 1000.0000000000001, then differ exactly instead of vanishing
+    // into the rounding of a sum near 3000.
+    const origin = left[0]!.value
+    const at = (v: { value: number }) => v.value - origin
+    const mean = left.reduce((s, v) => s + at(v), 0) / left.length
+    const sd = Math.sqrt(left.reduce((s, v) => s + (at(v) - mean) ** 2, 0) / (left.length - 1))
     if (!(sd > 0)) break
-    const far = left.reduce((best, v) => (Math.abs(v.value - mean) > Math.abs(best.value - mean) ? v : best))
-    steps.push({ index: far.index, R: Math.abs(far.value - mean) / sd })
+    const far = left.reduce((best, v) => (Math.abs(at(v) - mean) > Math.abs(at(best) - mean) ? v : best))
+    steps.push({ index: far.index, R: Math.abs(at(far) - mean) / sd })
     left = left.filter((v) => v !== far)
   }
   return steps
@@ -137,6 +142,9 @@ describe('gesdTest against the plain definition', () => {
         })
       },
     ), { numRuns: 2000 })
+    // Found by a random run: two equal values and one a rounding above them.
+    const nearTies = gesdTest([1000, 1000, 1000.0000000000001])
+    expect(nearTies.steps[0]!.R).toBeCloseTo(plainSteps([1000, 1000, 1000.0000000000001], 1)[0]!.R, 12)
   })
 
   it('handles a class of 20,000 results with 4,000 steps (the sorted path, not a scan per step)', () => {
