@@ -5,19 +5,22 @@ function skips(path: string): boolean {
   return path.startsWith('/_nuxt/') || path === '/api/health' || path.startsWith('/favicon')
 }
 
-async function loadSession(event: H3Event, name: string, sealed: string) {
-  const key = cookieKey(sealed)
-  const cached = getCachedSession(key)
+type SessionData = Awaited<ReturnType<typeof getUserSession>>
+
+async function loadSession(event: H3Event, name: string, sealed: string): Promise<SessionData> {
+  const cached = getCachedSession(sealed)
   if (cached) {
-    // h3 looks here before unsealing, so the cookie is unsealed once per minute, not per request.
+    // h3 looks here before unsealing, so the cookie is unsealed once per minute, not per
+    // request, and a later getUserSession or replaceUserSession in the route finds it. Its data
+    // is what getUserSession would answer.
     event.context.sessions ??= Object.create(null)
     event.context.sessions![name] = cached
-    return { session: await getUserSession(event), key }
+    return cached.data as SessionData
   }
   const session = await getUserSession(event)
   const raw = event.context.sessions?.[name]
-  if (raw && session.user) cacheSession(key, { id: raw.id, createdAt: raw.createdAt, data: raw.data })
-  return { session, key }
+  if (raw && session.user) cacheSession(sealed, { id: raw.id, createdAt: raw.createdAt, data: raw.data })
+  return session
 }
 
 export default defineEventHandler(async (event) => {
@@ -30,7 +33,7 @@ export default defineEventHandler(async (event) => {
   // No cookie: do not call getUserSession, which would mint an empty session cookie.
   if (!sealed) return
 
-  const { session, key } = await loadSession(event, name, sealed)
+  const session = await loadSession(event, name, sealed)
   const user = session.user
   if (!user) return
 
@@ -43,7 +46,7 @@ export default defineEventHandler(async (event) => {
       .then((row) => row && { sessionVersion: row.sessionVersion, disabled: row.disabledAt !== null }), accountNoticesLive())
 
   if (!state || state.disabled || state.sessionVersion !== session.secure?.sv) {
-    forgetSession(key)
+    forgetSession(sealed)
     await clearUserSession(event)
     return
   }

@@ -5,7 +5,12 @@
 // cookie; any other method is 405, because signing out is POST /api/auth/logout, which revokes.
 const SESSION_PATH = '/api/_auth/session'
 
+// Every request passes here: only a path that names the session path, or escapes a
+// character, needs the full comparison below.
+const MAY_NAME_SESSION = /_auth|%/i
+
 export default defineEventHandler((event) => {
+  if (!MAY_NAME_SESSION.test(event.path)) return
   // The router would also match a trailing slash, other letter case or an escaped character.
   const path = safeDecode(event.path.split('?')[0]!).replace(/\/+$/, '').toLowerCase()
   if (path !== SESSION_PATH) return

@@ -1,5 +1,3 @@
-import { hash } from 'node:crypto'
-
 // Unsealing nuxt-auth-utils' cookie costs far more than the route behind it, and every
 // request needs the account's session version too. Both are cached briefly per process.
 const SESSION_TTL_MS = 60_000
@@ -19,6 +17,8 @@ export interface AccountState {
   disabled: boolean
 }
 
+// Keyed by the sealed cookie itself: a digest of it cost more per request (sha256 and base64)
+// than the Map's own string hashing, and the cookie is in this process's memory either way.
 const sessions = new Map<string, { value: CachedSession, expires: number }>()
 const accounts = new Map<number, { value: AccountState, expires: number }>()
 
@@ -26,11 +26,6 @@ function boundedSet<K, V>(map: Map<K, V>, key: K, value: V) {
   // Maps iterate in insertion order, so the first key is the oldest.
   if (map.size >= MAX_ENTRIES) map.delete(map.keys().next().value as K)
   map.set(key, value)
-}
-
-// crypto.hash: one call, no Hash object (half the cost of createHash().update().digest()).
-export function cookieKey(sealed: string): string {
-  return hash('sha256', sealed, 'base64url')
 }
 
 function deepFreeze<T>(value: T): T {

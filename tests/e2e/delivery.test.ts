@@ -96,6 +96,24 @@ describe('compression of every kind of answer', () => {
     expect(JSON.parse(raw.body.toString('utf8'))).toHaveProperty('status')
   })
 
+  it('an answer sent whole states its length (RFC 9112 section 6.3) instead of arriving in chunks', async () => {
+    const small = await getRaw('/api/health', { 'accept-encoding': 'br, gzip' })
+    expect(small.headers['transfer-encoding']).toBeUndefined()
+    expect(Number(small.headers['content-length'])).toBe(small.body.length)
+    for (const { kind, path, signedIn } of kinds.filter((k) => k.kind === 'JSON' || k.kind === 'page')) {
+      const who: Record<string, string> = signedIn ? { cookie } : {}
+      const plain = await getRaw(path, { ...who, 'accept-encoding': 'identity' })
+      expect(Number(plain.headers['content-length']), `${kind} plain`).toBe(plain.body.length)
+      // Compressed, the plain length would be wrong: the header goes and the body is framed again.
+      const br = await getRaw(path, { ...who, 'accept-encoding': 'br' })
+      expect(br.headers['content-encoding'], kind).toBe('br')
+      expect(Number(br.headers['content-length'] ?? br.body.length), `${kind} compressed`).toBe(br.body.length)
+    }
+    const refused = await getRaw('/api/courses/999999999', { cookie })
+    expect(refused.status).toBe(404)
+    expect(Number(refused.headers['content-length'])).toBe(refused.body.length)
+  })
+
   it('a HEAD request gets the headers and no body', async () => {
     const head = await new Promise<Raw>((resolve, reject) => {
       request(new URL('/login', inject('baseUrl')), { method: 'HEAD', headers: { 'accept-encoding': 'br' }, agent: false }, (res) => {
