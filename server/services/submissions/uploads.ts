@@ -65,12 +65,20 @@ export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): 
 
 type UploadTask = 'evaluateUpload' | 'evaluateUploadToStore'
 
-/** An upload's engine task with the practical's chemistry; the refusals computeRun describes. */
-async function runUploadTask<K extends UploadTask>(scope: PracticalScope, file: UploadedFile, task: K) {
+/** The practical's chemistry for an upload; 409 while it has no retention windows. */
+async function uploadChemistry(scope: PracticalScope): Promise<PracticalChemistry> {
   const chemistry = await practicalChemistry(scope.practical)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
   }
+  return chemistry
+}
+
+/** An upload's engine task with the practical's chemistry (read here unless given); the refusals computeRun describes. */
+async function runUploadTask<K extends UploadTask>(
+  scope: PracticalScope, file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry> = uploadChemistry(scope),
+) {
+  const chemistry = await chemistryRead
   try {
     const bytes = new Uint8Array(file.bytes)
     const output = await runEngine(task, { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer] })
@@ -90,11 +98,6 @@ async function runUploadTask<K extends UploadTask>(scope: PracticalScope, file: 
  */
 export function computeRun(scope: PracticalScope, file: UploadedFile) {
   return runUploadTask(scope, file, 'evaluateUpload')
-}
-
-/** computeRun for an upload that is stored: the peaks come back packed for submissions.peaks. */
-export function computeRunToStore(scope: PracticalScope, file: UploadedFile) {
-  return runUploadTask(scope, file, 'evaluateUploadToStore')
 }
 
 // A version's row without its peaks: an upload's answer never shows them, and reading them back
@@ -250,17 +253,24 @@ function latestOfUnit(db: Kysely<Database>, practicalId: number, unitKey: string
 /**
  * A student's upload: a repeated Idempotency-Key returns the first answer; the same file as the
  * latest version is recognised (200 with identicalTo) and stores nothing; else a new version.
+ * `upload` is the file as it arrives: the practical's chemistry, an earlier answer to the key and
+ * the work unit are read meanwhile, and the file's own refusals (400, 413) still come first.
  */
 export async function createSubmission(
-  db: Kysely<Database>, actor: Actor, scope: PracticalScope, file: UploadedFile, idempotencyKey: string | null,
+  db: Kysely<Database>, actor: Actor, scope: PracticalScope, upload: Promise<UploadedFile>, idempotencyKey: string | null,
 ): Promise<{ status: number, body: SubmissionCreated }> {
-  const earlier = await earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
+  const chemistryRead = uploadChemistry(scope)
+  const earlierRead = earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
+  const unitRead = studentUnit(db, scope)
+  for (const read of [chemistryRead, earlierRead, unitRead]) read.catch(() => {})
+  const file = await upload
+  const earlier = await earlierRead
   if (earlier) return earlier
-  // The engine reads the file while the unit and its latest version are looked up; the unit's
-  // own refusal (not enrolled) still comes first.
-  const computing = computeRunToStore(scope, file)
+  // The engine reads the file (and packs its peaks for storing) while the unit and its latest
+  // version are looked up; the unit's own refusal (not enrolled) still comes first.
+  const computing = runUploadTask(scope, file, 'evaluateUploadToStore', chemistryRead)
   computing.catch(() => {})
-  const unit = await studentUnit(db, scope)
+  const unit = await unitRead
   const latestRead = latestOfUnit(db, scope.practical.id, unit.unitKey)
   latestRead.catch(() => {})
   const { run, storedPeaks, chemistry, mediaType } = await computing
