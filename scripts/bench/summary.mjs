@@ -26,9 +26,9 @@ export async function fill(client, n) {
     )
   }
   const sectionIds = sections.map((s) => s.id)
-  await client.query(`insert into submissions (practical_id, section_id, unit_key, version, file_id, input_kind, sha256, parsed,
+  await client.query(`insert into submissions (practical_id, section_id, unit_key, version, file_id, input_kind, sha256,
       result, flags, factor_secondary, status, submitted_by)
-    select $1, ($2::int[])[1 + (g % array_length($2::int[], 1))], 'bench:' || g, v, $3, 'peak-table', md5(g::text || v::text), '[]'::jsonb,
+    select $1, ($2::int[])[1 + (g % array_length($2::int[], 1))], 'bench:' || g, v, $3, 'peak-table', md5(g::text || v::text),
       jsonb_build_object('molePercents', jsonb_build_array(jsonb_build_object('smiles', 'ClCCCCCl', 'percent', 20 + (g % 7)))),
       '[]'::jsonb, 2.5 + ((g * 7919) % 1000) / 1000.0, case when v = 1 and g % 10 = 0 then 'returned' else 'accepted' end, $4
     from generate_series(1, $5) g cross join lateral (select 1 as v union all select 2 where g % 10 = 0) versions`,

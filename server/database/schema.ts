@@ -340,7 +340,8 @@ export interface SubmissionsTable {
   fileId: number
   inputKind: 'peak-table' | 'trace'
   sha256: string
-  parsed: Json
+  /** The peaks, packed column by column (shared/utils/lib/stored-peaks.ts); empty for none. */
+  peaks: ColumnType<Buffer, Buffer | undefined, Buffer>
   result: Json
   flags: Json<StoredFlag[]>
   attention: Generated<number>

@@ -4,7 +4,7 @@
 import { analyzeSubstrate, canonicalSmiles, molarMassOf, type Halogen, type SubstrateAnalysis } from '../../shared/utils/halogenation'
 import { depictSubstrate, type DepictOptions } from '../../shared/utils/depiction'
 import { analyzeRequest, reactivityRequest } from './chemistry'
-import { evaluateUpload, standardRunPeaks } from './uploads'
+import { evaluateUpload, evaluateUploadToStore, standardRunPeaks } from './uploads'
 import { factorStatistics, outlierReport } from './statistics'
 import { classSummary, classSummaryJson } from './class-summary'
 
@@ -18,6 +18,7 @@ export const ENGINE_TASKS = {
   analyzeRequest,
   reactivityRequest,
   evaluateUpload,
+  evaluateUploadToStore,
   standardRunPeaks,
   factorStatistics,
   outlierReport,

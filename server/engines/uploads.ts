@@ -5,6 +5,7 @@ import type { StandardPeak } from '../../shared/types/library'
 import { detectPeaks, parsePeakTable, parseTrace, sniffUpload } from '../../shared/utils/chromatography'
 import { evaluateRun, RunInputError, type PracticalChemistry, type RunResult } from '../../shared/utils/submission'
 import { readUploadContent, type RunSource } from '../../shared/utils/lib/upload-content'
+import { packPeaks } from '../../shared/utils/lib/stored-peaks'
 
 export interface EvaluatedUpload {
   run: RunResult
@@ -17,6 +18,22 @@ export async function evaluateUpload({ bytes, chemistry }: { bytes: Uint8Array, 
   const content = await readUploadContent(bytes)
   const run = evaluateRun({ source: content.source, ...chemistry })
   return { run, mediaType: content.mediaType ?? (run.kind === 'trace' ? 'text/csv; profile=trace' : 'text/csv; profile=peak-table') }
+}
+
+/** A run as a new version stores it: the peaks packed (stored-peaks.ts), the rest as computed. */
+export interface UploadToStore {
+  run: Omit<RunResult, 'peaks'>
+  storedPeaks: Uint8Array
+  mediaType: string
+}
+
+/**
+ * evaluateUpload for an upload that is stored, not shown: the thousands of peaks of a long table
+ * are packed here, off the request loop, and cross back to it as one block of bytes.
+ */
+export async function evaluateUploadToStore(input: { bytes: Uint8Array, chemistry: PracticalChemistry }): Promise<UploadToStore> {
+  const { run: { peaks, ...run }, mediaType } = await evaluateUpload(input)
+  return { run, storedPeaks: packPeaks(peaks), mediaType }
 }
 
 // A standard run lists a handful of peaks (solvent, starting material, each product).

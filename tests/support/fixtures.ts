@@ -42,7 +42,9 @@ export async function insertResult(practicalId: number, sectionId: number, userI
     .returning('id').executeTakeFirstOrThrow()
   const row = await db.insertInto('submissions').values({
     practicalId, sectionId, unitKey: `user:${userId}`, version: extra.version ?? 1, fileId: file.id, inputKind: 'peak-table', sha256: randomUUID(),
-    parsed: '[]', result: JSON.stringify({ molePercents: [], factors: { secondaryToPrimary: factors.secondary ?? null, tertiaryToPrimary: factors.tertiary ?? null } }),
+    result: JSON.stringify({
+      molePercents: [], factors: { secondaryToPrimary: factors.secondary ?? null, tertiaryToPrimary: factors.tertiary ?? null },
+    }),
     flags: '[]', factorSecondary: factors.secondary ?? null, factorTertiary: factors.tertiary ?? null, status: extra.status ?? 'accepted', submittedBy: userId,
     idempotencyKey: null, excludedAt: extra.excluded ? new Date() : null, exclusionReason: extra.excluded ?? null,
   }).returning('id').executeTakeFirstOrThrow()

@@ -154,7 +154,7 @@ export async function insertUnitVersion(world: ReviewWorld, v: StoredUnitVersion
   const flags = v.flags ?? []
   const row = await db.insertInto('submissions').values({
     practicalId: world.practicalId, sectionId: v.section.id, unitKey: `station:${v.section.id}:${v.station}`, version: v.version ?? 1,
-    fileId: file.id, inputKind: 'peak-table', sha256, parsed: '[]',
+    fileId: file.id, inputKind: 'peak-table', sha256,
     result: JSON.stringify({ molePercents: [], factors: { secondaryToPrimary: v.factor, tertiaryToPrimary: null }, relative: [], conversion: null, unassignedPercent: 0, warnings: [], keyFactor: 'secondaryToPrimary' }),
     flags: JSON.stringify(flags), attention: flags.reduce((m, f) => Math.max(m, RANK[f.severity]), 0),
     factorSecondary: v.factor, factorTertiary: null, status: v.status ?? 'pending', late: v.late ?? false,

@@ -56,7 +56,7 @@ export async function insertVersion(spec: VersionSpec, db: Kysely<Database> = te
   }).returning('id').executeTakeFirstOrThrow()
   return db.insertInto('submissions').values({
     practicalId: spec.practicalId, sectionId: spec.sectionId, unitKey: spec.unitKey, version: spec.version, fileId: file.id,
-    inputKind: 'peak-table', sha256, parsed: JSON.stringify([]),
+    inputKind: 'peak-table', sha256,
     result: JSON.stringify({
       molePercents: [],
       factors: { secondaryToPrimary: spec.factorSecondary ?? null, tertiaryToPrimary: spec.factorTertiary ?? null },

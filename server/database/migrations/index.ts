@@ -21,6 +21,7 @@ import * as departmentScaleIndexes from './2026_12_03_1500_department_scale_inde
 import * as campusJoinedAt from './2026_12_03_1600_campus_joined_at'
 import * as uploadStorageLz4 from './2026_12_03_1610_upload_storage_lz4'
 import * as latestVersionCover from './2026_12_03_1700_latest_version_cover'
+import * as packedPeaks from './2026_12_03_1900_packed_peaks'
 
 // A static registry: after `nuxt build` the .ts files are not on disk, so Kysely's
 // FileMigrationProvider cannot find them. Add each new migration here, in name order.
@@ -47,4 +48,5 @@ export const migrations: Record<string, Migration> = {
   '2026_12_03_1600_campus_joined_at': campusJoinedAt,
   '2026_12_03_1610_upload_storage_lz4': uploadStorageLz4,
   '2026_12_03_1700_latest_version_cover': latestVersionCover,
+  '2026_12_03_1900_packed_peaks': packedPeaks,
 }

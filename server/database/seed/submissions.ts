@@ -9,6 +9,7 @@ import { canonicalSmiles } from '../../../shared/utils/halogenation'
 import { mulberry32, normalRandom, simulatePeakTable, type BadRun, type ExportStyle } from '../../../shared/utils/simulation'
 import { attentionOf, evaluateRun, practicalChemistryOf, type PracticalChemistry } from '../../../shared/utils/submission'
 import { startingScores } from '../../../shared/utils/grading'
+import { packPeaks } from '../../../shared/utils/lib/stored-peaks'
 import { substrateProductNamer, substrateReferenceFor } from '../../services/library/product-names'
 import { stationUnitKey } from '../../services/submissions/work-units'
 import { storedResultOf } from '../../services/submissions/stored-result'
@@ -182,7 +183,7 @@ export function versionRowsOf(v: Omit<VersionToStore, 'unit' | 'seedNo'> & { sec
     version: v.version,
     inputKind: run.kind,
     sha256,
-    parsed: JSON.stringify(run.peaks),
+    peaks: Buffer.from(packPeaks(run.peaks)),
     result: JSON.stringify(storedResultOf(run, v.chem.keyFactor)),
     flags: JSON.stringify(run.flags),
     attention: attentionOf(run.flags),

@@ -13,9 +13,10 @@ import { defaultResubmitDue, resubmitDueProblem } from '#shared/utils/resubmit'
 import { queueReturnMail } from './return-mail'
 
 // Review decisions, bulk acceptance and exclusions: commands on the database, by an Actor. Each
-// write takes the work unit's lock (the same one uploads take), checks again inside the
-// transaction that the version is still the latest, and writes its audit row with before and
-// after in the same transaction.
+// write takes the work unit's lock, checks again inside the transaction that the version is still
+// the latest, and writes its audit row with before and after in the same transaction. An upload
+// takes no lock (one statement, numbered by the unique version): one committing during a decision
+// is simply the next version, as if it had come just after.
 
 type ReviewBody = z.output<typeof reviewInputSchema>
 

@@ -1,6 +1,7 @@
 import type { ReviewerScope } from './scope'
 import type { StoredFlag, Submission } from '../../database/schema'
-import type { PeakView, StoredResult } from '#shared/types/submission'
+import type { StoredResult } from '#shared/types/submission'
+import { unpackPeaks } from '#shared/utils/lib/stored-peaks'
 import type { AccuracySuggestionView, ReviewView, SubmissionDetail, VersionDiff } from '#shared/types/review'
 import { defaultResubmitDue } from '#shared/utils/resubmit'
 import { suggestAccuracyPoints } from '#shared/utils/grading'
@@ -20,7 +21,7 @@ async function unitVersions(scope: ReviewerScope, submission: Submission) {
   const sections = reviewSectionIds(scope)
   let query = useDb().selectFrom('submissions').innerJoin('files', 'files.id', 'submissions.fileId')
     .select(['submissions.id', 'submissions.version', 'submissions.createdAt', 'submissions.status', 'submissions.factorSecondary',
-      'submissions.factorTertiary', 'submissions.late', 'submissions.excludedAt', 'submissions.parsed', 'submissions.result',
+      'submissions.factorTertiary', 'submissions.late', 'submissions.excludedAt', 'submissions.peaks', 'submissions.result',
       'submissions.flags', 'files.originalName'])
     .where('submissions.practicalId', '=', submission.practicalId).where('submissions.unitKey', '=', submission.unitKey)
   if (sections) query = query.where('submissions.sectionId', 'in', sections.length ? sections : [-1])
@@ -44,7 +45,7 @@ function chosenDiff(
   if (!other) return null
   const [from, to] = other.version < current.version ? [other, current] : [current, other]
   const side = (v: VersionRow) => ({
-    id: v.id, version: v.version, peaks: v.parsed as PeakView[], result: v.result as StoredResult, flags: v.flags as StoredFlag[],
+    id: v.id, version: v.version, peaks: unpackPeaks(v.peaks), result: v.result as StoredResult, flags: v.flags as StoredFlag[],
   })
   return diffVersions(side(from), side(to), labels)
 }
@@ -149,7 +150,7 @@ export async function buildSubmissionDetail(scope: ReviewerScope, submission: Su
     },
     unit: units.get(submission.id)!,
     section,
-    peaks: submission.parsed as PeakView[],
+    peaks: unpackPeaks(submission.peaks),
     result,
     keyFactor: observed,
     flags,

@@ -6,7 +6,7 @@ import type { RunResult } from '../../../shared/utils/submission'
 // seeded version reads like an uploaded one. No Nitro, relative imports: the seed runs outside it.
 
 /** The result as stored with a version: what every later figure is computed from. */
-export function storedResultOf(run: RunResult, keyFactor: KeyFactor): StoredResult {
+export function storedResultOf(run: Omit<RunResult, 'peaks'>, keyFactor: KeyFactor): StoredResult {
   return {
     molePercents: run.molePercents,
     factors: run.factors,

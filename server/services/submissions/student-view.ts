@@ -3,6 +3,7 @@ import type { PracticalChemistry } from '#shared/utils/submission'
 import type { PracticalScope } from '../../utils/access'
 import type { Database, ReleasePolicy, RubricCriterion } from '../../database/schema'
 import { todayIn } from '#shared/utils/dates'
+import { unpackPeaks } from '#shared/utils/lib/stored-peaks'
 import type { KeyFactor } from '#shared/utils/key-factor'
 import type { ExpectationView, FlagView, PeakView, ProductView, StoredResult, SubmissionStatusName } from '#shared/types/submission'
 import { scoresReleased } from '../review/release-policy'
@@ -88,9 +89,8 @@ export interface MySubmissionsView {
   versions: MyVersionView[]
 }
 
-function peakViews(parsed: unknown): PeakView[] {
-  if (!Array.isArray(parsed)) return []
-  return parsed.map((p: PeakView) => ({
+function peakViews(stored: Uint8Array): PeakView[] {
+  return unpackPeaks(stored).map((p) => ({
     retentionTime: p.retentionTime,
     area: p.area,
     ...(typeof p.areaPercent === 'number' ? { areaPercent: p.areaPercent } : {}),
@@ -144,7 +144,7 @@ function myVersionRows(db: Kysely<Database>, userId: number, practicalId: number
     .innerJoin('users', 'users.id', 'submissions.submittedBy')
     .select([
       'submissions.id', 'submissions.version', 'submissions.status', 'submissions.createdAt', 'submissions.late',
-      'submissions.inputKind', 'submissions.flags', 'submissions.result', 'submissions.parsed', 'submissions.submittedBy',
+      'submissions.inputKind', 'submissions.flags', 'submissions.result', 'submissions.peaks', 'submissions.submittedBy',
       'files.originalName', 'files.byteSize', 'users.name as submitterName',
     ])
     .where('submissionMembers.userId', '=', userId)
@@ -182,7 +182,7 @@ function myVersionView(row: MyVersionRow, meId: number, review: MyReviewView | n
     uploadedBy: { name: row.submitterName, you: row.submittedBy === meId },
     flags: row.flags as FlagView[],
     result: row.result as StoredResult,
-    peaks: peakViews(row.parsed),
+    peaks: peakViews(row.peaks),
     review,
   }
 }

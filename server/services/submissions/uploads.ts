@@ -5,14 +5,14 @@ import type { UploadedFile } from '../../utils/files'
 import type { Database, Submission } from '../../database/schema'
 import type { KeyFactor } from '#shared/utils/key-factor'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
-import { attentionOf, RunInputError, type RunResult } from '#shared/utils/submission'
+import { attentionOf, RunInputError, type PracticalChemistry, type RunResult } from '#shared/utils/submission'
 import { stationOfUnitKey, unitKeyOf } from './work-units'
 import { storedResultOf } from './stored-result'
 import { createError } from 'h3'
 import { expectationView, practicalChemistry } from './practical-chemistry'
-import { audit, type Actor } from '../../utils/audit'
+import type { Actor } from '../../utils/audit'
 import { runEngine } from '../../utils/engines'
-import { asUploadFormatError, storeFile } from '../../utils/files'
+import { asUploadFormatError } from '../../utils/files'
 import { stationMates } from '../roster'
 import { uploadDueAt } from '#shared/utils/resubmit'
 
@@ -63,22 +63,26 @@ export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): 
   }
 }
 
-/**
- * Runs the engines on an uploaded file (text, .xlsx or ANDI/AIA netCDF, judged by its bytes) in
- * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
- * the original is kept as.
- */
-export async function computeRun(
-  scope: PracticalScope, file: UploadedFile,
-): Promise<{ run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, mediaType: string }> {
+type UploadTask = 'evaluateUpload' | 'evaluateUploadToStore'
+
+/** The practical's chemistry for an upload; 409 while it has no retention windows. */
+async function uploadChemistry(scope: PracticalScope): Promise<PracticalChemistry> {
   const chemistry = await practicalChemistry(scope.practical)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
   }
+  return chemistry
+}
+
+/** An upload's engine task with the practical's chemistry (read here unless given); the refusals computeRun describes. */
+async function runUploadTask<K extends UploadTask>(
+  scope: PracticalScope, file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry> = uploadChemistry(scope),
+) {
+  const chemistry = await chemistryRead
   try {
     const bytes = new Uint8Array(file.bytes)
-    const { run, mediaType } = await runEngine('evaluateUpload', { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer] })
-    return { run, chemistry, mediaType }
+    const output = await runEngine(task, { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer] })
+    return { ...output, chemistry }
   } catch (error) {
     if (error instanceof RunInputError) {
       throw createError({ statusCode: 422, statusMessage: `file: ${error.message}`, data: { rows: error.rows.slice(0, 50) } })
@@ -87,13 +91,22 @@ export async function computeRun(
   }
 }
 
-// A version's row without its parsed peaks: an upload's answer never shows them, and reading
-// them back (thousands for a long table) only to drop them cost more than storing them.
+/**
+ * Runs the engines on an uploaded file (text, .xlsx or ANDI/AIA netCDF, judged by its bytes) in
+ * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
+ * the original is kept as.
+ */
+export function computeRun(scope: PracticalScope, file: UploadedFile) {
+  return runUploadTask(scope, file, 'evaluateUpload')
+}
+
+// A version's row without its peaks: an upload's answer never shows them, and reading them back
+// (thousands for a long table) only to drop them cost more than storing them.
 const CREATED_COLUMNS = [
   'id', 'practicalId', 'sectionId', 'unitKey', 'version', 'fileId', 'inputKind', 'sha256', 'result', 'flags', 'attention',
   'factorSecondary', 'factorTertiary', 'status', 'late', 'submittedBy', 'idempotencyKey', 'excludedAt', 'excludedBy',
   'exclusionReason', 'createdAt', 'updatedAt',
-] as const satisfies ReadonlyArray<Exclude<keyof Submission, 'parsed'>>
+] as const satisfies ReadonlyArray<Exclude<keyof Submission, 'peaks'>>
 
 export function toCreated(
   row: Pick<Submission, 'id' | 'version' | 'status' | 'result' | 'flags' | 'late' | 'inputKind'>,
@@ -110,7 +123,7 @@ export function toCreated(
   }
 }
 
-export function previewOf(run: RunResult, chemistry: Awaited<ReturnType<typeof practicalChemistry>>, late: boolean): SubmissionPreview {
+export function previewOf(run: RunResult, chemistry: PracticalChemistry, late: boolean): SubmissionPreview {
   return {
     kind: run.kind,
     molePercents: run.molePercents,
@@ -144,35 +157,58 @@ export interface NewVersion {
   file: UploadedFile
   /** What the original is kept as (text/plain, a workbook, netCDF). */
   mediaType: string
-  run: RunResult
+  run: Omit<RunResult, 'peaks'>
+  /** The run's peaks, packed (packPeaks). */
+  storedPeaks: Uint8Array
   keyFactor: KeyFactor
   late: boolean
   idempotencyKey: string | null
 }
 
+/** Another upload of the same work unit took the version number first. */
+const isVersionTaken = (error: unknown) =>
+  (error as { code?: string }).code === UNIQUE_VIOLATION && (error as { constraint?: string }).constraint === 'submissions_unit_version'
+
 /**
- * Stores the next version of a work unit in one transaction: the original bytes, the parsed
- * peaks and the computed result, the unit's members and the audit row. One writer per work unit
- * at a time, so two partners uploading at once get versions n and n+1.
+ * Stores the next version of a work unit in one statement, so one round trip and one commit: the
+ * original bytes, the packed peaks and the computed result, the unit's members and the audit row
+ * land together or not at all. The version is the unit's highest plus one; when a partner's
+ * upload of the same unit commits that number first, the unique (practical, unit, version)
+ * refuses this one and it is stored again as the next, so two uploads at once get n and n + 1.
  */
 export async function storeSubmissionVersion(
   db: Kysely<Database>, actor: Actor, v: NewVersion,
 ): Promise<Pick<Submission, (typeof CREATED_COLUMNS)[number]>> {
-  return db.transaction().execute(async (trx) => {
-    await sql`select pg_advisory_xact_lock(hashtext(${`submission:${v.practicalId}:${v.unit.unitKey}`}))`.execute(trx)
-    const fileId = await storeFile(trx, v.file, actor.id, v.mediaType)
-    // The next version number is read by the insert itself (one round trip less); its snapshot
-    // is taken after the lock above, so it sees every version committed before.
-    const inserted = await trx.insertInto('submissions').values((eb) => ({
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await insertVersion(db, actor, v)
+    } catch (error) {
+      if (!isVersionTaken(error) || attempt >= 5) throw error
+    }
+  }
+}
+
+function insertVersion(db: Kysely<Database>, actor: Actor, v: NewVersion) {
+  const after = { practicalId: v.practicalId, unitKey: v.unit.unitKey, sha256: v.file.sha256, fileName: v.file.name, late: v.late }
+  return db
+    .with('file', (q) => q.insertInto('files').values({
+      sha256: v.file.sha256,
+      byteSize: v.file.bytes.length,
+      mediaType: v.mediaType,
+      originalName: v.file.name,
+      content: v.file.bytes,
+      uploadedBy: actor.id,
+    }).returning('id'))
+    .with('created', (q) => q.insertInto('submissions').values((eb) => ({
       practicalId: v.practicalId,
       sectionId: v.unit.sectionId,
       unitKey: v.unit.unitKey,
       version: eb.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
         .where('practicalId', '=', v.practicalId).where('unitKey', '=', v.unit.unitKey),
-      fileId,
+      fileId: eb.selectFrom('file').select('id'),
       inputKind: v.run.kind,
       sha256: v.file.sha256,
-      parsed: JSON.stringify(v.run.peaks),
+      peaks: Buffer.from(v.storedPeaks.buffer, v.storedPeaks.byteOffset, v.storedPeaks.byteLength),
       result: JSON.stringify(storedResultOf(v.run, v.keyFactor)),
       flags: JSON.stringify(v.run.flags),
       attention: attentionOf(v.run.flags),
@@ -181,17 +217,20 @@ export async function storeSubmissionVersion(
       late: v.late,
       submittedBy: actor.id,
       idempotencyKey: v.idempotencyKey,
-    })).returning(CREATED_COLUMNS).executeTakeFirstOrThrow()
-    await trx.insertInto('submissionMembers').values(v.unit.memberIds.map((userId) => ({ submissionId: inserted.id, userId }))).execute()
-    await audit(trx, actor, {
-      action: 'submission.create', entity: 'submission', entityId: inserted.id,
-      after: {
-        practicalId: v.practicalId, unitKey: v.unit.unitKey, version: inserted.version,
-        sha256: v.file.sha256, fileName: v.file.name, late: v.late,
-      },
-    })
-    return inserted
-  })
+    })).returning(CREATED_COLUMNS))
+    .with('members', (q) => q.insertInto('submissionMembers')
+      .values((eb) => v.unit.memberIds.map((userId) => ({ submissionId: eb.selectFrom('created').select('id'), userId }))))
+    .with('audited', (q) => q.insertInto('auditLog').values((eb) => ({
+      actorId: actor.id,
+      action: 'submission.create',
+      entity: 'submission',
+      entityId: eb.selectFrom('created').select(sql<string>`id::text`.as('id')),
+      after: eb.selectFrom('created')
+        .select(sql<string>`jsonb_set(${JSON.stringify(after)}::jsonb, '{version}', to_jsonb(version))`.as('after')),
+      ip: actor.ip,
+    })))
+    .selectFrom('created').select(CREATED_COLUMNS)
+    .executeTakeFirstOrThrow()
 }
 
 /** The first answer to a repeated Idempotency-Key, or null for a new key; 409 when it was for another practical. */
@@ -214,31 +253,38 @@ function latestOfUnit(db: Kysely<Database>, practicalId: number, unitKey: string
 /**
  * A student's upload: a repeated Idempotency-Key returns the first answer; the same file as the
  * latest version is recognised (200 with identicalTo) and stores nothing; else a new version.
+ * `upload` is the file as it arrives: the practical's chemistry, an earlier answer to the key and
+ * the work unit are read meanwhile, and the file's own refusals (400, 413) still come first.
  */
 export async function createSubmission(
-  db: Kysely<Database>, actor: Actor, scope: PracticalScope, file: UploadedFile, idempotencyKey: string | null,
+  db: Kysely<Database>, actor: Actor, scope: PracticalScope, upload: Promise<UploadedFile>, idempotencyKey: string | null,
 ): Promise<{ status: number, body: SubmissionCreated }> {
-  const earlier = await earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
+  const chemistryRead = uploadChemistry(scope)
+  const earlierRead = earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
+  const unitRead = studentUnit(db, scope)
+  for (const read of [chemistryRead, earlierRead, unitRead]) read.catch(() => {})
+  const file = await upload
+  const earlier = await earlierRead
   if (earlier) return earlier
-  // The engine reads the file while the unit and its latest version are looked up; the unit's
-  // own refusal (not enrolled) still comes first.
-  const computing = computeRun(scope, file)
+  // The engine reads the file (and packs its peaks for storing) while the unit and its latest
+  // version are looked up; the unit's own refusal (not enrolled) still comes first.
+  const computing = runUploadTask(scope, file, 'evaluateUploadToStore', chemistryRead)
   computing.catch(() => {})
-  const unit = await studentUnit(db, scope)
+  const unit = await unitRead
   const latestRead = latestOfUnit(db, scope.practical.id, unit.unitKey)
   latestRead.catch(() => {})
-  const { run, chemistry, mediaType } = await computing
+  const { run, storedPeaks, chemistry, mediaType } = await computing
   const latest = await latestRead
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
   const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()
   try {
     const row = await storeSubmissionVersion(db, actor, {
-      practicalId: scope.practical.id, unit, file, mediaType, run, keyFactor: chemistry.keyFactor, late, idempotencyKey,
+      practicalId: scope.practical.id, unit, file, mediaType, run, storedPeaks, keyFactor: chemistry.keyFactor, late, idempotencyKey,
     })
     return { status: 201, body: toCreated(row) }
   } catch (error) {
     // The same key sent twice at once: the loser of the race answers with the winner's row.
-    if ((error as { code?: string }).code === UNIQUE_VIOLATION && idempotencyKey) {
+    if ((error as { code?: string }).code === UNIQUE_VIOLATION && !isVersionTaken(error) && idempotencyKey) {
       const winner = await byIdempotencyKey(db, actor.id, idempotencyKey)
       if (winner) return { status: 201, body: toCreated(winner) }
     }

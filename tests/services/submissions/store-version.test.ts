@@ -7,6 +7,7 @@ import { storeSubmissionVersion, type NewVersion } from '../../../server/service
 import type { PracticalScope } from '../../../server/utils/access'
 import type { Actor } from '../../../server/utils/audit'
 import type { RunResult } from '../../../shared/utils/submission'
+import { packPeaks, unpackPeaks } from '../../../shared/utils/lib/stored-peaks'
 
 afterAll(closeTestDb)
 
@@ -24,9 +25,9 @@ function upload(text: string) {
   return file
 }
 
-const run: RunResult = {
+const peaks: RunResult['peaks'] = [{ retentionTime: 3.1, area: 1200, assignedTo: null }, { retentionTime: 4.2, area: 2400, assignedTo: null }]
+const run: Omit<RunResult, 'peaks'> = {
   kind: 'peak-table',
-  peaks: [{ retentionTime: 3.1, area: 1200, assignedTo: null }, { retentionTime: 4.2, area: 2400, assignedTo: null }],
   molePercents: [],
   factors: { secondaryToPrimary: 3.6, tertiaryToPrimary: null },
   relative: [],
@@ -46,7 +47,9 @@ async function pair(): Promise<{ actor: Actor, partner: number, unit: NewVersion
 describe('storeSubmissionVersion', () => {
   it('stores the bytes, the run, the members and an audit row, numbering versions per unit', async () => {
     const { actor, partner, unit } = await pair()
-    const base = { practicalId: scope.practical.id, unit, mediaType: 'text/plain', run, keyFactor: 'secondaryToPrimary' as const, late: true }
+    const base = {
+      practicalId: scope.practical.id, unit, mediaType: 'text/plain', run, storedPeaks: packPeaks(peaks), keyFactor: 'secondaryToPrimary' as const, late: true,
+    }
     const first = await storeSubmissionVersion(testDb(), actor, { ...base, file: upload('rt,area\n3.1,1200\n'), idempotencyKey: null })
     const second = await storeSubmissionVersion(testDb(), actor, { ...base, file: upload('rt,area\n3.1,1300\n'), idempotencyKey: 'k-2' })
     expect([first.version, second.version]).toEqual([1, 2])
@@ -60,9 +63,23 @@ describe('storeSubmissionVersion', () => {
     expect(audit!.after).toMatchObject({ version: 2, unitKey: unit.unitKey, late: true })
   })
 
+  it('numbers two uploads of one unit at once n and n + 1, each with its own file and members', async () => {
+    const { actor, unit } = await pair()
+    const base = {
+      practicalId: scope.practical.id, unit, mediaType: 'text/plain', run, storedPeaks: packPeaks(peaks), keyFactor: 'secondaryToPrimary' as const, late: false,
+    }
+    const stored = await Promise.all(['a', 'b', 'c'].map((x) => storeSubmissionVersion(testDb(), actor, { ...base, file: upload(`${x}\n`), idempotencyKey: null })))
+    expect(stored.map((s) => s.version).sort()).toEqual([1, 2, 3])
+    expect(new Set(stored.map((s) => s.fileId)).size).toBe(3)
+    const members = await testDb().selectFrom('submissionMembers').select('submissionId').where('submissionId', 'in', stored.map((s) => s.id)).execute()
+    expect(members).toHaveLength(6)
+  })
+
   it('writes nothing when the transaction fails part way (a reused Idempotency-Key)', async () => {
     const { actor, unit } = await pair()
-    const base = { practicalId: scope.practical.id, unit, mediaType: 'text/plain', run, keyFactor: 'secondaryToPrimary' as const, late: false }
+    const base = {
+      practicalId: scope.practical.id, unit, mediaType: 'text/plain', run, storedPeaks: packPeaks(peaks), keyFactor: 'secondaryToPrimary' as const, late: false,
+    }
     await storeSubmissionVersion(testDb(), actor, { ...base, file: upload('a\n'), idempotencyKey: 'same' })
     const filesBefore = await testDb().selectFrom('files').select('id').where('uploadedBy', '=', actor.id).execute()
     await expect(storeSubmissionVersion(testDb(), actor, { ...base, file: upload('b\n'), idempotencyKey: 'same' }))
@@ -74,22 +91,22 @@ describe('storeSubmissionVersion', () => {
     expect(filesAfter).toHaveLength(filesBefore.length)
   })
 
-  it('keeps a long file and its peaks byte for byte, compressed with lz4 where the server has it', async () => {
+  it('keeps a long file byte for byte (lz4 where the server has it) and its peaks as the engine gave them', async () => {
     const { actor, unit } = await pair()
     const lines = ['Time (min),Signal (pA)', ...Array.from({ length: 3000 }, (_, i) => `${(i / 300).toFixed(5)},${(0.5 + (i % 17) / 100).toFixed(4)}`)]
     const file = upload(`${lines.join('\n')}\n`)
-    const peaks = Array.from({ length: 2000 }, (_, i) => ({ retentionTime: 0.5 + i / 500, area: 1000 + i, row: i + 2, assignedTo: null }))
+    const many = Array.from({ length: 2000 }, (_, i) => ({ retentionTime: 0.5 + i / 500, area: 1000 + i, row: i + 2, assignedTo: i % 7 ? null : 'CCCCl' }))
     const stored = await storeSubmissionVersion(testDb(), actor, {
-      practicalId: scope.practical.id, unit, mediaType: 'text/plain', run: { ...run, peaks },
+      practicalId: scope.practical.id, unit, mediaType: 'text/plain', run, storedPeaks: packPeaks(many),
       keyFactor: 'secondaryToPrimary', late: false, file, idempotencyKey: null,
     })
-    const { rows: [row] } = await sql<{ content: Buffer, parsed: unknown, fileCompression: string | null, peaksCompression: string | null, lz4: boolean }>`
-      select f.content, s.parsed, pg_column_compression(f.content) as "fileCompression", pg_column_compression(s.parsed) as "peaksCompression",
+    const { rows: [row] } = await sql<{ content: Buffer, peaks: Buffer, fileCompression: string | null, lz4: boolean }>`
+      select f.content, s.peaks, pg_column_compression(f.content) as "fileCompression",
         (select 'lz4' = any(enumvals) from pg_settings where name = 'default_toast_compression') as lz4
       from submissions s join files f on f.id = s.file_id where s.id = ${stored.id}`.execute(testDb())
     expect(Buffer.compare(row!.content, file.bytes)).toBe(0)
-    expect(row!.parsed).toEqual(peaks)
-    const expected = row!.lz4 ? 'lz4' : 'pglz'
-    expect([row!.fileCompression, row!.peaksCompression]).toEqual([expected, expected])
+    // What the peaks were when stored as JSON: the same numbers and labels, read back.
+    expect(unpackPeaks(row!.peaks)).toEqual(JSON.parse(JSON.stringify(many)))
+    expect(row!.fileCompression).toBe(row!.lz4 ? 'lz4' : 'pglz')
   })
 })

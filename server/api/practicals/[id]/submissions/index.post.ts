@@ -10,8 +10,8 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, idParamsSchema)
   const scope = await requirePracticalAccess(event, id)
   const key = validate(keySchema, getRequestHeader(event, 'idempotency-key') ?? null)
-  const { file } = await readUpload(event)
-  const { status, body } = await createSubmission(useDb(), actorOf(event), scope, file, key)
+  const upload = readUpload(event).then(({ file }) => file)
+  const { status, body } = await createSubmission(useDb(), actorOf(event), scope, upload, key)
   setResponseStatus(event, status)
   return body
 })
