@@ -1,3 +1,4 @@
+import { hash } from 'node:crypto'
 import { CompiledQuery, type Compilable, type Kysely, type RawBuilder } from 'kysely'
 import { createDatabase, poolOf } from '../database/connection'
 import type { Database } from '../database/schema'
@@ -71,20 +72,35 @@ export function readOnceCompiled<S extends string, V extends ReadValue[], O>(
 }
 
 /**
- * A read of one row and one text column (an answer's JSON, written by PostgreSQL) compiled once
- * per shape like readOnceCompiled, sent on the process's pool without Kysely's executor: on a
+ * A read of one row and one text column (an answer's JSON, written by PostgreSQL; null for none)
+ * compiled once per shape like compiledOnce. On the process's pool it goes without Kysely's
+ * executor, as a statement each connection prepares once (named by its text's digest): on a
  * route whose answer is one short list, acquiring the connection through Kysely, its row objects
- * and the JSON written again in JS were a tenth of the request. The text is sent as it is
- * (sendJsonText in server/utils/json-text.ts).
+ * and the JSON written again in JS were most of what the route cost beyond the framework, and
+ * planning the forecast's read cost PostgreSQL about as much as running it. In a transaction
+ * (any other `db`) it goes through Kysely. The text is sent as it is (sendJsonText,
+ * sendJsonBytes in server/utils/json-text.ts).
  */
+export function textOnceCompiled<S extends string, V extends ReadValue[]>(
+  build: (db: Kysely<Database>, shape: S, ...values: V) => RawBuilder<{ text: string | null }>,
+): (db: Kysely<Database>, shape: S, ...values: V) => Promise<string | null> {
+  const planFor = plansOf(build)
+  const names = new Map<string, string>()
+  return async (db, shape, ...values) => {
+    const { sql, parameters } = planFor(db, shape, values)
+    const pool = poolOf(db)
+    if (!pool) return (await db.executeQuery<{ text: string | null }>(CompiledQuery.raw(sql, parameters))).rows[0]!.text
+    let name = names.get(sql)
+    if (!name) names.set(sql, name = `read ${hash('sha256', sql, 'base64url')}`)
+    const { rows } = await pool.query<[string | null]>({ name, text: sql, values: parameters, rowMode: 'array' })
+    return rows[0]![0]
+  }
+}
+
+/** textOnceCompiled on the process's pool, for a read whose text is never null. */
 export function readTextOnceCompiled<S extends string, V extends ReadValue[]>(
   build: (db: Kysely<Database>, shape: S, ...values: V) => RawBuilder<{ text: string }>,
 ): (shape: S, ...values: V) => Promise<string> {
-  const planFor = plansOf(build)
-  return async (shape, ...values) => {
-    const db = useDb()
-    const { sql, parameters } = planFor(db, shape, values)
-    const { rows } = await poolOf(db)!.query<[string]>({ text: sql, values: parameters, rowMode: 'array' })
-    return rows[0]![0]
-  }
+  const read = textOnceCompiled(build)
+  return async (shape, ...values) => (await read(useDb(), shape, ...values))!
 }

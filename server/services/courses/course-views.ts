@@ -11,7 +11,7 @@ import type { CourseDetail } from '#shared/types/course'
 const courseListText = readTextOnceCompiled((db, role: SessionUser['role'], userId: number) => {
   const courses = db.selectFrom('courses').select(['id', 'code', 'title', 'term'])
     .where('id', 'in', visibleCourseIdQuery({ id: userId, role, name: '' }))
-  return sql<{ text: string }>`select '[' || coalesce(string_agg(row_to_json(c)::text, ',' order by c.term desc, c.code), '') || ']'
+  return sql<{ text: string }>`select '[' || coalesce(string_agg(row_to_json(c)::text, ',' order by c.term desc, c.code), '') || ']' as text
     from (${courses}) c`
 })
 

@@ -10,7 +10,7 @@ import {
   buildForecast, workUnitsOf, type ForecastItem, type ForecastLot, type ForecastPractical, type ForecastReagent, type ForecastSessionInput,
 } from '#shared/utils/forecast'
 import { visibleCourseIdQuery } from '../../utils/access'
-import { compiledOnce } from '../../utils/db'
+import { textOnceCompiled } from '../../utils/db'
 import { jsonBytes, type JsonBytes } from '../../utils/json-text'
 import { sizedMemo } from '../../engines/memo'
 import { canonicalForms } from '../library'
@@ -51,18 +51,19 @@ const chosenCourses = (shape: InputsShape, userId: number, courseId: number | nu
 }
 
 /**
- * Everything the forecast is run on, in one query, as the JSON text PostgreSQL wrote: the
- * caller's courses (all for the coordinator, owned for an instructor, or the one asked for) and
- * their meetings from one date to another, the practicals with their items (and the links the
- * coordinator dismissed), the catalog, the stock that remains per lot and the rinse setting.
- * Compiled once per role and whether a course was asked for (server/utils/db.ts).
+ * Everything the forecast is run on, in one query, as the JSON text PostgreSQL wrote (null when
+ * a course was asked for that the caller may not see): the caller's courses (all for the
+ * coordinator, owned for an instructor, or the one asked for) and their meetings from one date to
+ * another, the practicals with their items (and the links the coordinator dismissed), the
+ * catalog, the stock that remains per lot and the rinse setting. Compiled once per role and
+ * whether a course was asked for, prepared once per connection (textOnceCompiled, server/utils/db.ts).
  */
-const readForecastInputs = compiledOnce((db, shape: InputsShape, userId: number, courseId: number | null, from: string, to: string) =>
-  sql<{ allowed: boolean, inputs: string }>`with chosen as (${chosenCourses(shape, userId, courseId)}),
+const readForecastInputs = textOnceCompiled((_db, shape: InputsShape, userId: number, courseId: number | null, from: string, to: string) =>
+  sql<{ text: string | null }>`with chosen as (${chosenCourses(shape, userId, courseId)}),
       meetings as (select ps.practical_id, ps.section_id, ps.meeting_date from practical_sessions ps
         join practicals p on p.id = ps.practical_id
         where p.course_id in (select id from chosen) and ps.meeting_date >= ${from}::date and ps.meeting_date <= ${to}::date)
-    select ${sql.lit(shape.endsWith('all'))} or exists (select 1 from chosen) as allowed, json_build_object(
+    select case when ${sql.lit(shape.endsWith('all'))} or exists (select 1 from chosen) then json_build_object(
       'rinseMlPerUnit', (select rinse_ml_per_unit from stockroom_settings where id = 1),
       'reagents', coalesce((select json_agg(json_build_object('id', id, 'name', name, 'smiles', smiles, 'unit', unit,
           'containerSize', container_size, 'overagePercent', overage_percent, 'molarMass', molar_mass, 'density', density,
@@ -83,16 +84,16 @@ const readForecastInputs = compiledOnce((db, shape: InputsShape, userId: number,
         from practicals p join courses c on c.id = p.course_id where p.id in (select practical_id from meetings)), '[]'),
       'lots', coalesce((select json_agg(json_build_object('id', l.id, 'reagentId', l.reagent_id, 'unit', l.unit, 'expiresOn', l.expires_on,
           'remaining', l.quantity - coalesce((select sum(u.amount) from reagent_usage u where u.lot_id = l.id), 0)) order by l.id)
-        from reagent_lots l), '[]'))::text as inputs`)
+        from reagent_lots l), '[]'))::text end as text`)
 
 /** The forecast's inputs as text (see readForecastInputs); 404 when a course was asked for that the caller may not see. */
 async function forecastInputsText(
   db: Kysely<Database>, me: SessionUser, courseId: number | undefined, from: string, to: string,
 ): Promise<string> {
   const one = courseId !== undefined
-  const [row] = await readForecastInputs(db, `${me.role} ${one ? 'one' : 'all'}`, me.id, courseId ?? null, from, to)
-  if (!row!.allowed) throw createError({ statusCode: 404, statusMessage: 'Course not found' })
-  return row!.inputs
+  const text = await readForecastInputs(db, `${me.role} ${one ? 'one' : 'all'}`, me.id, courseId ?? null, from, to)
+  if (text === null) throw createError({ statusCode: 404, statusMessage: 'Course not found' })
+  return text
 }
 
 /** Each meeting with whether the section still meets that day and its work units. */
