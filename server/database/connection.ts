@@ -41,10 +41,18 @@ export function createPool(connectionString: string, options: ConnectionOptions 
   return pool
 }
 
+// Each database's own pool, for reads that skip Kysely's executor (readTextOnceCompiled in server/utils/db.ts).
+const pools = new WeakMap<Kysely<Database>, pg.Pool>()
+
 export function createDatabase(connectionString: string, options: ConnectionOptions = {}): Kysely<Database> {
   const pool = createPool(connectionString, options)
-  return new Kysely<Database>({
+  const db = new Kysely<Database>({
     dialect: new PostgresDialect({ pool }),
     plugins: [new CamelCasePlugin({ maintainNestedObjectKeys: true })],
   })
+  pools.set(db, pool)
+  return db
 }
+
+/** The pool behind a database made by createDatabase (undefined for a transaction or another Kysely). */
+export const poolOf = (db: Kysely<Database>): pg.Pool | undefined => pools.get(db)

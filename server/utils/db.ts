@@ -1,5 +1,6 @@
+import { hash } from 'node:crypto'
 import { CompiledQuery, type Compilable, type Kysely, type RawBuilder } from 'kysely'
-import { createDatabase } from '../database/connection'
+import { createDatabase, poolOf } from '../database/connection'
 import type { Database } from '../database/schema'
 
 // One pool per process, created on first use so the URL comes from runtime config.
@@ -35,8 +36,19 @@ type ReadValue = string | number | boolean | null | number[]
 export function compiledOnce<S extends string, V extends ReadValue[], O>(
   build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
 ): (db: Kysely<Database>, shape: S, ...values: V) => Promise<O[]> {
-  const plans = new Map<S, { sql: string, parameters: Array<number | { fixed: unknown }> }>()
+  const planFor = plansOf(build)
   return async (db, shape, ...values) => {
+    const { sql, parameters } = planFor(db, shape, values)
+    return (await db.executeQuery<O>(CompiledQuery.raw(sql, parameters))).rows
+  }
+}
+
+/** The SQL text of each shape, compiled on first use, and each call's parameters in it. */
+function plansOf<S extends string, V extends ReadValue[], O>(
+  build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
+) {
+  const plans = new Map<S, { sql: string, parameters: Array<number | { fixed: unknown }> }>()
+  return (db: Kysely<Database>, shape: S, values: V) => {
     let plan = plans.get(shape)
     if (!plan) {
       const marks = values.map((_, i) => `\u0000value ${i}\u0000`)
@@ -47,8 +59,7 @@ export function compiledOnce<S extends string, V extends ReadValue[], O>(
       plan = { sql: query.sql, parameters }
       plans.set(shape, plan)
     }
-    const parameters = plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed))
-    return (await db.executeQuery<O>(CompiledQuery.raw(plan.sql, parameters))).rows
+    return { sql: plan.sql, parameters: plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed)) }
   }
 }
 
@@ -58,4 +69,38 @@ export function readOnceCompiled<S extends string, V extends ReadValue[], O>(
 ): (shape: S, ...values: V) => Promise<O[]> {
   const read = compiledOnce(build)
   return (shape, ...values) => read(useDb(), shape, ...values)
+}
+
+/**
+ * A read of one row and one text column (an answer's JSON, written by PostgreSQL; null for none)
+ * compiled once per shape like compiledOnce. On the process's pool it goes without Kysely's
+ * executor, as a statement each connection prepares once (named by its text's digest): on a
+ * route whose answer is one short list, acquiring the connection through Kysely, its row objects
+ * and the JSON written again in JS were most of what the route cost beyond the framework, and
+ * planning the forecast's read cost PostgreSQL about as much as running it. In a transaction
+ * (any other `db`) it goes through Kysely. The text is sent as it is (sendJsonText,
+ * sendJsonBytes in server/utils/json-text.ts).
+ */
+export function textOnceCompiled<S extends string, V extends ReadValue[]>(
+  build: (db: Kysely<Database>, shape: S, ...values: V) => RawBuilder<{ text: string | null }>,
+): (db: Kysely<Database>, shape: S, ...values: V) => Promise<string | null> {
+  const planFor = plansOf(build)
+  const names = new Map<string, string>()
+  return async (db, shape, ...values) => {
+    const { sql, parameters } = planFor(db, shape, values)
+    const pool = poolOf(db)
+    if (!pool) return (await db.executeQuery<{ text: string | null }>(CompiledQuery.raw(sql, parameters))).rows[0]!.text
+    let name = names.get(sql)
+    if (!name) names.set(sql, name = `read ${hash('sha256', sql, 'base64url')}`)
+    const { rows } = await pool.query<[string | null]>({ name, text: sql, values: parameters, rowMode: 'array' })
+    return rows[0]![0]
+  }
+}
+
+/** textOnceCompiled on the process's pool, for a read whose text is never null. */
+export function readTextOnceCompiled<S extends string, V extends ReadValue[]>(
+  build: (db: Kysely<Database>, shape: S, ...values: V) => RawBuilder<{ text: string }>,
+): (shape: S, ...values: V) => Promise<string> {
+  const read = textOnceCompiled(build)
+  return async (shape, ...values) => (await read(useDb(), shape, ...values))!
 }

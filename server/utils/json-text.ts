@@ -48,6 +48,13 @@ export async function sendJsonBytes<T>(event: H3Event, answer: JsonBytes): Promi
   return (await encodedBody(event, answer)) as unknown as T
 }
 
+/** Sends JSON text PostgreSQL wrote (readTextOnceCompiled), typed as what it holds. */
+export function sendJsonText<T>(event: H3Event, text: string): T {
+  setResponseHeader(event, 'content-type', 'application/json')
+  // The text is the JSON of a T; h3 sends a string as it is. One cast, here.
+  return text as unknown as T
+}
+
 async function encodedBody(event: H3Event, answer: JsonBytes): Promise<Uint8Array> {
   setResponseHeader(event, 'content-type', 'application/json')
   if (answer.bytes.byteLength < COMPRESS_ONCE_FROM_BYTES) return answer.bytes

@@ -36,6 +36,23 @@ describe('GET /api/courses (public contract)', () => {
     expect(none.body.some((c) => c.code === 'CHEM 2240')).toBe(false)
   })
 
+  // PostgreSQL writes this answer's JSON (server/services/courses/course-views.ts): it must be the
+  // text JSON.stringify would write, escapes and key order included, ordered by term (descending), then code.
+  it('is the JSON JSON.stringify writes, titles with quotes, backslashes and non-ASCII letters included', async () => {
+    const owner = await createUser('instructor')
+    const client = await signedIn(owner.email, owner.password)
+    await client.post('/api/courses', { code: 'CHEM 9101', title: 'Lab "B" \\ path', term: 'Fall 2026' })
+    await client.post('/api/courses', { code: 'CHEM 9100', title: 'Réactions – ¼ scale 🧪', term: 'Spring 2027' })
+    await client.post('/api/courses', { code: 'CHEM 9099', title: 'Plain', term: 'Fall 2026' })
+    const reply = await client.get('/api/courses')
+    expect(reply.headers.get('content-type')).toMatch(/^application\/json/)
+    expect(reply.text).toBe(JSON.stringify(reply.body))
+    expect(reply.body.map((c) => [c.code, c.title, c.term])).toEqual([
+      ['CHEM 9100', 'Réactions – ¼ scale 🧪', 'Spring 2027'], ['CHEM 9099', 'Plain', 'Fall 2026'], ['CHEM 9101', 'Lab "B" \\ path', 'Fall 2026'],
+    ])
+    expect(Object.keys(reply.body[0]!)).toEqual(['id', 'code', 'title', 'term'])
+  })
+
   it('another instructor gets 404 for the course, never its data', async () => {
     const stranger = await createUser('instructor')
     const client = await signedIn(stranger.email, stranger.password)

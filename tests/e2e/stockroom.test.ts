@@ -247,6 +247,19 @@ describe('the forecast on a hand-computed case, through the server', () => {
     expect(theirs.lines.map((l) => l.reagentId)).not.toContain(hand.alkaneId)
   })
 
+  // The route remembers answers by the text of what it read (server/services/stockroom/forecast.ts):
+  // the same inputs give the same answer, and a write is seen by the next read.
+  it('answers again from the stock as it is now: 1 mL taken from L3 leaves 1 mL more short', async () => {
+    const again = () => expectOk(coordinator.get(`/api/stockroom/forecast?from=${from()}&to=${to()}&courseId=${hand.courseId}`))
+    expect(await again()).toEqual(forecast)
+    const l3 = await testDb().selectFrom('reagentLots').select('id').where('reagentId', '=', hand.alkaneId).where('lotCode', '=', 'L3')
+      .executeTakeFirstOrThrow()
+    await expectOk(coordinator.post(`/api/stockroom/lots/${l3.id}/usage`, { usedOn: today, amount: 1 }), 201)
+    const after = (await again()).lines.find((l) => l.reagentId === hand.alkaneId)!
+    expect(after.onHand).toBeCloseTo(8.983 + 2, 3)
+    expect(after.shortfall).toBeCloseTo(3.988, 3)
+  })
+
   it('refuses a bad range and names the field', async () => {
     const reply = await coordinator.get(`/api/stockroom/forecast?from=${to()}&to=${from()}`)
     expect(reply.status).toBe(400)

@@ -1,7 +1,7 @@
 import type { CourseListItem } from '#shared/types/course'
-import { courseList } from '~~/server/services/courses'
+import { courseListJson } from '~~/server/services/courses'
 
 export default defineEventHandler(async (event): Promise<CourseListItem[]> => {
   const me = requireUser(event)
-  return courseList(me)
+  return sendJsonText<CourseListItem[]>(event, await courseListJson(me))
 })

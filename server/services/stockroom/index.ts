@@ -5,7 +5,7 @@ export { createReagent, deleteReagent, dismissItemLink, linkItemToReagent, updat
 export { lotRows, requireLot, stockroomToday } from './lots'
 export { addLot, recordUsage, updateLot } from './lot-commands'
 export { saveStockroomSettings, stockroomSettings } from './settings'
-export { loadForecast, type ForecastRequest } from './forecast'
+export { forecastJson, loadForecast, type ForecastRequest } from './forecast'
 export { orderSheetCsv, orderSheetDetail, orderSheetSummaries } from './orders'
 export { closeOrderRest, createOrderSheet, deleteOrderSheet, receiveOrder, sendOrderSheet, updateOrderSheet } from './order-commands'
 export { stockroomOverview } from './overview'
