@@ -14,9 +14,11 @@ import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
 import { classOutlierReport, rememberedClassFigures } from '../results/class-statistics'
 import { latestUnitVersions } from '../results/latest-versions'
-import { requireReviewerOf, reviewSectionIds } from './scope'
-import { practicalChemistry } from '../submissions/practical-chemistry'
-import { readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow } from './queue-read'
+import { requireReviewerOf, requireReviewerWith, reviewSectionIds } from './scope'
+import { practicalChemistry, sharedChemistryOf } from '../submissions/practical-chemistry'
+import {
+  queueColumns, queueReadOf, readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow, type QueueRead,
+} from './queue-read'
 import { useDb } from '../../utils/db'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
@@ -140,10 +142,10 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
 }
 
 /**
- * The practical's chemistry and its review queue, as the queue page, the grade sheet and bulk
- * accept read them: every work unit's latest version in the caller's sections, flagged and
- * sorted, with the sections the caller reviews. The chemistry and the one queue statement
- * (readReviewQueue) run side by side.
+ * The practical's chemistry and its review queue, as the grade sheet and bulk accept read them:
+ * every work unit's latest version in the caller's sections, flagged and sorted, with the
+ * sections the caller reviews. The chemistry and the one queue statement (readReviewQueue) run
+ * side by side.
  */
 export async function reviewQueueOf(scope: ReviewerScope) {
   const [chemistry, read] = await Promise.all([
@@ -152,7 +154,21 @@ export async function reviewQueueOf(scope: ReviewerScope) {
       practicalId: scope.practical.id, sections: reviewSectionIds(scope), sessionSectionIds: scope.sessionSectionIds,
     }),
   ])
-  const keyFactor = chemistry.keyFactor
+  return { chemistry, ...(await reviewQueueFrom(scope, chemistry.keyFactor, read)) }
+}
+
+/**
+ * The queue page's scope (requireReviewerOf), chemistry and queue (reviewQueueOf), read in one
+ * statement (queueColumns); the chemistry is the remembered one, shared (read, never changed).
+ */
+export async function requireReviewQueuePage(event: H3Event, practicalId: number) {
+  const { scope, columns } = await requireReviewerWith(event, practicalId, queueColumns)
+  const { chemistry: row, ...read } = queueReadOf(columns)
+  const chemistry = await sharedChemistryOf(row)
+  return { scope, chemistry, ...(await reviewQueueFrom(scope, chemistry.keyFactor, read)) }
+}
+
+async function reviewQueueFrom(scope: ReviewerScope, keyFactor: ReviewFactorKey, read: QueueRead) {
   const outliers = await classOutliersOf(scope, keyFactor, read.classValues)
   const rows = read.rows.map((s): QueueRow => {
     const { flags, attention } = flagsWithOutlier(s.flags, s.id, outliers, keyFactor)
@@ -175,7 +191,7 @@ export async function reviewQueueOf(scope: ReviewerScope) {
       toMark: s.status === 'accepted' && s.acceptance !== null && s.acceptance.total === null,
     }
   })
-  return { chemistry, rows: rows.sort(compareQueueRows), outliers, sections: read.sections }
+  return { rows: rows.sort(compareQueueRows), outliers, sections: read.sections }
 }
 
 export function countQueueRows(rows: Array<Pick<QueueRow, 'status' | 'attention'> & { excluded: unknown }>): QueueCounts {
@@ -198,7 +214,9 @@ export function nextPendingAfter(rows: Array<Pick<QueueRow, 'id' | 'status'>>, c
 }
 
 /** The practical as the review pages show it. */
-export function queuePracticalOf(scope: ReviewerScope, chemistry: Pick<PracticalChemistry, 'keyFactor' | 'expected'>): QueuePractical {
+export function queuePracticalOf(
+  scope: ReviewerScope, chemistry: Readonly<Pick<PracticalChemistry, 'keyFactor' | 'expected'>>,
+): QueuePractical {
   return {
     id: scope.practical.id,
     title: scope.practical.title,
@@ -281,9 +299,10 @@ function flagCodeCounts(rows: QueueRow[]): QueueResponse['flagCodes'] {
   return [...codes].map(([code, count]) => ({ code, count })).sort((a, b) => a.code.localeCompare(b.code))
 }
 
-/** The queue page of one practical: counts and flag codes over the chosen section, rows filtered. */
-export async function reviewQueueView(scope: ReviewerScope, query: ParsedQueueQuery): Promise<QueueResponse> {
-  const { chemistry, rows, outliers, sections } = await reviewQueueOf(scope)
+/** The queue page of one practical (requireReviewQueuePage): counts and flag codes over the chosen section, rows filtered. */
+export function reviewQueueView(
+  { scope, chemistry, rows, outliers, sections }: Awaited<ReturnType<typeof requireReviewQueuePage>>, query: ParsedQueueQuery,
+): QueueResponse {
   const inSection = query.section ? rows.filter((r) => r.section.id === query.section) : rows
   return {
     practical: queuePracticalOf(scope, chemistry),
