@@ -1,5 +1,5 @@
 import { CompiledQuery, type Compilable, type Kysely, type RawBuilder } from 'kysely'
-import { createDatabase } from '../database/connection'
+import { createDatabase, preparedStatement } from '../database/connection'
 import type { Database } from '../database/schema'
 
 // One pool per process, created on first use so the URL comes from runtime config.
@@ -30,7 +30,9 @@ type ReadValue = string | number | boolean | null | number[]
  * the rest of the handler (a tenth of GET /api/courses under load; a tenth of a small review
  * queue). `build` is first called with placeholders for the values, so a value may only be a
  * parameter, never something the code branches on; a list goes in as one parameter (Kysely's
- * `in` writes one placeholder per item, so it cannot take a list here).
+ * `in` writes one placeholder per item, so it cannot take a list here). The text is also sent as
+ * a named prepared statement (preparedStatement, server/database/connection.ts): parsed once per
+ * connection, and planned once when a plan for any values costs no more.
  */
 export function compiledOnce<S extends string, V extends ReadValue[], O>(
   build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
@@ -46,6 +48,7 @@ export function compiledOnce<S extends string, V extends ReadValue[], O>(
       if (marks.some((m) => query.sql.includes(m))) throw new Error(`compiledOnce(${shape}): a value was written into the SQL text`)
       plan = { sql: query.sql, parameters }
       plans.set(shape, plan)
+      preparedStatement(plan.sql)
     }
     const parameters = plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed))
     return (await db.executeQuery<O>(CompiledQuery.raw(plan.sql, parameters))).rows
