@@ -143,7 +143,7 @@ export interface QueueColumns extends QueueRow {
  * read once). The queue page's scope check and reads are then one statement. For other roles
  * the route refuses before reading.
  */
-export function queueColumns(me: SessionUser) {
+function queueColumns(me: SessionUser) {
   const db = useDb()
   const own = visibleSectionIds(me)
   const sections = own ? sql<number[]>`r.own` : null
@@ -157,8 +157,12 @@ export function queueColumns(me: SessionUser) {
     from (select ${own ?? sql`null::int[]`} as own) r)`
 }
 
-/** queueColumns' read, its numbers as readReviewQueue gives them. */
-export function queueReadOf(read: QueueColumns): QueueRead & { chemistry: ChemistryRow } {
+/** queueColumns as JSON text: sent unparsed, it is the key of a remembered answer (queue.ts). */
+export const queueColumnsText = (me: SessionUser) => sql<string>`${queueColumns(me)}::text`
+
+/** queueColumnsText's read, its numbers as readReviewQueue gives them. */
+export function queueReadOf(text: string): QueueRead & { chemistry: ChemistryRow } {
+  const read = JSON.parse(text) as QueueColumns
   return { ...queueReadFrom(read), chemistry: read.chemistry }
 }
 

@@ -17,9 +17,11 @@ import { latestUnitVersions } from '../results/latest-versions'
 import { requireReviewerOf, requireReviewerWith, reviewSectionIds } from './scope'
 import { practicalChemistry, sharedChemistryOf } from '../submissions/practical-chemistry'
 import {
-  queueColumns, queueReadOf, readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow, type QueueRead,
+  queueColumnsText, queueReadOf, readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow, type QueueRead,
 } from './queue-read'
 import { useDb } from '../../utils/db'
+import { jsonBytes, type JsonBytes } from '../../utils/json-text'
+import { sizedMemo } from '../../engines/memo'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -158,14 +160,35 @@ export async function reviewQueueOf(scope: ReviewerScope) {
 }
 
 /**
- * The queue page's scope (requireReviewerOf), chemistry and queue (reviewQueueOf), read in one
- * statement (queueColumns); the chemistry is the remembered one, shared (read, never changed).
+ * The queue page's scope (requireReviewerOf) and everything its answer is made of but the
+ * filters, read in one statement as JSON text (queueColumnsText): the rows the caller may see,
+ * their sections, the class values and the practical's chemistry row.
  */
 export async function requireReviewQueuePage(event: H3Event, practicalId: number) {
-  const { scope, columns } = await requireReviewerWith(event, practicalId, queueColumns)
-  const { chemistry: row, ...read } = queueReadOf(columns)
-  const chemistry = await sharedChemistryOf(row)
-  return { scope, chemistry, ...(await reviewQueueFrom(scope, chemistry.keyFactor, read)) }
+  const { scope, columns: text } = await requireReviewerWith(event, practicalId, queueColumnsText)
+  return { scope, text }
+}
+
+// The queue page's answers, remembered as the JSON sent. The key names everything an answer is
+// made of: the text read (the rows the caller may see, the sections, the class values and the
+// chemistry row), the caller's role, the practical and course as the scope read them (the
+// outlier test's settings, the release) and the filters. An answer is only ever given for the
+// same rows the caller was allowed to read, and any new version, review, exclusion, edit of the
+// chemistry or of the course is a new key. Bounded by the characters held (key and answer).
+const rememberQueuePage = sizedMemo(8_000_000)
+
+/** The queue page (requireReviewQueuePage) as the JSON the route sends. */
+export function reviewQueueJson(
+  { scope, text }: Awaited<ReturnType<typeof requireReviewQueuePage>>, query: ParsedQueueQuery,
+): Promise<JsonBytes> {
+  const key = `${JSON.stringify([scope.role, scope.practical, scope.course, query])}${text}`
+  return rememberQueuePage(key, 2 * key.length, async () => {
+    const { chemistry: row, ...read } = queueReadOf(text)
+    // The remembered chemistry, shared: read, never changed.
+    const chemistry = await sharedChemistryOf(row)
+    const queue = await reviewQueueFrom(scope, chemistry.keyFactor, read)
+    return jsonBytes(Buffer.from(JSON.stringify(reviewQueueView({ scope, chemistry, ...queue }, query))))
+  })
 }
 
 async function reviewQueueFrom(scope: ReviewerScope, keyFactor: ReviewFactorKey, read: QueueRead) {
@@ -299,10 +322,13 @@ function flagCodeCounts(rows: QueueRow[]): QueueResponse['flagCodes'] {
   return [...codes].map(([code, count]) => ({ code, count })).sort((a, b) => a.code.localeCompare(b.code))
 }
 
-/** The queue page of one practical (requireReviewQueuePage): counts and flag codes over the chosen section, rows filtered. */
-export function reviewQueueView(
-  { scope, chemistry, rows, outliers, sections }: Awaited<ReturnType<typeof requireReviewQueuePage>>, query: ParsedQueueQuery,
-): QueueResponse {
+type QueuePage = Awaited<ReturnType<typeof reviewQueueFrom>> & {
+  scope: ReviewerScope
+  chemistry: Readonly<Pick<PracticalChemistry, 'keyFactor' | 'expected'>>
+}
+
+/** The queue page of one practical: counts and flag codes over the chosen section, rows filtered. */
+function reviewQueueView({ scope, chemistry, rows, outliers, sections }: QueuePage, query: ParsedQueueQuery): QueueResponse {
   const inSection = query.section ? rows.filter((r) => r.section.id === query.section) : rows
   return {
     practical: queuePracticalOf(scope, chemistry),
