@@ -1,4 +1,4 @@
-import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely'
+import { CamelCasePlugin, Kysely, PostgresDialect, type PostgresPool, type PostgresPoolClient } from 'kysely'
 import pg from 'pg'
 import type { Database } from './schema'
 
@@ -41,13 +41,47 @@ export function createPool(connectionString: string, options: ConnectionOptions 
   return pool
 }
 
+// Statements sent as named prepared statements (preparedStatement): PostgreSQL parses each once
+// per connection and, once it has seen a few, keeps a plan that does not depend on the values
+// (when that plan is no costlier than the ones it made for them). A page's one large statement
+// (the review queue's reads, with the scope check) took longer to plan than to run; read as an
+// unnamed statement it was planned again on every request.
+const statementNames = new Map<string, string>()
+
+/** Marks an SQL text (built once, values only as parameters) to be prepared on each connection. */
+export function preparedStatement(sql: string): void {
+  if (!statementNames.has(sql)) statementNames.set(sql, `halocline_${statementNames.size + 1}`)
+}
+
+// Kysely sends (text, values); a marked text goes as { name, text, values }, which pg prepares
+// once per connection and then only binds and runs. One wrapper per client, as Kysely keys its
+// connections by the client.
+function namedStatements(pool: pg.Pool): PostgresPool {
+  const wrappers = new WeakMap<pg.PoolClient, PostgresPoolClient>()
+  const wrap = (client: pg.PoolClient) => {
+    let wrapper = wrappers.get(client)
+    if (!wrapper) {
+      const query = (text: string, values: readonly unknown[]) => {
+        const name = statementNames.get(text)
+        // Kysely passes a fresh array of values each time.
+        return name ? client.query({ name, text, values: values as unknown[] }) : client.query(text, values as unknown[])
+      }
+      // Only the (text, values) form: the other takes a cursor, and the dialect is given none.
+      wrapper = { query: query as unknown as PostgresPoolClient['query'], release: () => client.release() }
+      wrappers.set(client, wrapper)
+    }
+    return wrapper
+  }
+  return { connect: async () => wrap(await pool.connect()), end: () => pool.end() }
+}
+
 // Each database's own pool, for reads that skip Kysely's executor (readTextOnceCompiled in server/utils/db.ts).
 const pools = new WeakMap<Kysely<Database>, pg.Pool>()
 
 export function createDatabase(connectionString: string, options: ConnectionOptions = {}): Kysely<Database> {
   const pool = createPool(connectionString, options)
   const db = new Kysely<Database>({
-    dialect: new PostgresDialect({ pool }),
+    dialect: new PostgresDialect({ pool: namedStatements(pool) }),
     plugins: [new CamelCasePlugin({ maintainNestedObjectKeys: true })],
   })
   pools.set(db, pool)

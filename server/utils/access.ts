@@ -168,7 +168,16 @@ function scopeOf(me: SessionUser, course: Course, relation: number[] | null): Co
  * coordinator, their own for TAs and students.
  */
 export function visibleSectionCondition(me: SessionUser, column: string) {
-  return me.role === 'ta' || me.role === 'student' ? sql<boolean>`${sql.ref(column)} = any(${relationOf(me)})` : sql<boolean>`true`
+  const own = visibleSectionIds(me)
+  return own ? sql<boolean>`${sql.ref(column)} = any(${own})` : sql<boolean>`true`
+}
+
+/**
+ * The sections of the course `c` a TA or student may see, as SQL (an int[]) for a query that
+ * joins its course as `c`; null for every section (its owners, the coordinator).
+ */
+export function visibleSectionIds(me: SessionUser): RawBuilder<number[]> | null {
+  return me.role === 'ta' || me.role === 'student' ? relationOf(me) as RawBuilder<number[]> : null
 }
 
 /**

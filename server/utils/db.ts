@@ -1,6 +1,6 @@
 import { hash } from 'node:crypto'
 import { CompiledQuery, type Compilable, type Kysely, type RawBuilder } from 'kysely'
-import { createDatabase, poolOf } from '../database/connection'
+import { createDatabase, poolOf, preparedStatement } from '../database/connection'
 import type { Database } from '../database/schema'
 
 // One pool per process, created on first use so the URL comes from runtime config.
@@ -31,7 +31,9 @@ type ReadValue = string | number | boolean | null | number[]
  * the rest of the handler (a tenth of GET /api/courses under load; a tenth of a small review
  * queue). `build` is first called with placeholders for the values, so a value may only be a
  * parameter, never something the code branches on; a list goes in as one parameter (Kysely's
- * `in` writes one placeholder per item, so it cannot take a list here).
+ * `in` writes one placeholder per item, so it cannot take a list here). The text is also sent as
+ * a named prepared statement (preparedStatement, server/database/connection.ts): parsed once per
+ * connection, and planned once when a plan for any values costs no more.
  */
 export function compiledOnce<S extends string, V extends ReadValue[], O>(
   build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
@@ -58,6 +60,7 @@ function plansOf<S extends string, V extends ReadValue[], O>(
       if (marks.some((m) => query.sql.includes(m))) throw new Error(`compiledOnce(${shape}): a value was written into the SQL text`)
       plan = { sql: query.sql, parameters }
       plans.set(shape, plan)
+      preparedStatement(plan.sql)
     }
     return { sql: plan.sql, parameters: plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed)) }
   }

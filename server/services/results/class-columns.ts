@@ -1,4 +1,4 @@
-import { sql } from 'kysely'
+import { sql, type RawBuilder } from 'kysely'
 import { useDb } from '../../utils/db'
 
 // The class summary's read, shaped by PostgreSQL: at 20,000 results, reading a row (and a JSON
@@ -18,12 +18,15 @@ import { useDb } from '../../utils/db'
 // with every upload, review, return or exclusion, and those over the substrate, method, windows,
 // product names and reference distributions with any edit of the chemistry; the sections are read
 // whole (a few codes). Nothing is hashed and no value is read.
-const stamp = (table: string, column: string, id: number) => sql`(select json_build_array(count(*), sum(xmin::text::bigint))
+// An id is a value, or a column of the statement around (`p.id` when read with the scope).
+type IdOrColumn = number | RawBuilder<number>
+const stamp = (table: string, column: string, id: IdOrColumn) => sql`(select json_build_array(count(*), sum(xmin::text::bigint))
     from ${sql.table(table)} where ${sql.ref(column)} = ${id})`
 const submissionsStamp = (practicalId: number) => sql<string>`${stamp('submissions', 'practical_id', practicalId)}::text`
-const sectionsSql = (practicalId: number) => sql<string>`(select
-    coalesce(json_agg(json_build_object('id', s.id, 'code', s.code) order by s.code), '[]')::text
+const sectionsJson = (practicalId: IdOrColumn) => sql`(select
+    coalesce(json_agg(json_build_object('id', s.id, 'code', s.code) order by s.code), '[]')
     from practical_sessions ps join sections s on s.id = ps.section_id where ps.practical_id = ${practicalId})`
+const sectionsSql = (practicalId: number) => sql<string>`${sectionsJson(practicalId)}::text`
 
 export interface ClassFingerprint {
   /** Changes whenever a version of the practical is added, reviewed, returned or excluded (JSON text). */
@@ -34,20 +37,38 @@ export interface ClassFingerprint {
   versions: number
 }
 
-type PracticalRef = { id: number, substrateId: number, methodId: number }
+type PracticalIds = { id: IdOrColumn, substrateId: IdOrColumn, methodId: IdOrColumn }
 
-/**
- * The class's fingerprint and that of the practical's chemistry (practicalChemistry's rows), in
- * one statement: enough to find a remembered summary without reading the class.
- */
-export async function classFingerprint(practical: PracticalRef): Promise<ClassFingerprint & { chemistry: string }> {
-  const { rows: [row] } = await sql<{ fingerprint: string, sections: string, chemistry: string }>`select
-    ${submissionsStamp(practical.id)} as fingerprint, ${sectionsSql(practical.id)} as sections,
+/** What a summary is made of, as one JSON text: [the class's stamp, its sections, the chemistry's stamps]. */
+const fingerprintSql = (practical: PracticalIds) => sql<string>`json_build_array(
+    ${stamp('submissions', 'practical_id', practical.id)}, ${sectionsJson(practical.id)},
     json_build_array(${stamp('substrates', 'id', practical.substrateId)}, ${stamp('methods', 'id', practical.methodId)},
       ${stamp('substrate_windows', 'substrate_id', practical.substrateId)},
       ${stamp('substrate_product_names', 'substrate_id', practical.substrateId)},
-      ${stamp('substrate_references', 'substrate_id', practical.substrateId)})::text as chemistry`.execute(useDb())
-  return { ...row!, versions: Number(JSON.parse(row!.fingerprint)[0]) }
+      ${stamp('substrate_references', 'substrate_id', practical.substrateId)}))::text`
+
+export interface PracticalFingerprint {
+  /** Changes with every version added, reviewed, returned or excluded, the sections and any edit of the chemistry. */
+  text: string
+  /** Versions of the practical, of any status: an upper bound on the results counted. */
+  versions: number
+}
+
+export const practicalFingerprintOf = (text: string): PracticalFingerprint => ({ text, versions: Number(JSON.parse(text)[0][0]) })
+
+/**
+ * The fingerprint as a column over the practical `p` of requirePracticalAccessWith: a remembered
+ * summary is found in the scope check's own round trip.
+ */
+export const practicalFingerprintColumn = () =>
+  fingerprintSql({ id: sql`p.id`, substrateId: sql`p.substrate_id`, methodId: sql`p.method_id` })
+
+/** The fingerprint of a practical (as practicalFingerprintColumn), in a statement of its own. */
+export async function practicalFingerprint(
+  practical: { id: number, substrateId: number, methodId: number },
+): Promise<PracticalFingerprint> {
+  const { rows: [row] } = await sql<{ fingerprint: string }>`select ${fingerprintSql(practical)} as fingerprint`.execute(useDb())
+  return practicalFingerprintOf(row!.fingerprint)
 }
 
 export interface ClassColumnsText extends ClassFingerprint {

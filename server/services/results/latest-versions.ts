@@ -1,4 +1,4 @@
-import { sql, type Kysely } from 'kysely'
+import { sql, type Kysely, type RawBuilder } from 'kysely'
 import type { Database, SubmissionStatus } from '../../database/schema'
 import { useDb } from '../../utils/db'
 
@@ -26,9 +26,12 @@ export interface LatestVersionOptions {
  * The rule behind every class figure: each work unit's newest version among `statuses`, per
  * practical (DISTINCT ON practical and unit, newest version first). Returned and superseded
  * versions drop out; an excluded one stays (with `excludedAt`) unless `skipExcluded`, so callers
- * can list what a reviewer left out. Callers add the columns they need (`s.` is the submission).
+ * can list what a reviewer left out. Callers add the columns they need (`s.` is the submission). An id
+ * may be SQL over the statement around (`p.id`).
  */
-export function latestUnitVersions(db: Kysely<Database>, practicalIds: readonly number[], options: LatestVersionOptions = {}) {
+export function latestUnitVersions(
+  db: Kysely<Database>, practicalIds: ReadonlyArray<number | RawBuilder<number>>, options: LatestVersionOptions = {},
+) {
   return db.selectFrom('submissions as s')
     .distinctOn(['s.practicalId', 's.unitKey'])
     .where('s.practicalId', 'in', practicalIds.length ? [...practicalIds] : [-1])

@@ -7,7 +7,11 @@ import { classSummary, classSummaryJson, type ClassSummaryInput, type SummaryChe
 import { sizedMemo } from '../../engines/memo'
 import { runEngine } from '../../utils/engines'
 import { jsonBytes, type JsonBytes } from '../../utils/json-text'
-import { classColumnsText, classFingerprint } from './class-columns'
+import type { H3Event } from 'h3'
+import { requirePracticalAccessWith } from '../../utils/access'
+import {
+  classColumnsText, practicalFingerprint, practicalFingerprintColumn, practicalFingerprintOf, type PracticalFingerprint,
+} from './class-columns'
 import { INLINE_RESULTS } from './class-statistics'
 import { practicalChemistry, referenceShare } from '../submissions/practical-chemistry'
 
@@ -47,9 +51,10 @@ const rememberAnswer = sizedMemo(400_000)
 async function summaryAnswer<T>(
   scope: PracticalScope, options: SummaryOptions, form: 'json' | 'object',
   compute: (input: ClassSummaryInput, inline: boolean) => T | Promise<T>,
+  fingerprint?: PracticalFingerprint,
 ): Promise<T> {
   const { practical, course } = scope
-  const known = await classFingerprint(practical)
+  const known = fingerprint ?? await practicalFingerprint(practical)
   const settings: OutlierSettings = {
     test: options.method ?? course.outlierTest,
     alpha: course.outlierAlpha,
@@ -62,7 +67,7 @@ async function summaryAnswer<T>(
     sectionIds: scope.sessionSectionIds,
     reasonsFor: scope.role === 'owner' ? 'all' as const : scope.role === 'ta' ? scope.sectionIds ?? [] : [],
   }
-  const key = JSON.stringify([form, practical.id, practical.substrateId, practical.methodId, known, parts])
+  const key = JSON.stringify([form, practical.id, practical.substrateId, practical.methodId, known.text, parts])
   return rememberAnswer(key, known.versions, async () => {
     // The class is read with its own fingerprint, in one snapshot; both reads are as new as the
     // key or newer, never older.
@@ -84,10 +89,22 @@ export function practicalSummary(scope: PracticalScope, options: SummaryOptions)
 }
 
 /**
- * The same summary as the JSON (UTF-8) the route sends, remembered with its compressed forms
- * (server/utils/json-text.ts): a large class's is written in the engine worker.
+ * The scope of a summary's reader (requirePracticalAccess) and the practical's fingerprint, in
+ * one round trip: when the answer is remembered, that is the request's only statement.
  */
-export function practicalSummaryJson(scope: PracticalScope, options: SummaryOptions): Promise<JsonBytes> {
+export async function requireSummaryAccess(event: H3Event, practicalId: number) {
+  const { scope, columns } = await requirePracticalAccessWith(event, practicalId, practicalFingerprintColumn)
+  return { scope, fingerprint: practicalFingerprintOf(columns) }
+}
+
+/**
+ * The same summary as the JSON (UTF-8) the route sends, remembered with its compressed forms
+ * (server/utils/json-text.ts): a large class's is written in the engine worker. `fingerprint`:
+ * read with the scope (requireSummaryAccess), else read here.
+ */
+export function practicalSummaryJson(
+  scope: PracticalScope, options: SummaryOptions, fingerprint?: PracticalFingerprint,
+): Promise<JsonBytes> {
   return summaryAnswer(scope, options, 'json',
-    async (input, inline) => jsonBytes(inline ? classSummaryJson(input) : await runEngine('classSummaryJson', input)))
+    async (input, inline) => jsonBytes(inline ? classSummaryJson(input) : await runEngine('classSummaryJson', input)), fingerprint)
 }

@@ -2,7 +2,7 @@
 // detail.ts read; decisions.ts and release.ts are the commands; grade-sheet.ts and downloads.ts
 // serve files.
 export { requireReviewableSubmission, requireReviewerOf, type ReviewerScope } from './scope'
-export { reviewPracticalItems, reviewQueueOf, reviewQueueView } from './queue'
+export { requireReviewQueuePage, reviewPracticalItems, reviewQueueJson, reviewQueueOf } from './queue'
 export { buildSubmissionDetail } from './detail'
 export { acceptCleanInBulk, saveSubmissionReview, setSubmissionExclusion, type BulkAcceptQueue, type ReviewContext } from './decisions'
 export { setPracticalRelease } from './release'

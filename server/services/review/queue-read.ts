@@ -1,6 +1,9 @@
-import { sql, type Kysely } from 'kysely'
+import { sql, type Kysely, type RawBuilder } from 'kysely'
+import type { SessionUser } from '#shared/types/auth'
 import type { Database, StoredFlag, SubmissionStatus } from '../../database/schema'
-import { compiledOnce } from '../../utils/db'
+import { visibleSectionIds } from '../../utils/access'
+import { compiledOnce, useDb } from '../../utils/db'
+import { chemistryRowJson, type ChemistryRow } from '../submissions/practical-chemistry'
 import { latestUnitVersions } from '../results/latest-versions'
 
 // What the review queue reads, in one statement: each work unit's latest version in the
@@ -42,7 +45,7 @@ export type ClassValueRow = [number, number | null, number | null]
  * null) or over the units with any version in `sections`; the caller keeps those whose latest
  * version is in them, so a unit that moved on to another section leaves the queue as before.
  */
-export function latestUnitIdsOf(db: Kysely<Database>, practicalId: number, sections: number[] | null) {
+export function latestUnitIdsOf(db: Kysely<Database>, practicalId: IdOrColumn, sections: SectionsOrColumn | null) {
   return db.selectFrom('submissions').distinctOn('unitKey').select(['id', 'sectionId'])
     .where('practicalId', '=', practicalId)
     .$if(sections !== null, (query) => query.where('unitKey', 'in', (eb) => eb.selectFrom('submissions').select('unitKey')
@@ -67,17 +70,22 @@ export interface QueueRead {
 
 interface QueueScope { practicalId: number, sections: number[] | null, sessionSectionIds: number[] }
 
-const sectionsIn = (sections: number[]) => sql`any(${sections}::int[])`
+// A value sent with the statement, or SQL over the statement around (`p.id`, the caller's sections).
+type IdOrColumn = number | RawBuilder<number>
+type SectionsOrColumn = number[] | RawBuilder<number[]>
+
+const sectionsIn = (sections: SectionsOrColumn) => sql`any(${sections}::int[])`
 
 /** Whether the latest version `l` (latestUnitIdsOf) is in the caller's sections. */
-export const latestInScope = (sections: number[] | null) => (sections === null ? sql`true` : sql`l.section_id = ${sectionsIn(sections)}`)
+export const latestInScope = (sections: SectionsOrColumn | null) =>
+  (sections === null ? sql`true` : sql`l.section_id = ${sectionsIn(sections)}`)
 
 /** The reviewer's sections for the filter, by code. */
-const sectionsJson = (sessionSectionIds: number[]) => sql`coalesce((select json_agg(json_build_object('id', id, 'code', code)
+const sectionsJson = (sessionSectionIds: SectionsOrColumn) => sql`coalesce((select json_agg(json_build_object('id', id, 'code', code)
   order by code) from sections where id = ${sectionsIn(sessionSectionIds)}), '[]')`
 
 /** [id, 2°:1°, 3°:1°] of each unit's latest pending-or-accepted version, unless excluded (the outlier test's input). */
-const classValuesJson = (db: Kysely<Database>, practicalId: number) => sql`coalesce((select
+const classValuesJson = (db: Kysely<Database>, practicalId: IdOrColumn) => sql`coalesce((select
   json_agg(json_build_array(v.id, v.factor_secondary, v.factor_tertiary))
   from (${latestUnitVersions(db, [practicalId]).select(['s.id', 's.factorSecondary', 's.factorTertiary', 's.excludedAt'])}) v
   where v.excluded_at is null), '[]')`
@@ -97,6 +105,20 @@ export const acceptanceJson = (withScores: boolean) => sql`(select
   json_build_object('total', r.total${withScores ? sql`, 'scores', r.scores` : sql``})
   from reviews r where r.submission_id = s.id and r.decision = 'accept' order by r.created_at desc, r.id desc limit 1)`
 
+/** The queue's rows in `sections` (null: every section): QueueSqlRow[]. */
+const queueRowsJson = (db: Kysely<Database>, practicalId: IdOrColumn, sections: SectionsOrColumn | null) => sql`coalesce((select
+    json_agg(json_build_object(
+      'id', s.id, 'sectionId', s.section_id, 'sectionCode', sec.code, 'unitKey', s.unit_key, 'version', s.version,
+      'createdAt', s.created_at, 'late', s.late, 'status', s.status, 'flags', s.flags,
+      'factorSecondary', s.factor_secondary, 'factorTertiary', s.factor_tertiary,
+      'excludedAt', s.excluded_at, 'exclusionReason', s.exclusion_reason, 'excludedByName', x.name,
+      'members', ${membersJson}, 'acceptance', ${acceptanceJson(false)}))
+    from (${latestUnitIdsOf(db, practicalId, sections)}) l
+    join submissions s on s.id = l.id
+    join sections sec on sec.id = s.section_id
+    left join users x on x.id = s.excluded_by
+    where ${latestInScope(sections)}), '[]')`
+
 /**
  * The queue's rows in `sections` (null: every section), the reviewer's sections for the filter
  * (`sessionSectionIds`) and the class values, in one round trip.
@@ -105,19 +127,52 @@ type QueueRow = { rows: QueueSqlRow[], sections: QueueRead['sections'], classVal
 const queueRead = compiledOnce((db, shape: QueueShape, practicalId: number, sections: number[], sessionSectionIds: number[]) =>
   sql<QueueRow>`
     select
-      coalesce((select json_agg(json_build_object(
-          'id', s.id, 'sectionId', s.section_id, 'sectionCode', c.code, 'unitKey', s.unit_key, 'version', s.version,
-          'createdAt', s.created_at, 'late', s.late, 'status', s.status, 'flags', s.flags,
-          'factorSecondary', s.factor_secondary, 'factorTertiary', s.factor_tertiary,
-          'excludedAt', s.excluded_at, 'exclusionReason', s.exclusion_reason, 'excludedByName', x.name,
-          'members', ${membersJson}, 'acceptance', ${acceptanceJson(false)}))
-        from (${latestUnitIdsOf(db, practicalId, sectionsFor(shape, sections))}) l
-        join submissions s on s.id = l.id
-        join sections c on c.id = s.section_id
-        left join users x on x.id = s.excluded_by
-        where ${latestInScope(sectionsFor(shape, sections))}), '[]') as rows,
+      ${queueRowsJson(db, practicalId, sectionsFor(shape, sections))} as rows,
       ${sectionsJson(sessionSectionIds)} as sections,
       ${classValuesJson(db, practicalId)} as class_values`)
+
+/** readReviewQueue's read with the practical's chemistry row, as queueColumns reads it. */
+export interface QueueColumns extends QueueRow {
+  chemistry: ChemistryRow
+}
+
+/**
+ * readReviewQueue's read and the practical's chemistry row (practicalChemistryOfRow) as one JSON
+ * column over the practical `p` and course `c` of requirePracticalAccessWith, for the reviewer
+ * `me`: every section for the course's instructors, their own for TAs (`visibleSectionIds`,
+ * read once). The queue page's scope check and reads are then one statement. For other roles
+ * the route refuses before reading.
+ */
+function queueColumns(me: SessionUser) {
+  const db = useDb()
+  const own = visibleSectionIds(me)
+  const sections = own ? sql<number[]>`r.own` : null
+  const sessions = sql<number[]>`array(select ps.section_id from practical_sessions ps where ps.practical_id = p.id
+    ${own ? sql`and ps.section_id = any(r.own)` : sql``})`
+  return sql<QueueColumns>`(select json_build_object(
+      'rows', ${queueRowsJson(db, sql`p.id`, sections)},
+      'sections', ${sectionsJson(sessions)},
+      'classValues', ${classValuesJson(db, sql`p.id`)},
+      'chemistry', ${chemistryRowJson(sql`p.substrate_id`, sql`p.method_id`)})
+    from (select ${own ?? sql`null::int[]`} as own) r)`
+}
+
+/** queueColumns as JSON text: sent unparsed, it is the key of a remembered answer (queue.ts). */
+export const queueColumnsText = (me: SessionUser) => sql<string>`${queueColumns(me)}::text`
+
+/** queueColumnsText's read, its numbers as readReviewQueue gives them. */
+export function queueReadOf(text: string): QueueRead & { chemistry: ChemistryRow } {
+  const read = JSON.parse(text) as QueueColumns
+  return { ...queueReadFrom(read), chemistry: read.chemistry }
+}
+
+function queueReadFrom(row: QueueRow): QueueRead {
+  for (const r of row.rows) {
+    r.factorSecondary = numberOrNull(r.factorSecondary)
+    r.factorTertiary = numberOrNull(r.factorTertiary)
+  }
+  return { rows: row.rows, sections: row.sections, classValues: classValuesOf(row.classValues) }
+}
 
 /**
  * The queue's rows in `sections` (null: every section), the reviewer's sections for the filter
@@ -127,11 +182,7 @@ export async function readReviewQueue(
   db: Kysely<Database>, { practicalId, sections, sessionSectionIds }: QueueScope,
 ): Promise<QueueRead> {
   const [row] = await queueRead(db, shapeOf(sections), practicalId, sections ?? [], sessionSectionIds)
-  for (const r of row!.rows) {
-    r.factorSecondary = numberOrNull(r.factorSecondary)
-    r.factorTertiary = numberOrNull(r.factorTertiary)
-  }
-  return { rows: row!.rows, sections: row!.sections, classValues: classValuesOf(row!.classValues) }
+  return queueReadFrom(row!)
 }
 
 /** What ordering and counting the queue reads of each row: no people, excluder or reviews. */

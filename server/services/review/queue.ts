@@ -14,10 +14,14 @@ import { stationOfUnitKey } from '../submissions/work-units'
 import { keyFactorValue } from '#shared/utils/key-factor'
 import { classOutlierReport, rememberedClassFigures } from '../results/class-statistics'
 import { latestUnitVersions } from '../results/latest-versions'
-import { requireReviewerOf, reviewSectionIds } from './scope'
-import { practicalChemistry } from '../submissions/practical-chemistry'
-import { readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow } from './queue-read'
+import { requireReviewerOf, requireReviewerWith, reviewSectionIds } from './scope'
+import { practicalChemistry, sharedChemistryOf } from '../submissions/practical-chemistry'
+import {
+  queueColumnsText, queueReadOf, readReviewQueue, readReviewQueueOrder, type ClassValueRow, type MemberRow, type QueueRead,
+} from './queue-read'
 import { useDb } from '../../utils/db'
+import { jsonBytes, type JsonBytes } from '../../utils/json-text'
+import { sizedMemo } from '../../engines/memo'
 
 // The review queue: each work unit's latest version in the caller's sections, with the stored
 // flags plus a dynamic outlier flag from the course's chosen test over the whole class, sorted
@@ -140,10 +144,10 @@ export async function unitViewsOf(rows: Array<{ id: number, unitKey: string }>):
 }
 
 /**
- * The practical's chemistry and its review queue, as the queue page, the grade sheet and bulk
- * accept read them: every work unit's latest version in the caller's sections, flagged and
- * sorted, with the sections the caller reviews. The chemistry and the one queue statement
- * (readReviewQueue) run side by side.
+ * The practical's chemistry and its review queue, as the grade sheet and bulk accept read them:
+ * every work unit's latest version in the caller's sections, flagged and sorted, with the
+ * sections the caller reviews. The chemistry and the one queue statement (readReviewQueue) run
+ * side by side.
  */
 export async function reviewQueueOf(scope: ReviewerScope) {
   const [chemistry, read] = await Promise.all([
@@ -152,7 +156,42 @@ export async function reviewQueueOf(scope: ReviewerScope) {
       practicalId: scope.practical.id, sections: reviewSectionIds(scope), sessionSectionIds: scope.sessionSectionIds,
     }),
   ])
-  const keyFactor = chemistry.keyFactor
+  return { chemistry, ...(await reviewQueueFrom(scope, chemistry.keyFactor, read)) }
+}
+
+/**
+ * The queue page's scope (requireReviewerOf) and everything its answer is made of but the
+ * filters, read in one statement as JSON text (queueColumnsText): the rows the caller may see,
+ * their sections, the class values and the practical's chemistry row.
+ */
+export async function requireReviewQueuePage(event: H3Event, practicalId: number) {
+  const { scope, columns: text } = await requireReviewerWith(event, practicalId, queueColumnsText)
+  return { scope, text }
+}
+
+// The queue page's answers, remembered as the JSON sent. The key names everything an answer is
+// made of: the text read (the rows the caller may see, the sections, the class values and the
+// chemistry row), the caller's role, the practical and course as the scope read them (the
+// outlier test's settings, the release) and the filters. An answer is only ever given for the
+// same rows the caller was allowed to read, and any new version, review, exclusion, edit of the
+// chemistry or of the course is a new key. Bounded by the characters held (key and answer).
+const rememberQueuePage = sizedMemo(8_000_000)
+
+/** The queue page (requireReviewQueuePage) as the JSON the route sends. */
+export function reviewQueueJson(
+  { scope, text }: Awaited<ReturnType<typeof requireReviewQueuePage>>, query: ParsedQueueQuery,
+): Promise<JsonBytes> {
+  const key = `${JSON.stringify([scope.role, scope.practical, scope.course, query])}${text}`
+  return rememberQueuePage(key, 2 * key.length, async () => {
+    const { chemistry: row, ...read } = queueReadOf(text)
+    // The remembered chemistry, shared: read, never changed.
+    const chemistry = await sharedChemistryOf(row)
+    const queue = await reviewQueueFrom(scope, chemistry.keyFactor, read)
+    return jsonBytes(Buffer.from(JSON.stringify(reviewQueueView({ scope, chemistry, ...queue }, query))))
+  })
+}
+
+async function reviewQueueFrom(scope: ReviewerScope, keyFactor: ReviewFactorKey, read: QueueRead) {
   const outliers = await classOutliersOf(scope, keyFactor, read.classValues)
   const rows = read.rows.map((s): QueueRow => {
     const { flags, attention } = flagsWithOutlier(s.flags, s.id, outliers, keyFactor)
@@ -175,7 +214,7 @@ export async function reviewQueueOf(scope: ReviewerScope) {
       toMark: s.status === 'accepted' && s.acceptance !== null && s.acceptance.total === null,
     }
   })
-  return { chemistry, rows: rows.sort(compareQueueRows), outliers, sections: read.sections }
+  return { rows: rows.sort(compareQueueRows), outliers, sections: read.sections }
 }
 
 export function countQueueRows(rows: Array<Pick<QueueRow, 'status' | 'attention'> & { excluded: unknown }>): QueueCounts {
@@ -198,7 +237,9 @@ export function nextPendingAfter(rows: Array<Pick<QueueRow, 'id' | 'status'>>, c
 }
 
 /** The practical as the review pages show it. */
-export function queuePracticalOf(scope: ReviewerScope, chemistry: Pick<PracticalChemistry, 'keyFactor' | 'expected'>): QueuePractical {
+export function queuePracticalOf(
+  scope: ReviewerScope, chemistry: Readonly<Pick<PracticalChemistry, 'keyFactor' | 'expected'>>,
+): QueuePractical {
   return {
     id: scope.practical.id,
     title: scope.practical.title,
@@ -281,9 +322,13 @@ function flagCodeCounts(rows: QueueRow[]): QueueResponse['flagCodes'] {
   return [...codes].map(([code, count]) => ({ code, count })).sort((a, b) => a.code.localeCompare(b.code))
 }
 
+type QueuePage = Awaited<ReturnType<typeof reviewQueueFrom>> & {
+  scope: ReviewerScope
+  chemistry: Readonly<Pick<PracticalChemistry, 'keyFactor' | 'expected'>>
+}
+
 /** The queue page of one practical: counts and flag codes over the chosen section, rows filtered. */
-export async function reviewQueueView(scope: ReviewerScope, query: ParsedQueueQuery): Promise<QueueResponse> {
-  const { chemistry, rows, outliers, sections } = await reviewQueueOf(scope)
+function reviewQueueView({ scope, chemistry, rows, outliers, sections }: QueuePage, query: ParsedQueueQuery): QueueResponse {
   const inSection = query.section ? rows.filter((r) => r.section.id === query.section) : rows
   return {
     practical: queuePracticalOf(scope, chemistry),

@@ -1,9 +1,10 @@
 import type { H3Event } from 'h3'
 import type { PracticalScope } from '../../utils/access'
-import type { Kysely } from 'kysely'
+import type { Kysely, RawBuilder } from 'kysely'
+import type { SessionUser } from '#shared/types/auth'
 import type { Database, Submission } from '../../database/schema'
 import { createError } from 'h3'
-import { requirePracticalAccess } from '../../utils/access'
+import { requirePracticalAccess, requirePracticalAccessWith } from '../../utils/access'
 import { requireRole } from '../../utils/auth'
 import { useDb } from '../../utils/db'
 
@@ -20,7 +21,19 @@ const submissionNotFound = () => createError({ statusCode: 404, statusMessage: '
 
 export async function requireReviewerOf(event: H3Event, practicalId: number): Promise<ReviewerScope> {
   requireRole(event, 'instructor', 'ta')
-  const scope = await requirePracticalAccess(event, practicalId)
+  return reviewerScopeOf(await requirePracticalAccess(event, practicalId))
+}
+
+/** requireReviewerOf, and what the route reads next in the same statement (requirePracticalAccessWith). */
+export async function requireReviewerWith<T>(
+  event: H3Event, practicalId: number, columns: (me: SessionUser) => RawBuilder<T>,
+): Promise<{ scope: ReviewerScope, columns: T }> {
+  requireRole(event, 'instructor', 'ta')
+  const read = await requirePracticalAccessWith(event, practicalId, columns)
+  return { scope: reviewerScopeOf(read.scope), columns: read.columns }
+}
+
+function reviewerScopeOf(scope: PracticalScope): ReviewerScope {
   if (scope.role !== 'owner' && scope.role !== 'ta') throw reviewForbidden()
   return scope as ReviewerScope
 }

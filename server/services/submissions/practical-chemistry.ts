@@ -1,5 +1,5 @@
 import type { ExpectationView } from '#shared/types/submission'
-import { sql } from 'kysely'
+import { sql, type RawBuilder } from 'kysely'
 import { practicalChemistryOf, type PracticalChemistry, type ReferenceDistribution } from '#shared/utils/submission'
 import { methodReference } from '#shared/utils/source-line'
 import { builtInProductName } from '#shared/data/product-names'
@@ -9,7 +9,7 @@ import { useDb } from '../../utils/db'
 
 type ChemistryMethod = Pick<Method, 'halogen' | 'reagent' | 'rPrimary' | 'rSecondary' | 'rTertiary' | 'name' | 'temperatureC' | 'source'>
 
-interface ChemistryRow {
+export interface ChemistryRow {
   substrate: { id: number, smiles: string }
   method: ChemistryMethod
   windows: Array<Pick<SubstrateWindow, 'kind' | 'productSmiles' | 'rtMin' | 'rtMax' | 'responseFactor'>>
@@ -17,23 +17,29 @@ interface ChemistryRow {
   reference: ReferenceDistribution | null
 }
 
-/** The substrate, method, windows, stored product names and reference distribution, in one query. */
+// An id sent with the statement, or a column of the statement around (`p.substrate_id`).
+type IdOrColumn = number | RawBuilder<number>
+
+/** The substrate, method, windows, stored product names and reference distribution, as one JSON object. */
+export const chemistryRowJson = (substrateId: IdOrColumn, methodId: IdOrColumn) => sql<ChemistryRow>`json_build_object(
+    'substrate', (select json_build_object('id', id, 'smiles', smiles) from substrates where id = ${substrateId}),
+    'method', (select json_build_object('halogen', halogen, 'reagent', reagent, 'rPrimary', r_primary, 'rSecondary', r_secondary,
+        'rTertiary', r_tertiary, 'name', name, 'temperatureC', temperature_c, 'source', source)
+      from methods where id = ${methodId}),
+    'windows', coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'rtMin', rt_min, 'rtMax', rt_max,
+        'responseFactor', response_factor) order by id)
+      from substrate_windows where substrate_id = ${substrateId}), '[]'),
+    'names', coalesce((select json_agg(json_build_object('productSmiles', product_smiles, 'name', name) order by product_smiles)
+      from substrate_product_names where substrate_id = ${substrateId}), '[]'),
+    'reference', (select json_build_object('percents', r.percents, 'source', r.source, 'sourceKind', r.source_kind)
+      from substrate_references r join methods m on m.id = ${methodId} and r.reagent::text = m.reagent::text
+      where r.substrate_id = ${substrateId}))`
+
+/** The chemistry row of a practical, in one query. */
 async function chemistryRow(practical: { substrateId: number, methodId: number }): Promise<ChemistryRow> {
-  const { rows: [row] } = await sql<ChemistryRow>`select
-      (select json_build_object('id', id, 'smiles', smiles) from substrates where id = ${practical.substrateId}) as substrate,
-      (select json_build_object('halogen', halogen, 'reagent', reagent, 'rPrimary', r_primary, 'rSecondary', r_secondary,
-          'rTertiary', r_tertiary, 'name', name, 'temperatureC', temperature_c, 'source', source)
-        from methods where id = ${practical.methodId}) as method,
-      coalesce((select json_agg(json_build_object('kind', kind, 'productSmiles', product_smiles, 'rtMin', rt_min, 'rtMax', rt_max,
-          'responseFactor', response_factor) order by id)
-        from substrate_windows where substrate_id = ${practical.substrateId}), '[]') as windows,
-      coalesce((select json_agg(json_build_object('productSmiles', product_smiles, 'name', name) order by product_smiles)
-        from substrate_product_names where substrate_id = ${practical.substrateId}), '[]') as names,
-      (select json_build_object('percents', r.percents, 'source', r.source, 'sourceKind', r.source_kind)
-        from substrate_references r join methods m on m.id = ${practical.methodId} and r.reagent::text = m.reagent::text
-        where r.substrate_id = ${practical.substrateId}) as reference`.execute(useDb())
-  if (!row?.substrate || !row.method) throw new Error('practical chemistry: substrate or method missing')
-  return row
+  const { rows: [row] } = await sql<{ chemistry: ChemistryRow }>`select
+    ${chemistryRowJson(practical.substrateId, practical.methodId)} as chemistry`.execute(useDb())
+  return row!.chemistry
 }
 
 /**
@@ -41,7 +47,16 @@ async function chemistryRow(practical: { substrateId: number, methodId: number }
  * judged against (the substrate's reference distribution for the method's reagent, if any).
  */
 export async function practicalChemistry(practical: { substrateId: number, methodId: number }): Promise<PracticalChemistry> {
-  const row = await chemistryRow(practical)
+  // A copy: the remembered answer is shared by every later caller.
+  return structuredClone(await sharedChemistryOf(await chemistryRow(practical)))
+}
+
+/**
+ * The chemistry of a row already read (chemistryRowJson, e.g. with the scope), as remembered and
+ * shared by every caller: read it, never change it (practicalChemistry gives a copy).
+ */
+export function sharedChemistryOf(row: ChemistryRow): Promise<Readonly<PracticalChemistry>> {
+  if (!row.substrate || !row.method) throw new Error('practical chemistry: substrate or method missing')
   const key = JSON.stringify([row.substrate.smiles, row.method, row.windows, row.names, row.reference])
   let known = chemistryMemo.get(key)
   if (!known) {
@@ -50,8 +65,7 @@ export async function practicalChemistry(practical: { substrateId: number, metho
     chemistryMemo.set(key, known)
     known.catch(() => chemistryMemo.delete(key))
   }
-  // A copy: the remembered answer is shared by every later caller.
-  return structuredClone(await known)
+  return known
 }
 
 // Matching a reference distribution to the products parses SMILES with openchemlib: several
