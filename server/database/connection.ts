@@ -48,9 +48,14 @@ export function createPool(connectionString: string, options: ConnectionOptions 
 // unnamed statement it was planned again on every request.
 const statementNames = new Map<string, string>()
 
-/** Marks an SQL text (built once, values only as parameters) to be prepared on each connection. */
-export function preparedStatement(sql: string): void {
-  if (!statementNames.has(sql)) statementNames.set(sql, `halocline_${statementNames.size + 1}`)
+/**
+ * Marks an SQL text (built once, values only as parameters) to be prepared on each connection,
+ * and gives its name, for a caller that sends it on the pool itself.
+ */
+export function preparedStatement(sql: string): string {
+  let name = statementNames.get(sql)
+  if (!name) statementNames.set(sql, name = `halocline_${statementNames.size + 1}`)
+  return name
 }
 
 // Kysely sends (text, values); a marked text goes as { name, text, values }, which pg prepares

@@ -1,4 +1,3 @@
-import { hash } from 'node:crypto'
 import { CompiledQuery, type Compilable, type Kysely, type RawBuilder } from 'kysely'
 import { createDatabase, poolOf, preparedStatement } from '../database/connection'
 import type { Database } from '../database/schema'
@@ -49,7 +48,7 @@ export function compiledOnce<S extends string, V extends ReadValue[], O>(
 function plansOf<S extends string, V extends ReadValue[], O>(
   build: (db: Kysely<Database>, shape: S, ...values: V) => Compilable<O> | RawBuilder<O>,
 ) {
-  const plans = new Map<S, { sql: string, parameters: Array<number | { fixed: unknown }> }>()
+  const plans = new Map<S, { sql: string, name: string, parameters: Array<number | { fixed: unknown }> }>()
   return (db: Kysely<Database>, shape: S, values: V) => {
     let plan = plans.get(shape)
     if (!plan) {
@@ -58,11 +57,10 @@ function plansOf<S extends string, V extends ReadValue[], O>(
       const query = 'isRawBuilder' in built ? built.compile(db) : built.compile()
       const parameters = query.parameters.map((p) => (typeof p === 'string' && marks.includes(p) ? marks.indexOf(p) : { fixed: p }))
       if (marks.some((m) => query.sql.includes(m))) throw new Error(`compiledOnce(${shape}): a value was written into the SQL text`)
-      plan = { sql: query.sql, parameters }
+      plan = { sql: query.sql, name: preparedStatement(query.sql), parameters }
       plans.set(shape, plan)
-      preparedStatement(plan.sql)
     }
-    return { sql: plan.sql, parameters: plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed)) }
+    return { sql: plan.sql, name: plan.name, parameters: plan.parameters.map((p) => (typeof p === 'number' ? values[p] : p.fixed)) }
   }
 }
 
@@ -77,7 +75,7 @@ export function readOnceCompiled<S extends string, V extends ReadValue[], O>(
 /**
  * A read of one row and one text column (an answer's JSON, written by PostgreSQL; null for none)
  * compiled once per shape like compiledOnce. On the process's pool it goes without Kysely's
- * executor, as a statement each connection prepares once (named by its text's digest): on a
+ * executor, under the name preparedStatement gave its text, so each connection prepares it once: on a
  * route whose answer is one short list, acquiring the connection through Kysely, its row objects
  * and the JSON written again in JS were most of what the route cost beyond the framework, and
  * planning the forecast's read cost PostgreSQL about as much as running it. In a transaction
@@ -88,13 +86,10 @@ export function textOnceCompiled<S extends string, V extends ReadValue[]>(
   build: (db: Kysely<Database>, shape: S, ...values: V) => RawBuilder<{ text: string | null }>,
 ): (db: Kysely<Database>, shape: S, ...values: V) => Promise<string | null> {
   const planFor = plansOf(build)
-  const names = new Map<string, string>()
   return async (db, shape, ...values) => {
-    const { sql, parameters } = planFor(db, shape, values)
+    const { sql, name, parameters } = planFor(db, shape, values)
     const pool = poolOf(db)
     if (!pool) return (await db.executeQuery<{ text: string | null }>(CompiledQuery.raw(sql, parameters))).rows[0]!.text
-    let name = names.get(sql)
-    if (!name) names.set(sql, name = `read ${hash('sha256', sql, 'base64url')}`)
     const { rows } = await pool.query<[string | null]>({ name, text: sql, values: parameters, rowMode: 'array' })
     return rows[0]![0]
   }
