@@ -20,8 +20,8 @@ export async function closeDb(): Promise<void> {
   await db?.destroy()
 }
 
-/** A read's values: scalars, or a list sent as one parameter (`any(${ids}::int[])`, never `in`). */
-type ReadValue = string | number | boolean | null | number[]
+/** A statement's values: scalars, bytes, or a list sent as one parameter (`any(${ids}::int[])`, never `in`). */
+type ReadValue = string | number | boolean | null | number[] | Uint8Array
 
 /**
  * A read whose SQL text depends only on its `shape` (a role; which options were given), never

@@ -5,6 +5,7 @@ import type { Database } from '../database/schema'
 import { MAX_UPLOAD_BYTES } from '#shared/utils/limits'
 import { decodeTextBytes } from '#shared/utils/lib/text-encoding'
 import { codePointLabel, unfitCharacter } from '#shared/utils/text-input'
+import { readCappedBody } from './request-body'
 import { byteFormatOf, nonTextFormatProblem, UploadFormatError } from '#shared/utils/lib/upload-content'
 
 export interface UploadedFile {
@@ -23,17 +24,20 @@ export interface MultipartUpload {
 
 /**
  * Reads a multipart form with one `file` field, refusing oversize bodies before parsing them:
- * 413 over the limit, 400 without a file. The name is kept for display only.
+ * 413 over the limit (declared, or counted as a chunked body arrives), 400 without a file. The
+ * name is kept for display only.
  */
 export async function readUpload(event: H3Event, { maxBytes = MAX_UPLOAD_BYTES, field = 'file' } = {}): Promise<MultipartUpload> {
-  const declared = Number(getRequestHeader(event, 'content-length') ?? 0)
-  // Allow for the multipart envelope around the file itself.
-  if (declared > maxBytes + 64 * 1024) throw tooLarge(maxBytes)
+  // Allow for the multipart envelope around the file itself; the file's own size is checked below.
+  const body = await readCappedBody(event, maxBytes + 64 * 1024, () => tooLarge(maxBytes))
   // The platform's form parser: h3's own splits a part's header on "=" and ";", so a file named
-  // like "a=b.csv" would lose its name and look absent.
+  // like "a=b.csv" would lose its name and look absent. It is given the body once it has all
+  // arrived: reading the request as a web stream cost more than parsing the form.
   let form: FormData
   try {
-    form = await toWebRequest(event).formData()
+    const type = getRequestHeader(event, 'content-type') ?? ''
+    const bytes = body && new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength)
+    form = await new Response(bytes ?? null, { headers: { 'content-type': type } }).formData()
   } catch {
     throw createError({ statusCode: 400, statusMessage: `${field}: send the file as multipart/form-data` })
   }

@@ -8,7 +8,7 @@ import type { KeyFactor } from '#shared/utils/key-factor'
 import type { ExpectationView, FlagView, PeakView, ProductView, StoredResult, SubmissionStatusName } from '#shared/types/submission'
 import { scoresReleased } from '../review/release-policy'
 import { expectationView, practicalChemistry } from './practical-chemistry'
-import { studentUnit, type StudentWorkUnit } from './uploads'
+import { studentUnit, type StudentWorkUnit } from './student-unit'
 
 // A student's own GC results for one practical: every version of their work unit (the pair's,
 // for pair work), newest first, with what the reviewers decided. Scores and comments follow the

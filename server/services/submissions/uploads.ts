@@ -6,77 +6,32 @@ import type { Database, Submission } from '../../database/schema'
 import type { KeyFactor } from '#shared/utils/key-factor'
 import type { FlagView, StoredResult, SubmissionCreated, SubmissionPreview } from '#shared/types/submission'
 import { attentionOf, RunInputError, type PracticalChemistry, type RunResult } from '#shared/utils/submission'
-import { stationOfUnitKey, unitKeyOf } from './work-units'
+import { unitAndLatest, type StudentWorkUnit, type UploadColumns } from './student-unit'
 import { storedResultOf } from './stored-result'
 import { createError } from 'h3'
-import { expectationView, practicalChemistry } from './practical-chemistry'
+import { expectationView, practicalChemistry, sharedChemistryOf, type ChemistryRow } from './practical-chemistry'
 import type { Actor } from '../../utils/audit'
 import { runEngine } from '../../utils/engines'
+import { compiledOnce } from '../../utils/db'
 import { asUploadFormatError } from '../../utils/files'
-import { stationMates } from '../roster'
-import { uploadDueAt } from '#shared/utils/resubmit'
-
-export interface StudentWorkUnit {
-  sectionId: number
-  unitKey: string
-  /** Everyone the result counts for: the student, and their station partner(s) for pair work. */
-  memberIds: number[]
-  dueAt: Date | null
-  /** What a new upload's late mark is judged against: the section's due time, or a return's later one. */
-  uploadDueAt: Date | null
-  /** The day the caller's section runs the practical ('YYYY-MM-DD'). */
-  meetingDate: string | null
-}
-
-/** The newest decision on any version of a work unit: a return's due time holds until a later accept. */
-function lastUnitDecision(db: Kysely<Database>, practicalId: number, unitKey: string) {
-  return db.selectFrom('reviews').innerJoin('submissions', 'submissions.id', 'reviews.submissionId')
-    .select(['reviews.decision', 'reviews.resubmitDueAt'])
-    .where('submissions.practicalId', '=', practicalId).where('submissions.unitKey', '=', unitKey)
-    .orderBy('reviews.createdAt', 'desc').orderBy('reviews.id', 'desc').limit(1).executeTakeFirst()
-}
-
-/** The caller's own work unit for a practical: 404 unless they are a student in a section that runs it. */
-export async function studentUnit(db: Kysely<Database>, scope: PracticalScope): Promise<StudentWorkUnit> {
-  if (scope.role !== 'student') throw createError({ statusCode: 403, statusMessage: 'Only students upload results' })
-  const enrollment = await db.selectFrom('enrollments').select(['sectionId', 'station'])
-    .where('userId', '=', scope.me.id).where('status', '=', 'active')
-    .where('sectionId', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1])
-    .executeTakeFirst()
-  if (!enrollment) throw createError({ statusCode: 404, statusMessage: 'Practical not found' })
-  const student = { userId: scope.me.id, sectionId: enrollment.sectionId, station: enrollment.station }
-  const unitKey = unitKeyOf(scope.practical.workUnit, student)
-  // Three reads that need only the enrolment, side by side: an upload waits for each round trip.
-  const [session, partners, last] = await Promise.all([
-    db.selectFrom('practicalSessions').select(['dueAt', 'meetingDate'])
-      .where('practicalId', '=', scope.practical.id).where('sectionId', '=', enrollment.sectionId).executeTakeFirst(),
-    stationOfUnitKey(unitKey) === null ? [] : stationMates(db, enrollment.sectionId, enrollment.station!),
-    lastUnitDecision(db, scope.practical.id, unitKey),
-  ])
-  return {
-    sectionId: enrollment.sectionId,
-    unitKey,
-    memberIds: [...new Set([scope.me.id, ...partners.map((p) => p.userId)])],
-    dueAt: session?.dueAt ?? null,
-    uploadDueAt: uploadDueAt(session?.dueAt ?? null, last),
-    meetingDate: session?.meetingDate ?? null,
-  }
-}
 
 type UploadTask = 'evaluateUpload' | 'evaluateUploadToStore'
 
-/** The practical's chemistry for an upload; 409 while it has no retention windows. */
-async function uploadChemistry(scope: PracticalScope): Promise<PracticalChemistry> {
-  const chemistry = await practicalChemistry(scope.practical)
+/**
+ * The practical's chemistry for an upload (from its row when the scope's read brought it: the
+ * engine gets its own copy, and nothing here changes it); 409 while it has no retention windows.
+ */
+async function uploadChemistry(scope: PracticalScope, row?: ChemistryRow): Promise<PracticalChemistry> {
+  const chemistry = row ? await sharedChemistryOf(row) : await practicalChemistry(scope.practical)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
   }
   return chemistry
 }
 
-/** An upload's engine task with the practical's chemistry (read here unless given); the refusals computeRun describes. */
+/** An upload's engine task with the practical's chemistry; the refusals computeRun describes. */
 async function runUploadTask<K extends UploadTask>(
-  scope: PracticalScope, file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry> = uploadChemistry(scope),
+  file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry>,
 ) {
   const chemistry = await chemistryRead
   try {
@@ -96,8 +51,8 @@ async function runUploadTask<K extends UploadTask>(
  * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
  * the original is kept as.
  */
-export function computeRun(scope: PracticalScope, file: UploadedFile) {
-  return runUploadTask(scope, file, 'evaluateUpload')
+export function computeRun(scope: PracticalScope, file: UploadedFile, chemistryRow?: ChemistryRow) {
+  return runUploadTask(file, 'evaluateUpload', uploadChemistry(scope, chemistryRow))
 }
 
 // A version's row without its peaks: an upload's answer never shows them, and reading them back
@@ -178,7 +133,7 @@ const isVersionTaken = (error: unknown) =>
  */
 export async function storeSubmissionVersion(
   db: Kysely<Database>, actor: Actor, v: NewVersion,
-): Promise<Pick<Submission, (typeof CREATED_COLUMNS)[number]>> {
+): Promise<CreatedRow> {
   for (let attempt = 1; ; attempt++) {
     try {
       return await insertVersion(db, actor, v)
@@ -188,49 +143,58 @@ export async function storeSubmissionVersion(
   }
 }
 
-function insertVersion(db: Kysely<Database>, actor: Actor, v: NewVersion) {
+type CreatedRow = Pick<Submission, (typeof CREATED_COLUMNS)[number]>
+
+// Built and compiled once, sent as a prepared statement (compiledOnce): PostgreSQL parsed and
+// planned this five-insert statement on every upload. The members go in as one array.
+const insertVersionStatement = compiledOnce((db, _shape: 'version',
+  sha256: string, byteSize: number, mediaType: string, originalName: string, content: Buffer, actorId: number,
+  practicalId: number, sectionId: number, unitKey: string, inputKind: string, peaks: Buffer, result: string, flags: string,
+  attention: number, factorSecondary: number | null, factorTertiary: number | null, late: boolean, idempotencyKey: string | null,
+  memberIds: number[], after: string, ip: string | null) => db
+  .with('file', (q) => q.insertInto('files')
+    .values({ sha256, byteSize, mediaType, originalName, content, uploadedBy: actorId }).returning('id'))
+  .with('created', (q) => q.insertInto('submissions').values((eb) => ({
+    practicalId,
+    sectionId,
+    unitKey,
+    version: eb.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
+      .where('practicalId', '=', practicalId).where('unitKey', '=', unitKey),
+    fileId: eb.selectFrom('file').select('id'),
+    inputKind: inputKind as Submission['inputKind'],
+    sha256,
+    peaks,
+    result,
+    flags,
+    attention,
+    factorSecondary,
+    factorTertiary,
+    late,
+    submittedBy: actorId,
+    idempotencyKey,
+  })).returning(CREATED_COLUMNS))
+  .with('members', (q) => q.insertInto('submissionMembers').columns(['submissionId', 'userId'])
+    .expression((eb) => eb.selectFrom('created').select(['created.id', sql<number>`unnest(${memberIds}::int[])`.as('userId')])))
+  .with('audited', (q) => q.insertInto('auditLog').values((eb) => ({
+    actorId,
+    action: 'submission.create',
+    entity: 'submission',
+    entityId: eb.selectFrom('created').select(sql<string>`id::text`.as('id')),
+    after: eb.selectFrom('created').select(sql<string>`jsonb_set(${after}::jsonb, '{version}', to_jsonb(version))`.as('after')),
+    ip,
+  })))
+  .selectFrom('created').select(CREATED_COLUMNS))
+
+async function insertVersion(db: Kysely<Database>, actor: Actor, v: NewVersion): Promise<CreatedRow> {
   const after = { practicalId: v.practicalId, unitKey: v.unit.unitKey, sha256: v.file.sha256, fileName: v.file.name, late: v.late }
-  return db
-    .with('file', (q) => q.insertInto('files').values({
-      sha256: v.file.sha256,
-      byteSize: v.file.bytes.length,
-      mediaType: v.mediaType,
-      originalName: v.file.name,
-      content: v.file.bytes,
-      uploadedBy: actor.id,
-    }).returning('id'))
-    .with('created', (q) => q.insertInto('submissions').values((eb) => ({
-      practicalId: v.practicalId,
-      sectionId: v.unit.sectionId,
-      unitKey: v.unit.unitKey,
-      version: eb.selectFrom('submissions').select(sql<number>`coalesce(max(version), 0) + 1`.as('next'))
-        .where('practicalId', '=', v.practicalId).where('unitKey', '=', v.unit.unitKey),
-      fileId: eb.selectFrom('file').select('id'),
-      inputKind: v.run.kind,
-      sha256: v.file.sha256,
-      peaks: Buffer.from(v.storedPeaks.buffer, v.storedPeaks.byteOffset, v.storedPeaks.byteLength),
-      result: JSON.stringify(storedResultOf(v.run, v.keyFactor)),
-      flags: JSON.stringify(v.run.flags),
-      attention: attentionOf(v.run.flags),
-      factorSecondary: v.run.factors.secondaryToPrimary,
-      factorTertiary: v.run.factors.tertiaryToPrimary,
-      late: v.late,
-      submittedBy: actor.id,
-      idempotencyKey: v.idempotencyKey,
-    })).returning(CREATED_COLUMNS))
-    .with('members', (q) => q.insertInto('submissionMembers')
-      .values((eb) => v.unit.memberIds.map((userId) => ({ submissionId: eb.selectFrom('created').select('id'), userId }))))
-    .with('audited', (q) => q.insertInto('auditLog').values((eb) => ({
-      actorId: actor.id,
-      action: 'submission.create',
-      entity: 'submission',
-      entityId: eb.selectFrom('created').select(sql<string>`id::text`.as('id')),
-      after: eb.selectFrom('created')
-        .select(sql<string>`jsonb_set(${JSON.stringify(after)}::jsonb, '{version}', to_jsonb(version))`.as('after')),
-      ip: actor.ip,
-    })))
-    .selectFrom('created').select(CREATED_COLUMNS)
-    .executeTakeFirstOrThrow()
+  const [row] = await insertVersionStatement(db, 'version',
+    v.file.sha256, v.file.bytes.length, v.mediaType, v.file.name, v.file.bytes, actor.id,
+    v.practicalId, v.unit.sectionId, v.unit.unitKey, v.run.kind,
+    Buffer.from(v.storedPeaks.buffer, v.storedPeaks.byteOffset, v.storedPeaks.byteLength),
+    JSON.stringify(storedResultOf(v.run, v.keyFactor)), JSON.stringify(v.run.flags), attentionOf(v.run.flags),
+    v.run.factors.secondaryToPrimary, v.run.factors.tertiaryToPrimary, v.late, v.idempotencyKey,
+    v.unit.memberIds, JSON.stringify(after), actor.ip)
+  return row as CreatedRow
 }
 
 /** The first answer to a repeated Idempotency-Key, or null for a new key; 409 when it was for another practical. */
@@ -243,38 +207,30 @@ async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: 
   return earlier ? { status: 201, body: toCreated(earlier) } : null
 }
 
-/** The newest version of a work unit, if any. */
-function latestOfUnit(db: Kysely<Database>, practicalId: number, unitKey: string) {
-  return db.selectFrom('submissions').select(CREATED_COLUMNS)
-    .where('practicalId', '=', practicalId).where('unitKey', '=', unitKey)
-    .orderBy('version', 'desc').limit(1).executeTakeFirst()
-}
-
 /**
  * A student's upload: a repeated Idempotency-Key returns the first answer; the same file as the
  * latest version is recognised (200 with identicalTo) and stores nothing; else a new version.
- * `upload` is the file as it arrives: the practical's chemistry, an earlier answer to the key and
- * the work unit are read meanwhile, and the file's own refusals (400, 413) still come first.
+ * `upload` is the file as it arrives: the practical's chemistry and an earlier answer to the key
+ * are read meanwhile, and the file's own refusals (400, 413) still come first. `read` is what the
+ * access statement brought (uploadColumns); without it the chemistry and enrolment are read here.
  */
 export async function createSubmission(
   db: Kysely<Database>, actor: Actor, scope: PracticalScope, upload: Promise<UploadedFile>, idempotencyKey: string | null,
+  read?: UploadColumns,
 ): Promise<{ status: number, body: SubmissionCreated }> {
-  const chemistryRead = uploadChemistry(scope)
+  const chemistryRead = uploadChemistry(scope, read?.chemistry)
   const earlierRead = earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
-  const unitRead = studentUnit(db, scope)
-  for (const read of [chemistryRead, earlierRead, unitRead]) read.catch(() => {})
+  for (const pending of [chemistryRead, earlierRead]) pending.catch(() => {})
   const file = await upload
   const earlier = await earlierRead
   if (earlier) return earlier
-  // The engine reads the file (and packs its peaks for storing) while the unit and its latest
-  // version are looked up; the unit's own refusal (not enrolled) still comes first.
-  const computing = runUploadTask(scope, file, 'evaluateUploadToStore', chemistryRead)
+  // The engine reads the file (and packs its peaks for storing) while the unit and its newest
+  // version are looked up (once the file is here: the newest then is the one to compare with);
+  // the unit's own refusal (not enrolled) still comes first.
+  const computing = runUploadTask(file, 'evaluateUploadToStore', chemistryRead)
   computing.catch(() => {})
-  const unit = await unitRead
-  const latestRead = latestOfUnit(db, scope.practical.id, unit.unitKey)
-  latestRead.catch(() => {})
+  const { unit, latest } = await unitAndLatest(db, scope, read?.enrolment)
   const { run, storedPeaks, chemistry, mediaType } = await computing
-  const latest = await latestRead
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
   const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()
   try {

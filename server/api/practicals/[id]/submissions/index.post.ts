@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/types/fields'
 import { z } from 'zod'
-import { createSubmission } from '../../../../services/submissions'
+import { createSubmission, uploadColumns } from '../../../../services/submissions'
 
 const keySchema = z.string().trim().min(1).max(200).nullable()
 
@@ -8,10 +8,12 @@ const keySchema = z.string().trim().min(1).max(200).nullable()
 export default defineEventHandler(async (event) => {
   requireRole(event, 'student')
   const { id } = readParamsAs(event, idParamsSchema)
-  const scope = await requirePracticalAccess(event, id)
-  const key = validate(keySchema, getRequestHeader(event, 'idempotency-key') ?? null)
+  // The body is read while the caller's access is checked; a refusal of access still comes first.
   const upload = readUpload(event).then(({ file }) => file)
-  const { status, body } = await createSubmission(useDb(), actorOf(event), scope, upload, key)
+  upload.catch(() => {})
+  const { scope, columns: read } = await requirePracticalAccessWith(event, id, uploadColumns)
+  const key = validate(keySchema, getRequestHeader(event, 'idempotency-key') ?? null)
+  const { status, body } = await createSubmission(useDb(), actorOf(event), scope, upload, key, read)
   setResponseStatus(event, status)
   return body
 })
