@@ -113,11 +113,30 @@ export function windowProductLabel(w: Pick<ProductWindow, 'productSmiles' | 'nam
   return w.name ? `${w.name} (${w.productSmiles})` : w.productSmiles
 }
 
+/**
+ * The window holding rt whose centre is closest (the first of equals), and whether another holds
+ * it too. A loop rather than filter and sort: it runs once for each of thousands of peaks.
+ */
 function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: boolean } {
-  const inside = slots.filter((s) => rt >= s.window.rtMin && rt <= s.window.rtMax)
-  if (inside.length === 0) return { slot: null, ambiguous: false }
-  const centre = (s: Slot) => Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
-  return { slot: inside.sort((a, b) => centre(a) - centre(b))[0]!, ambiguous: inside.length > 1 }
+  let best: Slot | null = null
+  let bestDistance = 0
+  let inside = 0
+  for (const s of slots) {
+    if (!(rt >= s.window.rtMin && rt <= s.window.rtMax)) continue
+    inside++
+    const distance = Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
+    if (best === null || distance < bestDistance) { best = s; bestDistance = distance }
+  }
+  return inside === 0 ? NO_SLOT : { slot: best, ambiguous: inside > 1 }
+}
+
+const NO_SLOT = { slot: null, ambiguous: false }
+
+/** How many windows hold rt: most peaks of a long table are in none, and need no more than this. */
+function insideCount(rt: number, slots: Slot[]): number {
+  let inside = 0
+  for (const s of slots) if (rt >= s.window.rtMin && rt <= s.window.rtMax) inside++
+  return inside
 }
 
 function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
@@ -269,6 +288,8 @@ function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOpti
   }
   const unassigned: Peak[] = []
   for (const p of peaks) {
+    const inside = insideCount(p.retentionTime, slots)
+    if (inside === 0) { unassigned.push(p); continue }
     const { slot, ambiguous } = pickSlot(p.retentionTime, slots)
     if (ambiguous) {
       flags.push({

@@ -92,8 +92,10 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
   const outcome: DriftOutcome = { drifted: [], contested: [], beside: [], between: [], unassigned: [] }
   for (const p of unassigned) {
     // Most unassigned peaks of a long table are near no window: find the first hit before building a list.
-    const first = slots.findIndex((s, i) => outside(p.retentionTime, s, reach[i]!) !== null)
-    const hits = first < 0 ? [] : slots.filter((s, i) => i >= first && outside(p.retentionTime, s, reach[i]!) !== null)
+    let first = -1
+    for (let i = 0; i < slots.length && first < 0; i++) if (outside(p.retentionTime, slots[i]!, reach[i]!) !== null) first = i
+    if (first < 0) { outcome.unassigned.push(p); continue }
+    const hits = slots.filter((s, i) => i >= first && outside(p.retentionTime, s, reach[i]!) !== null)
     if (hits.length === 1) {
       const list = near.get(hits[0]!)
       if (list) list.push(p)
@@ -115,8 +117,14 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
     else outcome.beside.push(...peaks.map((peak) => ({ slot, peak })))
   }
   for (const d of outcome.drifted) d.slot.peaks.push(d.peak)
-  outcome.unassigned.sort((a, b) => a.retentionTime - b.retentionTime)
+  // Usually in order already (a table lists its peaks by time); the sort is stable, so skipping it then changes nothing.
+  if (!inTimeOrder(outcome.unassigned)) outcome.unassigned.sort((a, b) => a.retentionTime - b.retentionTime)
   return outcome
+}
+
+function inTimeOrder(peaks: readonly Peak[]): boolean {
+  for (let i = 1; i < peaks.length; i++) if (!(peaks[i - 1]!.retentionTime <= peaks[i]!.retentionTime)) return false
+  return true
 }
 
 const fmt = (t: number) => t.toFixed(2)
