@@ -88,7 +88,6 @@ export function readPlainTable(
   columns.forEach((c, k) => { feeds[c.index] = k })
   const tallies: Tally[] = columns.map(emptyTally)
   const values = new Float64Array(columns.length)
-  const present = new Uint8Array(columns.length)
   const extras = columns.slice(2)
   const peaks: PlainPeak[] = []
   const leftOut = new Set<string>()
@@ -100,7 +99,8 @@ export function readPlainTable(
     const first = line.charCodeAt(0)
     // Blank as the general path sees it (trimmed empty); a line starting with a digit, "-" or "." is not.
     if (n === 0 || (!(first >= DIGIT_0 && first <= DIGIT_9) && first !== MINUS && first !== POINT && line.trim() === '')) continue
-    present.fill(0)
+    // Bit k: column k has a number on this line.
+    let present = 0
     let cell = 0
     let filled = 0
     let blank = true
@@ -155,7 +155,7 @@ export function readPlainTable(
           value = digits > EXACT_DIGITS ? Number(line.slice(from, end)) : mantissa / POW10[fraction]!
         }
         values[k] = negative ? -value : value
-        present[k] = 1
+        present |= 1 << k
       }
       cell++
       pos++
@@ -163,7 +163,7 @@ export function readPlainTable(
     // A line of bare delimiters is a row the general path refuses.
     if (blank) return null
     if (whitespace ? cell !== limits.headerCells : delimiter === ',' && filled > limits.headerCells) return null
-    if (!present[0] || !present[1]) return null
+    if ((present & 3) !== 3) return null
     const retentionTime = values[0]!
     const area = values[1]!
     // A clean row: in range, and a time later than every earlier one (so never a repeat).
@@ -173,7 +173,7 @@ export function readPlainTable(
     const peak: PlainPeak = { retentionTime, area, row: i + 1 }
     if (limits.fromPercent) peak.areaPercent = area
     for (let e = 0; e < extras.length; e++) {
-      if (!present[e + 2]) continue
+      if (!(present & (1 << (e + 2)))) continue
       const col = extras[e]!
       const v = values[e + 2]!
       if (Math.abs(v) <= (col.key === 'areaPercent' ? 100 : limits.heightLimit)) peak[col.key as 'areaPercent' | 'height'] = v

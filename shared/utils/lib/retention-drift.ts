@@ -117,8 +117,14 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
     else outcome.beside.push(...peaks.map((peak) => ({ slot, peak })))
   }
   for (const d of outcome.drifted) d.slot.peaks.push(d.peak)
-  // Usually in order already (a table lists its peaks by time); the sort is stable, so skipping it then changes nothing.
-  if (!inTimeOrder(outcome.unassigned)) outcome.unassigned.sort((a, b) => a.retentionTime - b.retentionTime)
+  // Peaks given in time order (as a table lists them) stay in it without the sort: a stable sort of
+  // them would keep that order, since peaks at one time fall to the same window or to none.
+  if (inTimeOrder(unassigned)) {
+    const taken = new Set(outcome.drifted.map((d) => d.peak))
+    outcome.unassigned = taken.size ? unassigned.filter((p) => !taken.has(p)) : [...unassigned]
+  } else {
+    outcome.unassigned.sort((a, b) => a.retentionTime - b.retentionTime)
+  }
   return outcome
 }
 
