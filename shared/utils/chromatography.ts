@@ -114,29 +114,39 @@ export function windowProductLabel(w: Pick<ProductWindow, 'productSmiles' | 'nam
 }
 
 /**
- * The window holding rt whose centre is closest (the first of equals), and whether another holds
- * it too. A loop rather than filter and sort: it runs once for each of thousands of peaks.
+ * The windows' ends as objects of one shape: the windows themselves come in several (product,
+ * solvent, starting material, with or without names), and reading their ends for each of
+ * thousands of peaks went through every shape each time.
  */
-function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: boolean } {
-  let best: Slot | null = null
-  let bestDistance = 0
-  let inside = 0
-  for (const s of slots) {
-    if (!(rt >= s.window.rtMin && rt <= s.window.rtMax)) continue
-    inside++
-    const distance = Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
-    if (best === null || distance < bestDistance) { best = s; bestDistance = distance }
-  }
-  return inside === 0 ? NO_SLOT : { slot: best, ambiguous: inside > 1 }
+function boundsOf(windows: ReadonlyArray<{ window: { rtMin: number, rtMax: number } }>): Bounds[] {
+  return windows.map(({ window: w }) => ({ rtMin: w.rtMin, rtMax: w.rtMax }))
 }
 
-const NO_SLOT = { slot: null, ambiguous: false }
+interface Bounds { rtMin: number, rtMax: number }
 
-/** How many windows hold rt: most peaks of a long table are in none, and need no more than this. */
-function insideCount(rt: number, slots: Slot[]): number {
+/**
+ * The index of the window holding rt whose centre is closest (the first of equals), -1 when
+ * none does; `ambiguous` when more than one does. A loop rather than filter and sort: it runs
+ * once for each of thousands of peaks.
+ */
+function pickSlot(rt: number, bounds: readonly Bounds[]): { index: number, ambiguous: boolean } {
+  let best = -1
+  let bestDistance = 0
   let inside = 0
-  for (const s of slots) if (rt >= s.window.rtMin && rt <= s.window.rtMax) inside++
-  return inside
+  for (let k = 0; k < bounds.length; k++) {
+    const b = bounds[k]!
+    if (!(rt >= b.rtMin && rt <= b.rtMax)) continue
+    inside++
+    const distance = Math.abs(rt - (b.rtMin + b.rtMax) / 2)
+    if (best < 0 || distance < bestDistance) { best = k; bestDistance = distance }
+  }
+  return { index: best, ambiguous: inside > 1 }
+}
+
+/** Whether any window holds rt: most peaks of a long table are in none, and need no more than this. */
+function inAnyWindow(rt: number, bounds: readonly Bounds[]): boolean {
+  for (let k = 0; k < bounds.length; k++) if (rt >= bounds[k]!.rtMin && rt <= bounds[k]!.rtMax) return true
+  return false
 }
 
 function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
@@ -287,10 +297,11 @@ function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOpti
     slots.push({ key: 'sm', name: 'the starting material', product: false, window: options.startingMaterial, peaks: [] })
   }
   const unassigned: Peak[] = []
+  const bounds = boundsOf(slots)
   for (const p of peaks) {
-    const inside = insideCount(p.retentionTime, slots)
-    if (inside === 0) { unassigned.push(p); continue }
-    const { slot, ambiguous } = pickSlot(p.retentionTime, slots)
+    if (!inAnyWindow(p.retentionTime, bounds)) { unassigned.push(p); continue }
+    const { index, ambiguous } = pickSlot(p.retentionTime, bounds)
+    const slot = slots[index]!
     if (ambiguous) {
       flags.push({
         code: 'overlapping-windows',
@@ -299,8 +310,7 @@ function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOpti
         message: `The peak at ${fmt(p.retentionTime)} min falls in more than one window; it was given to the window whose centre is closest.`,
       })
     }
-    if (slot) slot.peaks.push(p)
-    else unassigned.push(p)
+    slot.peaks.push(p)
   }
   return { slots, unassigned }
 }

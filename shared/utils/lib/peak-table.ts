@@ -397,11 +397,11 @@ function readTable(
  * The fast pass (plain-table.ts) for a table of plain rows: the same peaks, styles and warnings
  * readTable gives it, or null when readTable must read it.
  */
-function plainPeakTable(lines: string[], header: HeaderCandidate, options: PeakTableOptions, warnings: string[]): TableRead | null {
+function plainPeakTable(text: string, header: HeaderCandidate, options: PeakTableOptions, warnings: string[]): TableRead | null {
   const kinds: ColumnMap = header.kinds
   if (!kinds.has('area') && !kinds.has('areaPercent')) return null
   const fromPercent = !kinds.has('area')
-  const read = readPlainTable(lines, header.delimiter, columnSpecs(kinds, fromPercent), {
+  const read = readPlainTable(text, header.delimiter, columnSpecs(kinds, fromPercent), {
     maxRows: options.maxRows ?? MAX_PEAK_ROWS,
     areaLimit: fromPercent ? 100 : MAX_PEAK_AREA,
     heightLimit: MAX_PEAK_AREA,
@@ -442,7 +442,7 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}, spl
       `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`,
     )
   }
-  const plain = fastPaths.enabled ? plainPeakTable(lines, header, options, warnings) : null
+  const plain = fastPaths.enabled ? plainPeakTable(text, header, options, warnings) : null
   const read = plain ?? readTable(lines, header, options, warnings, errors)
   if ('refused' in read) return refuse(...read.refused)
   const { parsed, styles, unitsRow, fromPercent } = read

@@ -52,6 +52,8 @@ const MINUS = 45
 const POINT = 46
 const SPACE = 32
 const TAB = 9
+const LF = 10
+const CR = 13
 // A mantissa of at most 15 digits and a divisor 10^k (k <= 15) are both exact doubles, so their
 // quotient is the correctly rounded value of the decimal: the number Number() gives for the text.
 const EXACT_DIGITS = 15
@@ -72,12 +74,39 @@ function isSeparator(c: number, delimiter: Delimiter): boolean {
   return delimiter === 'whitespace' ? c === SPACE || c === TAB : c === delimiter.charCodeAt(0)
 }
 
+/** The offset where line `index` (0-based) of the text starts, as splitLines counts lines; -1 past the end. */
+function lineStart(text: string, index: number): number {
+  let at = text.charCodeAt(0) === 0xfeff ? 1 : 0
+  for (let line = 0; line < index; line++) {
+    while (at < text.length && !isLineEnd(text.charCodeAt(at))) at++
+    if (at >= text.length) return -1
+    at += text.charCodeAt(at) === CR && text.charCodeAt(at + 1) === LF ? 2 : 1
+  }
+  return at
+}
+
+const isLineEnd = (c: number) => c === LF || c === CR
+
+/** Whether the line from `at` is blank as the general path sees it (nothing left once trimmed). */
+function blankLine(text: string, at: number): boolean {
+  let pos = at
+  while (pos < text.length && (text.charCodeAt(pos) === SPACE || text.charCodeAt(pos) === TAB)) pos++
+  const c = text.charCodeAt(pos)
+  if (pos >= text.length || isLineEnd(c)) return true
+  // Other white space (a no-break space, a vertical tab...) is rare: trim decides.
+  if (c > SPACE && c < 0x80) return false
+  let end = pos
+  while (end < text.length && !isLineEnd(text.charCodeAt(end))) end++
+  return text.slice(at, end).trim() === ''
+}
+
 /**
  * The table's peaks when every line under the header is blank or a row of plain decimals that
- * the general path would read as a clean peak; null when the general path must read it.
+ * the general path would read as a clean peak; null when the general path must read it. The
+ * text is read where it lies, line ends found as splitLines finds them: no line strings at all.
  */
 export function readPlainTable(
-  lines: readonly string[], delimiter: Delimiter, columns: readonly PlainColumn[], limits: PlainTableLimits,
+  text: string, delimiter: Delimiter, columns: readonly PlainColumn[], limits: PlainTableLimits,
 ): PlainTable | null {
   if (limits.headerFirst === '' || !outsideCharset(limits.headerFirst, delimiter)) return null
   const whitespace = delimiter === 'whitespace'
@@ -92,24 +121,30 @@ export function readPlainTable(
   const peaks: PlainPeak[] = []
   const leftOut = new Set<string>()
   let lastTime = Number.NEGATIVE_INFINITY
+  const total = text.length
+  let at = lineStart(text, limits.headerRow)
+  // Line index of the line starting at `at` (row = index + 1).
+  let index = limits.headerRow - 1
 
-  for (let i = limits.headerRow; i < lines.length; i++) {
-    const line = lines[i]!
-    const n = line.length
-    const first = line.charCodeAt(0)
+  for (; at >= 0 && at < total; at += text.charCodeAt(at) === CR && text.charCodeAt(at + 1) === LF ? 2 : 1) {
+    index++
+    const first = text.charCodeAt(at)
     // Blank as the general path sees it (trimmed empty); a line starting with a digit, "-" or "." is not.
-    if (n === 0 || (!(first >= DIGIT_0 && first <= DIGIT_9) && first !== MINUS && first !== POINT && line.trim() === '')) continue
+    if (!(first >= DIGIT_0 && first <= DIGIT_9) && first !== MINUS && first !== POINT && blankLine(text, at)) {
+      while (at < total && !isLineEnd(text.charCodeAt(at))) at++
+      continue
+    }
     // Bit k: column k has a number on this line.
     let present = 0
     let cell = 0
     let filled = 0
     let blank = true
-    let pos = 0
-    while (pos <= n) {
+    let pos = at
+    for (;;) {
       // Whitespace columns: runs of spaces and tabs separate, and the line's ends do not count.
       if (whitespace) {
-        while (pos < n && isSeparator(line.charCodeAt(pos), delimiter)) pos++
-        if (pos === n) break
+        while (pos < total && (text.charCodeAt(pos) === SPACE || text.charCodeAt(pos) === TAB)) pos++
+        if (pos >= total || isLineEnd(text.charCodeAt(pos))) break
       }
       const start = pos
       let negative = false
@@ -117,14 +152,14 @@ export function readPlainTable(
       let mantissa = 0
       let digits = 0
       let plain = true
-      if (pos < n && line.charCodeAt(pos) === MINUS) { negative = true; pos++ }
+      if (pos < total && text.charCodeAt(pos) === MINUS) { negative = true; pos++ }
       const from = pos
-      for (; pos < n; pos++) {
-        const c = line.charCodeAt(pos)
+      for (; pos < total; pos++) {
+        const c = text.charCodeAt(pos)
         if (c >= DIGIT_0 && c <= DIGIT_9) {
           if (digits < EXACT_DIGITS) mantissa = mantissa * 10 + (c - DIGIT_0)
           digits++
-        } else if (c === sep || (whitespace && c === TAB)) {
+        } else if (c === sep || (whitespace && c === TAB) || c === LF || c === CR) {
           break
         } else if (c === POINT) {
           if (mark >= 0 || pos === from) plain = false
@@ -146,20 +181,22 @@ export function readPlainTable(
         t.numbers++
         let value: number
         if (mark < 0) {
-          value = digits > EXACT_DIGITS ? Number(line.slice(from, end)) : mantissa
+          value = digits > EXACT_DIGITS ? Number(text.slice(from, end)) : mantissa
         } else {
           // "1.234" could group thousands (plainKind's PLAIN_POINT_OR_GROUP): one to three digits before, no leading zero, three after.
           const fraction = end - mark - 1
-          if (mark - from <= 3 && line.charCodeAt(from) !== DIGIT_0 && fraction === 3) t.ambiguous['.']++
+          if (mark - from <= 3 && text.charCodeAt(from) !== DIGIT_0 && fraction === 3) t.ambiguous['.']++
           else t.sure['.']++
-          value = digits > EXACT_DIGITS ? Number(line.slice(from, end)) : mantissa / POW10[fraction]!
+          value = digits > EXACT_DIGITS ? Number(text.slice(from, end)) : mantissa / POW10[fraction]!
         }
         values[k] = negative ? -value : value
         present |= 1 << k
       }
       cell++
+      if (pos >= total || isLineEnd(text.charCodeAt(pos))) break
       pos++
     }
+    at = pos
     // A line of bare delimiters is a row the general path refuses.
     if (blank) return null
     if (whitespace ? cell !== limits.headerCells : delimiter === ',' && filled > limits.headerCells) return null
@@ -170,7 +207,7 @@ export function readPlainTable(
     if (!(retentionTime >= 0 && area >= 0 && area <= limits.areaLimit && retentionTime > lastTime)) return null
     if (peaks.length === limits.maxRows) return null
     lastTime = retentionTime
-    const peak: PlainPeak = { retentionTime, area, row: i + 1 }
+    const peak: PlainPeak = { retentionTime, area, row: index + 1 }
     if (limits.fromPercent) peak.areaPercent = area
     for (let e = 0; e < extras.length; e++) {
       if (!(present & (1 << (e + 2)))) continue

@@ -52,6 +52,7 @@ export interface DriftOutcome {
 }
 
 interface Reach { before: number, after: number }
+interface Bounds { rtMin: number, rtMax: number }
 
 /**
  * How far beyond each end of each window a peak may lie and still count as drifted: the
@@ -74,8 +75,7 @@ export function driftReach(slots: readonly DriftSlot[], tolerance: DriftToleranc
 }
 
 /** Signed minutes outside the window within its reach, or null when the peak is not just outside it. */
-function outside(rt: number, s: DriftSlot, reach: Reach): number | null {
-  const { rtMin, rtMax } = s.window
+function outside(rt: number, { rtMin, rtMax }: Bounds, reach: Reach): number | null {
   if (rt < rtMin && rt >= rtMin - reach.before && reach.before > 0) return rt - rtMin
   if (rt > rtMax && rt <= rtMax + reach.after && reach.after > 0) return rt - rtMax
   return null
@@ -88,14 +88,16 @@ function outside(rt: number, s: DriftSlot, reach: Reach): number | null {
  */
 export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: readonly Peak[], tolerance?: DriftTolerance): DriftOutcome {
   const reach = driftReach(slots, tolerance)
+  // The windows' ends as objects of one shape (the windows come in several): read for every peak.
+  const bounds: Bounds[] = slots.map(({ window: w }) => ({ rtMin: w.rtMin, rtMax: w.rtMax }))
   const near = new Map<DriftSlot, Peak[]>()
   const outcome: DriftOutcome = { drifted: [], contested: [], beside: [], between: [], unassigned: [] }
   for (const p of unassigned) {
     // Most unassigned peaks of a long table are near no window: find the first hit before building a list.
     let first = -1
-    for (let i = 0; i < slots.length && first < 0; i++) if (outside(p.retentionTime, slots[i]!, reach[i]!) !== null) first = i
+    for (let i = 0; i < slots.length && first < 0; i++) if (outside(p.retentionTime, bounds[i]!, reach[i]!) !== null) first = i
     if (first < 0) { outcome.unassigned.push(p); continue }
-    const hits = slots.filter((s, i) => i >= first && outside(p.retentionTime, s, reach[i]!) !== null)
+    const hits = slots.filter((s, i) => i >= first && outside(p.retentionTime, bounds[i]!, reach[i]!) !== null)
     if (hits.length === 1) {
       const list = near.get(hits[0]!)
       if (list) list.push(p)
@@ -109,7 +111,8 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
   for (const [slot, peaks] of near) {
     if (slot.product && slot.peaks.length === 0 && peaks.length === 1) {
       const peak = peaks[0]!
-      outcome.drifted.push({ slot, peak, minutes: outside(peak.retentionTime, slot, reach[slots.indexOf(slot)]!)! })
+      const i = slots.indexOf(slot)
+      outcome.drifted.push({ slot, peak, minutes: outside(peak.retentionTime, bounds[i]!, reach[i]!)! })
       continue
     }
     outcome.unassigned.push(...peaks)
