@@ -100,6 +100,21 @@ function blankLine(text: string, at: number): boolean {
   return text.slice(at, end).trim() === ''
 }
 
+/** The last line that is not blank holds only what a plain row may: digits, "-", "." and separators. */
+function plainLastLine(text: string, delimiter: Delimiter): boolean {
+  let end = text.length
+  while (end > 0 && isBlankChar(text.charCodeAt(end - 1))) end--
+  let start = end
+  while (start > 0 && !isLineEnd(text.charCodeAt(start - 1))) start--
+  for (let i = start; i < end; i++) {
+    const c = text.charCodeAt(i)
+    if ((c < DIGIT_0 || c > DIGIT_9) && c !== MINUS && c !== POINT && !isSeparator(c, delimiter) && c !== SPACE && c !== TAB) return false
+  }
+  return true
+}
+
+const isBlankChar = (c: number) => c === LF || c === CR || c === SPACE || c === TAB
+
 /**
  * The table's peaks when every line under the header is blank or a row of plain decimals that
  * the general path would read as a clean peak; null when the general path must read it. The
@@ -122,6 +137,8 @@ export function readPlainTable(
   const leftOut = new Set<string>()
   let lastTime = Number.NEGATIVE_INFINITY
   const total = text.length
+  // A footer or totals row ends most tables that are not plain: seen first, it spares the pass reading the whole table in vain.
+  if (!plainLastLine(text, delimiter)) return null
   let at = lineStart(text, limits.headerRow)
   // Line index of the line starting at `at` (row = index + 1).
   let index = limits.headerRow - 1
