@@ -113,11 +113,40 @@ export function windowProductLabel(w: Pick<ProductWindow, 'productSmiles' | 'nam
   return w.name ? `${w.name} (${w.productSmiles})` : w.productSmiles
 }
 
-function pickSlot(rt: number, slots: Slot[]): { slot: Slot | null, ambiguous: boolean } {
-  const inside = slots.filter((s) => rt >= s.window.rtMin && rt <= s.window.rtMax)
-  if (inside.length === 0) return { slot: null, ambiguous: false }
-  const centre = (s: Slot) => Math.abs(rt - (s.window.rtMin + s.window.rtMax) / 2)
-  return { slot: inside.sort((a, b) => centre(a) - centre(b))[0]!, ambiguous: inside.length > 1 }
+/**
+ * The windows' ends as objects of one shape: the windows themselves come in several (product,
+ * solvent, starting material, with or without names), and reading their ends for each of
+ * thousands of peaks went through every shape each time.
+ */
+function boundsOf(windows: ReadonlyArray<{ window: { rtMin: number, rtMax: number } }>): Bounds[] {
+  return windows.map(({ window: w }) => ({ rtMin: w.rtMin, rtMax: w.rtMax }))
+}
+
+interface Bounds { rtMin: number, rtMax: number }
+
+/**
+ * The index of the window holding rt whose centre is closest (the first of equals), -1 when
+ * none does; `ambiguous` when more than one does. A loop rather than filter and sort: it runs
+ * once for each of thousands of peaks.
+ */
+function pickSlot(rt: number, bounds: readonly Bounds[]): { index: number, ambiguous: boolean } {
+  let best = -1
+  let bestDistance = 0
+  let inside = 0
+  for (let k = 0; k < bounds.length; k++) {
+    const b = bounds[k]!
+    if (!(rt >= b.rtMin && rt <= b.rtMax)) continue
+    inside++
+    const distance = Math.abs(rt - (b.rtMin + b.rtMax) / 2)
+    if (best < 0 || distance < bestDistance) { best = k; bestDistance = distance }
+  }
+  return { index: best, ambiguous: inside > 1 }
+}
+
+/** Whether any window holds rt: most peaks of a long table are in none, and need no more than this. */
+function inAnyWindow(rt: number, bounds: readonly Bounds[]): boolean {
+  for (let k = 0; k < bounds.length; k++) if (rt >= bounds[k]!.rtMin && rt <= bounds[k]!.rtMax) return true
+  return false
 }
 
 function validPeaks(peaks: Peak[], flags: Flag[]): Peak[] {
@@ -268,8 +297,11 @@ function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOpti
     slots.push({ key: 'sm', name: 'the starting material', product: false, window: options.startingMaterial, peaks: [] })
   }
   const unassigned: Peak[] = []
+  const bounds = boundsOf(slots)
   for (const p of peaks) {
-    const { slot, ambiguous } = pickSlot(p.retentionTime, slots)
+    if (!inAnyWindow(p.retentionTime, bounds)) { unassigned.push(p); continue }
+    const { index, ambiguous } = pickSlot(p.retentionTime, bounds)
+    const slot = slots[index]!
     if (ambiguous) {
       flags.push({
         code: 'overlapping-windows',
@@ -278,8 +310,7 @@ function distribute(peaks: Peak[], windows: ProductWindow[], options: AssignOpti
         message: `The peak at ${fmt(p.retentionTime)} min falls in more than one window; it was given to the window whose centre is closest.`,
       })
     }
-    if (slot) slot.peaks.push(p)
-    else unassigned.push(p)
+    slot.peaks.push(p)
   }
   return { slots, unassigned }
 }

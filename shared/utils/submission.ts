@@ -232,6 +232,17 @@ function farFromPrediction(input: RunInput, factors: RunResult['factors'], moleP
   }]
 }
 
+/**
+ * peakWith(p, 'assignedTo', who), with the usual shape of a table's peak (time, area, row) made
+ * by one literal: thousands of them, each built field by field, were a tenth of a long table's run.
+ */
+function withOwner(p: Peak, assignedTo: string | null): Peak & { assignedTo: string | null } {
+  if (p.areaPercent === undefined && p.height === undefined && p.row !== undefined) {
+    return { retentionTime: p.retentionTime, area: p.area, row: p.row, assignedTo }
+  }
+  return peakWith(p, 'assignedTo', assignedTo)
+}
+
 export function evaluateRun(input: RunInput): RunResult {
   // The last window's end tells seconds from minutes when a file does not say (a 65 s peak is not a 65 min one).
   const ends = [...input.windows.map((w) => w.rtMax), input.solvent?.rtMax ?? 0, input.startingMaterial?.rtMax ?? 0]
@@ -274,7 +285,7 @@ export function evaluateRun(input: RunInput): RunResult {
   for (const peak of assigned.startingMaterial?.peaks ?? []) own(peak, 'starting-material')
   return {
     kind,
-    peaks: peaks.map((p) => peakWith(p, 'assignedTo', owner.get(p.retentionTime)?.get(p.area) ?? null)),
+    peaks: peaks.map((p) => withOwner(p, owner.get(p.retentionTime)?.get(p.area) ?? null)),
     warnings,
     molePercents,
     factors,

@@ -1,5 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import fc from 'fast-check'
+import { general } from './fixtures/general-path'
 import { parsePeakTable, parseTrace, sniffUpload } from '../../shared/utils/chromatography'
 import { type ColumnStyle, readCell, tallyColumn } from '../../shared/utils/lib/number-text'
 import { fastPaths, plainKind, readPlain, readScanned, readingAt, scanColumn, tallyCells } from '../../shared/utils/lib/plain-number'
@@ -10,16 +11,6 @@ import { splitCells, splitTexts } from '../../shared/utils/lib/table-text'
 // path is the reference: each check reads the same cells or files both ways and compares.
 
 afterEach(() => { fastPaths.enabled = true })
-
-/** The same call with every shortcut off. */
-function general<T>(read: () => T): T {
-  fastPaths.enabled = false
-  try {
-    return read()
-  } finally {
-    fastPaths.enabled = true
-  }
-}
 
 const STYLES: ColumnStyle[] = (['.', ',', null] as const).flatMap((decimal) => [false, true].flatMap((mixed) =>
   [false, true].map((clock) => ({ decimal, mixed, clock, evidence: 'column' as const }))))

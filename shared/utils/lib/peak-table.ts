@@ -4,8 +4,9 @@ import {
   type Mark, type ColumnStyle, type ReadProblem,
   decideStyles, excerpt, ungroupedWitness,
 } from './number-text'
-import { type ColumnReads, type ScannedColumn, readScanned, readingAt, scanColumn } from './plain-number'
-import { type ColumnMap, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
+import { type ColumnReads, type ScannedColumn, fastPaths, readScanned, readingAt, scanColumn } from './plain-number'
+import { type ColumnMap, type HeaderCandidate, type RawRow, collectRows, columnsOf, declaredTimeUnit, findHeader } from './table-layout'
+import { readPlainTable } from './plain-table'
 import { type Delimiter, mayExceed, splitLines } from './table-text'
 import { MAX_UPLOAD_BYTES } from '../limits'
 
@@ -331,16 +332,18 @@ function readPeakRows(rows: RawRow[], columns: Column[], fromPercent: boolean, w
     if (extras.length) addOptionalValues(peak, extras, i, row, cells, leftOut)
     parsed.push(peak)
   })
-  for (const name of leftOut) warnings.push(`Some ${name} values are not numbers or out of range and were left out.`)
+  for (const name of leftOut) warnings.push(leftOutWarning(name))
   return parsed
 }
 
+const leftOutWarning = (name: string) => `Some ${name} values are not numbers or out of range and were left out.`
+
 /** Retention times in minutes (clock cells are minutes already), with the unit and where it came from; over-long times are errors. */
 function retentionInMinutes(
-  parsed: Peak[], rtCol: Column, declared: ReturnType<typeof declaredTimeUnit>, options: PeakTableOptions,
+  parsed: Peak[], clock: boolean, declared: ReturnType<typeof declaredTimeUnit>, options: PeakTableOptions,
   warnings: string[], errors: RowError[],
 ) {
-  const { unit, source } = rtCol.style.clock
+  const { unit, source } = clock
     ? { unit: 'min' as const, source: 'cells' as const }
     : chooseTimeUnit(parsed.map((p) => p.retentionTime), declared, options.timeUnit, options.expectedMaxMinutes, warnings)
   const factor = toMinutes(unit)
@@ -354,6 +357,63 @@ function retentionInMinutes(
     }
   }
   return { unit, source }
+}
+
+type Refusal = [row: number, code: ParseErrorCode, message: string]
+interface TableRead { parsed: Peak[], styles: ColumnStyle[], unitsRow: (string | undefined)[] | null, fromPercent: boolean }
+
+const noAreaColumn = (header: HeaderCandidate): Refusal => {
+  const hint = header.kinds.has('signal') ? ' It looks like a raw detector trace: upload it as a trace instead.' : ''
+  return [
+    header.row,
+    'no-area-column',
+    `Row ${header.row}: the header has no area column; export the table with peak areas ("Area") or area %, not only heights.${hint}`,
+  ]
+}
+
+const tooManyRows = (row: number, maxRows: number): Refusal =>
+  [row, 'too-many-rows', `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`]
+
+const FROM_PERCENT = 'The file has no absolute peak areas, so the mole % were computed from its area % column.'
+
+/** The general path: rows collected with every layout rule, each cell read in its column's style. */
+function readTable(
+  lines: string[], header: HeaderCandidate, options: PeakTableOptions, warnings: string[], errors: RowError[],
+): TableRead | { refused: Refusal } {
+  const { rows, unitsRow, errors: layout } = collectRows(lines, header, warnings)
+  errors.push(...layout)
+  const kinds = columnsOf(header, unitsRow)
+  if (!kinds.has('area') && !kinds.has('areaPercent')) return { refused: noAreaColumn(header) }
+  const maxRows = options.maxRows ?? MAX_PEAK_ROWS
+  if (rows.length > maxRows) return { refused: tooManyRows(rows[maxRows]!.row, maxRows) }
+  const fromPercent = !kinds.has('area')
+  if (fromPercent) warnings.push(FROM_PERCENT)
+  const columns = readColumns(rows, columnSpecs(kinds, fromPercent))
+  const parsed = readPeakRows(rows, columns, fromPercent, warnings, errors)
+  return { parsed, styles: columns.map((c) => c.style), unitsRow, fromPercent }
+}
+
+/**
+ * The fast pass (plain-table.ts) for a table of plain rows: the same peaks, styles and warnings
+ * readTable gives it, or null when readTable must read it.
+ */
+function plainPeakTable(text: string, header: HeaderCandidate, options: PeakTableOptions, warnings: string[]): TableRead | null {
+  const kinds: ColumnMap = header.kinds
+  if (!kinds.has('area') && !kinds.has('areaPercent')) return null
+  const fromPercent = !kinds.has('area')
+  const read = readPlainTable(text, header.delimiter, columnSpecs(kinds, fromPercent), {
+    maxRows: options.maxRows ?? MAX_PEAK_ROWS,
+    areaLimit: fromPercent ? 100 : MAX_PEAK_AREA,
+    heightLimit: MAX_PEAK_AREA,
+    fromPercent,
+    headerRow: header.row,
+    headerCells: header.cells.length,
+    headerFirst: header.cells[0]?.text ?? '',
+  })
+  if (!read) return null
+  if (fromPercent) warnings.push(FROM_PERCENT)
+  for (const name of read.leftOut) warnings.push(leftOutWarning(name))
+  return { parsed: read.peaks, styles: read.styles, unitsRow: null, fromPercent }
 }
 
 /** Reads a peak table. Any error refuses the whole table: `peaks` is then empty. */
@@ -382,35 +442,15 @@ export function parsePeakTable(text: string, options: PeakTableOptions = {}, spl
       `Row ${header.row}: the header has no retention-time column (for example "RT" or "Retention time").`,
     )
   }
-  const { rows, unitsRow, errors: layout } = collectRows(lines, header, warnings)
-  errors.push(...layout)
-  const kinds = columnsOf(header, unitsRow)
-  if (!kinds.has('area') && !kinds.has('areaPercent')) {
-    const hint = header.kinds.has('signal') ? ' It looks like a raw detector trace: upload it as a trace instead.' : ''
-    return refuse(
-      header.row,
-      'no-area-column',
-      `Row ${header.row}: the header has no area column; export the table with peak areas ("Area") or area %, not only heights.${hint}`,
-    )
-  }
-  const maxRows = options.maxRows ?? MAX_PEAK_ROWS
-  if (rows.length > maxRows) {
-    return refuse(
-      rows[maxRows]!.row,
-      'too-many-rows',
-      `The table has more than ${maxRows} data rows; a peak table should list one row per peak.`,
-    )
-  }
-  const fromPercent = !kinds.has('area')
-  if (fromPercent) warnings.push('The file has no absolute peak areas, so the mole % were computed from its area % column.')
-  const columns = readColumns(rows, columnSpecs(kinds, fromPercent))
-  const rtCol = columns[0]!
-  const parsed = readPeakRows(rows, columns, fromPercent, warnings, errors)
+  const plain = fastPaths.enabled ? plainPeakTable(text, header, options, warnings) : null
+  const read = plain ?? readTable(lines, header, options, warnings, errors)
+  if ('refused' in read) return refuse(...read.refused)
+  const { parsed, styles, unitsRow, fromPercent } = read
   if (errors.length) return { peaks: [], warnings, errors, meta: null }
   if (parsed.length === 0) return refuse(header.row, 'no-peaks', `The table under the header on row ${header.row} has no peak rows.`)
-  const { unit, source } = retentionInMinutes(parsed, rtCol, declaredTimeUnit(header, unitsRow), options, warnings, errors)
+  const { unit, source } = retentionInMinutes(parsed, styles[0]!.clock, declaredTimeUnit(header, unitsRow), options, warnings, errors)
   if (errors.length) return { peaks: [], warnings, errors, meta: null }
-  const decimalMark = rtCol.style.decimal ?? columns.find((c) => c.style.decimal)?.style.decimal ?? null
+  const decimalMark = styles[0]!.decimal ?? styles.find((c) => c.decimal)?.decimal ?? null
   return {
     peaks: parsed,
     warnings,

@@ -17,8 +17,8 @@ const MAX_PLAIN_LENGTH = 24
 
 /**
  * Off, every shortcut of the readers (plain decimals here, text-only cells and the skipped word
- * tests of table-layout.ts) takes the general path instead: the tests read the same files both
- * ways and compare. Always on in the product.
+ * tests of table-layout.ts, the one-pass reader of plain tables in plain-table.ts) takes the
+ * general path instead: the tests read the same files both ways and compare. Always on in the product.
  */
 export const fastPaths = { enabled: true }
 

@@ -52,6 +52,7 @@ export interface DriftOutcome {
 }
 
 interface Reach { before: number, after: number }
+interface Bounds { rtMin: number, rtMax: number }
 
 /**
  * How far beyond each end of each window a peak may lie and still count as drifted: the
@@ -74,8 +75,7 @@ export function driftReach(slots: readonly DriftSlot[], tolerance: DriftToleranc
 }
 
 /** Signed minutes outside the window within its reach, or null when the peak is not just outside it. */
-function outside(rt: number, s: DriftSlot, reach: Reach): number | null {
-  const { rtMin, rtMax } = s.window
+function outside(rt: number, { rtMin, rtMax }: Bounds, reach: Reach): number | null {
   if (rt < rtMin && rt >= rtMin - reach.before && reach.before > 0) return rt - rtMin
   if (rt > rtMax && rt <= rtMax + reach.after && reach.after > 0) return rt - rtMax
   return null
@@ -88,12 +88,16 @@ function outside(rt: number, s: DriftSlot, reach: Reach): number | null {
  */
 export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: readonly Peak[], tolerance?: DriftTolerance): DriftOutcome {
   const reach = driftReach(slots, tolerance)
+  // The windows' ends as objects of one shape (the windows come in several): read for every peak.
+  const bounds: Bounds[] = slots.map(({ window: w }) => ({ rtMin: w.rtMin, rtMax: w.rtMax }))
   const near = new Map<DriftSlot, Peak[]>()
   const outcome: DriftOutcome = { drifted: [], contested: [], beside: [], between: [], unassigned: [] }
   for (const p of unassigned) {
     // Most unassigned peaks of a long table are near no window: find the first hit before building a list.
-    const first = slots.findIndex((s, i) => outside(p.retentionTime, s, reach[i]!) !== null)
-    const hits = first < 0 ? [] : slots.filter((s, i) => i >= first && outside(p.retentionTime, s, reach[i]!) !== null)
+    let first = -1
+    for (let i = 0; i < slots.length && first < 0; i++) if (outside(p.retentionTime, bounds[i]!, reach[i]!) !== null) first = i
+    if (first < 0) { outcome.unassigned.push(p); continue }
+    const hits = slots.filter((s, i) => i >= first && outside(p.retentionTime, bounds[i]!, reach[i]!) !== null)
     if (hits.length === 1) {
       const list = near.get(hits[0]!)
       if (list) list.push(p)
@@ -107,7 +111,8 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
   for (const [slot, peaks] of near) {
     if (slot.product && slot.peaks.length === 0 && peaks.length === 1) {
       const peak = peaks[0]!
-      outcome.drifted.push({ slot, peak, minutes: outside(peak.retentionTime, slot, reach[slots.indexOf(slot)]!)! })
+      const i = slots.indexOf(slot)
+      outcome.drifted.push({ slot, peak, minutes: outside(peak.retentionTime, bounds[i]!, reach[i]!)! })
       continue
     }
     outcome.unassigned.push(...peaks)
@@ -115,8 +120,20 @@ export function rescueDriftedPeaks(slots: readonly DriftSlot[], unassigned: read
     else outcome.beside.push(...peaks.map((peak) => ({ slot, peak })))
   }
   for (const d of outcome.drifted) d.slot.peaks.push(d.peak)
-  outcome.unassigned.sort((a, b) => a.retentionTime - b.retentionTime)
+  // Peaks given in time order (as a table lists them) stay in it without the sort: a stable sort of
+  // them would keep that order, since peaks at one time fall to the same window or to none.
+  if (inTimeOrder(unassigned)) {
+    const taken = new Set(outcome.drifted.map((d) => d.peak))
+    outcome.unassigned = taken.size ? unassigned.filter((p) => !taken.has(p)) : [...unassigned]
+  } else {
+    outcome.unassigned.sort((a, b) => a.retentionTime - b.retentionTime)
+  }
   return outcome
+}
+
+function inTimeOrder(peaks: readonly Peak[]): boolean {
+  for (let i = 1; i < peaks.length; i++) if (!(peaks[i - 1]!.retentionTime <= peaks[i]!.retentionTime)) return false
+  return true
 }
 
 const fmt = (t: number) => t.toFixed(2)

@@ -31,8 +31,14 @@ const HEADER_BYTES = 12
 export function packPeaks(peaks: readonly StoredPeak[]): Uint8Array {
   const n = peaks.length
   if (n === 0) return new Uint8Array(0)
+  // One pass with the fields named: a look-up by a key held in a variable cost as much as the packing.
   let mask = 0
-  for (const [key, bit] of OPTIONAL) if (peaks.some((p) => p[key] !== undefined)) mask |= bit
+  for (let i = 0; i < n; i++) {
+    const p = peaks[i]!
+    if (p.areaPercent !== undefined) mask |= 1
+    if (p.height !== undefined) mask |= 2
+    if (p.row !== undefined) mask |= 4
+  }
   const labels: string[] = []
   const labelIndex = new Map<string, number>()
   const codes = new Uint16Array(n)

@@ -15,7 +15,9 @@ export interface Cell {
 
 /** Lines without BOM and line-ending noise; index i is file line i + 1. */
 export function splitLines(text: string): string[] {
-  return text.replace(/^\uFEFF/, '').split(/\r\n|\r|\n/)
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text
+  // Splitting on one character is several times quicker than on the pattern, and the same without a CR.
+  return body.includes('\r') ? body.split(/\r\n|\r|\n/) : body.split('\n')
 }
 
 /** The text is more than maxBytes in UTF-8. A UTF-16 unit is at most 3 bytes, so a short text is not counted. */
