@@ -30,8 +30,12 @@ export interface Enrolment {
   station: number | null
 }
 
-/** The caller's enrolment (null: none) as JSON, over the practical `p` of the access statement. */
-const enrolmentJson = (me: SessionUser) => sql<Enrolment | null>`(select json_build_object('sectionId', e.section_id, 'station', e.station)
+/**
+ * The caller's enrolment (null: none) as JSON, over the practical `p` of the access statement:
+ * `requirePracticalAccessWith(event, id, enrolmentColumns)`.
+ */
+export const enrolmentColumns = (me: SessionUser) => sql<Enrolment | null>`(
+  select json_build_object('sectionId', e.section_id, 'station', e.station)
   from enrollments e where e.user_id = ${me.id} and e.status = 'active'
     and e.section_id in (select ps.section_id from practical_sessions ps where ps.practical_id = p.id)
   order by e.section_id limit 1)`
@@ -48,15 +52,7 @@ export interface UploadColumns {
  */
 export const uploadColumns = (me: SessionUser) => sql<UploadColumns>`json_build_object(
   'chemistry', ${chemistryRowJson(sql`p.substrate_id`, sql`p.method_id`)},
-  'enrolment', ${enrolmentJson(me)})`
-
-async function enrolmentOf(db: Kysely<Database>, scope: PracticalScope): Promise<Enrolment | null> {
-  const row = await db.selectFrom('enrollments').select(['sectionId', 'station'])
-    .where('userId', '=', scope.me.id).where('status', '=', 'active')
-    .where('sectionId', 'in', scope.sessionSectionIds.length ? scope.sessionSectionIds : [-1])
-    .orderBy('sectionId').executeTakeFirst()
-  return row ?? null
-}
+  'enrolment', ${enrolmentColumns(me)})`
 
 /** The newest version of a unit as an upload's answer needs it. */
 export type LatestVersion = Pick<Submission, 'id' | 'version' | 'status' | 'result' | 'flags' | 'late' | 'inputKind' | 'sha256'>
@@ -89,14 +85,13 @@ const unitStatement = compiledOnce((db, _shape: 'unit', practicalId: number, sec
 
 /**
  * The caller's own work unit for a practical and its newest version: 404 unless they are a
- * student in a section that runs it. `enrolment` is the one read with the scope (uploadColumns),
- * else it is read here.
+ * student in a section that runs it. `enrolment` is the one read with the scope (enrolmentColumns,
+ * uploadColumns).
  */
 export async function unitAndLatest(
-  db: Kysely<Database>, scope: PracticalScope, given?: Enrolment | null,
+  db: Kysely<Database>, scope: PracticalScope, enrolment: Enrolment | null,
 ): Promise<{ unit: StudentWorkUnit, latest: LatestVersion | null }> {
   if (scope.role !== 'student') throw createError({ statusCode: 403, statusMessage: 'Only students upload results' })
-  const enrolment = given === undefined ? await enrolmentOf(db, scope) : given
   if (!enrolment) throw createError({ statusCode: 404, statusMessage: 'Practical not found' })
   const unitKey = unitKeyOf(scope.practical.workUnit, { userId: scope.me.id, ...enrolment })
   const station = stationOfUnitKey(unitKey)
@@ -117,6 +112,6 @@ export async function unitAndLatest(
 }
 
 /** The caller's own work unit for a practical: 404 unless they are a student in a section that runs it. */
-export async function studentUnit(db: Kysely<Database>, scope: PracticalScope, enrolment?: Enrolment | null): Promise<StudentWorkUnit> {
+export async function studentUnit(db: Kysely<Database>, scope: PracticalScope, enrolment: Enrolment | null): Promise<StudentWorkUnit> {
   return (await unitAndLatest(db, scope, enrolment)).unit
 }

@@ -8,7 +8,7 @@ import type { KeyFactor } from '#shared/utils/key-factor'
 import type { ExpectationView, FlagView, PeakView, ProductView, StoredResult, SubmissionStatusName } from '#shared/types/submission'
 import { scoresReleased } from '../review/release-policy'
 import { expectationView, practicalChemistry } from './practical-chemistry'
-import { studentUnit, type StudentWorkUnit } from './student-unit'
+import { studentUnit, type Enrolment, type StudentWorkUnit } from './student-unit'
 
 // A student's own GC results for one practical: every version of their work unit (the pair's,
 // for pair work), newest first, with what the reviewers decided. Scores and comments follow the
@@ -227,11 +227,13 @@ async function practicalFacts(db: Kysely<Database>, scope: PracticalScope, unit:
 
 /**
  * Every version the caller is a member of, for a student of a section that runs the practical
- * (studentUnit: 404 otherwise).
+ * (studentUnit: 404 otherwise). `enrolment` is read with the scope (enrolmentColumns).
  */
-export async function mySubmissionsOf(db: Kysely<Database>, scope: PracticalScope): Promise<MySubmissionsView> {
+export async function mySubmissionsOf(
+  db: Kysely<Database>, scope: PracticalScope, enrolment: Enrolment | null,
+): Promise<MySubmissionsView> {
   const { me, course, practical } = scope
-  const unit = await studentUnit(db, scope)
+  const unit = await studentUnit(db, scope, enrolment)
   const { substrate, method, chemistry, partners } = await practicalFacts(db, scope, unit)
   const rows = await myVersionRows(db, me.id, practical.id)
   const reviews = await latestReviews(db, rows.map((r) => r.id))

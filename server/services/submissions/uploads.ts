@@ -9,7 +9,7 @@ import { attentionOf, RunInputError, type PracticalChemistry, type RunResult } f
 import { unitAndLatest, type StudentWorkUnit, type UploadColumns } from './student-unit'
 import { storedResultOf } from './stored-result'
 import { createError } from 'h3'
-import { expectationView, practicalChemistry, sharedChemistryOf, type ChemistryRow } from './practical-chemistry'
+import { expectationView, sharedChemistryOf, type ChemistryRow } from './practical-chemistry'
 import type { Actor } from '../../utils/audit'
 import { runEngine } from '../../utils/engines'
 import { compiledOnce } from '../../utils/db'
@@ -18,11 +18,12 @@ import { asUploadFormatError } from '../../utils/files'
 type UploadTask = 'evaluateUpload' | 'evaluateUploadToStore'
 
 /**
- * The practical's chemistry for an upload (from its row when the scope's read brought it: the
- * engine gets its own copy, and nothing here changes it); 409 while it has no retention windows.
+ * The practical's chemistry for an upload, from the row the access statement read
+ * (uploadColumns): the engine gets its own copy, and nothing here changes it. 409 while the
+ * practical has no retention windows.
  */
-async function uploadChemistry(scope: PracticalScope, row?: ChemistryRow): Promise<PracticalChemistry> {
-  const chemistry = row ? await sharedChemistryOf(row) : await practicalChemistry(scope.practical)
+async function uploadChemistry(row: ChemistryRow): Promise<PracticalChemistry> {
+  const chemistry = await sharedChemistryOf(row)
   if (!chemistry.windows.length) {
     throw createError({ statusCode: 409, statusMessage: 'This practical has no retention windows yet; ask your instructor to set them' })
   }
@@ -51,8 +52,8 @@ async function runUploadTask<K extends UploadTask>(
  * the engine worker; an unreadable file is a 415 or a 422 naming its rows. `mediaType` is what
  * the original is kept as.
  */
-export function computeRun(scope: PracticalScope, file: UploadedFile, chemistryRow?: ChemistryRow) {
-  return runUploadTask(file, 'evaluateUpload', uploadChemistry(scope, chemistryRow))
+export function computeRun(file: UploadedFile, chemistryRow: ChemistryRow) {
+  return runUploadTask(file, 'evaluateUpload', uploadChemistry(chemistryRow))
 }
 
 // A version's row without its peaks: an upload's answer never shows them, and reading them back
@@ -194,7 +195,7 @@ async function insertVersion(db: Kysely<Database>, actor: Actor, v: NewVersion):
     JSON.stringify(storedResultOf(v.run, v.keyFactor)), JSON.stringify(v.run.flags), attentionOf(v.run.flags),
     v.run.factors.secondaryToPrimary, v.run.factors.tertiaryToPrimary, v.late, v.idempotencyKey,
     v.unit.memberIds, JSON.stringify(after), actor.ip)
-  return row as CreatedRow
+  return row!
 }
 
 /** The first answer to a repeated Idempotency-Key, or null for a new key; 409 when it was for another practical. */
@@ -212,13 +213,13 @@ async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: 
  * latest version is recognised (200 with identicalTo) and stores nothing; else a new version.
  * `upload` is the file as it arrives: the practical's chemistry and an earlier answer to the key
  * are read meanwhile, and the file's own refusals (400, 413) still come first. `read` is what the
- * access statement brought (uploadColumns); without it the chemistry and enrolment are read here.
+ * access statement brought (uploadColumns): the chemistry row and the caller's enrolment.
  */
 export async function createSubmission(
   db: Kysely<Database>, actor: Actor, scope: PracticalScope, upload: Promise<UploadedFile>, idempotencyKey: string | null,
-  read?: UploadColumns,
+  read: UploadColumns,
 ): Promise<{ status: number, body: SubmissionCreated }> {
-  const chemistryRead = uploadChemistry(scope, read?.chemistry)
+  const chemistryRead = uploadChemistry(read.chemistry)
   const earlierRead = earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
   for (const pending of [chemistryRead, earlierRead]) pending.catch(() => {})
   const file = await upload
@@ -229,7 +230,7 @@ export async function createSubmission(
   // the unit's own refusal (not enrolled) still comes first.
   const computing = runUploadTask(file, 'evaluateUploadToStore', chemistryRead)
   computing.catch(() => {})
-  const { unit, latest } = await unitAndLatest(db, scope, read?.enrolment)
+  const { unit, latest } = await unitAndLatest(db, scope, read.enrolment)
   const { run, storedPeaks, chemistry, mediaType } = await computing
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
   const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()

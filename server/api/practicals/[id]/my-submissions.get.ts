@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/types/fields'
-import { mySubmissionsOf, type MySubmissionsView } from '../../../services/submissions'
+import { enrolmentColumns, mySubmissionsOf, type MySubmissionsView } from '../../../services/submissions'
 
 // A student's own GC results for a practical: every version of their work unit, newest first,
 // with flags, the computed result and the reviewers' decisions (scores only once released).
@@ -7,5 +7,6 @@ import { mySubmissionsOf, type MySubmissionsView } from '../../../services/submi
 export default defineEventHandler(async (event): Promise<MySubmissionsView> => {
   requireRole(event, 'student')
   const { id } = readParamsAs(event, idParamsSchema)
-  return mySubmissionsOf(useDb(), await requirePracticalAccess(event, id))
+  const { scope, columns: enrolment } = await requirePracticalAccessWith(event, id, enrolmentColumns)
+  return mySubmissionsOf(useDb(), scope, enrolment)
 })

@@ -10,6 +10,6 @@ export default defineEventHandler(async (event) => {
   const { scope, columns: read } = await requirePracticalAccessWith(event, id, uploadColumns)
   const unit = await studentUnit(useDb(), scope, read.enrolment)
   const { file } = await upload
-  const { run, chemistry } = await computeRun(scope, file, read.chemistry)
+  const { run, chemistry } = await computeRun(file, read.chemistry)
   return previewOf(run, chemistry, unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime())
 })
