@@ -189,6 +189,8 @@ export default defineNuxtConfig({
     // Worker threads for the engines (server/utils/engines.ts): threads 0 means one per core but
     // one; times in ms.
     engines: { threads: 0, maxQueue: 32, taskTimeoutMs: 15_000, queueTimeoutMs: 30_000 },
+    // A Server-Timing header on uploads (server/utils/server-timing.ts); npm run bench sets it.
+    serverTiming: false,
     public: {
       demo: false,
       appUrl: 'http://127.0.0.1:3000',

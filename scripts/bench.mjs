@@ -21,7 +21,8 @@ async function main() {
   // The server measures its own event loop for the "loop" case (bench/loop-probe.mjs).
   const loopProbeFile = join(root, '.data', `bench-loop-${process.pid}.json`)
   const loopProbe = pathToFileURL(join(root, 'scripts', 'bench', 'loop-probe.mjs')).href
-  const serverEnv = { NODE_OPTIONS: `--import ${loopProbe}`, HALOCLINE_LOOP_PROBE_FILE: loopProbeFile }
+  // Server-Timing on uploads: the uploads case prints where their time goes.
+  const serverEnv = { NODE_OPTIONS: `--import ${loopProbe}`, HALOCLINE_LOOP_PROBE_FILE: loopProbeFile, NUXT_SERVER_TIMING: '1' }
   const world = await step('Starting a throwaway Halocline', async () => ({
     note: 'up',
     loopProbeFile,

@@ -39,7 +39,10 @@ export class EngineTimeoutError extends Error {
 }
 
 export interface EnginePool {
-  run<K extends EngineTaskName>(task: K, payload: EngineTaskInput<K>, transfer?: ArrayBuffer[]): Promise<EngineTaskOutput<K>>
+  /** `onTime` hears the task's own running time in the worker (EngineReply.ms). */
+  run<K extends EngineTaskName>(
+    task: K, payload: EngineTaskInput<K>, transfer?: ArrayBuffer[], onTime?: (ms: number) => void,
+  ): Promise<EngineTaskOutput<K>>
   close(): Promise<void>
 }
 
@@ -64,6 +67,7 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
     task: K,
     payload: EngineTaskInput<K>,
     transfer: ArrayBuffer[] = [],
+    onTime?: (ms: number) => void,
   ): Promise<EngineTaskOutput<K>> {
     if (accepted >= options.threads + options.maxQueue) throw new EngineBusyError(retryAfterSeconds)
     accepted++
@@ -82,6 +86,7 @@ export function createEnginePool(options: EnginePoolOptions): EnginePool {
       const transferList = [port2, ...transfer] as never
       const reply: EngineReply = await pool.run(message, { signal: controller.signal, transferList })
       if (!reply.ok) throw fromPlainError(reply.error)
+      onTime?.(reply.ms)
       return reply.value as EngineTaskOutput<K>
     } catch (error) {
       if (stoppedFor === 'budget') throw new EngineTimeoutError(options.taskTimeoutMs)

@@ -54,17 +54,17 @@ export async function stopEngines() {
  * Runs an engine task off the request loop. Engine errors come back as their own classes
  * (asBadRequest, computeRun and the error handler treat them as before); a full pool is a 503
  * with Retry-After, a task over its time budget a 422 that says so. `field` names what the
- * request sent ("file", "smiles") in that message.
+ * request sent ("file", "smiles") in that message; `onTime` hears the task's own time in the worker.
  */
 export async function runEngine<K extends EngineTaskName>(
   task: K,
   payload: EngineTaskInput<K>,
-  options: { field?: string, transfer?: ArrayBuffer[] } = {},
+  options: { field?: string, transfer?: ArrayBuffer[], onTime?: (ms: number) => void } = {},
 ): Promise<EngineTaskOutput<K>> {
   // The dev server has no built worker file; it runs the same task inline.
   if (import.meta.dev) return import('../engines/tasks').then((m) => m.runEngineTask(task, payload))
   try {
-    return await enginePool().run(task, payload, options.transfer)
+    return await enginePool().run(task, payload, options.transfer, options.onTime)
   } catch (error) {
     const prefix = options.field ? `${options.field}: ` : ''
     if (error instanceof EngineBusyError) {

@@ -33,6 +33,16 @@ describe('engine pool', () => {
     expect(analysis.products.map((p) => [p.carbonClass, p.hydrogens])).toEqual([['primary', 6], ['secondary', 2]])
   }, 30_000)
 
+  it('tells the time the task itself took in the worker, within the time the caller waited', async () => {
+    const times: number[] = []
+    const started = performance.now()
+    await pool().run('substrateAnalysis', { smiles: 'CCCCCC', halogen: 'Cl' }, [], (ms) => times.push(ms))
+    const waited = performance.now() - started
+    expect(times).toHaveLength(1)
+    expect(times[0]).toBeGreaterThan(0)
+    expect(times[0]).toBeLessThanOrEqual(waited)
+  }, 30_000)
+
   it('gives back engine errors as their own classes, with their fields', async () => {
     const engines = pool()
     const substrate = await engines.run('substrateAnalysis', { smiles: 'CCS', halogen: 'Cl' }).catch((e) => e)

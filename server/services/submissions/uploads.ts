@@ -14,6 +14,7 @@ import type { Actor } from '../../utils/audit'
 import { runEngine } from '../../utils/engines'
 import { compiledOnce } from '../../utils/db'
 import { asUploadFormatError } from '../../utils/files'
+import type { RequestTiming } from '../../utils/server-timing'
 
 type UploadTask = 'evaluateUpload' | 'evaluateUploadToStore'
 
@@ -30,14 +31,18 @@ async function uploadChemistry(row: ChemistryRow): Promise<PracticalChemistry> {
   return chemistry
 }
 
-/** An upload's engine task with the practical's chemistry; the refusals computeRun describes. */
+/**
+ * An upload's engine task with the practical's chemistry; the refusals computeRun describes.
+ * `timing` hears the task's own time in the worker ("worker").
+ */
 async function runUploadTask<K extends UploadTask>(
-  file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry>,
+  file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry>, timing?: RequestTiming,
 ) {
   const chemistry = await chemistryRead
   try {
     const bytes = new Uint8Array(file.bytes)
-    const output = await runEngine(task, { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer] })
+    const onTime = timing && ((ms: number) => timing.add('worker', ms, 'the engine task alone'))
+    const output = await runEngine(task, { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer], onTime })
     return { ...output, chemistry }
   } catch (error) {
     if (error instanceof RunInputError) {
@@ -198,6 +203,8 @@ async function insertVersion(db: Kysely<Database>, actor: Actor, v: NewVersion):
   return row!
 }
 
+const span = <T>(timing: RequestTiming | undefined, name: string, work: Promise<T>) => (timing ? timing.span(name, work) : work)
+
 /** The first answer to a repeated Idempotency-Key, or null for a new key; 409 when it was for another practical. */
 async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: number, key: string | null) {
   if (!key) return null
@@ -214,10 +221,11 @@ async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: 
  * `upload` is the file as it arrives: the practical's chemistry and an earlier answer to the key
  * are read meanwhile, and the file's own refusals (400, 413) still come first. `read` is what the
  * access statement brought (uploadColumns): the chemistry row and the caller's enrolment.
+ * `timing` records the engine, the unit's statement and the store (Server-Timing).
  */
 export async function createSubmission(
   db: Kysely<Database>, actor: Actor, scope: PracticalScope, upload: Promise<UploadedFile>, idempotencyKey: string | null,
-  read: UploadColumns,
+  read: UploadColumns, timing?: RequestTiming,
 ): Promise<{ status: number, body: SubmissionCreated }> {
   const chemistryRead = uploadChemistry(read.chemistry)
   const earlierRead = earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
@@ -228,16 +236,16 @@ export async function createSubmission(
   // The engine reads the file (and packs its peaks for storing) while the unit and its newest
   // version are looked up (once the file is here: the newest then is the one to compare with);
   // the unit's own refusal (not enrolled) still comes first.
-  const computing = runUploadTask(file, 'evaluateUploadToStore', chemistryRead)
+  const computing = span(timing, 'engine', runUploadTask(file, 'evaluateUploadToStore', chemistryRead, timing))
   computing.catch(() => {})
-  const { unit, latest } = await unitAndLatest(db, scope, read.enrolment)
+  const { unit, latest } = await span(timing, 'unit', unitAndLatest(db, scope, read.enrolment))
   const { run, storedPeaks, chemistry, mediaType } = await computing
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
   const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()
   try {
-    const row = await storeSubmissionVersion(db, actor, {
+    const row = await span(timing, 'store', storeSubmissionVersion(db, actor, {
       practicalId: scope.practical.id, unit, file, mediaType, run, storedPeaks, keyFactor: chemistry.keyFactor, late, idempotencyKey,
-    })
+    }))
     return { status: 201, body: toCreated(row) }
   } catch (error) {
     // The same key sent twice at once: the loser of the race answers with the winner's row.
