@@ -35,7 +35,7 @@ export function serverTimingHeader(metrics: readonly TimingMetric[]): string {
 }
 
 /** A timing that records nothing: what every request gets while the setting is off. */
-const OFF: RequestTiming = {
+export const noTiming: RequestTiming = {
   since: () => {},
   span: (_name, work) => work,
   add: () => {},
@@ -43,7 +43,7 @@ const OFF: RequestTiming = {
 }
 
 export function requestTiming(event: H3Event): RequestTiming {
-  if (!useRuntimeConfig(event).serverTiming) return OFF
+  if (!useRuntimeConfig(event).serverTiming) return noTiming
   const started = performance.now()
   const metrics: TimingMetric[] = []
   return {

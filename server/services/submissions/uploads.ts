@@ -14,7 +14,7 @@ import type { Actor } from '../../utils/audit'
 import { runEngine } from '../../utils/engines'
 import { compiledOnce } from '../../utils/db'
 import { asUploadFormatError } from '../../utils/files'
-import type { RequestTiming } from '../../utils/server-timing'
+import { noTiming, type RequestTiming } from '../../utils/server-timing'
 
 type UploadTask = 'evaluateUpload' | 'evaluateUploadToStore'
 
@@ -36,12 +36,12 @@ async function uploadChemistry(row: ChemistryRow): Promise<PracticalChemistry> {
  * `timing` hears the task's own time in the worker ("worker").
  */
 async function runUploadTask<K extends UploadTask>(
-  file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry>, timing?: RequestTiming,
+  file: UploadedFile, task: K, chemistryRead: Promise<PracticalChemistry>, timing = noTiming,
 ) {
   const chemistry = await chemistryRead
   try {
     const bytes = new Uint8Array(file.bytes)
-    const onTime = timing && ((ms: number) => timing.add('worker', ms, 'the engine task alone'))
+    const onTime = (ms: number) => timing.add('worker', ms, 'the engine task alone')
     const output = await runEngine(task, { bytes, chemistry }, { field: 'file', transfer: [bytes.buffer], onTime })
     return { ...output, chemistry }
   } catch (error) {
@@ -203,8 +203,6 @@ async function insertVersion(db: Kysely<Database>, actor: Actor, v: NewVersion):
   return row!
 }
 
-const span = <T>(timing: RequestTiming | undefined, name: string, work: Promise<T>) => (timing ? timing.span(name, work) : work)
-
 /** The first answer to a repeated Idempotency-Key, or null for a new key; 409 when it was for another practical. */
 async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: number, key: string | null) {
   if (!key) return null
@@ -225,7 +223,7 @@ async function earlierAnswer(db: Kysely<Database>, userId: number, practicalId: 
  */
 export async function createSubmission(
   db: Kysely<Database>, actor: Actor, scope: PracticalScope, upload: Promise<UploadedFile>, idempotencyKey: string | null,
-  read: UploadColumns, timing?: RequestTiming,
+  read: UploadColumns, timing: RequestTiming = noTiming,
 ): Promise<{ status: number, body: SubmissionCreated }> {
   const chemistryRead = uploadChemistry(read.chemistry)
   const earlierRead = earlierAnswer(db, actor.id, scope.practical.id, idempotencyKey)
@@ -236,14 +234,14 @@ export async function createSubmission(
   // The engine reads the file (and packs its peaks for storing) while the unit and its newest
   // version are looked up (once the file is here: the newest then is the one to compare with);
   // the unit's own refusal (not enrolled) still comes first.
-  const computing = span(timing, 'engine', runUploadTask(file, 'evaluateUploadToStore', chemistryRead, timing))
+  const computing = timing.span('engine', runUploadTask(file, 'evaluateUploadToStore', chemistryRead, timing))
   computing.catch(() => {})
-  const { unit, latest } = await span(timing, 'unit', unitAndLatest(db, scope, read.enrolment))
+  const { unit, latest } = await timing.span('unit', unitAndLatest(db, scope, read.enrolment))
   const { run, storedPeaks, chemistry, mediaType } = await computing
   if (latest && latest.sha256 === file.sha256) return { status: 200, body: { ...toCreated(latest), identicalTo: latest.id } }
   const late = unit.uploadDueAt !== null && Date.now() > unit.uploadDueAt.getTime()
   try {
-    const row = await span(timing, 'store', storeSubmissionVersion(db, actor, {
+    const row = await timing.span('store', storeSubmissionVersion(db, actor, {
       practicalId: scope.practical.id, unit, file, mediaType, run, storedPeaks, keyFactor: chemistry.keyFactor, late, idempotencyKey,
     }))
     return { status: 201, body: toCreated(row) }
