@@ -25,10 +25,19 @@ export async function startSmtpFake({ root, port, dir, pidFile, holdFile, stdio 
  * The local identity provider (scripts/identity-provider.mjs) for an app at `appUrl`.
  * @param {{ root: string, port: number, clientId: string, clientSecret: string, appUrl: string, pidFile?: string, stdio?: any }} options
  */
+/**
+ * The provider's command line. Each value is joined to its option with "=": a random secret
+ * that begins with "-" (base64url) is otherwise refused by parseArgs as a missing value.
+ */
+export function identityProviderArgs({ port, clientId, clientSecret, appUrl, pidFile }) {
+  const args = [`--port=${port}`, `--client-id=${clientId}`, `--client-secret=${clientSecret}`, `--app-url=${appUrl}`]
+  if (pidFile) args.push(`--pid-file=${pidFile}`)
+  return args
+}
+
 export async function startIdentityProvider({ root, port, clientId, clientSecret, appUrl, pidFile, stdio = 'ignore' }) {
   if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set HALOCLINE_IDP_PORT to a free port, or stop what uses it')
-  const args = ['--port', String(port), '--client-id', clientId, '--client-secret', clientSecret, '--app-url', appUrl]
-  if (pidFile) args.push('--pid-file', pidFile)
+  const args = identityProviderArgs({ port, clientId, clientSecret, appUrl, pidFile })
   const child = spawn(process.execPath, [join(root, 'scripts', 'identity-provider.mjs'), ...args], { cwd: root, stdio, detached: false })
   // A child that ends before it listens (its port taken meanwhile) fails at once, not after the wait.
   if ((await childListening(child, port, 30_000)) !== 'up') {
