@@ -28,6 +28,7 @@ export async function startSmtpFake({ root, port, dir, pidFile, holdFile, stdio 
 /**
  * The provider's command line. Each value is joined to its option with "=": a random secret
  * that begins with "-" (base64url) is otherwise refused by parseArgs as a missing value.
+ * @param {{ port: number, clientId: string, clientSecret: string, appUrl: string, pidFile?: string }} options
  */
 export function identityProviderArgs({ port, clientId, clientSecret, appUrl, pidFile }) {
   const args = [`--port=${port}`, `--client-id=${clientId}`, `--client-secret=${clientSecret}`, `--app-url=${appUrl}`]

@@ -1,3 +1,4 @@
+import type { ChildProcess } from 'node:child_process'
 import { describe, expect, inject, it } from 'vitest'
 import { identityProviderArgs, startIdentityProvider } from '../../scripts/lib/processes.mjs'
 import { onFreePort } from '../../scripts/lib/ports.mjs'
@@ -11,8 +12,8 @@ describe('the local identity provider on the command line', () => {
   })
 
   it('starts with such a secret', async () => {
-    const child = await onFreePort((port: number) => startIdentityProvider({
-      root: inject('root'), port, clientId: 'dash-test', clientSecret: '-dash-first-secret-0123', appUrl: 'http://127.0.0.1:3999',
+    const child: ChildProcess = await onFreePort((port: number) => startIdentityProvider({
+      root: inject('root'), port, clientId: 'dash-test', clientSecret: '-dash-first-secret-0123', appUrl: 'http://127.0.0.1:3999', pidFile: undefined,
     }))
     try {
       expect(child.exitCode).toBeNull()
