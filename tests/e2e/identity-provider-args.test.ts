@@ -3,7 +3,7 @@ import { describe, expect, inject, it } from 'vitest'
 import { identityProviderArgs, startIdentityProvider } from '../../scripts/lib/processes.mjs'
 import { onFreePort } from '../../scripts/lib/ports.mjs'
 
-// npm start writes a random base64url secret for the local provider; about one in 32 begins
+// npm start and the test world make a random base64url secret for the local provider; one in 64 begins
 // with "-", which parseArgs took for a missing value, so the provider never started.
 describe('the local identity provider on the command line', () => {
   it('joins each value to its option, so a secret beginning with "-" is read as a value', () => {
