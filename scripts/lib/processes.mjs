@@ -22,10 +22,6 @@ export async function startSmtpFake({ root, port, dir, pidFile, holdFile, stdio 
 }
 
 /**
- * The local identity provider (scripts/identity-provider.mjs) for an app at `appUrl`.
- * @param {{ root: string, port: number, clientId: string, clientSecret: string, appUrl: string, pidFile?: string, stdio?: any }} options
- */
-/**
  * The provider's command line. Each value is joined to its option with "=": a random secret
  * that begins with "-" (base64url) is otherwise refused by parseArgs as a missing value.
  * @param {{ port: number, clientId: string, clientSecret: string, appUrl: string, pidFile?: string }} options
@@ -36,6 +32,10 @@ export function identityProviderArgs({ port, clientId, clientSecret, appUrl, pid
   return args
 }
 
+/**
+ * The local identity provider (scripts/identity-provider.mjs) for an app at `appUrl`.
+ * @param {{ root: string, port: number, clientId: string, clientSecret: string, appUrl: string, pidFile?: string, stdio?: any }} options
+ */
 export async function startIdentityProvider({ root, port, clientId, clientSecret, appUrl, pidFile, stdio = 'ignore' }) {
   if (await isPortOpen(port)) fail(`port ${port} is already in use`, 'set HALOCLINE_IDP_PORT to a free port, or stop what uses it')
   const args = identityProviderArgs({ port, clientId, clientSecret, appUrl, pidFile })
